@@ -1,0 +1,6 @@
+package main
+
+import "glidereach/reach"
+
+// cautionText is printed by every command that produces a result.
+const cautionText = reach.Caution

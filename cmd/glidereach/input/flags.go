@@ -1,0 +1,91 @@
+package input
+
+import (
+	"fmt"
+	"strconv"
+)
+
+// Quantity is a pflag.Value holding an SI value parsed from a number with a
+// unit of its Kind. Set records whether the flag was given.
+type Quantity struct {
+	Kind  Kind
+	Value float64 // SI
+	Given bool
+	text  string
+}
+
+// NewQuantity returns a Quantity flag value of kind k with default def (SI).
+func NewQuantity(k Kind, def float64) *Quantity {
+	return &Quantity{Kind: k, Value: def}
+}
+
+func (q *Quantity) String() string {
+	if q.text != "" {
+		return q.text
+	}
+	return strconv.FormatFloat(q.Value, 'g', -1, 64) + siUnit[q.Kind]
+}
+
+var siUnit = map[Kind]string{Length: "m", Speed: "m/s", VerticalSpeed: "m/s", Mass: "kg", TempDelta: "K", Angle: "deg", Area: "m2"}
+
+// Set parses s; pflag wraps the error with the flag's name.
+func (q *Quantity) Set(s string) error {
+	v, err := ParseQuantity(s, q.Kind)
+	if err != nil {
+		return err
+	}
+	q.Value, q.Given, q.text = v, true, s
+	return nil
+}
+
+// Type names the value in help output.
+func (q *Quantity) Type() string {
+	switch q.Kind {
+	case Length:
+		return "length"
+	case Speed:
+		return "speed"
+	case VerticalSpeed:
+		return "vspeed"
+	case Mass:
+		return "mass"
+	case TempDelta:
+		return "kelvin"
+	case Angle:
+		return "deg"
+	}
+	return "value"
+}
+
+// LatLon is a pflag.Value for "LAT,LON" in decimal degrees.
+type LatLon struct {
+	Lat, Lon float64
+	Given    bool
+	text     string
+}
+
+func (p *LatLon) String() string { return p.text }
+
+func (p *LatLon) Set(s string) error {
+	lat, lon, err := ParseLatLon(s)
+	if err != nil {
+		return err
+	}
+	p.Lat, p.Lon, p.Given, p.text = lat, lon, true, s
+	return nil
+}
+
+func (p *LatLon) Type() string { return "lat,lon" }
+
+// RequireGiven returns a usage error naming flag when q was not given.
+func RequireGiven(given bool, flag string) error {
+	if !given {
+		return Usagef(flag, "is required")
+	}
+	return nil
+}
+
+// FlagError wraps err as a usage error naming the flag and the value.
+func FlagError(flag, value string, err error) error {
+	return &UsageError{Where: flag, Err: fmt.Errorf("%q: %w", value, err)}
+}
