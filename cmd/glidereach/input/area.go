@@ -1,0 +1,293 @@
+package input
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+
+	"github.com/paulmach/orb"
+)
+
+// Zone is a part of the earth's surface that the coverage command tests
+// grid cells against: a *Region (box or polygons) or a *Corridor.
+type Zone interface {
+	// Contains reports whether the point (decimal degrees) lies inside.
+	Contains(lat, lon float64) bool
+	// Bounds is the lon/lat box that holds the region (orb.Bound: Min is
+	// the south-west corner, X = lon, Y = lat).
+	Bounds() orb.Bound
+}
+
+// Region is an area given as a lon/lat box or as GeoJSON polygons (the
+// --area of the coverage command; named Region because Area is the Kind of
+// square-metre quantities). Regions do
+// not cross the antimeridian (a box with minlon > maxlon is refused; a
+// GeoJSON area that crosses it must be split per RFC 7946 §3.1.9, and is then
+// treated as two separate polygons, which is what it is).
+type Region struct {
+	// Source is the box text or the file the area came from.
+	Source string
+	// Polygons holds the area: exterior rings counter-clockwise, holes
+	// clockwise (RFC 7946 §3.1.6), lon/lat degrees. A box is one rectangle.
+	Polygons orb.MultiPolygon
+	bound    orb.Bound
+	box      bool // the area is exactly its bound
+	index    []polyIndex
+}
+
+var _ Zone = (*Region)(nil)
+
+// Bounds returns the lon/lat box of the area.
+func (a *Region) Bounds() orb.Bound { return a.bound }
+
+// Contains reports whether lat, lon (degrees) lie inside the area: inside an
+// exterior ring and outside its holes, by the even-odd crossing rule in
+// lon/lat (the rule GeoJSON polygons are defined by, RFC 7946 §3.1.6). A point
+// exactly on a boundary may fall on either side. Each polygon has a bounding
+// box check and a latitude-band index of its edges, so a test costs a few
+// edge comparisons whatever the ring length (see BenchmarkRegionContains).
+func (a *Region) Contains(lat, lon float64) bool {
+	if !(lon >= a.bound.Min[0] && lon <= a.bound.Max[0] && lat >= a.bound.Min[1] && lat <= a.bound.Max[1]) {
+		return false
+	}
+	if a.box {
+		return true
+	}
+	for i := range a.index {
+		if a.index[i].contains(lon, lat) {
+			return true
+		}
+	}
+	return false
+}
+
+// ParseArea reads the value of an area flag: either a box
+// "minlon,minlat,maxlon,maxlat" in decimal degrees (the order of a GeoJSON
+// bbox, RFC 7946 §5) or the path of a GeoJSON file holding a Polygon or
+// MultiPolygon, as a bare geometry, a Feature or a FeatureCollection of such
+// features (their union). Errors are *UsageError naming "--area" for a box
+// and the file (with feature and line) for a file.
+func ParseArea(s string) (*Region, error) {
+	t := strings.TrimSpace(s)
+	if looksLikeBox(t) {
+		a, err := parseBox(t)
+		if err != nil {
+			return nil, &UsageError{Where: "--area", Err: err}
+		}
+		return a, nil
+	}
+	if _, err := os.Stat(t); err != nil {
+		return nil, Usagef("--area", "%q is neither minlon,minlat,maxlon,maxlat nor a readable GeoJSON file", s)
+	}
+	data, err := readInputFile(t)
+	if err != nil {
+		return nil, err
+	}
+	a, err := ParseAreaGeoJSON(data)
+	if err != nil {
+		return nil, &UsageError{Where: t, Err: err}
+	}
+	a.Source = t
+	return a, nil
+}
+
+// looksLikeBox reports whether s is four comma-separated parts that start
+// like numbers, so that a mistyped box gets a box error, not "no such file".
+func looksLikeBox(s string) bool {
+	parts := strings.Split(s, ",")
+	if len(parts) != 4 {
+		return false
+	}
+	for _, p := range parts {
+		if numberPrefix(strings.TrimSpace(p)) == 0 {
+			return false
+		}
+	}
+	return true
+}
+
+func parseBox(s string) (*Region, error) {
+	parts := strings.Split(s, ",")
+	var v [4]float64
+	for i, p := range parts {
+		f, err := strconv.ParseFloat(strings.TrimSpace(p), 64)
+		if err != nil || math.IsNaN(f) || math.IsInf(f, 0) {
+			return nil, fmt.Errorf("%q: part %d %q is not a number (want minlon,minlat,maxlon,maxlat)", s, i+1, strings.TrimSpace(p))
+		}
+		v[i] = f
+	}
+	minLon, minLat, maxLon, maxLat := v[0], v[1], v[2], v[3]
+	for _, lon := range []float64{minLon, maxLon} {
+		if lon < -180 || lon > 180 {
+			return nil, fmt.Errorf("%q: longitude %v out of range -180..180 (order is minlon,minlat,maxlon,maxlat)", s, lon)
+		}
+	}
+	for _, lat := range []float64{minLat, maxLat} {
+		if lat < -90 || lat > 90 {
+			return nil, fmt.Errorf("%q: latitude %v out of range -90..90 (order is minlon,minlat,maxlon,maxlat)", s, lat)
+		}
+	}
+	if minLon >= maxLon {
+		return nil, fmt.Errorf("%q: minlon %v is not below maxlon %v (boxes across the antimeridian are not supported)", s, minLon, maxLon)
+	}
+	if minLat >= maxLat {
+		return nil, fmt.Errorf("%q: minlat %v is not below maxlat %v", s, minLat, maxLat)
+	}
+	ring := orb.Ring{{minLon, minLat}, {maxLon, minLat}, {maxLon, maxLat}, {minLon, maxLat}, {minLon, minLat}}
+	return &Region{
+		Source:   s,
+		Polygons: orb.MultiPolygon{{ring}},
+		bound:    orb.Bound{Min: orb.Point{minLon, minLat}, Max: orb.Point{maxLon, maxLat}},
+		box:      true,
+	}, nil
+}
+
+// ParseAreaGeoJSON parses the GeoJSON text of an area file (see ParseArea).
+// Its errors name the feature and line but not the file.
+func ParseAreaGeoJSON(data []byte) (*Region, error) {
+	feats, err := readGeoJSON(data)
+	if err != nil {
+		return nil, err
+	}
+	var mp orb.MultiPolygon
+	for i := range feats {
+		f := &feats[i]
+		switch g := f.Geom.(type) {
+		case orb.Polygon:
+			mp = append(mp, g)
+		case orb.MultiPolygon:
+			mp = append(mp, g...)
+		default:
+			return nil, fmt.Errorf("%s: geometry %s not supported for an area (want Polygon or MultiPolygon)", f.where(), f.Kind)
+		}
+	}
+	if len(mp) == 0 {
+		return nil, errors.New("no polygons: an area file needs a Polygon or MultiPolygon")
+	}
+	return NewRegion(mp), nil
+}
+
+// NewRegion returns the area covered by mp (lon/lat degrees; rings closed,
+// exterior first). The rings are used as given; the area keeps mp.
+func NewRegion(mp orb.MultiPolygon) *Region {
+	a := &Region{Polygons: mp, bound: mp.Bound()}
+	a.index = make([]polyIndex, len(mp))
+	for i, p := range mp {
+		a.index[i] = newPolyIndex(p)
+	}
+	return a
+}
+
+// polyIndex speeds up point-in-polygon tests: the polygon's bounding box and,
+// for every ring, its edges sorted into equal latitude bands.
+type polyIndex struct {
+	bound orb.Bound
+	rings []ringIndex
+}
+
+type ringIndex struct {
+	minY, bandH float64
+	bands       [][]edge // edges whose latitude span overlaps each band
+}
+
+type edge struct{ x0, y0, x1, y1 float64 }
+
+func newPolyIndex(p orb.Polygon) polyIndex {
+	pi := polyIndex{bound: p.Bound()}
+	for _, r := range p {
+		pi.rings = append(pi.rings, newRingIndex(r))
+	}
+	return pi
+}
+
+// maxBands caps the bands per ring; about four edges per band.
+const maxBands = 4096
+
+func newRingIndex(r orb.Ring) ringIndex {
+	b := r.Bound()
+	n := len(r) - 1
+	nb := n / 4
+	if nb < 1 {
+		nb = 1
+	}
+	if nb > maxBands {
+		nb = maxBands
+	}
+	ri := ringIndex{minY: b.Min[1], bandH: (b.Max[1] - b.Min[1]) / float64(nb)}
+	if !(ri.bandH > 0) {
+		nb, ri.bandH = 1, 1
+	}
+	ri.bands = make([][]edge, nb)
+	for i := 0; i+1 < len(r); i++ {
+		e := edge{r[i][0], r[i][1], r[i+1][0], r[i+1][1]}
+		lo, hi := ri.band(math.Min(e.y0, e.y1)), ri.band(math.Max(e.y0, e.y1))
+		for k := lo; k <= hi; k++ {
+			ri.bands[k] = append(ri.bands[k], e)
+		}
+	}
+	return ri
+}
+
+func (ri *ringIndex) band(y float64) int {
+	k := int((y - ri.minY) / ri.bandH)
+	if k < 0 {
+		return 0
+	}
+	if k >= len(ri.bands) {
+		return len(ri.bands) - 1
+	}
+	return k
+}
+
+// contains is the even-odd crossing test (W. R. Franklin's PNPOLY) over the
+// edges of the point's band.
+func (ri *ringIndex) contains(x, y float64) bool {
+	in := false
+	for _, e := range ri.bands[ri.band(y)] {
+		if (e.y0 > y) != (e.y1 > y) && x < (e.x1-e.x0)*(y-e.y0)/(e.y1-e.y0)+e.x0 {
+			in = !in
+		}
+	}
+	return in
+}
+
+func (pi *polyIndex) contains(x, y float64) bool {
+	if !(x >= pi.bound.Min[0] && x <= pi.bound.Max[0] && y >= pi.bound.Min[1] && y <= pi.bound.Max[1]) {
+		return false
+	}
+	if len(pi.rings) == 0 || !pi.rings[0].contains(x, y) {
+		return false
+	}
+	for i := 1; i < len(pi.rings); i++ {
+		if pi.rings[i].contains(x, y) {
+			return false
+		}
+	}
+	return true
+}
+
+// polygonContains is the unindexed even-odd test of lon, lat against p.
+func polygonContains(p orb.Polygon, lon, lat float64) bool {
+	ringIn := func(r orb.Ring) bool {
+		in := false
+		for i := 0; i+1 < len(r); i++ {
+			x0, y0, x1, y1 := r[i][0], r[i][1], r[i+1][0], r[i+1][1]
+			if (y0 > lat) != (y1 > lat) && lon < (x1-x0)*(lat-y0)/(y1-y0)+x0 {
+				in = !in
+			}
+		}
+		return in
+	}
+	if len(p) == 0 || !ringIn(p[0]) {
+		return false
+	}
+	for _, h := range p[1:] {
+		if ringIn(h) {
+			return false
+		}
+	}
+	return true
+}
