@@ -7,36 +7,32 @@ import (
 	"testing"
 )
 
-// Sources of the decoding checks below.
+// Sources of the decoding checks below (each case names one on the line
+// above it):
 //
-// [AC45]  FAA Advisory Circular AC 00-45, "Aviation Weather Services", section
+// [AC45] FAA Advisory Circular AC 00-45, "Aviation Weather Services", the
+// section on the Winds and Temperatures Aloft Forecast (FB). The 00-45F
+// edition (October 2007, chapter 7 "Forecast Text Products") was found with
+// the search tool, but its FB section text was not in the excerpt seen. The
+// rules and the worked examples 3127, 731960, 7799 and 9900 are those
+// reproduced in the encyclopedia article "Winds aloft" (found with the search
+// tool). That they are the AC's own examples, and the section number in the
+// current 00-45H edition, are FROM MEMORY. AC 00-45 is now consolidated into
+// FAA-H-8083-28, Aviation Weather Handbook (2022), chapter 27 "Forecasts"
+// (table of contents seen, section text not seen).
 //
-//	"Winds and Temperatures Aloft Forecast (FB)" — the 00-45F edition
-//	(October 2007, chapter 7 "Forecast Text Products") was found with
-//	the search tool; its FB section text was not in the excerpt seen.
-//	The rules and the worked examples 731960, 7799 and 9900 are those
-//	reproduced in the encyclopedia article "Winds aloft" (found with
-//	the search tool); that they are word for word the AC's own
-//	examples, and the 00-45H section number, are FROM MEMORY. AC 00-45
-//	is now consolidated in FAA-H-8083-28, Aviation Weather Handbook
-//	(2022), chapter 27 "Forecasts" (table of contents seen; section
-//	not seen).
+// [P1246] U.S. Navy CNATRA P-1246, "Meteorology and Flight Planning", page
+// 2-50 (found with the search tool): 7345 = 230° at 145 kt, 7399 = 230° at
+// 199 kt, 9900 = light and variable, no temperature at the 3000 ft level,
+// temperatures above 24 000 ft unsigned.
 //
-// [P1246] U.S. Navy CNATRA P-1246, "Meteorology and Flight Planning",
-//
-//	page 2-50 (found with the search tool): 7345 = 230° at 145 kt,
-//	7399 = 230° at 199 kt, 9900 = light and variable, no temperature at
-//	the 3000 ft level, temperatures above 24 000 ft unsigned.
-//
-// [P304]  U.S. Navy CNATRA P-304, chapter 2 "Meteorology Flight Planning"
-//
-//	(found with the search tool): 2435+07 = 240° at 35 kt, +7 °C;
-//	274650 = 270° at 46 kt, −50 °C above 24 000 ft.
+// [P304] U.S. Navy CNATRA P-304, chapter 2 "Meteorology Flight Planning"
+// (found with the search tool): 2435+07 = 240° at 35 kt, +7 °C; 274650 =
+// 270° at 46 kt, −50 °C above 24 000 ft.
 //
 // [FBtut] A public pilot-training page on the FB (found with the search
-//
-//	tool): 750456 at 39 000 ft = 250° at 104 kt; 2728+01 at 6000 ft =
-//	270° at 28 kt, +1 °C (FD sample, Houston line).
+// tool): 750456 at 39 000 ft = 250° at 104 kt; and an FD sample line whose
+// 6000 ft group 2728+01 it decodes as 270° at 28 kt, +1 °C.
 func TestDecodeWindAloftGroupPublishedExamples(t *testing.T) {
 	tests := []struct {
 		name    string
