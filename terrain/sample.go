@@ -54,6 +54,14 @@ func (g *Grid) sampleCell(fc, fr float64) (float64, bool) {
 	if !(fc >= -0.5 && fr >= -0.5 && fc <= float64(g.Cols)-0.5 && fr <= float64(g.Rows)-0.5) {
 		return math.NaN(), false
 	}
+	// Snap to a sample within 1e-9 cell (well under a millimetre), so that
+	// rounding in the georeference does not mix in a neighbour.
+	if d := math.Round(fc); math.Abs(fc-d) < 1e-9 {
+		fc = d
+	}
+	if d := math.Round(fr); math.Abs(fr-d) < 1e-9 {
+		fr = d
+	}
 	fc = math.Min(math.Max(fc, 0), float64(g.Cols-1))
 	fr = math.Min(math.Max(fr, 0), float64(g.Rows-1))
 	c, r := int(fc), int(fr)
@@ -65,11 +73,17 @@ func (g *Grid) sampleCell(fc, fr float64) (float64, bool) {
 	}
 	tx, ty := fc-float64(c), fr-float64(r)
 	c1, r1 := min(c+1, g.Cols-1), min(r+1, g.Rows-1)
-	a := float64(g.Elev[r*g.Cols+c])
-	b := float64(g.Elev[r*g.Cols+c1])
-	d := float64(g.Elev[r1*g.Cols+c])
-	e := float64(g.Elev[r1*g.Cols+c1])
-	v := (a*(1-tx)+b*tx)*(1-ty) + (d*(1-tx)+e*tx)*ty
+	// Corners with zero weight are left out, so a point exactly on a valid
+	// sample (or edge) is valid even when a neighbour beyond it is a void.
+	v := 0.0
+	for _, k := range [4]struct {
+		w float64
+		i int
+	}{{(1 - tx) * (1 - ty), r*g.Cols + c}, {tx * (1 - ty), r*g.Cols + c1}, {(1 - tx) * ty, r1*g.Cols + c}, {tx * ty, r1*g.Cols + c1}} {
+		if k.w != 0 {
+			v += k.w * float64(g.Elev[k.i])
+		}
+	}
 	if math.IsNaN(v) {
 		return math.NaN(), false
 	}
