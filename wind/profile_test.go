@@ -319,3 +319,11 @@ func benchProfile(b *testing.B) *Profile {
 	}
 	return mustProfile(b, ls...)
 }
+
+// windField has the signature of reach.WindField (wind must not import
+// reach, so the contract is restated here).
+type windField interface {
+	Components(alt, trackDeg float64) (along, cross float64)
+}
+
+var _ windField = (*Profile)(nil)

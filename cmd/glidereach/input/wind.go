@@ -174,3 +174,27 @@ func ParseWindError(s string) (dirDeg, speed float64, err error) {
 	}
 	return dirDeg, speed, nil
 }
+
+// WindFromFlags resolves the --wind and --wind-aloft values of a command
+// into one profile: at most one of them may be given; neither gives calm.
+// Errors are *UsageError naming the flag and the value.
+func WindFromFlags(windSpec, aloftSpec string) (*wind.Profile, error) {
+	w, a := strings.TrimSpace(windSpec), strings.TrimSpace(aloftSpec)
+	switch {
+	case w != "" && a != "":
+		return nil, Usagef("--wind", "give either --wind or --wind-aloft, not both")
+	case a != "":
+		p, err := ParseWindAloftSpec(a)
+		if err != nil {
+			return nil, FlagError("--wind-aloft", a, err)
+		}
+		return p, nil
+	case w != "":
+		p, err := ParseWind(w)
+		if err != nil {
+			return nil, FlagError("--wind", w, err)
+		}
+		return p, nil
+	}
+	return wind.Calm(), nil
+}

@@ -207,3 +207,30 @@ func TestParseWindError(t *testing.T) {
 		t.Errorf("Perturb gives %d scenarios, want 9", n)
 	}
 }
+
+func TestWindFromFlags(t *testing.T) {
+	p, err := WindFromFlags("", "")
+	if err != nil || !p.IsCalm() {
+		t.Errorf("no flags: %v, %v; want calm", p, err)
+	}
+	p, err = WindFromFlags("0m:240/10kt,3000m:280/35kt", "")
+	if err != nil || len(p.Layers()) != 2 {
+		t.Errorf("--wind: %v, %v", p, err)
+	}
+	p, err = WindFromFlags("", "3000:2714 6000:2725+05")
+	if err != nil || len(p.Layers()) != 2 {
+		t.Errorf("--wind-aloft: %v, %v", p, err)
+	}
+	for _, tc := range []struct{ w, a, where, want string }{
+		{"270/20kt", "3000:2714", "--wind", "not both"},
+		{"270/20kn", "", "--wind", `"270/20kn"`},
+		{"", "3000:2714+05", "--wind-aloft", "3000 ft level"},
+		{windTestdata + "bad-speed.csv", "", "--wind", "bad-speed.csv:3:10"},
+	} {
+		_, err := WindFromFlags(tc.w, tc.a)
+		var ue *UsageError
+		if !errors.As(err, &ue) || ue.Where != tc.where || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("WindFromFlags(%q, %q) error %v, want a *UsageError at %s containing %q", tc.w, tc.a, err, tc.where, tc.want)
+		}
+	}
+}
