@@ -95,3 +95,8 @@ func tint(t float64) (r, g, b float64) {
 	s := hypsoTint[len(hypsoTint)-1]
 	return s.r, s.g, s.b
 }
+
+// rgb is an opaque colour from float channels 0–255.
+func rgb(r, g, b float64) color.RGBA {
+	return color.RGBA{uint8(r + 0.5), uint8(g + 0.5), uint8(b + 0.5), 0xff}
+}

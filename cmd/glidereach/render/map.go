@@ -1,0 +1,562 @@
+package render
+
+import (
+	"fmt"
+	"image"
+	"image/color"
+	"image/png"
+	"io"
+	"math"
+	"sort"
+
+	"github.com/paulmach/orb"
+
+	"glidereach/terrain"
+)
+
+// RenderPNG draws the scene as a PNG map widthPx pixels wide (0 means
+// DefaultWidthPx; at most MaxWidthPx) and writes it to w. The height
+// follows from the map's extent and the panel below it (legend, inputs,
+// data source and caution).
+func RenderPNG(w io.Writer, s *Scene, widthPx int) error {
+	img, err := Render(s, widthPx)
+	if err != nil {
+		return err
+	}
+	// Fastest zlib level: shaded relief compresses poorly anyway, and the
+	// best level triples the time for a few percent.
+	enc := png.Encoder{CompressionLevel: png.BestSpeed}
+	if err := enc.Encode(w, img); err != nil {
+		return fmt.Errorf("render: writing PNG: %w", err)
+	}
+	return nil
+}
+
+// Render draws the scene into a new image; see RenderPNG.
+func Render(s *Scene, widthPx int) (*image.RGBA, error) {
+	img, _, err := render(s, widthPx)
+	return img, err
+}
+
+// layout is where things went on one map; the tests read it.
+type layout struct {
+	W, H            int
+	scale           float64         // 1 at 1600 px
+	mapRect         image.Rectangle // the map frame
+	minX, maxY, mpp float64         // frame metres at the map's top-left; metres per pixel
+	frame           terrain.Frame
+	legendRect      image.Rectangle
+	inputsRect      image.Rectangle
+	cautionRect     image.Rectangle
+	titleRect       image.Rectangle
+	northDeg        float64 // true north, degrees clockwise from map up
+	labels          []placed
+}
+
+// toPix projects a lon/lat point to pixel coordinates.
+func (lo *layout) toPix(p orb.Point) pt {
+	x, y := lo.frame.Forward(p[1], p[0])
+	return pt{float64(lo.mapRect.Min.X) + (x-lo.minX)/lo.mpp, float64(lo.mapRect.Min.Y) + (lo.maxY-y)/lo.mpp}
+}
+
+func (lo *layout) line(ls orb.LineString) []pt {
+	out := make([]pt, 0, len(ls))
+	for _, p := range ls {
+		out = append(out, lo.toPix(p))
+	}
+	return out
+}
+
+func (lo *layout) ring(r orb.Ring) []pt {
+	n := len(r)
+	if n > 1 && r[0] == r[n-1] {
+		n--
+	}
+	return lo.line(orb.LineString(r[:n]))
+}
+
+func (lo *layout) polys(mp orb.MultiPolygon) [][][]pt {
+	out := make([][][]pt, 0, len(mp))
+	for _, p := range mp {
+		var rs [][]pt
+		for _, r := range p {
+			rs = append(rs, lo.ring(r))
+		}
+		out = append(out, rs)
+	}
+	return out
+}
+
+// extent is the frame rectangle the map shows, metres.
+func extent(s *Scene) (minX, minY, maxX, maxY float64) {
+	l := s.Terrain
+	if b := s.Bounds; b.Max[0] > b.Min[0] && b.Max[1] > b.Min[1] {
+		b := s.Bounds
+		minX, minY, maxX, maxY = math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
+		for _, p := range []orb.Point{b.Min, b.Max, {b.Min[0], b.Max[1]}, {b.Max[0], b.Min[1]}} {
+			x, y := l.Frame.Forward(p[1], p[0])
+			minX, maxX = math.Min(minX, x), math.Max(maxX, x)
+			minY, maxY = math.Min(minY, y), math.Max(maxY, y)
+		}
+		return
+	}
+	h := l.Cell / 2
+	return l.X0 - h, l.Y0 - h, l.X0 + float64(l.Cols-1)*l.Cell + h, l.Y0 + float64(l.Rows-1)*l.Cell + h
+}
+
+// renderer carries one rendering.
+type renderer struct {
+	s   *Scene
+	lo  *layout
+	img *image.RGBA
+	c   *canvas
+	f   *faces
+	px  func(float64) float64 // design pixels at 1600 px width → pixels
+}
+
+func render(s *Scene, widthPx int) (*image.RGBA, *layout, error) {
+	if err := s.validate(); err != nil {
+		return nil, nil, err
+	}
+	if widthPx == 0 {
+		widthPx = DefaultWidthPx
+	}
+	if widthPx < 200 || widthPx > MaxWidthPx {
+		return nil, nil, fmt.Errorf("render: map width %d px out of range 200–%d", widthPx, MaxWidthPx)
+	}
+	minX, minY, maxX, maxY := extent(s)
+	if !(maxX > minX && maxY > minY) {
+		return nil, nil, ErrEmptyMap
+	}
+	scale := float64(widthPx) / DefaultWidthPx
+	fc, err := newFaces(scale)
+	if err != nil {
+		return nil, nil, fmt.Errorf("render: loading fonts: %w", err)
+	}
+	r := &renderer{s: s, f: fc, px: func(v float64) float64 { return v * scale }}
+	lo := &layout{W: widthPx, scale: scale, frame: s.Terrain.Frame}
+	r.lo = lo
+
+	margin := int(r.px(16))
+	titleH := int(r.px(14) + lineHeight(fc.title) + r.px(6))
+	mapW := widthPx - 2*margin
+	mpp := (maxX - minX) / float64(mapW)
+	mapH := int(math.Round((maxY - minY) / mpp))
+	if maxH := int(1.4 * float64(widthPx)); mapH > maxH { // a tall window: narrower map
+		mapH = maxH
+		mpp = (maxY - minY) / float64(mapH)
+		mapW = int(math.Round((maxX - minX) / mpp))
+	}
+	mx := (widthPx - mapW) / 2
+	lo.mapRect = image.Rect(mx, titleH, mx+mapW, titleH+mapH)
+	lo.titleRect = image.Rect(margin, 0, widthPx-margin, titleH)
+	lo.minX, lo.maxY, lo.mpp = minX, maxY, mpp
+
+	// The panel below the map: legend (left), inputs and source (right),
+	// caution (full width).
+	items := r.legendItems()
+	panelTop := lo.mapRect.Max.Y + int(r.px(12))
+	inner := widthPx - 2*margin
+	legendW := int(float64(inner) * 0.60)
+	rowH := lineHeight(fc.legend) + r.px(9)
+	cols := 2
+	rows := (len(items) + cols - 1) / cols
+	legendH := int(r.px(12)+lineHeight(fc.legendBold)+r.px(4)) + int(float64(rows)*rowH) + int(r.px(8))
+	inputLines := r.inputLines(float64(inner - legendW - int(r.px(24))))
+	inputsH := int(r.px(12)+float64(len(inputLines))*(lineHeight(fc.legend)+r.px(3))) + int(r.px(8))
+	panelH := max(legendH, inputsH)
+	lo.legendRect = image.Rect(margin, panelTop, margin+legendW, panelTop+panelH)
+	lo.inputsRect = image.Rect(margin+legendW+int(r.px(12)), panelTop, widthPx-margin, panelTop+panelH)
+	cautionLines := wrap(fc.legendBold, s.caution(), float64(inner)-r.px(28))
+	cautionH := int(r.px(16) + float64(len(cautionLines))*(lineHeight(fc.legend)+r.px(2)))
+	cTop := lo.legendRect.Max.Y + int(r.px(10))
+	lo.cautionRect = image.Rect(margin, cTop, widthPx-margin, cTop+cautionH)
+	lo.H = lo.cautionRect.Max.Y + margin
+
+	r.img = image.NewRGBA(image.Rect(0, 0, lo.W, lo.H))
+	r.c = newCanvas(r.img)
+	fillSolid(r.img, r.img.Bounds(), colPaper)
+
+	r.drawTerrain()
+	r.c.clip = lo.mapRect
+	r.drawOverlays()
+	r.c.clip = r.img.Bounds()
+	r.c.stroke(rect(float64(lo.mapRect.Min.X)-0.5, float64(lo.mapRect.Min.Y)-0.5,
+		float64(lo.mapRect.Max.X)+0.5, float64(lo.mapRect.Max.Y)+0.5), r.px(1.5), true, colTextMuted)
+
+	title := s.Title
+	if title == "" {
+		title = "Glide reach"
+	}
+	drawText(r.img, fc.title, float64(margin), r.px(10)+ascent(fc.title), title, colText)
+	r.drawLegend(items)
+	r.drawInputs(inputLines)
+	r.drawCaution(cautionLines)
+	return r.img, lo, nil
+}
+
+// fillSolid paints a rectangle with an opaque colour.
+func fillSolid(img *image.RGBA, rc image.Rectangle, col color.RGBA) {
+	rc = rc.Intersect(img.Bounds())
+	for y := rc.Min.Y; y < rc.Max.Y; y++ {
+		row := img.Pix[img.PixOffset(rc.Min.X, y):img.PixOffset(rc.Max.X, y)]
+		for i := 0; i < len(row); i += 4 {
+			row[i], row[i+1], row[i+2], row[i+3] = col.R, col.G, col.B, 255
+		}
+	}
+}
+
+// drawOverlays draws everything on the map above the terrain.
+func (r *renderer) drawOverlays() {
+	s, lo, c, px := r.s, r.lo, r.c, r.px
+	if cv := s.Coverage; cv != nil {
+		c.fillPolys(lo.polys(cv.Covered), withAlpha(colCovered, 0.30))
+		up := lo.polys(cv.Uncovered)
+		c.fillPolys(up, withAlpha(colUncovered, 0.12))
+		c.hatchPolys(up, withAlpha(colUncovered, 0.75), px(11), px(2.2))
+	}
+
+	// Footprint levels, largest (lowest arrival height) first.
+	levels := append([]Level(nil), s.Levels...)
+	sort.SliceStable(levels, func(i, j int) bool { return levels[i].ArrivalAGL < levels[j].ArrivalAGL })
+	for _, l := range levels {
+		c.fillPolys(lo.polys(l.Polygons), withAlpha(colReachFill, 0.24))
+	}
+	for i, l := range levels {
+		w := px(2.4)
+		if i == 0 {
+			w = px(3.2)
+		}
+		for _, p := range lo.polys(l.Polygons) {
+			for _, rg := range p {
+				c.addStroke(rg, w+px(2.5), true)
+			}
+		}
+		c.paint(withAlpha(colHalo, 0.65))
+		for _, p := range lo.polys(l.Polygons) {
+			for _, rg := range p {
+				c.addStroke(rg, w, true)
+			}
+		}
+		c.paint(colReachLine)
+	}
+
+	if cv := s.Coverage; cv != nil {
+		for _, p := range lo.polys(cv.Area) {
+			for _, rg := range p {
+				for _, d := range dashes(append(rg, rg[0]), px(10), px(6)) {
+					c.addStroke(d, px(2), false)
+				}
+			}
+		}
+		c.paint(colText)
+	}
+
+	for _, g := range s.Gaps {
+		c.stroke(lo.line(g.Line), px(16), false, withAlpha(colGap, 0.85))
+	}
+	for _, rp := range s.Route {
+		c.addStroke(lo.line(rp.Line), px(8), false)
+	}
+	c.paint(withAlpha(colHalo, 0.9))
+	for _, rp := range s.Route {
+		line := lo.line(rp.Line)
+		if rp.Covered {
+			c.stroke(line, px(4.5), false, colRouteCovered)
+			continue
+		}
+		for _, d := range dashes(line, px(14), px(8)) {
+			c.addStroke(d, px(4.5), false)
+		}
+		c.paint(colRouteOpen)
+	}
+	for _, g := range s.Gaps { // end ticks across the route
+		line := lo.line(g.Line)
+		if len(line) < 2 {
+			continue
+		}
+		for _, e := range [][2]pt{{line[0], line[1]}, {line[len(line)-1], line[len(line)-2]}} {
+			dx, dy := e[1].X-e[0].X, e[1].Y-e[0].Y
+			l := math.Hypot(dx, dy)
+			if l == 0 {
+				continue
+			}
+			nx, ny := -dy/l*px(11), dx/l*px(11)
+			c.addStroke([]pt{{e[0].X - nx, e[0].Y - ny}, {e[0].X + nx, e[0].Y + ny}}, px(3), false)
+		}
+		c.paint(colText)
+	}
+
+	if g := s.Glide; g != nil {
+		line := lo.line(g.Line)
+		c.stroke(line, px(7), false, withAlpha(colHalo, 0.9))
+		c.stroke(line, px(3), false, colGlide)
+		if !math.IsNaN(g.LowestClearance) {
+			p := lo.toPix(g.Lowest)
+			d := px(10)
+			dia := []pt{{p.X, p.Y - d}, {p.X + d, p.Y}, {p.X, p.Y + d}, {p.X - d, p.Y}}
+			c.stroke(dia, px(3), true, colHalo)
+			c.addRing(dia, 1)
+			c.paint(colLowest)
+			c.stroke(dia, px(1.2), true, colText)
+		}
+	}
+
+	pl := &placer{bounds: box{float64(lo.mapRect.Min.X) + 2, float64(lo.mapRect.Min.Y) + 2,
+		float64(lo.mapRect.Max.X) - 2, float64(lo.mapRect.Max.Y) - 2}}
+	var labels []label
+	symR := px(9)
+	for _, f := range s.Fields {
+		p := lo.toPix(f.Point)
+		r.fieldSymbol(p, f.Reachable, symR)
+		pl.reserve(boxAround(p, symR+px(2)))
+		lines := []string{f.Name}
+		if !math.IsNaN(f.ArrivalAGL) {
+			lines = append(lines, "arrive "+s.signedHeight(f.ArrivalAGL))
+		}
+		prio := 2
+		if f.Reachable {
+			prio = 1
+		}
+		labels = append(labels, label{lines: lines, bold: true, anchor: p, gap: symR, priority: prio, must: true, col: colText})
+	}
+	if m := s.Start; m != nil {
+		p := lo.toPix(m.Point)
+		r.startSymbol(p, m.HeadingDeg)
+		pl.reserve(boxAround(p, px(16)))
+		name := m.Label
+		if name == "" {
+			name = "Start"
+		}
+		lines := []string{name}
+		if !math.IsNaN(m.AltMSL) {
+			lines = append(lines, s.height(m.AltMSL)+" MSL")
+		}
+		labels = append(labels, label{lines: lines, bold: true, anchor: p, gap: px(16), priority: 0, must: true, col: colText})
+	}
+	if g := s.Glide; g != nil && !math.IsNaN(g.LowestClearance) {
+		p := lo.toPix(g.Lowest)
+		pl.reserve(boxAround(p, px(10)))
+		labels = append(labels, label{lines: []string{"lowest clearance", s.height(g.LowestClearance)},
+			anchor: p, gap: px(10), priority: 3, must: true, col: colText})
+	}
+	for _, g := range s.Gaps {
+		line := lo.line(g.Line)
+		if len(line) == 0 {
+			continue
+		}
+		text := g.Label
+		if text == "" {
+			km := lineLength(line) * lo.mpp / 1000
+			text = fmt.Sprintf("GAP %.1f km / %.1f nm", km, km/1.852)
+		}
+		labels = append(labels, label{lines: []string{text}, bold: true, anchor: midpoint(line), gap: px(10),
+			priority: 4, must: true, col: colText})
+	}
+	for _, l := range levels {
+		if p, ok := topVertex(lo.polys(l.Polygons)); ok {
+			labels = append(labels, label{lines: []string{s.height(l.ArrivalAGL) + " AGL"}, anchor: p, gap: px(3),
+				priority: 5, col: colReachLine})
+		}
+	}
+	sb := r.drawScaleBar()
+	pl.reserve(sb)
+	pl.reserve(r.drawNorthArrow())
+
+	pad := px(3)
+	lo.labels = pl.placeAll(labels, r.f.label, r.f.labelBold, pad)
+	for _, l := range lo.labels {
+		c.box(image.Rect(int(l.at.x0), int(l.at.y0), int(math.Ceil(l.at.x1)), int(math.Ceil(l.at.y1))),
+			withAlpha(colHalo, 0.86), withAlpha(colTextMuted, 0.6), px(1))
+		y := l.at.y0 + pad + ascent(r.f.label)
+		for i, s := range l.lines {
+			face := r.f.label
+			if i == 0 && l.bold {
+				face = r.f.labelBold
+			}
+			drawText(r.img, face, l.at.x0+pad, y, s, l.col)
+			y += lineHeight(r.f.label)
+		}
+	}
+}
+
+// fieldSymbol draws a field: a filled bluish-green circle with a white and
+// a black ring when reachable, a vermillion cross on a white halo when not.
+func (r *renderer) fieldSymbol(p pt, reachable bool, rad float64) {
+	c, px := r.c, r.px
+	if reachable {
+		c.addRing(circle(p, rad+px(2.5), 0), 1)
+		c.paint(colText)
+		c.addRing(circle(p, rad+px(1.3), 0), 1)
+		c.paint(colHalo)
+		c.addRing(circle(p, rad, 0), 1)
+		c.paint(colReachable)
+		return
+	}
+	d := rad * 0.8
+	arms := [][]pt{{{p.X - d, p.Y - d}, {p.X + d, p.Y + d}}, {{p.X - d, p.Y + d}, {p.X + d, p.Y - d}}}
+	for _, a := range arms {
+		c.addStroke(a, px(9), false)
+	}
+	c.paint(colText)
+	for _, a := range arms {
+		c.addStroke(a, px(6.5), false)
+	}
+	c.paint(colHalo)
+	for _, a := range arms {
+		c.addStroke(a, px(4), false)
+	}
+	c.paint(colUnreachable)
+}
+
+// startSymbol draws the start: a black arrowhead along the heading, or a
+// black ringed dot when there is no heading.
+func (r *renderer) startSymbol(p pt, headingDeg float64) {
+	c, px := r.c, r.px
+	if math.IsNaN(headingDeg) {
+		c.addRing(circle(p, px(11), 0), 1)
+		c.paint(colHalo)
+		c.addRing(circle(p, px(9), 0), 1)
+		c.paint(colStart)
+		c.addRing(circle(p, px(4), 0), 1)
+		c.paint(colHalo)
+		return
+	}
+	a := (headingDeg + r.lo.northDeg) * math.Pi / 180
+	dx, dy := math.Sin(a), -math.Cos(a)
+	ex, ey := -dy, dx
+	L, W := px(38), px(26)
+	shape := []pt{
+		{p.X + dx*L*0.6, p.Y + dy*L*0.6},
+		{p.X - dx*L*0.4 + ex*W/2, p.Y - dy*L*0.4 + ey*W/2},
+		{p.X - dx*L*0.15, p.Y - dy*L*0.15},
+		{p.X - dx*L*0.4 - ex*W/2, p.Y - dy*L*0.4 - ey*W/2},
+	}
+	c.stroke(shape, px(4), true, colHalo)
+	c.addRing(shape, 1)
+	c.paint(colStart)
+}
+
+// drawScaleBar draws bars in km and nm at the map's lower left and returns
+// their box.
+func (r *renderer) drawScaleBar() box {
+	lo, c, px := r.lo, r.c, r.px
+	mapWm := float64(lo.mapRect.Dx()) * lo.mpp
+	km := niceLength(mapWm / 1000 * 0.22)
+	nm := niceLength(mapWm / 1852 * 0.22)
+	kmPx, nmPx := km*1000/lo.mpp, nm*1852/lo.mpp
+	barH := px(7)
+	lh := lineHeight(r.f.small)
+	w := math.Max(kmPx+textWidth(r.f.small, fmtLen(km)+" km")/2, nmPx+textWidth(r.f.small, fmtLen(nm)+" nm")/2) + px(24)
+	h := px(10) + 2*(lh+barH+px(6))
+	x0 := float64(lo.mapRect.Min.X) + px(10)
+	y1 := float64(lo.mapRect.Max.Y) - px(10)
+	y0 := y1 - h
+	c.fillRect(x0, y0, x0+w, y1, withAlpha(colHalo, 0.85))
+	bx := x0 + px(10)
+	y := y0 + px(6)
+	for _, b := range []struct {
+		n    float64
+		unit string
+		len  float64
+	}{{km, "km", kmPx}, {nm, "nm", nmPx}} {
+		drawText(r.img, r.f.small, bx, y+ascent(r.f.small), "0", colText)
+		half := fmtLen(b.n / 2)
+		drawText(r.img, r.f.small, bx+b.len/2-textWidth(r.f.small, half)/2, y+ascent(r.f.small), half, colText)
+		end := fmtLen(b.n) + " " + b.unit
+		drawText(r.img, r.f.small, bx+b.len-textWidth(r.f.small, fmtLen(b.n))/2, y+ascent(r.f.small), end, colText)
+		y += lh
+		c.fillRect(bx, y, bx+b.len, y+barH, colText)
+		c.fillRect(bx+b.len/2, y+px(1.2), bx+b.len-px(1.2), y+barH-px(1.2), colHalo)
+		y += barH + px(6)
+	}
+	return box{x0, y0, x0 + w, y1}
+}
+
+// niceLength rounds v down to 1, 2 or 5 times a power of ten.
+func niceLength(v float64) float64 {
+	if !(v > 0) {
+		return 1
+	}
+	p := math.Pow(10, math.Floor(math.Log10(v)))
+	for _, m := range []float64{5, 2, 1} {
+		if m*p <= v {
+			return m * p
+		}
+	}
+	return p
+}
+
+func fmtLen(v float64) string {
+	if v == math.Trunc(v) {
+		return fmt.Sprintf("%.0f", v)
+	}
+	return fmt.Sprintf("%g", v)
+}
+
+// drawNorthArrow draws an arrow to true north at the map's upper right and
+// returns its box. True north is found at the map centre by projecting a
+// point 0.01° north of it.
+func (r *renderer) drawNorthArrow() box {
+	lo, c, px := r.lo, r.c, r.px
+	cx := lo.minX + float64(lo.mapRect.Dx())*lo.mpp/2
+	cy := lo.maxY - float64(lo.mapRect.Dy())*lo.mpp/2
+	lat, lon := lo.frame.Inverse(cx, cy)
+	nx, ny := lo.frame.Forward(lat+0.01, lon)
+	lo.northDeg = math.Atan2(nx-cx, ny-cy) * 180 / math.Pi
+	a := lo.northDeg * math.Pi / 180
+	dx, dy := math.Sin(a), -math.Cos(a)
+	ex, ey := -dy, dx
+	size := px(46)
+	o := pt{float64(lo.mapRect.Max.X) - px(14) - size/2, float64(lo.mapRect.Min.Y) + px(14) + size/2 + px(8)}
+	b := box{o.X - size/2 - px(4), o.Y - size/2 - px(22), o.X + size/2 + px(4), o.Y + size/2 + px(4)}
+	c.fillRect(b.x0, b.y0, b.x1, b.y1, withAlpha(colHalo, 0.85))
+	tip := pt{o.X + dx*size*0.45, o.Y + dy*size*0.45}
+	tail := pt{o.X - dx*size*0.45, o.Y - dy*size*0.45}
+	left := pt{tail.X + ex*size*0.22 - dx*size*0.05, tail.Y + ey*size*0.22 - dy*size*0.05}
+	right := pt{tail.X - ex*size*0.22 - dx*size*0.05, tail.Y - ey*size*0.22 - dy*size*0.05}
+	c.addRing([]pt{tip, tail, left}, 1)
+	c.paint(colText)
+	c.stroke([]pt{tip, right, tail}, px(1.6), true, colText)
+	n := "N"
+	drawText(r.img, r.f.labelBold, tip.X-textWidth(r.f.labelBold, n)/2, tip.Y-px(5), n, colText)
+	return b
+}
+
+func lineLength(l []pt) float64 {
+	s := 0.0
+	for i := 1; i < len(l); i++ {
+		s += math.Hypot(l[i].X-l[i-1].X, l[i].Y-l[i-1].Y)
+	}
+	return s
+}
+
+// midpoint is the point halfway along polyline l.
+func midpoint(l []pt) pt {
+	half := lineLength(l) / 2
+	for i := 1; i < len(l); i++ {
+		d := math.Hypot(l[i].X-l[i-1].X, l[i].Y-l[i-1].Y)
+		if d >= half && d > 0 {
+			t := half / d
+			return pt{l[i-1].X + t*(l[i].X-l[i-1].X), l[i-1].Y + t*(l[i].Y-l[i-1].Y)}
+		}
+		half -= d
+	}
+	return l[len(l)-1]
+}
+
+// topVertex is the highest (smallest y) vertex of all outer rings.
+func topVertex(polys [][][]pt) (pt, bool) {
+	best, ok := pt{}, false
+	for _, p := range polys {
+		if len(p) == 0 {
+			continue
+		}
+		for _, v := range p[0] {
+			if !ok || v.Y < best.Y {
+				best, ok = v, true
+			}
+		}
+	}
+	return best, ok
+}

@@ -1,0 +1,187 @@
+package render
+
+import (
+	"math"
+
+	"glidereach/terrain"
+)
+
+// Pixel states of the relief layer.
+const (
+	pxGround = iota
+	pxVoid   // a void of the DEM
+	pxOff    // outside the raster (Scene.Bounds larger than Terrain)
+)
+
+// drawTerrain paints the map area with the tinted hillshade: the DEM is
+// resampled to the map's pixel grid (block means first where a pixel spans
+// two or more cells, then bilinear), shaded there by Horn's method with the
+// pixel size as cell size, and each pixel's tint multiplied by its shade
+// relative to flat ground (so flat ground shows its tint unchanged, slopes
+// facing the light are lightened, slopes facing away darkened).
+func (r *renderer) drawTerrain() {
+	lo, l := r.lo, r.s.Terrain
+	mw, mh := lo.mapRect.Dx(), lo.mapRect.Dy()
+	src := l
+	if k := int(lo.mpp / l.Cell); k >= 2 && !l.Flat {
+		src = decimate(l, k)
+	}
+	// Column and row lookups: x depends only on the column, y on the row.
+	type tap struct {
+		i0, i1 int
+		t      float32
+		off    bool
+	}
+	taps := func(n int, first, step float64, x0, cell float64, cells, cellsOrig int, x0Orig, cellOrig float64) []tap {
+		out := make([]tap, n)
+		for i := range out {
+			v := first + (float64(i)+0.5)*step
+			fo := (v - x0Orig) / cellOrig
+			if fo < -0.5 || fo > float64(cellsOrig)-0.5 {
+				out[i].off = true
+				continue
+			}
+			f := (v - x0) / cell
+			f = math.Max(0, math.Min(float64(cells-1), f))
+			i0 := int(f)
+			if i0 >= cells-1 {
+				i0 = max(cells-2, 0)
+			}
+			i1 := min(i0+1, cells-1)
+			out[i] = tap{i0: i0, i1: i1, t: float32(f - float64(i0))}
+			if i1 == i0 {
+				out[i].t = 0
+			}
+		}
+		return out
+	}
+	xs := taps(mw, lo.minX, lo.mpp, src.X0, src.Cell, src.Cols, l.Cols, l.X0, l.Cell)
+	ys := taps(mh, lo.maxY, -lo.mpp, src.Y0, src.Cell, src.Rows, l.Rows, l.Y0, l.Cell)
+
+	z := make([]float32, mw*mh)
+	state := make([]uint8, mw*mh)
+	nan := float32(math.NaN())
+	for j, ty := range ys {
+		row := z[j*mw : (j+1)*mw]
+		st := state[j*mw : (j+1)*mw]
+		if ty.off {
+			for i := range st {
+				st[i], row[i] = pxOff, nan
+			}
+			continue
+		}
+		r0, r1 := src.Elev[ty.i0*src.Cols:], src.Elev[ty.i1*src.Cols:]
+		for i, tx := range xs {
+			if tx.off {
+				st[i], row[i] = pxOff, nan
+				continue
+			}
+			a, b, c, d := r0[tx.i0], r0[tx.i1], r1[tx.i0], r1[tx.i1]
+			v := (a*(1-tx.t)+b*tx.t)*(1-ty.t) + (c*(1-tx.t)+d*tx.t)*ty.t
+			if v != v { // a void corner: nearest corner instead
+				v = a
+				if tx.t >= 0.5 {
+					v = b
+				}
+				if ty.t >= 0.5 {
+					v = c
+					if tx.t >= 0.5 {
+						v = d
+					}
+				}
+			}
+			row[i] = v
+			if v != v {
+				st[i] = pxVoid
+			}
+		}
+	}
+
+	lowE, highE := elevRange(l)
+	span := math.Max(highE-lowE, 300)
+	var shade []float32
+	if !l.Flat {
+		shade = shadeGrid(z, mw, mh, lo.mpp, r.s.Hillshade)
+	}
+	_, alt, _ := r.s.Hillshade.resolved()
+	flatShade := math.Sin(alt * math.Pi / 180)
+	img := r.img
+	for j := 0; j < mh; j++ {
+		pix := img.Pix[img.PixOffset(lo.mapRect.Min.X, lo.mapRect.Min.Y+j):]
+		for i := 0; i < mw; i++ {
+			k := j*mw + i
+			p := pix[4*i : 4*i+4 : 4*i+4]
+			switch {
+			case state[k] == pxOff:
+				p[0], p[1], p[2], p[3] = colOffMap.R, colOffMap.G, colOffMap.B, 255
+				continue
+			case state[k] == pxVoid:
+				p[0], p[1], p[2], p[3] = colVoid.R, colVoid.G, colVoid.B, 255
+				continue
+			case l.Flat:
+				p[0], p[1], p[2], p[3] = colFlat.R, colFlat.G, colFlat.B, 255
+				continue
+			}
+			cr, cg, cb := tint((float64(z[k]) - lowE) / span)
+			f := float64(shade[k]) / flatShade // 1 on flat ground, 0 … √2 at 45°
+			if f < 1 {
+				m := 0.38 + 0.62*f
+				cr, cg, cb = cr*m, cg*m, cb*m
+			} else {
+				m := math.Min(1, (f-1)/0.41) * 0.5
+				cr, cg, cb = cr+(255-cr)*m, cg+(255-cg)*m, cb+(255-cb)*m
+			}
+			p[0], p[1], p[2], p[3] = uint8(cr+0.5), uint8(cg+0.5), uint8(cb+0.5), 255
+		}
+	}
+}
+
+// elevRange is the lowest and highest elevation of l, ignoring voids (0, 0
+// when all are void).
+func elevRange(l *terrain.Local) (lo, hi float64) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for _, v := range l.Elev {
+		if v == v {
+			lo, hi = math.Min(lo, float64(v)), math.Max(hi, float64(v))
+		}
+	}
+	if lo > hi {
+		return 0, 0
+	}
+	return lo, hi
+}
+
+// decimate returns the k×k block means of l (voids ignored; a block of
+// voids stays void), for maps whose pixels span several cells.
+func decimate(l *terrain.Local, k int) *terrain.Local {
+	cols, rows := max(l.Cols/k, 1), max(l.Rows/k, 1)
+	d := &terrain.Local{Frame: l.Frame, Cell: l.Cell * float64(k), Cols: cols, Rows: rows,
+		Elev: make([]float32, cols*rows), Source: l.Source}
+	d.X0 = l.X0 + float64(k-1)/2*l.Cell
+	d.Y0 = l.Y0 + float64(k-1)/2*l.Cell
+	sum := make([]float64, cols)
+	cnt := make([]int, cols)
+	for r := 0; r < rows; r++ {
+		clear(sum)
+		clear(cnt)
+		for rr := r * k; rr < min((r+1)*k, l.Rows); rr++ {
+			row := l.Elev[rr*l.Cols : (rr+1)*l.Cols]
+			for c := 0; c < cols; c++ {
+				for cc := c * k; cc < min((c+1)*k, l.Cols); cc++ {
+					if v := row[cc]; v == v {
+						sum[c] += float64(v)
+						cnt[c]++
+					}
+				}
+			}
+		}
+		for c := 0; c < cols; c++ {
+			if cnt[c] == 0 {
+				d.Elev[r*cols+c] = float32(math.NaN())
+			} else {
+				d.Elev[r*cols+c] = float32(sum[c] / float64(cnt[c]))
+			}
+		}
+	}
+	return d
+}

@@ -1,0 +1,137 @@
+package render
+
+import (
+	"bytes"
+	"flag"
+	"image"
+	"image/png"
+	"math"
+	"os"
+	"path/filepath"
+	"testing"
+
+	"github.com/paulmach/orb"
+
+	"glidereach/terrain"
+)
+
+// -sample DIR writes the sample map and report there to look at, e.g.
+//
+//	go test ./cmd/glidereach/render -run TestSample -sample /tmp/glidereach-sample
+var sampleDir = flag.String("sample", "", "write the sample map.png and report.html to this directory")
+
+// sampleFrame is placed over open ocean in the South Pacific so nobody
+// mistakes the invented terrain for a real place.
+var sampleFrame = terrain.NewFrame(-31.5, -146.25)
+
+// hillyLocal is an invented valley-and-ridge terrain, cols×rows cells of
+// cell metres centred on the frame origin: a valley floor at about 200 m
+// rising to a ridge in the north-east and one round hill.
+func hillyLocal(cols, rows int, cell float64) *terrain.Local {
+	l := &terrain.Local{Frame: sampleFrame, Cell: cell, Cols: cols, Rows: rows,
+		Elev: make([]float32, cols*rows), Source: "synthetic valley-and-ridge terrain (invented)"}
+	l.X0, l.Y0 = -float64(cols-1)*cell/2, -float64(rows-1)*cell/2
+	for r := 0; r < rows; r++ {
+		for c := 0; c < cols; c++ {
+			x, y := l.XY(c, r)
+			u, v := x/1000, y/1000 // km
+			e := 200 + 6*u + 3*v
+			ridge := 0.6*u + 0.8*v - 9
+			e += 650 * math.Exp(-ridge*ridge/18) * (1 + 0.25*math.Sin(u/2.1))
+			hd := (u+6)*(u+6) + (v+4)*(v+4)
+			e += 520 * math.Exp(-hd/7)
+			e += 25 * math.Sin(u*1.7) * math.Cos(v*1.3)
+			l.Elev[r*cols+c] = float32(e)
+		}
+	}
+	return l
+}
+
+// at returns the lon/lat of frame point (x, y) in km.
+func at(f terrain.Frame, xkm, ykm float64) orb.Point {
+	lat, lon := f.Inverse(xkm*1000, ykm*1000)
+	return orb.Point{lon, lat}
+}
+
+// ellipseRing is a closed ring around (cx, cy) km with radii a, b km and a
+// wobble, counter-clockwise (RFC 7946 exterior) unless cw.
+func ellipseRing(f terrain.Frame, cx, cy, a, b, wobble float64, n int, cw bool) orb.Ring {
+	r := make(orb.Ring, 0, n+1)
+	for i := 0; i < n; i++ {
+		t := 2 * math.Pi * float64(i) / float64(n)
+		if cw {
+			t = -t
+		}
+		k := 1 + wobble*math.Sin(3*t)
+		r = append(r, at(f, cx+a*k*math.Cos(t), cy+b*k*math.Sin(t)))
+	}
+	return append(r, r[0])
+}
+
+// sampleScene is an invented scene with every kind of element.
+func sampleScene(l *terrain.Local) *Scene {
+	f := l.Frame
+	outer := ellipseRing(f, 1, -1, 15, 11, 0.08, 120, false)
+	hole := ellipseRing(f, -6, -4, 2.2, 1.8, 0.1, 40, true)
+	inner := ellipseRing(f, 1.5, -1.5, 9, 6.5, 0.06, 100, false)
+	hole2 := ellipseRing(f, -6, -4, 3.5, 3, 0.1, 40, true)
+	return &Scene{
+		Title:   "Reach from Kestrel Mere, 1500 m MSL (invented demo)",
+		Terrain: l,
+		Levels: []Level{
+			{ArrivalAGL: 0, Polygons: orb.MultiPolygon{{outer, hole}}},
+			{ArrivalAGL: 300, Polygons: orb.MultiPolygon{{inner, hole2}}},
+		},
+		Start: &Marker{Point: at(f, 1, -1), Label: "Start", HeadingDeg: 60, AltMSL: 1500},
+		Fields: []FieldMark{
+			{Name: "Kestrel Mere", Point: at(f, 1.5, -0.5), Reachable: true, ArrivalAGL: 1210},
+			{Name: "Brackwater Farm", Point: at(f, 9, 3), Reachable: true, ArrivalAGL: 420},
+			{Name: "Lowfold Strip", Point: at(f, -9, 5), Reachable: true, ArrivalAGL: 95},
+			{Name: "Cairn Top", Point: at(f, 12, 11), Reachable: false, ArrivalAGL: -260},
+			{Name: "Saltings", Point: at(f, -16, -11), Reachable: false, ArrivalAGL: math.NaN()},
+		},
+		Route: []RoutePiece{
+			{Line: orb.LineString{at(f, -17, -6), at(f, -8, 0), at(f, 0, 4)}, Covered: true},
+			{Line: orb.LineString{at(f, 0, 4), at(f, 6, 8), at(f, 11, 10)}, Covered: false},
+			{Line: orb.LineString{at(f, 11, 10), at(f, 17, 12)}, Covered: true},
+		},
+		Gaps:  []Gap{{Line: orb.LineString{at(f, 0, 4), at(f, 6, 8), at(f, 11, 10)}}},
+		Glide: &GlideLine{Line: orb.LineString{at(f, 1, -1), at(f, 9, 3)}, Lowest: at(f, 5.2, 1.1), LowestClearance: 180},
+		Inputs: []string{
+			"Aircraft: demo two-seat trainer (glide ratio 9)",
+			"Start: 1500 m MSL, heading 060°",
+			"Wind: 0 m 240/10 kt, 1500 m 270/20 kt",
+			"Reserve: 300 m, clearance 100 m",
+		},
+	}
+}
+
+func TestSample(t *testing.T) {
+	dir := *sampleDir
+	if dir == "" {
+		dir = t.TempDir()
+	} else if err := os.MkdirAll(dir, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	s := sampleScene(hillyLocal(400, 300, 100))
+	var buf bytes.Buffer
+	if err := RenderPNG(&buf, s, 0); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "map.png"), buf.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("wrote %s (%d bytes)", filepath.Join(dir, "map.png"), buf.Len())
+	if *sampleDir != "" { // a full-resolution crop of the middle, to judge the detail
+		img, _ := Render(s, 0)
+		b := img.Bounds()
+		sub := img.SubImage(image.Rect(b.Dx()/4, b.Dy()/4, b.Dx()/4+800, b.Dy()/4+600))
+		var cb bytes.Buffer
+		if err := png.Encode(&cb, sub); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, "map_crop.png"), cb.Bytes(), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+}
