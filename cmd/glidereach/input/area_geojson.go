@@ -149,7 +149,11 @@ func readGeoJSON(data []byte) ([]geoFeature, error) {
 		switch key {
 		case "type":
 			if err := dec.Decode(&typ); err != nil {
-				return nil, fmt.Errorf("line %d: \"type\" must be a string", lc.line(dec.InputOffset()))
+				var te *json.UnmarshalTypeError
+				if errors.As(err, &te) {
+					return nil, fmt.Errorf("line %d: \"type\" must be a string", lc.line(te.Offset))
+				}
+				return nil, jsonError(err, lc)
 			}
 		case "features":
 			haveFeatures = true
@@ -241,6 +245,10 @@ func parseFeature(raw []byte, index, line int) (geoFeature, error) {
 	}
 	obj, err := tgeo.Parse(string(geomRaw), tidwallOptions)
 	if err != nil {
+		if err.Error() == "invalid coordinates" {
+			return g, fmt.Errorf("%s: %w (RFC 7946 §3.1: positions are [lon, lat] or [lon, lat, elevation] numbers, "+
+				"the same count in every position; a LineString has at least 2; a ring is closed with at least 4)", g.where(), err)
+		}
 		return g, fmt.Errorf("%s: %w", g.where(), err)
 	}
 	if err := convert(&g, obj); err != nil {

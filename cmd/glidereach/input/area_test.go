@@ -1,0 +1,158 @@
+package input
+
+import (
+	"errors"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/paulmach/orb"
+)
+
+func writeTemp(t testing.TB, name, content string) string {
+	t.Helper()
+	p := filepath.Join(t.TempDir(), name)
+	if err := os.WriteFile(p, []byte(content), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+const demoArea = "../../../testdata/areas/demo-area.geojson"
+
+func TestParseAreaBox(t *testing.T) {
+	// RFC 7946 §5: bbox order is west, south, east, north.
+	a, err := ParseArea(" -24.8, -0.8 ,-24.2,-0.2")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if b := a.Bounds(); b.Min != (orb.Point{-24.8, -0.8}) || b.Max != (orb.Point{-24.2, -0.2}) {
+		t.Errorf("bounds %v", b)
+	}
+	for _, c := range []struct {
+		lat, lon float64
+		in       bool
+	}{{-0.5, -24.5, true}, {-0.8, -24.8, true}, {-0.1, -24.5, false}, {-0.5, -24.1, false}, {math.NaN(), -24.5, false}} {
+		if got := a.Contains(c.lat, c.lon); got != c.in {
+			t.Errorf("Contains(%v, %v) = %v", c.lat, c.lon, got)
+		}
+	}
+	if ringArea(a.Polygons[0][0]) <= 0 {
+		t.Error("box ring is not counter-clockwise (RFC 7946 §3.1.6)")
+	}
+}
+
+func TestParseAreaErrors(t *testing.T) {
+	cases := []struct{ in, where, want string }{
+		{"-24.8,-0.8,-24.2", "--area", "neither minlon,minlat,maxlon,maxlat nor a readable GeoJSON file"},
+		{"1,2,3,x", "--area", "neither"},
+		{"1,2,3,4e", "--area", `part 4 "4e" is not a number`},
+		{"-24.2,-0.8,-24.8,-0.2", "--area", "minlon -24.2 is not below maxlon -24.8"},
+		{"-24.8,-0.2,-24.2,-0.8", "--area", "minlat -0.2 is not below maxlat -0.8"},
+		// Swapped lat/lon: the latitude check catches it.
+		{"-0.8,-24.8,-0.2,100", "--area", "latitude 100 out of range"},
+		{"-190,0,1,1", "--area", "longitude -190 out of range"},
+	}
+	for _, c := range cases {
+		_, err := ParseArea(c.in)
+		var ue *UsageError
+		if !errors.As(err, &ue) || ue.Where != c.where || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("ParseArea(%q) = %v; want %s: …%s", c.in, err, c.where, c.want)
+		}
+	}
+	p := writeTemp(t, "a.geojson", `{"type":"Point","coordinates":[1,2]}`)
+	_, err := ParseArea(p)
+	var ue *UsageError
+	if !errors.As(err, &ue) || ue.Where != p || !strings.Contains(err.Error(), "geometry Point not supported for an area") {
+		t.Errorf("point area: %v", err)
+	}
+}
+
+func TestParseAreaDemoFile(t *testing.T) {
+	a, err := ParseArea(demoArea)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a.Source != demoArea || len(a.Polygons) != 1 || len(a.Polygons[0]) != 2 {
+		t.Fatalf("area %+v", a)
+	}
+	// The points below are inside, inside the hole, and outside the
+	// invented area (see testdata/areas/ORIGIN.md for its vertices).
+	for _, c := range []struct {
+		lat, lon float64
+		in       bool
+	}{
+		{-0.6, -24.6, true},
+		{-0.47, -24.47, false}, // in the hole
+		{-0.3, -24.2, false},   // outside the slanted east edge
+		{-0.5, -24.18, true},   // inside near the east vertex
+		{-0.9, -24.5, false},
+	} {
+		if got := a.Contains(c.lat, c.lon); got != c.in {
+			t.Errorf("Contains(%v, %v) = %v, want %v", c.lat, c.lon, got, c.in)
+		}
+	}
+}
+
+func TestParseAreaMultiPolygon(t *testing.T) {
+	src := `{"type":"MultiPolygon","coordinates":[[[[0,0],[1,0],[1,1],[0,1],[0,0]]],[[[2,0],[3,0],[3,1],[2,1],[2,0]]]]}`
+	a, err := ParseAreaGeoJSON([]byte(src))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !a.Contains(0.5, 0.5) || !a.Contains(0.5, 2.5) || a.Contains(0.5, 1.5) {
+		t.Error("MultiPolygon membership wrong")
+	}
+}
+
+// starPolygon is a random star-shaped ring of n vertices around (0, 0), with
+// a hole, for index checks.
+func starPolygon(r *rand.Rand, n int) orb.Polygon {
+	ring := make(orb.Ring, 0, n+1)
+	for i := 0; i < n; i++ {
+		th := 2 * math.Pi * float64(i) / float64(n)
+		rad := 0.5 + r.Float64()
+		ring = append(ring, orb.Point{rad * math.Cos(th), rad * math.Sin(th)})
+	}
+	ring = append(ring, ring[0])
+	hole := orb.Ring{{-0.2, -0.2}, {-0.2, 0.2}, {0.2, 0.2}, {0.2, -0.2}, {-0.2, -0.2}}
+	return orb.Polygon{ring, hole}
+}
+
+// TestRegionIndexMatchesBruteForce: the banded index gives the same answer
+// as the plain even-odd test over all edges (W. R. Franklin's PNPOLY, the
+// rule RFC 7946 polygons follow), on random points.
+func TestRegionIndexMatchesBruteForce(t *testing.T) {
+	r := rand.New(rand.NewPCG(3, 4))
+	for _, n := range []int{3, 17, 500, 20000} {
+		p := starPolygon(r, n)
+		a := NewRegion(orb.MultiPolygon{p})
+		for i := 0; i < 20000; i++ {
+			x, y := r.Float64()*3.2-1.6, r.Float64()*3.2-1.6
+			if got, want := a.Contains(y, x), polygonContains(p, x, y); got != want {
+				t.Fatalf("n=%d (%v,%v): index %v, brute force %v", n, x, y, got, want)
+			}
+		}
+	}
+}
+
+func benchmarkRegionContains(b *testing.B, n int) {
+	r := rand.New(rand.NewPCG(5, 6))
+	a := NewRegion(orb.MultiPolygon{starPolygon(r, n)})
+	pts := make([][2]float64, 4096)
+	for i := range pts {
+		pts[i] = [2]float64{r.Float64()*3.2 - 1.6, r.Float64()*3.2 - 1.6}
+	}
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; b.Loop(); i++ {
+		p := pts[i&4095]
+		a.Contains(p[1], p[0])
+	}
+}
+
+func BenchmarkRegionContains100(b *testing.B)   { benchmarkRegionContains(b, 100) }
+func BenchmarkRegionContains10000(b *testing.B) { benchmarkRegionContains(b, 10000) }
