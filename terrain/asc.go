@@ -333,8 +333,11 @@ func readASCCells(s *ascScanner, h *ascHeader, c0, r0, c1, r1 int, whole bool) (
 	for ; k < last; k++ {
 		if k > 0 {
 			var ok bool
-			tok, line, ok = s.next()
-			if !ok {
+			var tline int
+			tok, tline, ok = s.next()
+			if ok {
+				line = tline
+			} else {
 				if s.err != nil {
 					return nil, s.err
 				}
