@@ -1,0 +1,343 @@
+package reach
+
+import (
+	"context"
+	"math"
+
+	"glidereach/terrain"
+)
+
+// Cell states of the any-angle propagation.
+const (
+	cellUntouched uint8 = iota
+	cellOpen            // has a value and may be expanded (in the heap until closed)
+	cellClosed          // expanded; its value is final
+	cellEnd             // has a value but may only be an end point (below the clearance)
+)
+
+// noParentObs is the obstruction of a segment with no intermediate cells.
+const noParentObs = float32(-1e30)
+
+// source is a virtual point where a propagation starts: the start of a
+// forward footprint or a landing field of a backward one. X, Y are in cell
+// units of the raster (cell (c, r) has its centre at (c, r)).
+type source struct {
+	X, Y  float64
+	Alt   float64 // altitude there, m MSL
+	Index int     // caller's index (field number)
+}
+
+// propagation is the state of one any-angle label-setting run over a
+// terrain.Local: a Theta*-style search in which every cell keeps a
+// line-of-sight parent, so paths are straight from their last bend point
+// rather than bound to eight grid directions. Whether the straight segment
+// from a parent to a new cell keeps the clearance is decided in O(1) from the
+// segment's two grid neighbours one step back toward the parent, which share
+// that parent: each cell stores obs, the largest value of
+//
+//	terrain + clearance − altitude on the segment
+//
+// met on its own segment (≤ 0 means clear), and the new cell's value is the
+// linear interpolation of its two predecessors' obs (the scheme of the
+// "XDraw" viewshed approximation, applied to a gliding line of sight). A
+// segment is accepted when that is ≤ 0; a path bends where it is not.
+//
+// Forward runs maximise arrival altitude (highest first); backward runs
+// minimise the altitude needed to reach a source (lowest first), with the
+// aircraft flying toward the source.
+type propagation struct {
+	l          *terrain.Local
+	desc       *descent
+	backward   bool
+	clearance  float32
+	endLevel   float32 // forward: lowest height above ground still worth keeping as an end value
+	ceiling    float64 // backward: altitudes above this are not propagated
+	cols, rows int
+	cell       float64
+
+	val   []float32 // forward: best arrival altitude; backward: least required altitude (m MSL); NaN none
+	obs   []float32
+	par   []int32 // ≥ 0 parent cell; −1−k virtual source k
+	state []uint8
+	src   []uint16 // backward: which source the value leads to
+	srcs  []source
+	queue *bucketQueue
+}
+
+func newPropagation(l *terrain.Local, d *descent, backward bool) *propagation {
+	n := l.Cols * l.Rows
+	p := &propagation{l: l, desc: d, backward: backward, cols: l.Cols, rows: l.Rows, cell: l.Cell}
+	p.val = make([]float32, n)
+	p.obs = make([]float32, n)
+	p.par = make([]int32, n)
+	p.state = make([]uint8, n)
+	nan := float32(math.NaN())
+	for i := range p.val {
+		p.val[i] = nan
+	}
+	if backward {
+		p.src = make([]uint16, n)
+	}
+	return p
+}
+
+// initQueue sizes the bucket queue for values between lo and hi (m) and
+// bucket width w (m).
+func (p *propagation) initQueue(lo, hi, w float64) {
+	if p.backward {
+		lo, hi = -hi, -lo
+	}
+	p.queue = newBucketQueue(lo, hi, w)
+}
+
+// key orders the heap: highest altitude first forward, lowest first backward.
+func (p *propagation) key(v float32) float32 {
+	if p.backward {
+		return -v
+	}
+	return v
+}
+
+// better reports whether a is a better value than b (b may be NaN).
+func (p *propagation) better(a, b float32) bool {
+	if b != b { // NaN
+		return true
+	}
+	if p.backward {
+		return a < b
+	}
+	return a > b
+}
+
+// parentPos returns the position (cell units) and value of parent index pi.
+func (p *propagation) parentPos(pi int32) (x, y float64, v float64) {
+	if pi < 0 {
+		s := &p.srcs[-1-pi]
+		return s.X, s.Y, s.Alt
+	}
+	c := int(pi) % p.cols
+	r := int(pi) / p.cols
+	return float64(c), float64(r), float64(p.val[pi])
+}
+
+// segment returns the value at cell (qc, qr) reached on a straight segment
+// from a point (px, py) with value pv: forward the arrival altitude, backward
+// the altitude needed at the cell to glide to the point.
+func (p *propagation) segment(px, py, pv float64, qc, qr int) float64 {
+	dx, dy := float64(qc)-px, float64(qr)-py
+	L := math.Hypot(dx, dy) * p.cell
+	if L == 0 {
+		return pv
+	}
+	if p.backward {
+		// The aircraft flies from q toward the parent.
+		return p.desc.depart(pv, math.Atan2(-dx, -dy), L)
+	}
+	return p.desc.arrive(pv, math.Atan2(dx, dy), L)
+}
+
+// rayObs returns the obstruction met on the segment from parent pi at
+// (px, py) to cell (qc, qr), up to but excluding the cell, and whether it
+// could be decided from cells that share the parent.
+func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, bool) {
+	dx, dy := float64(qc)-px, float64(qr)-py
+	adx, ady := math.Abs(dx), math.Abs(dy)
+	var ia, ib int // cells either side of the ray one step back
+	var u float64  // weight of ib
+	if adx >= ady {
+		if adx <= 1 {
+			return noParentObs, true
+		}
+		sx := 1
+		if dx < 0 {
+			sx = -1
+		}
+		cb := qc - sx
+		yb := float64(qr) - dy/adx
+		r0 := int(math.Floor(yb))
+		u = yb - float64(r0)
+		if cb < 0 || cb >= p.cols || r0 < 0 || r0 >= p.rows {
+			return 0, false
+		}
+		ia = r0*p.cols + cb
+		ib = ia
+		if u > 1e-9 {
+			if r0+1 >= p.rows {
+				return 0, false
+			}
+			ib = ia + p.cols
+		}
+	} else {
+		if ady <= 1 {
+			return noParentObs, true
+		}
+		sy := 1
+		if dy < 0 {
+			sy = -1
+		}
+		rb := qr - sy
+		xb := float64(qc) - dx/ady
+		c0 := int(math.Floor(xb))
+		u = xb - float64(c0)
+		if rb < 0 || rb >= p.rows || c0 < 0 || c0 >= p.cols {
+			return 0, false
+		}
+		ia = rb*p.cols + c0
+		ib = ia
+		if u > 1e-9 {
+			if c0+1 >= p.cols {
+				return 0, false
+			}
+			ib = ia + 1
+		}
+	}
+	okA := p.par[ia] == pi && p.state[ia] != cellUntouched
+	okB := p.par[ib] == pi && p.state[ib] != cellUntouched
+	switch {
+	case okA && okB:
+		return p.obs[ia]*float32(1-u) + p.obs[ib]*float32(u), true
+	case okA && u <= 0.5:
+		return p.obs[ia], true
+	case okB && u >= 0.5:
+		return p.obs[ib], true
+	}
+	return 0, false
+}
+
+// offer records value v at cell q reached from parent pi with obstruction
+// prev met before the cell, if it is better than what q has.
+func (p *propagation) offer(q int, pi int32, v float64, prev float32, srcIdx uint16) {
+	if math.IsInf(v, 0) || math.IsNaN(v) {
+		return
+	}
+	t := p.l.Elev[q]
+	vf := float32(v)
+	if p.backward && v > p.ceiling {
+		return
+	}
+	if !p.better(vf, p.val[q]) {
+		return
+	}
+	own := t + p.clearance - vf
+	if p.backward {
+		if own > 0 {
+			// The glide would pass below the clearance here: the least
+			// altitude that keeps it is the clearance height itself, and the
+			// straight line through this cell is blocked for cells beyond.
+			vf = t + p.clearance
+			if !p.better(vf, p.val[q]) {
+				return
+			}
+			if float64(vf) > p.ceiling {
+				return
+			}
+			p.val[q], p.par[q], p.obs[q] = vf, pi, own
+		} else {
+			p.val[q], p.par[q], p.obs[q] = vf, pi, max(prev, own)
+		}
+		p.src[q] = srcIdx
+		p.state[q] = cellOpen
+		p.queue.push(int32(q), p.key(p.val[q]))
+		return
+	}
+	p.val[q], p.par[q] = vf, pi
+	if own <= 0 {
+		p.obs[q] = max(prev, own)
+		p.state[q] = cellOpen
+		p.queue.push(int32(q), p.key(vf))
+		return
+	}
+	// Below the clearance: an end value (for contours and fields) only.
+	p.obs[q] = own
+	if p.state[q] == cellOpen || p.state[q] == cellClosed {
+		// An open or closed cell that gets a better value stays above the
+		// clearance (better means higher); nothing to do here.
+		return
+	}
+	p.state[q] = cellEnd
+}
+
+// seed starts the propagation at virtual source k: the cells around it are
+// reached on straight segments from it.
+func (p *propagation) seed(k int) {
+	s := p.srcs[k]
+	pi := int32(-1 - k)
+	c0, r0 := int(math.Floor(s.X)), int(math.Floor(s.Y))
+	for r := r0 - 1; r <= r0+2; r++ {
+		for c := c0 - 1; c <= c0+2; c++ {
+			if c < 0 || r < 0 || c >= p.cols || r >= p.rows {
+				continue
+			}
+			q := r*p.cols + c
+			if p.l.Elev[q] != p.l.Elev[q] { // void
+				continue
+			}
+			v := p.segment(s.X, s.Y, s.Alt, c, r)
+			p.offer(q, pi, v, noParentObs, uint16(s.Index))
+		}
+	}
+}
+
+var nbrDC = [8]int{1, 1, 0, -1, -1, -1, 0, 1}
+var nbrDR = [8]int{0, 1, 1, 1, 0, -1, -1, -1}
+
+// run expands cells best first until none is left or ctx is cancelled. The
+// progress callback, if not nil, is called now and then with the number of
+// cells closed.
+func (p *propagation) run(ctx context.Context, progress func(closed int)) error {
+	closed := 0
+	for {
+		si32, b, ok := p.queue.pop()
+		if !ok {
+			break
+		}
+		s := int(si32)
+		if p.state[s] != cellOpen || p.queue.bucket(p.key(p.val[s])) != b {
+			continue // stale entry
+		}
+		p.state[s] = cellClosed
+		closed++
+		if closed&0xffff == 0 {
+			if err := ctx.Err(); err != nil {
+				return err
+			}
+			if progress != nil {
+				progress(closed)
+			}
+		}
+		sc, sr := s%p.cols, s/p.cols
+		sv := float64(p.val[s])
+		pi := p.par[s]
+		px, py, pv := p.parentPos(pi)
+		var srcIdx uint16
+		if p.backward {
+			srcIdx = p.src[s]
+		}
+		for k := 0; k < 8; k++ {
+			qc, qr := sc+nbrDC[k], sr+nbrDR[k]
+			if qc < 0 || qr < 0 || qc >= p.cols || qr >= p.rows {
+				continue
+			}
+			q := qr*p.cols + qc
+			if p.state[q] == cellClosed && !p.better(float32(sv), p.val[q]) {
+				continue // closed with a value no lower cell can improve
+			}
+			if p.l.Elev[q] != p.l.Elev[q] { // void: an obstacle
+				continue
+			}
+			// Straight on from s's parent, if the line of sight holds.
+			if prev, ok := p.rayObs(pi, px, py, qc, qr); ok && prev <= 0 {
+				v := p.segment(px, py, pv, qc, qr)
+				p.offer(q, pi, v, prev, srcIdx)
+				continue
+			}
+			// Otherwise the path bends at s.
+			v := p.segment(float64(sc), float64(sr), sv, qc, qr)
+			p.offer(q, int32(s), v, noParentObs, srcIdx)
+		}
+	}
+	if progress != nil {
+		progress(closed)
+	}
+	return nil
+}

@@ -1,0 +1,210 @@
+package reach
+
+import (
+	"math"
+
+	"github.com/paulmach/orb"
+	"github.com/paulmach/orb/planar"
+	"github.com/paulmach/orb/simplify"
+)
+
+// contourRings traces the boundary of the region where v ≥ level on a
+// cols×rows raster by marching squares. v(c, r) is the value of cell (c, r)
+// (NaN counts as far below the level); the raster is padded with "below" so
+// every ring closes. Rings are in cell units (cell (c, r) at (c, r), y up),
+// closed, wound with the region on their left: outer boundaries are
+// counter-clockwise and holes clockwise, as RFC 7946 §3.1.6 asks of
+// exteriors and holes. Saddles are resolved by the mean of the four corners.
+func contourRings(v func(c, r int) float64, cols, rows int, level float64) []orb.Ring {
+	low := level - 1e4
+	val := func(c, r int) float64 {
+		if c < 0 || r < 0 || c >= cols || r >= rows {
+			return low
+		}
+		x := v(c, r)
+		if x != x {
+			return low
+		}
+		return x
+	}
+	w := cols + 2
+	// Edge ids: horizontal edge from (c,r) to (c+1,r) and vertical edge from
+	// (c,r) to (c,r+1), for c, r in −1..cols/rows.
+	hid := func(c, r int) int { return ((r+1)*w + (c + 1)) * 2 }
+	vid := func(c, r int) int { return ((r+1)*w+(c+1))*2 + 1 }
+	type seg struct{ from, to int }
+	next := make(map[int]int) // edge id where a segment starts -> edge id where it ends
+	point := make(map[int]orb.Point)
+	edgePoint := func(id int, c, r int, horizontal bool) {
+		if _, ok := point[id]; ok {
+			return
+		}
+		a := val(c, r)
+		var b float64
+		if horizontal {
+			b = val(c+1, r)
+		} else {
+			b = val(c, r+1)
+		}
+		t := 0.5
+		if b != a {
+			t = (level - a) / (b - a)
+		}
+		t = math.Max(0, math.Min(1, t))
+		if horizontal {
+			point[id] = orb.Point{float64(c) + t, float64(r)}
+		} else {
+			point[id] = orb.Point{float64(c), float64(r) + t}
+		}
+	}
+	var segs [2]seg
+	for r := -1; r < rows; r++ {
+		for c := -1; c < cols; c++ {
+			bl, br := val(c, r), val(c+1, r)
+			tl, tr := val(c, r+1), val(c+1, r+1)
+			code := 0
+			if bl >= level {
+				code |= 1
+			}
+			if br >= level {
+				code |= 2
+			}
+			if tr >= level {
+				code |= 4
+			}
+			if tl >= level {
+				code |= 8
+			}
+			if code == 0 || code == 15 {
+				continue
+			}
+			B, T := hid(c, r), hid(c, r+1)
+			L, R := vid(c, r), vid(c+1, r)
+			n := 1
+			switch code {
+			case 1:
+				segs[0] = seg{B, L}
+			case 2:
+				segs[0] = seg{R, B}
+			case 3:
+				segs[0] = seg{R, L}
+			case 4:
+				segs[0] = seg{T, R}
+			case 5:
+				n = 2
+				if (bl+br+tl+tr)/4 >= level {
+					segs[0], segs[1] = seg{B, R}, seg{T, L}
+				} else {
+					segs[0], segs[1] = seg{B, L}, seg{T, R}
+				}
+			case 6:
+				segs[0] = seg{T, B}
+			case 7:
+				segs[0] = seg{T, L}
+			case 8:
+				segs[0] = seg{L, T}
+			case 9:
+				segs[0] = seg{B, T}
+			case 10:
+				n = 2
+				if (bl+br+tl+tr)/4 >= level {
+					segs[0], segs[1] = seg{L, B}, seg{R, T}
+				} else {
+					segs[0], segs[1] = seg{R, B}, seg{L, T}
+				}
+			case 11:
+				segs[0] = seg{R, T}
+			case 12:
+				segs[0] = seg{L, R}
+			case 13:
+				segs[0] = seg{B, R}
+			case 14:
+				segs[0] = seg{L, B}
+			}
+			for k := 0; k < n; k++ {
+				s := segs[k]
+				for _, id := range [2]int{s.from, s.to} {
+					switch id {
+					case B:
+						edgePoint(id, c, r, true)
+					case T:
+						edgePoint(id, c, r+1, true)
+					case L:
+						edgePoint(id, c, r, false)
+					case R:
+						edgePoint(id, c+1, r, false)
+					}
+				}
+				next[s.from] = s.to
+			}
+		}
+	}
+	var rings []orb.Ring
+	for len(next) > 0 {
+		var start int
+		for k := range next {
+			start = k
+			break
+		}
+		ring := orb.Ring{point[start]}
+		id := start
+		for {
+			to, ok := next[id]
+			if !ok {
+				break // cannot happen on a padded raster; drop an open chain
+			}
+			delete(next, id)
+			ring = append(ring, point[to])
+			id = to
+			if id == start {
+				break
+			}
+		}
+		if id == start && len(ring) >= 4 {
+			rings = append(rings, ring)
+		}
+	}
+	return rings
+}
+
+// polygonsFromRings simplifies rings (cell units) with Douglas–Peucker at
+// tol cells, drops rings smaller than minArea cells², and nests holes
+// (clockwise rings) into the smallest outer ring that contains them.
+func polygonsFromRings(rings []orb.Ring, tol, minArea float64) []orb.Polygon {
+	var outers []orb.Ring
+	var holes []orb.Ring
+	dp := simplify.DouglasPeucker(tol)
+	for _, r := range rings {
+		s := dp.Ring(r.Clone())
+		if len(s) < 4 {
+			continue
+		}
+		a := math.Abs(planar.Area(s)) // planar.Area is signed (positive counter-clockwise)
+		if a < minArea {
+			continue
+		}
+		if s.Orientation() == orb.CCW {
+			outers = append(outers, s)
+		} else {
+			holes = append(holes, s)
+		}
+	}
+	polys := make([]orb.Polygon, len(outers))
+	areas := make([]float64, len(outers))
+	for i, o := range outers {
+		polys[i] = orb.Polygon{o}
+		areas[i] = math.Abs(planar.Area(o))
+	}
+	for _, h := range holes {
+		best := -1
+		for i, o := range outers {
+			if (best < 0 || areas[i] < areas[best]) && planar.RingContains(o, h[0]) {
+				best = i
+			}
+		}
+		if best >= 0 {
+			polys[best] = append(polys[best], h)
+		}
+	}
+	return polys
+}

@@ -1,0 +1,79 @@
+package reach
+
+import (
+	"math"
+
+	"github.com/paulmach/orb"
+)
+
+// Level is one contour of a footprint: the ground reached with at least
+// ArrivalAGL metres above it, as lon/lat polygons (RFC 7946 winding, holes for
+// unreachable ground inside, coordinates rounded to 6 decimals ≈ 0.1 m).
+type Level struct {
+	ArrivalAGL float64
+	Polygons   orb.MultiPolygon
+	Area       float64 // m², on the local frame
+}
+
+// Rings contours the arrival height above ground at each level (m): marching
+// squares on the cell values, rings simplified by Douglas–Peucker to at most
+// half a cell of error, regions smaller than one cell dropped.
+func (f *FootprintResult) Rings(levels []float64) []Level {
+	g := f.Ground
+	v := func(c, r int) float64 { return f.AGL(c, r) }
+	out := make([]Level, 0, len(levels))
+	for _, lv := range levels {
+		polys := polygonsFromRings(contourRings(v, g.Cols, g.Rows, lv), 0.5, 1)
+		mp := make(orb.MultiPolygon, 0, len(polys))
+		area := 0.0
+		for _, p := range polys {
+			gp := make(orb.Polygon, len(p))
+			for i, ring := range p {
+				a := 0.0
+				gr := make(orb.Ring, len(ring))
+				for j, pt := range ring {
+					x, y := g.X0+pt[0]*g.Cell, g.Y0+pt[1]*g.Cell
+					lat, lon := g.Frame.Inverse(x, y)
+					gr[j] = orb.Point{round6(lon), round6(lat)}
+					if j > 0 {
+						a += ring[j-1][0]*pt[1] - pt[0]*ring[j-1][1]
+					}
+				}
+				area += a / 2 * g.Cell * g.Cell
+				gp[i] = gr
+			}
+			mp = append(mp, gp)
+		}
+		out = append(out, Level{ArrivalAGL: lv, Polygons: mp, Area: area})
+	}
+	return out
+}
+
+func round6(v float64) float64 { return math.Round(v*1e6) / 1e6 }
+
+// Farthest returns the greatest distance (m, on the local frame) from the
+// start to a cell reached with at least agl metres above the ground, and its
+// bearing (degrees true).
+func (f *FootprintResult) Farthest(agl float64) (dist, bearing float64) {
+	g := f.Ground
+	sx, sy := f.StartX, f.StartY
+	best, bc, br := -1.0, 0.0, 0.0
+	for r := 0; r < g.Rows; r++ {
+		for c := 0; c < g.Cols; c++ {
+			if f.AGL(c, r) >= agl {
+				dx, dy := float64(c)-sx, float64(r)-sy
+				if d := dx*dx + dy*dy; d > best {
+					best, bc, br = d, dx, dy
+				}
+			}
+		}
+	}
+	if best < 0 {
+		return 0, math.NaN()
+	}
+	b := math.Atan2(bc, br) * 180 / math.Pi
+	if b < 0 {
+		b += 360
+	}
+	return math.Sqrt(best) * g.Cell, b
+}

@@ -1,0 +1,168 @@
+package reach
+
+import (
+	"context"
+	"math"
+	"testing"
+
+	"glidereach/terrain"
+)
+
+// flatWindow returns a flat Local of n×n cells of size cell centred on the
+// frame origin at lat0, lon0.
+func flatWindow(lat0, lon0 float64, n int, cell, elev float64) *terrain.Local {
+	f := terrain.NewFrame(lat0, lon0)
+	half := float64(n-1) / 2 * cell
+	return terrain.NewFlat(f, -half, -half, cell, n, n, elev)
+}
+
+// edgeDistance walks from the start along bearing (degrees) and returns the
+// distance (m) at which the arrival height above the ground falls to level,
+// interpolated between cells.
+func edgeDistance(t *testing.T, f *FootprintResult, bearing, level float64) float64 {
+	t.Helper()
+	g := f.Ground
+	sx, sy := g.X0+f.StartX*g.Cell, g.Y0+f.StartY*g.Cell
+	b := bearing * math.Pi / 180
+	prev := math.NaN()
+	step := g.Cell / 4
+	for d := 0.0; ; d += step {
+		x, y := sx+d*math.Sin(b), sy+d*math.Cos(b)
+		gx, gy := (x-g.X0)/g.Cell, (y-g.Y0)/g.Cell
+		if gx < 0 || gy < 0 || gx > float64(g.Cols-1) || gy > float64(g.Rows-1) {
+			t.Fatalf("bearing %v: ran off the window at %v m", bearing, d)
+		}
+		a, ok := f.arrivalAtCellXY(gx, gy)
+		e, _ := g.Sample(x, y)
+		v := a - e - level
+		if !ok {
+			v = -1e9
+		}
+		if d > 0 && v <= 0 && prev > 0 {
+			return d - step + step*prev/(prev-v)
+		}
+		prev = v
+	}
+}
+
+func TestFootprintFlatStillAirRadius(t *testing.T) {
+	// Still air, flat ground, constant glide ratio E: the reserve ring is a
+	// circle of radius (H − ground − reserve)·E (tan γ = 1/E; Anderson,
+	// Introduction to Flight, gliding flight). The bar is 0.5 % in every
+	// direction.
+	const E, H, reserve = 10.0, 1500.0, 300.0
+	g := flatWindow(-0.5, -24.5, 401, 80, 0)
+	res, err := Footprint(context.Background(), g, Start{Lat: -0.5, Lon: -24.5, Alt: H}, ConstantLoss(E), FootprintOptions{Reserve: reserve, Clearance: 100})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := (H - reserve) * E
+	worst := 0.0
+	for b := 0.0; b < 360; b += 7.5 {
+		got := edgeDistance(t, res, b, reserve)
+		rel := math.Abs(got-want) / want
+		worst = math.Max(worst, rel)
+		if rel > 0.005 {
+			t.Errorf("bearing %5.1f: radius %.1f m, want %.1f m (±0.5 %%)", b, got, want)
+		}
+	}
+	t.Logf("worst radius error %.4f %%", worst*100)
+}
+
+func TestFootprintUniformWindConstantTrack(t *testing.T) {
+	// A loss that depends on the track only (uniform wind, density held
+	// constant): along every bearing θ the reach is (H − reserve)/λ(θ), the
+	// constant-track distance. λ here is the ground loss of a glide at
+	// airspeed V = 25 m/s and sink 1 m/s in a 8 m/s wind from the west
+	// (wind triangle: G = √(V² − Wc²) + Wt; common practice, no source).
+	const V, w, W = 25.0, 1.0, 8.0
+	loss := LossFunc(func(h, b float64) float64 {
+		wt := W * math.Sin(b)  // tailwind component on bearing b of a wind toward the east
+		wc := W * math.Cos(b)  // crosswind component
+		return w / (math.Sqrt(V*V-wc*wc) + wt)
+	})
+	const H, reserve = 1500.0, 300.0
+	g := flatWindow(-0.5, -24.5, 851, 100, 0)
+	res, err := Footprint(context.Background(), g, Start{Lat: -0.5, Lon: -24.5, Alt: H}, loss, FootprintOptions{Reserve: reserve, Clearance: 100})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for b := 0.0; b < 360; b += 10 {
+		want := (H - reserve) / loss(0, b*math.Pi/180)
+		got := edgeDistance(t, res, b, reserve)
+		if math.Abs(got-want)/want > 0.01 {
+			t.Errorf("bearing %3.0f: reach %.0f m, want %.0f m (±1 %%)", b, got, want)
+		}
+	}
+	// The east edge (downwind) lies farther out than the west edge.
+	if e, w := edgeDistance(t, res, 90, reserve), edgeDistance(t, res, 270, reserve); e <= w {
+		t.Errorf("downwind reach %.0f m not beyond upwind reach %.0f m", e, w)
+	}
+}
+
+func TestFootprintAroundWallEnd(t *testing.T) {
+	// Flat ground with a high wall from the south edge to 60 % of the way
+	// north at x = +3 km. A cell behind the wall is reached around its end:
+	// arrival ≈ H − (|start→end| + |end→cell|)/E (the shortest path bends
+	// at the wall's end; geometry, common practice), within 1 %.
+	const E, H = 20.0, 3000.0
+	n, cell := 301, 50.0
+	g := flatWindow(-0.5, -24.5, n, cell, 0)
+	g.Flat = false
+	wallC := 150 + 60 // x = +3000 m
+	endR := 150 + 30  // wall's north end at y = +1500 m
+	for r := 0; r <= endR; r++ {
+		for c := wallC; c <= wallC+1; c++ {
+			g.Elev[r*n+c] = 9000
+		}
+	}
+	res, err := Footprint(context.Background(), g, Start{Lat: -0.5, Lon: -24.5, Alt: H}, ConstantLoss(E), FootprintOptions{Reserve: 0, Clearance: 50})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The corner to go around: just past the wall's end (half a cell beyond
+	// the last wall cell centre).
+	ex, ey := float64(wallC-150)*cell+cell/2, float64(endR-150)*cell+cell/2
+	for _, target := range [][2]int{{wallC + 20, 150 - 40}, {wallC + 60, 150}, {wallC + 10, 150 - 100}} {
+		c, r := target[0], target[1]
+		x, y := float64(c-150)*cell, float64(r-150)*cell
+		d := math.Hypot(ex, ey) + math.Hypot(x-ex, y-ey)
+		want := H - d/E
+		got := float64(res.Arrival[r*n+c])
+		// 1 % of the height lost.
+		if math.Abs(got-want) > 0.01*(H-want) {
+			t.Errorf("cell (%d,%d): arrival %.1f m, want %.1f m around the wall end (straight line would give %.1f)", c, r, got, want, H-math.Hypot(x, y)/E)
+		}
+	}
+	// A cell in front of the wall is reached in a straight line.
+	if got, want := float64(res.Arrival[150*n+150+40]), H-40*cell/E; math.Abs(got-want) > 0.01 {
+		t.Errorf("straight glide: arrival %.2f, want %.2f", got, want)
+	}
+}
+
+func TestFootprintSlopingPlane(t *testing.T) {
+	// Ground rising to the east at slope k (terrain z = z0 + k·x): along
+	// bearing θ the glide (slope 1/E) meets the reserve level where
+	// H − d/E = z0 + k·d·sin θ + reserve, so d = (H − z0 − reserve)/(1/E + k sin θ)
+	// (analytic geometry; common practice, no source). Within 1 %.
+	const E, H, z0, k, reserve = 15.0, 2500.0, 500.0, 0.02, 300.0
+	n, cell := 1001, 80.0
+	g := flatWindow(-0.5, -24.5, n, cell, 0)
+	g.Flat = false
+	for r := 0; r < n; r++ {
+		for c := 0; c < n; c++ {
+			g.Elev[r*n+c] = float32(z0 + k*float64(c-500)*cell)
+		}
+	}
+	res, err := Footprint(context.Background(), g, Start{Lat: -0.5, Lon: -24.5, Alt: H}, ConstantLoss(E), FootprintOptions{Reserve: reserve, Clearance: 100})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for b := 0.0; b < 360; b += 15 {
+		want := (H - z0 - reserve) / (1/E + k*math.Sin(b*math.Pi/180))
+		got := edgeDistance(t, res, b, reserve)
+		if math.Abs(got-want)/want > 0.01 {
+			t.Errorf("bearing %3.0f: %.0f m, want %.0f m", b, got, want)
+		}
+	}
+}

@@ -1,0 +1,276 @@
+package reach
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+)
+
+// LossModel gives the height an aircraft loses per metre over the ground when
+// it holds a track:
+//
+//	λ(h, θ) = (w + s) / G      (dimensionless, ≥ 0)
+//
+// at altitude h (metres MSL) on a track of bearing θ (radians, clockwise from
+// true north), with w the still-air sink at the speed to fly, s the sinking
+// air allowance and G the ground speed. It is +Inf where the aircraft makes no
+// headway. The precomputed speed-to-fly Table implements it; the solvers only
+// ever see a LossModel.
+type LossModel interface {
+	Loss(h, bearing float64) float64
+}
+
+// LossFunc adapts a function to the LossModel interface.
+type LossFunc func(h, bearing float64) float64
+
+// Loss calls f(h, bearing).
+func (f LossFunc) Loss(h, bearing float64) float64 { return f(h, bearing) }
+
+// ConstantLoss is a LossModel with one glide ratio E in every direction and at
+// every altitude: λ = 1/E. It models still air with an altitude-independent
+// polar and serves as the reference case of the tests.
+type ConstantLoss float64
+
+// Loss returns 1/E.
+func (e ConstantLoss) Loss(h, bearing float64) float64 { return 1 / float64(e) }
+
+// descent integrates a LossModel along straight segments of constant track.
+// For each of nDir track directions θ_d = d·2π/nDir it tabulates the ground
+// distance flown while descending from hTop to h,
+//
+//	D_d(h) = ∫_h^hTop dh' / λ(h', θ_d),
+//
+// on altitude rows h_i = hBot + i·dh (trapezoidal rule in 1/λ). A segment of
+// ground length L begun at h1 ends at h2 with D(h2) = D(h1) + L, and a segment
+// that must end at h2 begins at h1 with D(h1) = D(h2) − L; both are solved by
+// inverse interpolation in the table and blended linearly between the two
+// tabulated directions either side of the track. The loss is thus integrated
+// through the altitude layers the segment crosses, not taken at one altitude.
+type descent struct {
+	hBot, hTop, dh float64
+	nh, nDir       int
+	dirStep        float64   // radians between tabulated directions
+	dist           []float64 // dist[d*nh+i] = D_d(h_i); non-increasing in i
+	isotropic      bool      // every direction has the same column: one lookup suffices
+	maxRatio       float64   // largest ground distance per metre of height in the table
+}
+
+// errNoGlide reports a model that gives no finite ground distance anywhere.
+var errNoGlide = errors.New("reach: the aircraft makes no headway in any direction")
+
+// newDescent tabulates m between hBot and hTop (metres MSL) every dh metres
+// over nDir directions.
+func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error) {
+	if !(hTop > hBot) || dh <= 0 || nDir < 4 {
+		return nil, fmt.Errorf("reach: bad descent table range %g..%g m step %g m, %d directions", hBot, hTop, dh, nDir)
+	}
+	nh := int(math.Ceil((hTop-hBot)/dh)) + 1
+	if nh < 2 {
+		nh = 2
+	}
+	dh = (hTop - hBot) / float64(nh-1)
+	t := &descent{hBot: hBot, hTop: hTop, dh: dh, nh: nh, nDir: nDir, dirStep: 2 * math.Pi / float64(nDir)}
+	t.dist = make([]float64, nDir*nh)
+	inv := make([]float64, nh)
+	finite := false
+	for d := 0; d < nDir; d++ {
+		th := float64(d) * t.dirStep
+		for i := 0; i < nh; i++ {
+			l := m.Loss(hBot+float64(i)*dh, th)
+			switch {
+			case l > 0 && !math.IsInf(l, 1) && !math.IsNaN(l):
+				inv[i] = 1 / l
+			case l <= 0 && !math.IsNaN(l):
+				// No height lost (rising air stronger than the sink): treat
+				// as a very flat glide rather than an infinite one, so the
+				// table stays monotone; the solver's window bounds the reach.
+				inv[i] = 1e4
+			default:
+				inv[i] = 0 // no headway: no ground distance for that height
+			}
+		}
+		row := t.dist[d*nh : (d+1)*nh]
+		row[nh-1] = 0
+		for i := nh - 2; i >= 0; i-- {
+			row[i] = row[i+1] + 0.5*(inv[i]+inv[i+1])*dh
+		}
+		if row[0] > 0 {
+			finite = true
+		}
+	}
+	if !finite {
+		return nil, errNoGlide
+	}
+	for k := 0; k+1 < len(t.dist); k++ {
+		if (k+1)%nh != 0 {
+			t.maxRatio = math.Max(t.maxRatio, (t.dist[k]-t.dist[k+1])/dh)
+		}
+	}
+	t.isotropic = true
+	for d := 1; d < nDir && t.isotropic; d++ {
+		for i := 0; i < nh; i++ {
+			if t.dist[d*nh+i] != t.dist[i] {
+				t.isotropic = false
+				break
+			}
+		}
+	}
+	return t, nil
+}
+
+// dirIndex splits a bearing (radians) into the tabulated direction below it
+// and the blend weight toward the next one.
+func (t *descent) dirIndex(bearing float64) (d0, d1 int, w float64) {
+	f := bearing / t.dirStep
+	f -= math.Floor(f/float64(t.nDir)) * float64(t.nDir)
+	d0 = int(f)
+	if d0 >= t.nDir {
+		d0 = 0
+	}
+	w = f - float64(d0)
+	d1 = d0 + 1
+	if d1 == t.nDir {
+		d1 = 0
+	}
+	return d0, d1, w
+}
+
+// distAt returns D_d(h) by linear interpolation.
+func (t *descent) distAt(d int, h float64) float64 {
+	row := t.dist[d*t.nh : (d+1)*t.nh]
+	f := (h - t.hBot) / t.dh
+	if f <= 0 {
+		return row[0]
+	}
+	if f >= float64(t.nh-1) {
+		return row[t.nh-1]
+	}
+	i := int(f)
+	u := f - float64(i)
+	return row[i]*(1-u) + row[i+1]*u
+}
+
+// heightNear inverts D_d like heightAt, searching from row hint outward;
+// it is the fast path for segments that descend only a few rows.
+func (t *descent) heightNear(d int, g float64, hint int) float64 {
+	row := t.dist[d*t.nh : (d+1)*t.nh]
+	if g <= 0 {
+		return t.hTop
+	}
+	if g > row[0] {
+		return math.Inf(-1)
+	}
+	i := hint
+	if i < 0 {
+		i = 0
+	}
+	if i > t.nh-2 {
+		i = t.nh - 2
+	}
+	// Want row[i] ≥ g ≥ row[i+1].
+	for steps := 0; ; steps++ {
+		if steps > 8 {
+			return t.heightAt(d, g)
+		}
+		if row[i] < g {
+			i--
+			if i < 0 {
+				return t.hBot
+			}
+			continue
+		}
+		if row[i+1] > g {
+			i++
+			if i > t.nh-2 {
+				return t.hTop
+			}
+			continue
+		}
+		break
+	}
+	a, b := row[i], row[i+1]
+	if a == b {
+		return t.hBot + float64(i)*t.dh
+	}
+	u := (a - g) / (a - b)
+	return t.hBot + (float64(i)+u)*t.dh
+}
+
+// heightAt inverts D_d: the altitude whose distance-from-top is g. It returns
+// −Inf when g lies beyond the bottom of the table and hTop when g ≤ 0.
+func (t *descent) heightAt(d int, g float64) float64 {
+	row := t.dist[d*t.nh : (d+1)*t.nh]
+	if g <= 0 {
+		return t.hTop
+	}
+	if g > row[0] {
+		return math.Inf(-1)
+	}
+	// row is non-increasing: find i with row[i] ≥ g ≥ row[i+1].
+	i := sort.Search(t.nh, func(k int) bool { return row[k] < g }) - 1
+	if i < 0 {
+		return t.hBot
+	}
+	if i >= t.nh-1 {
+		return t.hTop
+	}
+	a, b := row[i], row[i+1]
+	if a == b {
+		return t.hBot + float64(i)*t.dh
+	}
+	u := (a - g) / (a - b)
+	return t.hBot + (float64(i)+u)*t.dh
+}
+
+// arrive returns the altitude after gliding a ground distance L (metres) from
+// altitude h on bearing (radians). It is −Inf when the glide would end below
+// the bottom of the table.
+func (t *descent) arrive(h, bearing, L float64) float64 {
+	d0, d1, w := t.dirIndex(bearing)
+	h0 := t.arriveDir(d0, h, L)
+	if w == 0 || t.isotropic {
+		return h0
+	}
+	h1 := t.arriveDir(d1, h, L)
+	return h0*(1-w) + h1*w
+}
+
+// arriveDir is arrive on tabulated direction d.
+func (t *descent) arriveDir(d int, h, L float64) float64 {
+	row := t.dist[d*t.nh : (d+1)*t.nh]
+	f := (h - t.hBot) / t.dh
+	if f <= 0 {
+		return math.Inf(-1)
+	}
+	i := int(f)
+	if i >= t.nh-1 {
+		i = t.nh - 2
+		f = float64(i + 1)
+	}
+	u := f - float64(i)
+	perRow := row[i] - row[i+1] // ground distance per altitude row here
+	g := row[i]*(1-u) + row[i+1]*u + L
+	hint := i
+	if perRow > 0 {
+		hint = i - int(L/perRow)
+	}
+	return t.heightNear(d, g, hint)
+}
+
+// depart returns the altitude at which a glide of ground length L on bearing
+// must begin to end at altitude h. It is +Inf when that lies above the top of
+// the table.
+func (t *descent) depart(h, bearing, L float64) float64 {
+	d0, d1, w := t.dirIndex(bearing)
+	g0 := t.distAt(d0, h) - L
+	g1 := t.distAt(d1, h) - L
+	if g0 < 0 || (w > 0 && g1 < 0) {
+		return math.Inf(1)
+	}
+	h0 := t.heightAt(d0, g0)
+	if w == 0 {
+		return h0
+	}
+	return h0*(1-w) + t.heightAt(d1, g1)*w
+}
