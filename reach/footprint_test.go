@@ -77,8 +77,8 @@ func TestFootprintUniformWindConstantTrack(t *testing.T) {
 	// (wind triangle: G = √(V² − Wc²) + Wt; common practice, no source).
 	const V, w, W = 25.0, 1.0, 8.0
 	loss := LossFunc(func(h, b float64) float64 {
-		wt := W * math.Sin(b)  // tailwind component on bearing b of a wind toward the east
-		wc := W * math.Cos(b)  // crosswind component
+		wt := W * math.Sin(b) // tailwind component on bearing b of a wind toward the east
+		wc := W * math.Cos(b) // crosswind component
 		return w / (math.Sqrt(V*V-wc*wc) + wt)
 	})
 	const H, reserve = 1500.0, 300.0
