@@ -139,16 +139,19 @@ func (r *renderer) drawTerrain() {
 // elevRange is the lowest and highest elevation of l, ignoring voids (0, 0
 // when all are void).
 func elevRange(l *terrain.Local) (lo, hi float64) {
-	lo, hi = math.Inf(1), math.Inf(-1)
+	var a, b float32 = float32(math.Inf(1)), float32(math.Inf(-1))
 	for _, v := range l.Elev {
-		if v == v {
-			lo, hi = math.Min(lo, float64(v)), math.Max(hi, float64(v))
+		if v < a {
+			a = v
+		}
+		if v > b {
+			b = v
 		}
 	}
-	if lo > hi {
+	if a > b { // every value NaN
 		return 0, 0
 	}
-	return lo, hi
+	return float64(a), float64(b)
 }
 
 // decimate returns the k×k block means of l (voids ignored; a block of
