@@ -554,7 +554,8 @@ func (info *GeoTIFFInfo) parseLayout(t *tiffReader) error {
 	case p == 2 && info.Sample != SampleFloat32 && info.Sample != SampleFloat64:
 	case p == 3 && (info.Sample == SampleFloat32 || info.Sample == SampleFloat64):
 	default:
-		return geotiffUnsupported(tiffTagPredictor, p, "with "+info.Sample.String()+" samples (want 2 for integers, 3 for floating point)")
+		return geotiffUnsupported(tiffTagPredictor, fmt.Sprintf("%d with %s samples", p, info.Sample),
+			"want 1 (none), 2 (horizontal) for integer samples, 3 (floating point) for float samples")
 	}
 	info.Predictor = int(p)
 
