@@ -102,7 +102,10 @@ func ParseQuantity(s string, k Kind) (float64, error) {
 	if !ok {
 		return 0, fmt.Errorf("%q: unknown %s unit %q (want one of: %s)", s, k, t[i:], UnitNames(k))
 	}
-	return v * f, nil
+	if r := v * f; !math.IsInf(r, 0) {
+		return r, nil
+	}
+	return 0, fmt.Errorf("%q is out of range for a %s", s, k)
 }
 
 // numberPrefix returns the length of the leading decimal number of s
