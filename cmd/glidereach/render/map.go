@@ -23,8 +23,13 @@ func RenderPNG(w io.Writer, s *Scene, widthPx int) error {
 	if err != nil {
 		return err
 	}
-	// Fastest zlib level: shaded relief compresses poorly anyway, and the
-	// best level triples the time for a few percent.
+	return encodePNG(w, img)
+}
+
+// encodePNG writes img with the fastest zlib level: shaded relief
+// compresses poorly anyway, and the best level triples the time for a few
+// percent.
+func encodePNG(w io.Writer, img image.Image) error {
 	enc := png.Encoder{CompressionLevel: png.BestSpeed}
 	if err := enc.Encode(w, img); err != nil {
 		return fmt.Errorf("render: writing PNG: %w", err)

@@ -122,6 +122,14 @@ func TestSample(t *testing.T) {
 		t.Fatal(err)
 	}
 	t.Logf("wrote %s (%d bytes)", filepath.Join(dir, "map.png"), buf.Len())
+	var rep bytes.Buffer
+	if err := WriteReport(&rep, sampleReport(s)); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "report.html"), rep.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("wrote %s (%d bytes)", filepath.Join(dir, "report.html"), rep.Len())
 	if *sampleDir != "" { // a full-resolution crop of the middle, to judge the detail
 		img, _ := Render(s, 0)
 		b := img.Bounds()
