@@ -36,7 +36,7 @@ func sampleProfile(l *terrain.Local) *Profile {
 	for i := 0; i <= n; i++ {
 		d := length * float64(i) / n
 		glide.DistM, glide.AltMSL = append(glide.DistM, d), append(glide.AltMSL, 1500-(1500-endElev-420)*d/length)
-		least.DistM, least.AltMSL = append(least.DistM, d), append(least.AltMSL, endElev+300+(length-d)/9)
+		least.DistM, least.AltMSL = append(least.DistM, d), append(least.AltMSL, endElev+300+(length-d)/14)
 	}
 	return &Profile{Title: "Final glide to Brackwater Farm (invented demo)", Series: []Series{terr, glide, least, res},
 		Marks: []ProfileMark{{DistM: length * 0.53, AltMSL: 1150, Label: "lowest clearance 180 m"},

@@ -143,3 +143,39 @@ func TestSample(t *testing.T) {
 		}
 	}
 }
+
+// TestSampleCoverage draws an invented coverage scene on flat ground, at a
+// smaller width (with -sample: coverage.png).
+func TestSampleCoverage(t *testing.T) {
+	l := terrain.NewFlat(sampleFrame, -14950, -9950, 100, 300, 200, 40)
+	l.Source = "flat ground at 40 m"
+	f := l.Frame
+	area := orb.Polygon{orb.Ring{at(f, -13, -8), at(f, 13, -8), at(f, 13, 8), at(f, -13, 8), at(f, -13, -8)}}
+	s := &Scene{
+		Title:   "Field coverage of the Marram corridor (invented demo)",
+		Terrain: l,
+		Coverage: &Coverage{
+			Area:      orb.MultiPolygon{area},
+			Covered:   orb.MultiPolygon{{ellipseRing(f, -6, 0, 7, 6, 0.05, 80, false)}, {ellipseRing(f, 7, 1, 5, 5, 0.05, 80, false)}},
+			Uncovered: orb.MultiPolygon{{orb.Ring{at(f, 12, -8), at(f, 13, -8), at(f, 13, 8), at(f, 10, 8), at(f, 11.5, 0), at(f, 12, -8)}}},
+		},
+		Fields: []FieldMark{
+			{Name: "Marram Sands", Point: at(f, -6, 0), Reachable: true, ArrivalAGL: math.NaN()},
+			{Name: "Dunlin Field", Point: at(f, 7, 1), Reachable: true, ArrivalAGL: math.NaN()},
+			{Name: "Candidate: Sedge Lot", Point: at(f, 11, -4), Reachable: false, ArrivalAGL: math.NaN()},
+		},
+		Start:  NewMarker(at(f, 0, 0), "Reference"),
+		Inputs: []string{"Aircraft: demo sailplane (glide ratio 38)", "Height: 600 m AGL", "Reserve: 200 m"},
+	}
+	dir := *sampleDir
+	if dir == "" {
+		dir = t.TempDir()
+	}
+	var buf bytes.Buffer
+	if err := RenderPNG(&buf, s, 1000); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "coverage.png"), buf.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}

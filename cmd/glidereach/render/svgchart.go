@@ -129,7 +129,7 @@ func WriteProfileSVG(w io.Writer, p *Profile) error {
 	bw := bufio.NewWriter(w)
 	pr := func(format string, a ...any) { fmt.Fprintf(bw, format, a...) }
 	pr(`<svg viewBox="0 0 %g %g" width="100%%" role="img" aria-label="%s" style="max-width:%gpx;%s;background:#fff">`,
-		chartW, chartH, html.EscapeString(p.Title), chartW, chartFont)
+		chartW, chartH, html.EscapeString(p.Title), 1.25*chartW, chartFont)
 	pr(`<title>%s</title>`, html.EscapeString(p.Title))
 	pr(`<text x="%g" y="22" font-size="17" font-weight="bold" fill="#1a1a1a">%s</text>`, chartL, html.EscapeString(p.Title))
 	// Grid and axes.
