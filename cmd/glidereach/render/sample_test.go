@@ -141,6 +141,13 @@ func TestSample(t *testing.T) {
 		if err := os.WriteFile(filepath.Join(dir, "map_crop.png"), cb.Bytes(), 0o644); err != nil {
 			t.Fatal(err)
 		}
+		cb.Reset()
+		if err := png.Encode(&cb, deuteranopia(img)); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, "map_deuteranopia.png"), cb.Bytes(), 0o644); err != nil {
+			t.Fatal(err)
+		}
 	}
 }
 
@@ -178,4 +185,37 @@ func TestSampleCoverage(t *testing.T) {
 	if err := os.WriteFile(filepath.Join(dir, "coverage.png"), buf.Bytes(), 0o644); err != nil {
 		t.Fatal(err)
 	}
+}
+
+// deuteranopia simulates full deuteranopia on img with the matrix of
+// Machado, Oliveira and Fernandes (IEEE TVCG 15(6), 2009), severity 1.0,
+// applied in linear RGB (matrix values recalled from memory), for looking at
+// the sample map as a deuteranope would.
+func deuteranopia(img *image.RGBA) *image.RGBA {
+	m := [3][3]float64{{0.367322, 0.860646, -0.227968}, {0.280085, 0.672501, 0.047413}, {-0.011820, 0.042940, 0.968881}}
+	lin := func(v uint8) float64 {
+		c := float64(v) / 255
+		if c <= 0.04045 {
+			return c / 12.92
+		}
+		return math.Pow((c+0.055)/1.055, 2.4)
+	}
+	enc := func(c float64) uint8 {
+		c = math.Max(0, math.Min(1, c))
+		if c <= 0.0031308 {
+			c *= 12.92
+		} else {
+			c = 1.055*math.Pow(c, 1/2.4) - 0.055
+		}
+		return uint8(c*255 + 0.5)
+	}
+	out := image.NewRGBA(img.Bounds())
+	for i := 0; i < len(img.Pix); i += 4 {
+		r, g, b := lin(img.Pix[i]), lin(img.Pix[i+1]), lin(img.Pix[i+2])
+		for k := 0; k < 3; k++ {
+			out.Pix[i+k] = enc(m[k][0]*r + m[k][1]*g + m[k][2]*b)
+		}
+		out.Pix[i+3] = img.Pix[i+3]
+	}
+	return out
 }
