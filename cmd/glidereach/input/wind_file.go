@@ -299,6 +299,9 @@ func parseWindCSV(path string, data []byte) (*wind.Profile, error) {
 				}
 				return nil, &UsageError{Where: filePos(path, line, col), Err: fmt.Errorf("%s is empty", c.name)}
 			}
+			if c.unit != "" && numberPrefix(cell) != len(cell) {
+				return nil, &UsageError{Where: filePos(path, line, col), Err: fmt.Errorf("%s: %q is not a number (the header gives the unit %s)", c.name, cell, c.unit)}
+			}
 			if err := setLayerField(&l, c.name, cell+c.unit); err != nil {
 				return nil, &UsageError{Where: filePos(path, line, col), Err: fmt.Errorf("%s: %w", c.name, err)}
 			}

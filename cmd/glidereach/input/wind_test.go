@@ -126,7 +126,7 @@ func TestParseWindFileErrors(t *testing.T) {
 		want      string
 	}{
 		{windTestdata + "bad-unsorted.yaml", "bad-unsorted.yaml:4:5", "layer 3: wind: altitudes not in increasing order"},
-		{windTestdata + "bad-speed.csv", "bad-speed.csv:3:10", `speed: "fastkt" is not a speed`},
+		{windTestdata + "bad-speed.csv", "bad-speed.csv:3:10", `speed: "fast" is not a number (the header gives the unit kt)`},
 		{write("e.yaml", ""), "e.yaml", "no wind layers"},
 		{write("k.yaml", "layers:\n  - {alt: 0m, dir: 240, speed: 10kt, gust: 5kt}\n"), "k.yaml:2:38", `unknown key "gust"`},
 		{write("m.yaml", "- {alt: 0m, speed: 10kt}\n"), "m.yaml:1:3", "layer has no dir"},
