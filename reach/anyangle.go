@@ -62,6 +62,9 @@ type propagation struct {
 	src   []uint16 // backward: which source the value leads to
 	srcs  []source
 	queue *bucketQueue
+	// stop, if not nil, is asked after each expansion whether the run may
+	// end early (the cells a caller needs are final).
+	stop func(cell int) bool
 }
 
 func newPropagation(l *terrain.Local, d *descent, backward bool) *propagation {
@@ -297,6 +300,9 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 		}
 		p.state[s] = cellClosed
 		closed++
+		if p.stop != nil && p.stop(s) {
+			break
+		}
 		if closed&0xffff == 0 {
 			if err := ctx.Err(); err != nil {
 				return err

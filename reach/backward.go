@@ -57,6 +57,12 @@ var ErrNoTargets = errors.New("reach: no landing field lies on the terrain windo
 // Footprint. Targets off the window or on a void are skipped; ErrNoTargets
 // if none is left.
 func Required(ctx context.Context, ground *terrain.Local, targets []Target, model LossModel, opts RequiredOptions) (*RequiredResult, error) {
+	return required(ctx, ground, targets, model, opts, nil)
+}
+
+// required is Required with a hook that may adjust each propagation before
+// it runs.
+func required(ctx context.Context, ground *terrain.Local, targets []Target, model LossModel, opts RequiredOptions, hook func(*propagation)) (*RequiredResult, error) {
 	if ground == nil || ground.Cols < 2 || ground.Rows < 2 {
 		return nil, errors.New("reach: backward reach needs a terrain window of at least 2×2 cells")
 	}
@@ -124,6 +130,9 @@ func Required(ctx context.Context, ground *terrain.Local, targets []Target, mode
 			p.initQueue(lo-20, ceiling+20, bucketWidth(ground.Cell, d))
 			for k := range p.srcs {
 				p.seed(k)
+			}
+			if hook != nil {
+				hook(p)
 			}
 			var prog func(int)
 			if opts.Progress != nil {
@@ -206,4 +215,36 @@ func (r *RequiredResult) RequiredAt(lat, lon float64) (alt float64, best int, ok
 		}
 	}
 	return sum, best, true
+}
+
+// RequiredFrom returns the least altitude (m MSL) at the point lat, lon
+// (degrees) from which target is reached with its reserve, by a backward
+// propagation from the target that ends as soon as the cells around the
+// point are final. ok is false when the target cannot be reached from there
+// below the ceiling.
+func RequiredFrom(ctx context.Context, ground *terrain.Local, target Target, model LossModel, opts RequiredOptions, lat, lon float64) (alt float64, ok bool, err error) {
+	g := ground
+	x, y := g.Frame.Forward(lat, lon)
+	fx, fy := (x-g.X0)/g.Cell, (y-g.Y0)/g.Cell
+	if fx < 0 || fy < 0 || fx > float64(g.Cols-1) || fy > float64(g.Rows-1) {
+		return math.NaN(), false, ErrStartOffGround
+	}
+	c0, r0 := min(int(fx), g.Cols-2), min(int(fy), g.Rows-2)
+	need := []int{r0*g.Cols + c0, r0*g.Cols + c0 + 1, (r0+1)*g.Cols + c0, (r0+1)*g.Cols + c0 + 1}
+	opts.Workers = 1
+	res, err := required(ctx, ground, []Target{target}, model, opts, func(p *propagation) {
+		p.stop = func(_ int) bool {
+			for _, q := range need {
+				if p.state[q] != cellClosed && g.Elev[q] == g.Elev[q] {
+					return false
+				}
+			}
+			return true
+		}
+	})
+	if err != nil {
+		return math.NaN(), false, err
+	}
+	a, _, ok := res.RequiredAt(lat, lon)
+	return a, ok, nil
 }

@@ -1,0 +1,242 @@
+package main
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/spf13/pflag"
+
+	"glidereach/cmd/glidereach/input"
+	"glidereach/reach"
+	"glidereach/terrain"
+	"glidereach/wind"
+)
+
+// Conservative defaults of the commands (m): height above a field on
+// arrival, and least height above terrain en route. An aircraft profile may
+// set its own; a flag overrides both.
+const (
+	defaultReserve   = 300.0
+	defaultClearance = 100.0
+)
+
+// glideFlags are the flags every glide computation takes: the aircraft and
+// its conditions, the air, and the margins.
+type glideFlags struct {
+	aircraft  string
+	mass      *input.Quantity
+	bugs      *input.Quantity
+	mc        *input.Quantity
+	airSink   *input.Quantity
+	isaDev    *input.Quantity
+	wind      string
+	windAloft string
+	reserve   *input.Quantity
+	clearance *input.Quantity
+}
+
+func newGlideFlags() *glideFlags {
+	return &glideFlags{
+		mass:      input.NewQuantity(input.Mass, 0),
+		bugs:      input.NewQuantity(input.Fraction, 0),
+		mc:        input.NewQuantity(input.VerticalSpeed, 0),
+		airSink:   input.NewQuantity(input.VerticalSpeed, 0),
+		isaDev:    input.NewQuantity(input.TempDelta, 0),
+		reserve:   input.NewQuantity(input.Length, defaultReserve),
+		clearance: input.NewQuantity(input.Length, defaultClearance),
+	}
+}
+
+func (g *glideFlags) register(fs *pflag.FlagSet) {
+	fs.StringVar(&g.aircraft, "aircraft", "trainer", "aircraft profile: built-in name ("+strings.Join(reach.BuiltinNames(), ", ")+") or a YAML/JSON profile file")
+	fs.Var(g.mass, "mass", "actual mass (kg, lb); 0 = the profile's mass")
+	fs.Var(g.bugs, "bugs", "contamination: sink × (1 + f), e.g. 0.1 or 10%")
+	fs.Var(g.mc, "mc", "MacCready setting (m/s, fpm, kt); 0 flies for best range")
+	fs.Var(g.airSink, "air-sink", "allowance for sinking air along the glide (m/s, fpm, kt)")
+	fs.Var(g.isaDev, "isa-dev", "temperature deviation from ISA (K or C difference) where the wind gives no temperature")
+	fs.StringVar(&g.wind, "wind", "", "wind: calm, DIR/SPEED (270/20kt), layers (0m:240/10kt,1500m:270/20kt), or a YAML/JSON/CSV file")
+	fs.StringVar(&g.windAloft, "wind-aloft", "", "coded winds-aloft groups with levels in ft, e.g. \"3000:2714 6000:2725+05\", or a bulletin file")
+	fs.Var(g.reserve, "reserve", "height above a field to arrive with (m, ft); default 300 m or the profile's")
+	fs.Var(g.clearance, "clearance", "least height above terrain on the way (m, ft); default 100 m or the profile's")
+}
+
+// glideSetup is the resolved form of glideFlags.
+type glideSetup struct {
+	Aircraft  *reach.Aircraft
+	Cond      reach.Conditions
+	Atm       reach.Atmosphere
+	Wind      *wind.Profile // never nil; calm when no wind was given
+	Reserve   float64
+	Clearance float64
+	WindText  string
+}
+
+func (g *glideFlags) resolve() (*glideSetup, error) {
+	ac, err := input.LoadAircraft(g.aircraft)
+	if err != nil {
+		return nil, err
+	}
+	w, err := input.WindFromFlags(g.wind, g.windAloft)
+	if err != nil {
+		return nil, err
+	}
+	if w == nil {
+		w = wind.Calm()
+	}
+	s := &glideSetup{Aircraft: ac, Wind: w}
+	s.Cond = reach.Conditions{Mass: g.mass.Value, Bugs: g.bugs.Value, AirSink: g.airSink.Value, MacCready: g.mc.Value}
+	if err := s.Cond.Validate(); err != nil {
+		return nil, &input.UsageError{Err: err}
+	}
+	if err := ac.Check(s.Cond); err != nil {
+		return nil, &input.UsageError{Where: "--mass", Err: err}
+	}
+	dev := g.isaDev.Value
+	if math.Abs(dev) > 60 {
+		return nil, input.Usagef("--isa-dev", "%v K is not a plausible deviation from ISA (-60..60)", dev)
+	}
+	s.Atm = reach.Atmosphere{ISADev: dev}
+	if w.HasTemperatures() {
+		s.Atm.Temp = func(h float64) (float64, bool) { return w.Temperature(h, dev) }
+	}
+	s.Reserve, s.Clearance = defaultReserve, defaultClearance
+	if ac.Reserve > 0 {
+		s.Reserve = ac.Reserve
+	}
+	if ac.Clearance > 0 {
+		s.Clearance = ac.Clearance
+	}
+	if g.reserve.Given {
+		s.Reserve = g.reserve.Value
+	}
+	if g.clearance.Given {
+		s.Clearance = g.clearance.Value
+	}
+	if s.Reserve < 0 || s.Reserve > 3000 {
+		return nil, input.Usagef("--reserve", "%v m is outside 0..3000 m", s.Reserve)
+	}
+	if s.Clearance < 0 || s.Clearance > 3000 {
+		return nil, input.Usagef("--clearance", "%v m is outside 0..3000 m", s.Clearance)
+	}
+	s.WindText = w.String()
+	return s, nil
+}
+
+// table builds the speed-to-fly table for altitudes lo..hi (m MSL).
+func (s *glideSetup) table(lo, hi float64) (*reach.Table, error) {
+	return reach.NewTable(s.Aircraft, s.Atm, s.Wind, s.Cond, math.Max(lo, -4900), math.Min(hi, 19900))
+}
+
+// assumptions lists the inputs a result rests on, for every output.
+func (s *glideSetup) assumptions() []string {
+	a := []string{
+		"aircraft: " + s.Aircraft.Name,
+		"wind: " + s.WindText,
+		fmt.Sprintf("reserve %.0f m above the field on arrival, clearance %.0f m above terrain en route", s.Reserve, s.Clearance),
+	}
+	if s.Cond.Mass > 0 {
+		a = append(a, fmt.Sprintf("mass %.0f kg", s.Cond.Mass))
+	}
+	if s.Cond.Bugs > 0 {
+		a = append(a, fmt.Sprintf("contamination: sink +%.0f %%", s.Cond.Bugs*100))
+	}
+	if s.Cond.AirSink > 0 {
+		a = append(a, fmt.Sprintf("sinking air allowance %.1f m/s", s.Cond.AirSink))
+	}
+	if s.Cond.MacCready > 0 {
+		a = append(a, fmt.Sprintf("MacCready setting %.1f m/s", s.Cond.MacCready))
+	}
+	if s.Atm.ISADev != 0 {
+		a = append(a, fmt.Sprintf("ISA %+.0f K", s.Atm.ISADev))
+	}
+	a = append(a, "no thrust, speed to fly for best range in the wind at each altitude, stall margin applied")
+	return a
+}
+
+// terrainFlags choose the ground: a DEM (files or a directory) or a flat
+// plane at --ground.
+type terrainFlags struct {
+	paths  []string
+	ground *input.Quantity
+	crs    string
+	voids  string
+}
+
+func newTerrainFlags() *terrainFlags {
+	return &terrainFlags{ground: input.NewQuantity(input.Length, 0)}
+}
+
+func (t *terrainFlags) register(fs *pflag.FlagSet) {
+	fs.StringSliceVar(&t.paths, "terrain", nil, "elevation data: GeoTIFF, SRTM .hgt or ESRI ASCII grid files, or a directory (comma-separated or repeated)")
+	fs.Var(t.ground, "ground", "elevation of flat ground when no --terrain is given (m, ft MSL)")
+	fs.StringVar(&t.crs, "crs", "", "CRS of ESRI ASCII grids without a .prj sidecar, e.g. EPSG:4326 or EPSG:32633")
+	fs.StringVar(&t.voids, "voids", "obstacle", "what to do with voids (no-data cells): obstacle or fill (fills small voids by interpolation)")
+}
+
+// open returns the elevation source, or nil for flat ground.
+func (t *terrainFlags) open() (terrain.Source, error) {
+	if len(t.paths) == 0 {
+		return nil, nil
+	}
+	var opts terrain.OpenOptions
+	if t.crs != "" {
+		code := strings.TrimPrefix(strings.ToUpper(strings.TrimSpace(t.crs)), "EPSG:")
+		var epsg int
+		if _, err := fmt.Sscanf(code, "%d", &epsg); err != nil {
+			return nil, input.Usagef("--crs", "%q is not an EPSG code (e.g. EPSG:4326)", t.crs)
+		}
+		opts.CRS = terrain.CRS{EPSG: epsg}
+		if err := terrain.CheckCRS(opts.CRS); err != nil {
+			return nil, &input.UsageError{Where: "--crs", Err: err}
+		}
+	}
+	switch t.voids {
+	case "obstacle", "":
+	case "fill":
+		opts.FillVoids = 64
+	default:
+		return nil, input.Usagef("--voids", "%q: want obstacle or fill", t.voids)
+	}
+	src, err := terrain.OpenWith(opts, t.paths...)
+	if err != nil {
+		return nil, &input.UsageError{Where: "--terrain", Err: err}
+	}
+	return src, nil
+}
+
+// positionFlags give the start of a glide.
+type positionFlags struct {
+	from *input.LatLon
+	alt  *input.Quantity
+	agl  *input.Quantity
+}
+
+func newPositionFlags() *positionFlags {
+	return &positionFlags{from: &input.LatLon{}, alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0)}
+}
+
+func (p *positionFlags) register(fs *pflag.FlagSet) {
+	fs.Var(p.from, "from", "start position LAT,LON (decimal degrees)")
+	fs.Var(p.alt, "alt", "start altitude MSL (m, ft)")
+	fs.Var(p.agl, "agl", "start height above the ground there (m, ft), instead of --alt")
+}
+
+// startAlt returns the start altitude MSL given the ground elevation there.
+func (p *positionFlags) startAlt(groundElev float64) (float64, error) {
+	switch {
+	case p.alt.Given && p.agl.Given:
+		return 0, input.Usagef("--alt", "give --alt or --agl, not both")
+	case p.alt.Given:
+		if p.alt.Value > 19000 || p.alt.Value < -400 {
+			return 0, input.Usagef("--alt", "%v m is outside -400..19000 m", p.alt.Value)
+		}
+		return p.alt.Value, nil
+	case p.agl.Given:
+		if p.agl.Value <= 0 {
+			return 0, input.Usagef("--agl", "%v m is not above the ground", p.agl.Value)
+		}
+		return groundElev + p.agl.Value, nil
+	}
+	return 0, input.Usagef("--alt", "a start altitude is required (--alt MSL or --agl above the ground)")
+}

@@ -1,0 +1,405 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"glidereach/cmd/glidereach/input"
+	"glidereach/reach"
+	"glidereach/reach/geodesy"
+	"glidereach/terrain"
+)
+
+func init() { register(newReachCmd) }
+
+// reachOptions are the reach command's flags.
+type reachOptions struct {
+	pos     *positionFlags
+	glide   *glideFlags
+	terr    *terrainFlags
+	fields  string
+	levels  []string
+	out     string
+	format  string
+	raster  string
+	mapPNG  string
+	report  string
+	heading float64
+}
+
+func newReachCmd() *cobra.Command {
+	o := &reachOptions{pos: newPositionFlags(), glide: newGlideFlags(), terr: newTerrainFlags(), heading: math.NaN()}
+	cmd := &cobra.Command{
+		Use:   "reach",
+		Short: "Ground reachable without thrust from a position and altitude (footprint)",
+		Long: `reach computes the best arrival altitude at every cell around a start position,
+gliding at the speed to fly through the wind at each altitude, keeping the
+clearance above terrain, and contours the ground reachable with the reserve
+height (and any --levels). Landing fields given with --fields are judged one
+by one: reachable or not, arrival height, and the start altitude that would
+just reach them with the reserve.
+
+` + cautionText,
+		Example: `  glidereach reach --from -0.5,-24.5 --alt 1500m --aircraft trainer --out reach.geojson
+  glidereach reach --from -0.5,-24.5 --agl 3000ft --wind 0m:240/10kt,1500m:270/20kt \
+      --terrain testdata/geotiff --fields testdata/fields/demo-fields.geojson --levels 0m,150m
+  glidereach reach --from -0.5,-24.5 --alt 1200m --format json`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runReach(cmd.Context(), o, cmd.OutOrStdout(), cmd.ErrOrStderr())
+		},
+	}
+	fs := cmd.Flags()
+	o.pos.register(fs)
+	o.glide.register(fs)
+	o.terr.register(fs)
+	fs.StringVar(&o.fields, "fields", "", "landing fields: GeoJSON points or polygons with a name property")
+	fs.StringSliceVar(&o.levels, "levels", nil, "further arrival heights above ground to contour, e.g. 0m,150m")
+	fs.StringVar(&o.out, "out", "", "write the result to this file (GeoJSON FeatureCollection; JSON with --format json)")
+	fs.StringVar(&o.format, "format", "text", "output format: text, json or geojson (stdout, or --out)")
+	fs.StringVar(&o.raster, "raster", "", "write the arrival height above ground as a raster (.tif GeoTIFF or .asc ESRI ASCII grid)")
+	fs.StringVar(&o.mapPNG, "map", "", "draw a map of the result to this PNG file")
+	fs.StringVar(&o.report, "report", "", "write a self-contained HTML report to this file")
+	fs.Float64Var(&o.heading, "heading", math.NaN(), "aircraft heading at the start (degrees true), drawn on the map")
+	return cmd
+}
+
+// fieldResult is one landing field judged from the start.
+type fieldResult struct {
+	Name        string  `json:"name"`
+	Lat         float64 `json:"lat"`
+	Lon         float64 `json:"lon"`
+	ElevationM  float64 `json:"elevation_m"`
+	Reachable   bool    `json:"reachable"`
+	ArrivalAGLM float64 `json:"arrival_agl_m"`          // NaN written as null
+	RequiredMSL float64 `json:"required_msl_m"`         // NaN written as null
+	DistanceM   float64 `json:"distance_m"`             //
+	BearingDeg  float64 `json:"bearing_deg"`            //
+	LengthM     float64 `json:"length_m,omitempty"`     //
+	Surface     string  `json:"surface,omitempty"`      //
+	MarginM     float64 `json:"margin_above_reserve_m"` // arrival − reserve
+	Note        string  `json:"note,omitempty"`         //
+}
+
+// reachRun is everything a reach computation produced, for the writers.
+type reachRun struct {
+	setup      *glideSetup
+	ground     ground
+	startLat   float64
+	startLon   float64
+	startAlt   float64
+	startElev  float64
+	heading    float64
+	res        *reach.FootprintResult
+	levels     []reach.Level
+	fields     []fieldResult
+	farthest   float64
+	farBearing float64
+	grid       *terrain.Grid // DEM window, nil on flat ground
+}
+
+func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) error {
+	switch o.format {
+	case "text", "json", "geojson":
+	default:
+		return input.Usagef("--format", "%q: want text, json or geojson", o.format)
+	}
+	if !o.pos.from.Given {
+		return input.Usagef("--from", "the start position is required (LAT,LON)")
+	}
+	var extra []float64
+	for _, s := range o.levels {
+		v, err := input.ParseQuantity(s, input.Length)
+		if err != nil {
+			return input.FlagError("--levels", s, err)
+		}
+		if v < 0 || v > 5000 {
+			return input.Usagef("--levels", "%q is outside 0..5000 m", s)
+		}
+		extra = append(extra, v)
+	}
+	for _, f := range []struct{ flag, path string }{{"--raster", o.raster}, {"--map", o.mapPNG}, {"--report", o.report}, {"--out", o.out}} {
+		if f.path == "" {
+			continue
+		}
+		if err := checkOutputPath(f.flag, f.path); err != nil {
+			return err
+		}
+	}
+	if o.raster != "" {
+		ext := strings.ToLower(filepath.Ext(o.raster))
+		if ext != ".tif" && ext != ".tiff" && ext != ".asc" {
+			return input.Usagef("--raster", "%q: want a .tif or .asc file name", o.raster)
+		}
+	}
+	setup, err := o.glide.resolve()
+	if err != nil {
+		return err
+	}
+	src, err := o.terr.open()
+	if err != nil {
+		return err
+	}
+	var fields []input.Field
+	if o.fields != "" {
+		fields, err = input.LoadFields(o.fields)
+		if err != nil {
+			return err
+		}
+	}
+	run, err := computeReach(ctx, setup, ground{src: src, flat: o.terr.ground.Value}, o.pos, fields, extra, stderr)
+	if err != nil {
+		return err
+	}
+	run.heading = o.heading
+
+	// Files first, so a failure leaves nothing half-written and stdout shows
+	// the summary only for a complete run.
+	if o.out != "" {
+		var data []byte
+		if o.format == "json" {
+			data, err = reachJSON(run)
+		} else {
+			data, err = reachGeoJSON(run)
+		}
+		if err != nil {
+			return err
+		}
+		if err := writeFileAtomic(o.out, func(f *os.File) error { _, err := f.Write(data); return err }); err != nil {
+			return err
+		}
+	}
+	if o.raster != "" {
+		if err := writeArrivalRaster(o.raster, run); err != nil {
+			return err
+		}
+	}
+	if o.mapPNG != "" || o.report != "" {
+		if err := drawReach(run, o.mapPNG, o.report); err != nil {
+			return err
+		}
+	}
+	switch {
+	case o.out != "" || o.format == "text":
+		writeReachText(stdout, run)
+		if o.out != "" {
+			fmt.Fprintf(stdout, "\nwrote %s\n", o.out)
+		}
+	case o.format == "json":
+		data, err := reachJSON(run)
+		if err != nil {
+			return err
+		}
+		stdout.Write(data)
+	default:
+		data, err := reachGeoJSON(run)
+		if err != nil {
+			return err
+		}
+		stdout.Write(data)
+	}
+	return nil
+}
+
+// checkOutputPath refuses an output path whose directory does not exist, so
+// the error comes before the computation.
+func checkOutputPath(flag, path string) error {
+	dir := filepath.Dir(path)
+	if st, err := os.Stat(dir); err != nil || !st.IsDir() {
+		return input.Usagef(flag, "%q: directory %s does not exist", path, dir)
+	}
+	return nil
+}
+
+// computeReach runs the footprint and judges the fields.
+func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positionFlags, fields []input.Field, extraLevels []float64, stderr io.Writer) (*reachRun, error) {
+	lat, lon := pos.from.Lat, pos.from.Lon
+	elev, ok, err := gr.elevationAt(lat, lon)
+	if err != nil {
+		return nil, &input.UsageError{Where: "--terrain", Err: err}
+	}
+	if !ok {
+		return nil, input.Usagef("--from", "%.5f,%.5f lies off the terrain data or on a void (unknown ground)", lat, lon)
+	}
+	alt, err := pos.startAlt(elev)
+	if err != nil {
+		return nil, err
+	}
+	if alt <= elev {
+		return nil, input.Usagef("--alt", "%.0f m MSL is not above the terrain at the start (%.0f m)", alt, elev)
+	}
+	run := &reachRun{setup: setup, ground: gr, startLat: lat, startLon: lon, startAlt: alt, startElev: elev}
+
+	// Size the window from the best downwind glide down to the lowest ground
+	// it meets (a first guess below the start's ground, then corrected).
+	bottom := math.Min(elev-300, 0)
+	var l *terrain.Local
+	var grid *terrain.Grid
+	for pass := 0; pass < 2; pass++ {
+		tab, err := setup.table(bottom-50, alt+50)
+		if err != nil {
+			return nil, &input.UsageError{Where: "--aircraft", Err: err}
+		}
+		radius, err := reach.ReachRadius(tab, alt, bottom)
+		if err != nil {
+			return nil, &input.UsageError{Err: err}
+		}
+		l, grid, err = gr.window(lat, lon, radius*1.02+1000)
+		if err != nil {
+			return nil, err
+		}
+		lo := lowest(l)
+		if math.IsInf(lo, 1) || lo >= bottom-1 {
+			break
+		}
+		bottom = lo
+	}
+	run.grid = grid
+	lo := lowest(l)
+	if math.IsInf(lo, 1) {
+		return nil, input.Usagef("--terrain", "the terrain around the start is all voids")
+	}
+	minLevel := setup.Reserve
+	for _, v := range extraLevels {
+		minLevel = math.Min(minLevel, v)
+	}
+	tab, err := setup.table(lo+math.Min(minLevel, 0)-260, alt+60)
+	if err != nil {
+		return nil, &input.UsageError{Where: "--aircraft", Err: err}
+	}
+	prog := newProgress(stderr, "reach")
+	res, err := reach.Footprint(ctx, l, reach.Start{Lat: lat, Lon: lon, Alt: alt}, tab, reach.FootprintOptions{
+		Reserve: setup.Reserve, Clearance: setup.Clearance, Levels: extraLevels, Progress: prog.set})
+	prog.done()
+	if err != nil {
+		switch {
+		case errors.Is(err, reach.ErrStartBelowGround), errors.Is(err, reach.ErrStartOffGround):
+			return nil, &input.UsageError{Where: "--from", Err: err}
+		}
+		return nil, err
+	}
+	run.res = res
+	levels := append([]float64{setup.Reserve}, extraLevels...)
+	sort.Float64s(levels[1:])
+	run.levels = res.Rings(dedupe(levels))
+	run.farthest, run.farBearing = res.Farthest(setup.Reserve)
+
+	// Fields.
+	for _, f := range fields {
+		fr, err := judgeField(ctx, run, f, l)
+		if err != nil {
+			return nil, err
+		}
+		run.fields = append(run.fields, fr)
+	}
+	sort.SliceStable(run.fields, func(i, j int) bool {
+		a, b := run.fields[i], run.fields[j]
+		if a.Reachable != b.Reachable {
+			return a.Reachable
+		}
+		if a.Reachable {
+			return a.ArrivalAGLM > b.ArrivalAGLM
+		}
+		return nanLast(a.RequiredMSL, b.RequiredMSL)
+	})
+	return run, nil
+}
+
+func nanLast(a, b float64) bool {
+	if math.IsNaN(a) {
+		return false
+	}
+	if math.IsNaN(b) {
+		return true
+	}
+	return a < b
+}
+
+func dedupe(v []float64) []float64 {
+	var out []float64
+	seen := map[float64]bool{}
+	for _, x := range v {
+		if !seen[x] {
+			seen[x] = true
+			out = append(out, x)
+		}
+	}
+	return out
+}
+
+// judgeField decides whether a field is reachable from the start, with what
+// arrival height, and which start altitude would just reach it with the
+// reserve (by a backward propagation from the field, not by subtracting).
+func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Local) (fieldResult, error) {
+	fr := fieldResult{Name: f.Name, Lat: f.Lat, Lon: f.Lon, LengthM: f.Length, Surface: f.Surface,
+		ArrivalAGLM: math.NaN(), RequiredMSL: math.NaN(), MarginM: math.NaN()}
+	s, az, _, err := geodesy.Inverse(geodesy.LatLon{Lat: run.startLat, Lon: run.startLon}, geodesy.LatLon{Lat: f.Lat, Lon: f.Lon})
+	if err == nil {
+		fr.DistanceM, fr.BearingDeg = s, math.Mod(az+360, 360)
+	}
+	x, y := l.Frame.Forward(f.Lat, f.Lon)
+	te, onWindow := l.Sample(x, y)
+	switch {
+	case f.HasElevation:
+		fr.ElevationM = f.Elevation
+	case onWindow:
+		fr.ElevationM = te
+	default:
+		e, ok, err := run.ground.elevationAt(f.Lat, f.Lon)
+		if err != nil {
+			return fr, &input.UsageError{Where: "--terrain", Err: err}
+		}
+		if !ok {
+			fr.Note = "off the terrain data: elevation unknown"
+			return fr, nil
+		}
+		fr.ElevationM = e
+	}
+	reserve := run.setup.Reserve
+	if onWindow {
+		if a, ok := run.res.ArrivalAt(f.Lat, f.Lon); ok {
+			fr.ArrivalAGLM = a - fr.ElevationM
+			fr.MarginM = fr.ArrivalAGLM - reserve
+			fr.Reachable = fr.ArrivalAGLM >= reserve
+		}
+	} else {
+		fr.Note = "beyond the computed window: out of reach"
+	}
+	// The least start altitude: backward from the field over a window that
+	// holds both the field and the start.
+	win := l
+	if !onWindow {
+		midLat, midLon := (run.startLat+f.Lat)/2, (run.startLon+f.Lon)/2
+		w, _, err := run.ground.window(midLat, midLon, s/2*1.3+2000)
+		if err != nil {
+			fr.Note = "required altitude not computed: " + err.Error()
+			return fr, nil
+		}
+		win = w
+	}
+	ceiling := math.Max(run.startAlt, fr.ElevationM+reserve) + 4000
+	tab, err := run.setup.table(math.Min(lowest(win), fr.ElevationM)-60, ceiling+60)
+	if err != nil {
+		return fr, &input.UsageError{Where: "--aircraft", Err: err}
+	}
+	req, ok, err := reach.RequiredFrom(ctx, win, reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: fr.ElevationM, Reserve: reserve}, tab,
+		reach.RequiredOptions{Clearance: run.setup.Clearance, Ceiling: ceiling}, run.startLat, run.startLon)
+	if err != nil && !errors.Is(err, reach.ErrNoTargets) && !errors.Is(err, reach.ErrStartOffGround) {
+		return fr, err
+	}
+	if err == nil && ok {
+		fr.RequiredMSL = req
+	} else if fr.Note == "" {
+		fr.Note = fmt.Sprintf("not reachable from below %.0f m MSL", ceiling)
+	}
+	return fr, nil
+}

@@ -1,0 +1,315 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/paulmach/orb"
+	"github.com/paulmach/orb/geojson"
+
+	"glidereach/cmd/glidereach/render"
+	"glidereach/reach"
+	"glidereach/terrain"
+)
+
+// num turns NaN and infinities into JSON null and rounds to a sensible
+// precision (0.1 m is far below what the inputs support).
+func num(v float64) any {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return nil
+	}
+	return math.Round(v*10) / 10
+}
+
+func fieldProps(f fieldResult) map[string]any {
+	p := map[string]any{
+		"kind":                   "field",
+		"name":                   f.Name,
+		"reachable":              f.Reachable,
+		"arrival_agl_m":          num(f.ArrivalAGLM),
+		"required_msl_m":         num(f.RequiredMSL),
+		"margin_above_reserve_m": num(f.MarginM),
+		"distance_m":             num(f.DistanceM),
+		"bearing_deg":            num(f.BearingDeg),
+		"elevation_m":            num(f.ElevationM),
+	}
+	if f.LengthM > 0 {
+		p["length_m"] = num(f.LengthM)
+	}
+	if f.Surface != "" {
+		p["surface"] = f.Surface
+	}
+	if f.Note != "" {
+		p["note"] = f.Note
+	}
+	return p
+}
+
+// levelGeometry returns a Polygon for one polygon, else a MultiPolygon (empty
+// when nothing is reachable at that level).
+func levelGeometry(mp orb.MultiPolygon) orb.Geometry {
+	if len(mp) == 1 {
+		return mp[0]
+	}
+	if mp == nil {
+		return orb.MultiPolygon{}
+	}
+	return mp
+}
+
+// reachGeoJSON writes the RFC 7946 FeatureCollection of a reach run: one
+// feature per level, the start (with the caution), one per field.
+func reachGeoJSON(run *reachRun) ([]byte, error) {
+	fc := geojson.NewFeatureCollection()
+	for _, lv := range run.levels {
+		f := geojson.NewFeature(levelGeometry(lv.Polygons))
+		f.Properties["kind"] = "footprint"
+		f.Properties["arrival_agl_m"] = lv.ArrivalAGL
+		f.Properties["area_m2"] = math.Round(lv.Area)
+		f.Properties["is_reserve"] = lv.ArrivalAGL == run.setup.Reserve
+		fc.Append(f)
+	}
+	st := geojson.NewFeature(orb.Point{round6(run.startLon), round6(run.startLat)})
+	st.Properties = startProps(run)
+	fc.Append(st)
+	for _, f := range run.fields {
+		ff := geojson.NewFeature(orb.Point{round6(f.Lon), round6(f.Lat)})
+		ff.Properties = fieldProps(f)
+		fc.Append(ff)
+	}
+	data, err := json.MarshalIndent(fc, "", " ")
+	if err != nil {
+		return nil, err
+	}
+	return append(data, '\n'), nil
+}
+
+func round6(v float64) float64 { return math.Round(v*1e6) / 1e6 }
+
+func startProps(run *reachRun) map[string]any {
+	return map[string]any{
+		"kind":           "start",
+		"caution":        reach.Caution,
+		"alt_msl_m":      num(run.startAlt),
+		"ground_m":       num(run.startElev),
+		"agl_m":          num(run.startAlt - run.startElev),
+		"aircraft":       run.setup.Aircraft.Name,
+		"wind":           run.setup.WindText,
+		"reserve_m":      run.setup.Reserve,
+		"clearance_m":    run.setup.Clearance,
+		"terrain":        run.ground.describe(),
+		"farthest_m":     num(run.farthest),
+		"farthest_deg":   num(run.farBearing),
+		"assumptions":    run.setup.assumptions(),
+		"cell_size_m":    num(run.res.Ground.Cell),
+		"planning_only":  true,
+		"mac_cready_m_s": run.setup.Cond.MacCready,
+	}
+}
+
+// reachJSON is the machine-readable summary.
+func reachJSON(run *reachRun) ([]byte, error) {
+	type level struct {
+		ArrivalAGL float64 `json:"arrival_agl_m"`
+		Area       float64 `json:"area_m2"`
+		Polygons   int     `json:"polygons"`
+	}
+	var lv []level
+	for _, l := range run.levels {
+		lv = append(lv, level{l.ArrivalAGL, math.Round(l.Area), len(l.Polygons)})
+	}
+	fields := make([]map[string]any, 0, len(run.fields))
+	for _, f := range run.fields {
+		p := fieldProps(f)
+		delete(p, "kind")
+		p["lat"], p["lon"] = f.Lat, f.Lon
+		fields = append(fields, p)
+	}
+	out := map[string]any{
+		"caution": reach.Caution,
+		"start": map[string]any{"lat": run.startLat, "lon": run.startLon, "alt_msl_m": num(run.startAlt),
+			"ground_m": num(run.startElev), "agl_m": num(run.startAlt - run.startElev)},
+		"aircraft":             run.setup.Aircraft.Name,
+		"wind":                 run.setup.WindText,
+		"reserve_m":            run.setup.Reserve,
+		"clearance_m":          run.setup.Clearance,
+		"terrain":              run.ground.describe(),
+		"levels":               lv,
+		"farthest_m":           num(run.farthest),
+		"farthest_bearing_deg": num(run.farBearing),
+		"fields":               fields,
+		"assumptions":          run.setup.assumptions(),
+	}
+	data, err := json.MarshalIndent(out, "", "  ")
+	if err != nil {
+		return nil, err
+	}
+	return append(data, '\n'), nil
+}
+
+func fmtM(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "-"
+	}
+	return fmt.Sprintf("%.0f", v)
+}
+
+// writeReachText prints the human summary.
+func writeReachText(w io.Writer, run *reachRun) {
+	fmt.Fprintf(w, "Reach from %.5f, %.5f at %.0f m MSL (%.0f m above the ground, %.0f ft)\n",
+		run.startLat, run.startLon, run.startAlt, run.startAlt-run.startElev, run.startAlt/0.3048)
+	fmt.Fprintf(w, "Aircraft: %s   Wind: %s\n", run.setup.Aircraft.Name, run.setup.WindText)
+	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.describe())
+	for _, lv := range run.levels {
+		tag := ""
+		if lv.ArrivalAGL == run.setup.Reserve {
+			tag = " (reserve)"
+		}
+		fmt.Fprintf(w, "Arrive with >= %4.0f m above ground%s: %8.1f km², %d area(s)\n", lv.ArrivalAGL, tag, lv.Area/1e6, len(lv.Polygons))
+	}
+	if run.farthest > 0 {
+		fmt.Fprintf(w, "Farthest reach with the reserve: %.1f km (%.1f nm) toward %03.0f°\n", run.farthest/1000, run.farthest/1852, run.farBearing)
+	} else {
+		fmt.Fprintln(w, "No ground is reachable with the reserve from here.")
+	}
+	if len(run.fields) > 0 {
+		fmt.Fprintln(w)
+		tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+		fmt.Fprintln(tw, "FIELD\tREACH\tARRIVE AGL m\tMARGIN m\tNEEDS MSL m\tDIST km\tBRG°\tELEV m\t")
+		for _, f := range run.fields {
+			r := "no"
+			if f.Reachable {
+				r = "yes"
+			}
+			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%.1f\t%03.0f\t%.0f\t%s\n", f.Name, r, fmtM(f.ArrivalAGLM), fmtM(f.MarginM), fmtM(f.RequiredMSL), f.DistanceM/1000, f.BearingDeg, f.ElevationM, f.Note)
+		}
+		tw.Flush()
+	}
+	fmt.Fprintln(w, "\nAssumptions:")
+	for _, a := range run.setup.assumptions() {
+		fmt.Fprintln(w, "  -", a)
+	}
+	fmt.Fprintf(w, "  - solver grid %d×%d cells of %.0f m\n", run.res.Ground.Cols, run.res.Ground.Rows, run.res.Ground.Cell)
+	fmt.Fprintln(w, "\nCAUTION:", reach.Caution)
+}
+
+// arrivalAGL returns the arrival height above ground per cell (NaN where
+// none or below the ground).
+func arrivalAGL(res *reach.FootprintResult) []float32 {
+	g := res.Ground
+	out := make([]float32, len(res.Arrival))
+	for i, a := range res.Arrival {
+		v := a - g.Elev[i]
+		if a != a || v < 0 {
+			v = float32(math.NaN())
+		}
+		out[i] = v
+	}
+	return out
+}
+
+// writeArrivalRaster writes the arrival height above ground on the DEM's
+// lattice (its CRS), or on a lon/lat lattice for flat ground.
+func writeArrivalRaster(path string, run *reachRun) error {
+	vals := arrivalAGL(run.res)
+	var g *terrain.Grid
+	if run.grid != nil {
+		g = terrain.OntoGrid(run.res.Ground, vals, run.grid)
+	} else {
+		g = terrain.LatLonGrid(run.res.Ground, vals)
+	}
+	return writeRaster(path, g)
+}
+
+// writeRaster writes g as GeoTIFF or ESRI ASCII grid by the path's extension.
+func writeRaster(path string, g *terrain.Grid) error {
+	ext := strings.ToLower(filepath.Ext(path))
+	return writeFileAtomic(path, func(f *os.File) error {
+		if ext == ".asc" {
+			return terrain.WriteASC(f, g)
+		}
+		return terrain.WriteGeoTIFF(f, g)
+	})
+}
+
+// reachScene builds the map scene of a reach run.
+func reachScene(run *reachRun) *render.Scene {
+	s := &render.Scene{
+		Title:      fmt.Sprintf("Glide reach from %.0f m MSL - %s", run.startAlt, run.setup.Aircraft.Name),
+		Terrain:    run.res.Ground,
+		DataSource: "terrain: " + run.ground.describe(),
+		Caution:    reach.Caution,
+	}
+	for i := len(run.levels) - 1; i >= 0; i-- {
+		lv := run.levels[i]
+		s.Levels = append(s.Levels, render.Level{ArrivalAGL: lv.ArrivalAGL, Polygons: lv.Polygons})
+	}
+	m := render.NewMarker(orb.Point{run.startLon, run.startLat}, "Start")
+	m.AltMSL = run.startAlt
+	m.HeadingDeg = run.heading
+	s.Start = m
+	for _, f := range run.fields {
+		s.Fields = append(s.Fields, render.FieldMark{Name: f.Name, Point: orb.Point{f.Lon, f.Lat}, Reachable: f.Reachable, ArrivalAGL: f.ArrivalAGLM})
+	}
+	s.Inputs = []string{
+		"Aircraft: " + run.setup.Aircraft.Name,
+		fmt.Sprintf("Start: %.0f m MSL (%.0f m AGL)", run.startAlt, run.startAlt-run.startElev),
+		"Wind: " + run.setup.WindText,
+		fmt.Sprintf("Reserve: %.0f m, clearance %.0f m", run.setup.Reserve, run.setup.Clearance),
+	}
+	return s
+}
+
+// drawReach writes the map and/or the report of a reach run.
+func drawReach(run *reachRun, mapPath, reportPath string) error {
+	scene := reachScene(run)
+	if mapPath != "" {
+		if err := writeFileAtomic(mapPath, func(f *os.File) error { return render.RenderPNG(f, scene, 0) }); err != nil {
+			return err
+		}
+	}
+	if reportPath != "" {
+		rep := &render.Report{
+			Title:    scene.Title,
+			Subtitle: fmt.Sprintf("Start %.5f, %.5f - %s", run.startLat, run.startLon, run.ground.describe()),
+			Scene:    scene,
+			Caution:  reach.Caution,
+		}
+		for _, lv := range run.levels {
+			rep.Summary = append(rep.Summary, fmt.Sprintf("Arrive with at least %.0f m above ground: %.1f km²", lv.ArrivalAGL, lv.Area/1e6))
+		}
+		if run.farthest > 0 {
+			rep.Summary = append(rep.Summary, fmt.Sprintf("Farthest reach with the reserve: %.1f km (%.1f nm) toward %03.0f°", run.farthest/1000, run.farthest/1852, run.farBearing))
+		}
+		if len(run.fields) > 0 {
+			t := render.Table{Title: "Landing fields", Header: []string{"Field", "Reachable", "Arrival AGL (m)", "Margin (m)", "Needs MSL (m)", "Distance (km)", "Bearing (°)"}}
+			for _, f := range run.fields {
+				r := "no"
+				if f.Reachable {
+					r = "yes"
+				}
+				t.Rows = append(t.Rows, []string{f.Name, r, fmtM(f.ArrivalAGLM), fmtM(f.MarginM), fmtM(f.RequiredMSL), fmt.Sprintf("%.1f", f.DistanceM/1000), fmt.Sprintf("%03.0f", f.BearingDeg)})
+			}
+			rep.Tables = append(rep.Tables, t)
+		}
+		rep.Tables = append(rep.Tables, render.Table{Title: "Assumptions", Header: []string{"Input"}, Rows: rowsOf(run.setup.assumptions())})
+		if err := writeFileAtomic(reportPath, func(f *os.File) error { return render.WriteReport(f, rep) }); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+func rowsOf(lines []string) [][]string {
+	out := make([][]string, len(lines))
+	for i, l := range lines {
+		out[i] = []string{l}
+	}
+	return out
+}

@@ -1,0 +1,99 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"glidereach/cmd/glidereach/input"
+	"glidereach/terrain"
+)
+
+// Window sizes. A DEM window keeps the DEM's resolution up to maxWindowSide
+// cells a side and is coarsened beyond that; flat ground needs no detail
+// and gets flatWindowSide cells a side (the any-angle solver is exact on
+// flat ground, so that is ample for the 0.5 % accuracy bar).
+const (
+	maxWindowSide  = 2001
+	flatWindowSide = 801
+)
+
+// ground is the terrain of a run: a DEM source, or flat at an elevation.
+type ground struct {
+	src  terrain.Source // nil: flat
+	flat float64        // m MSL when src is nil
+}
+
+func (g ground) describe() string {
+	if g.src == nil {
+		return fmt.Sprintf("flat ground at %.0f m MSL (no terrain file given)", g.flat)
+	}
+	return g.src.Describe()
+}
+
+// elevationAt samples the ground at a point; ok false off the data or on a void.
+func (g ground) elevationAt(lat, lon float64) (float64, bool, error) {
+	if g.src == nil {
+		return g.flat, true, nil
+	}
+	d := 0.0005
+	grid, err := g.src.Window(lon-d, lat-d, lon+d, lat+d)
+	if err != nil {
+		if errors.Is(err, terrain.ErrOutside) {
+			return math.NaN(), false, nil
+		}
+		return math.NaN(), false, err
+	}
+	v, ok := grid.Elevation(lat, lon)
+	return v, ok, nil
+}
+
+// window returns a square Local of half-size radius (m) centred on lat0,
+// lon0: resampled from the DEM, or flat. The Grid read from the DEM is
+// returned too (nil for flat ground), for writing rasters on its lattice.
+func (g ground) window(lat0, lon0, radius float64) (*terrain.Local, *terrain.Grid, error) {
+	f := terrain.NewFrame(lat0, lon0)
+	if radius < 500 {
+		radius = 500
+	}
+	if g.src == nil {
+		n := flatWindowSide
+		cell := 2 * radius / float64(n-1)
+		half := float64(n-1) / 2 * cell
+		l := terrain.NewFlat(f, -half, -half, cell, n, n, g.flat)
+		l.Source = g.describe()
+		return l, nil, nil
+	}
+	cell := g.src.Resolution()
+	if cell <= 0 || math.IsNaN(cell) {
+		cell = 30
+	}
+	n := int(math.Ceil(2*radius/cell)) + 1
+	if n > maxWindowSide {
+		n = maxWindowSide
+		cell = 2 * radius / float64(n-1)
+	}
+	half := float64(n-1) / 2 * cell
+	w, s, e, nn := terrain.LocalExtent(f, -half, -half, cell, n, n)
+	grid, err := g.src.Window(w, s, e, nn)
+	if err != nil {
+		if errors.Is(err, terrain.ErrOutside) {
+			return nil, nil, input.Usagef("--from", "the position lies outside the terrain data (%s)", g.src.Describe())
+		}
+		return nil, nil, &input.UsageError{Where: "--terrain", Err: err}
+	}
+	l := terrain.Resample(grid, f, -half, -half, cell, n, n)
+	l.Source = g.src.Describe()
+	return l, grid, nil
+}
+
+// lowest returns the lowest known elevation of l (m); +Inf when all are voids.
+func lowest(l *terrain.Local) float64 {
+	lo := math.Inf(1)
+	for _, e := range l.Elev {
+		if e == e && float64(e) < lo {
+			lo = float64(e)
+		}
+	}
+	return lo
+}

@@ -1,0 +1,64 @@
+package terrain
+
+import "math"
+
+// OntoGrid samples a raster of values on Local l (one float32 per cell of l,
+// NaN for none) onto the lattice of like (same size, CRS and georeference;
+// its elevations are not used) by bilinear interpolation, so that a solver's
+// result can be written in the DEM's own coordinate reference system. Cells
+// of like outside l get NaN.
+func OntoGrid(l *Local, values []float32, like *Grid) *Grid {
+	out := &Grid{CRS: like.CRS, Cols: like.Cols, Rows: like.Rows, X0: like.X0, Y0: like.Y0, DX: like.DX, DY: like.DY, Format: "GeoTIFF", Name: like.Name}
+	out.Elev = make([]float32, like.Cols*like.Rows)
+	for r := 0; r < like.Rows; r++ {
+		for c := 0; c < like.Cols; c++ {
+			lat, lon, err := like.fromCRS(like.X0+float64(c)*like.DX, like.Y0-float64(r)*like.DY)
+			v := math.NaN()
+			if err == nil {
+				x, y := l.Frame.Forward(lat, lon)
+				v = sampleValues(l, values, x, y)
+			}
+			out.Elev[r*like.Cols+c] = float32(v)
+		}
+	}
+	return out
+}
+
+// LatLonGrid samples values of Local l onto a geographic (EPSG:4326) lattice
+// covering l's extent with about the same cell size, for rasters computed on
+// flat ground where no DEM lattice exists.
+func LatLonGrid(l *Local, values []float32) *Grid {
+	w, s, e, n := LocalExtent(l.Frame, l.X0, l.Y0, l.Cell, l.Cols, l.Rows)
+	dlat := l.Cell / 111320.0
+	coslat := math.Cos(l.Frame.Lat0 * math.Pi / 180)
+	if coslat < 0.01 {
+		coslat = 0.01
+	}
+	dlon := dlat / coslat
+	cols := int(math.Ceil((e-w)/dlon)) + 1
+	rows := int(math.Ceil((n-s)/dlat)) + 1
+	like := &Grid{CRS: CRS{EPSG: 4326}, Cols: cols, Rows: rows, X0: w, Y0: n, DX: dlon, DY: dlat, Name: l.Source}
+	return OntoGrid(l, values, like)
+}
+
+// sampleValues interpolates values (laid out like l.Elev) bilinearly at frame
+// point (x, y); NaN off the raster or next to a NaN.
+func sampleValues(l *Local, values []float32, x, y float64) float64 {
+	fx := (x - l.X0) / l.Cell
+	fy := (y - l.Y0) / l.Cell
+	if fx < 0 || fy < 0 || fx > float64(l.Cols-1) || fy > float64(l.Rows-1) {
+		return math.NaN()
+	}
+	c, r := int(fx), int(fy)
+	if c >= l.Cols-1 {
+		c = l.Cols - 2
+	}
+	if r >= l.Rows-1 {
+		r = l.Rows - 2
+	}
+	tx, ty := fx-float64(c), fy-float64(r)
+	i := r*l.Cols + c
+	a, b := float64(values[i]), float64(values[i+1])
+	d, e := float64(values[i+l.Cols]), float64(values[i+l.Cols+1])
+	return (a*(1-tx)+b*tx)*(1-ty) + (d*(1-tx)+e*tx)*ty
+}
