@@ -1,0 +1,274 @@
+package main
+
+import (
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"glidereach/cmd/glidereach/input"
+	"glidereach/terrain"
+)
+
+func init() { register(newTerrainCmd) }
+
+// terrainReport is what `glidereach terrain` prints; the JSON keys are part
+// of the command-line contract (DESIGN.md: elevation_m for --at).
+type terrainReport struct {
+	Source        string        `json:"source"`
+	Format        string        `json:"format"`
+	Files         []string      `json:"files"`
+	Cols          int           `json:"cols"`
+	Rows          int           `json:"rows"`
+	CRS           string        `json:"crs"`
+	CRSName       string        `json:"crs_name"`
+	Extent        terrainExtent `json:"extent"`
+	CellX         float64       `json:"cell_size_x"`
+	CellY         float64       `json:"cell_size_y"`
+	CellUnit      string        `json:"cell_unit"` // "deg" or "m"
+	CellEastM     float64       `json:"cell_size_east_m"`
+	CellNorthM    float64       `json:"cell_size_north_m"`
+	ResolutionM   float64       `json:"resolution_m"`
+	MinM          *float64      `json:"elevation_min_m"`
+	MaxM          *float64      `json:"elevation_max_m"`
+	Voids         int           `json:"voids"`
+	VoidsFilled   int           `json:"voids_filled"`
+	VoidTreatment string        `json:"void_treatment"`
+	At            *terrainAt    `json:"at,omitempty"`
+	ElevationM    *float64      `json:"elevation_m"` // null without --at and at a void
+	Caution       string        `json:"caution"`
+}
+
+type terrainExtent struct {
+	West  float64 `json:"west_deg"`
+	South float64 `json:"south_deg"`
+	East  float64 `json:"east_deg"`
+	North float64 `json:"north_deg"`
+}
+
+type terrainAt struct {
+	Lat  float64 `json:"lat_deg"`
+	Lon  float64 `json:"lon_deg"`
+	Void bool    `json:"void"`
+}
+
+func newTerrainCmd() *cobra.Command {
+	var (
+		format, crsText, voids string
+		fillMax                int
+		at                     input.LatLon
+	)
+	cmd := &cobra.Command{
+		Use:   "terrain FILE|DIR... [flags]",
+		Short: "Summarise elevation data and sample it at a point",
+		Long: `terrain reads elevation files — GeoTIFF (.tif, .tiff), SRTM tiles (.hgt) and
+ESRI ASCII grids (.asc) — or directories of them, and prints what the other
+commands will see: format, size, coordinate reference system, extent,
+resolution, elevation range and voids (cells without data). Several files are
+joined into one mosaic. --at prints the elevation at a point, interpolated
+bilinearly between the four surrounding samples.
+
+Voids are obstacles by default: a glide is never planned over unknown ground.
+--voids fill fills small voids (up to --fill-max cells each) by interpolation
+and reports how many cells it filled; larger voids stay obstacles.
+
+An ESRI ASCII grid needs its CRS: from a .prj file beside it, or --crs. The
+tool does not guess from the numbers.
+
+` + cautionText,
+		Example: `  glidereach terrain N34W119.hgt
+  glidereach terrain tiles/ --at 34.25,-118.75
+  glidereach terrain dem.tif --format json
+  glidereach terrain grid.asc --crs EPSG:32633 --voids fill`,
+		Args: cobra.MinimumNArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if format != "text" && format != "json" {
+				return input.Usagef("--format", "%q: want text or json", format)
+			}
+			var opts terrain.OpenOptions
+			if crsText != "" {
+				c, err := parseEPSG(crsText)
+				if err != nil {
+					return &input.UsageError{Where: "--crs", Err: err}
+				}
+				opts.CRS = c
+			}
+			fill := 0
+			switch voids {
+			case "obstacle":
+			case "fill":
+				if fillMax < 1 {
+					return input.Usagef("--fill-max", "%d: want at least 1 cell", fillMax)
+				}
+				fill = fillMax
+			default:
+				return input.Usagef("--voids", "%q: want obstacle or fill", voids)
+			}
+			rep, err := terrainSummary(opts, fill, args, &at)
+			if err != nil {
+				return err
+			}
+			return writeTerrainReport(cmd.OutOrStdout(), rep, format)
+		},
+	}
+	f := cmd.Flags()
+	f.Var(&at, "at", "print the elevation at LAT,LON (decimal degrees)")
+	f.StringVar(&format, "format", "text", "output format: text or json")
+	f.StringVar(&crsText, "crs", "", "CRS of ESRI ASCII grids, e.g. EPSG:4326 or EPSG:32633 (overrides a .prj)")
+	f.StringVar(&voids, "voids", "obstacle", "voids (no-data cells): obstacle, or fill small ones by interpolation")
+	f.IntVar(&fillMax, "fill-max", 64, "with --voids fill: largest void filled, in cells")
+	_ = cmd.RegisterFlagCompletionFunc("format", cobra.FixedCompletions([]string{"text", "json"}, cobra.ShellCompDirectiveNoFileComp))
+	_ = cmd.RegisterFlagCompletionFunc("voids", cobra.FixedCompletions([]string{"obstacle", "fill"}, cobra.ShellCompDirectiveNoFileComp))
+	return cmd
+}
+
+// parseEPSG parses "EPSG:n" (or a bare n) and checks that the terrain
+// package handles the CRS.
+func parseEPSG(s string) (terrain.CRS, error) {
+	t := strings.TrimSpace(s)
+	if len(t) > 5 && strings.EqualFold(t[:5], "EPSG:") {
+		t = t[5:]
+	}
+	n, err := strconv.Atoi(t)
+	if err != nil || n <= 0 {
+		return terrain.CRS{}, fmt.Errorf("%q is not an EPSG code (e.g. EPSG:4326)", s)
+	}
+	c := terrain.CRS{EPSG: n}
+	if err := terrain.CheckCRS(c); err != nil {
+		return terrain.CRS{}, err
+	}
+	return c, nil
+}
+
+// fileUsage turns a terrain error about a file into a usage error naming it.
+func fileUsage(err error, fallback string) error {
+	var fe *terrain.FileError
+	if errors.As(err, &fe) {
+		if errors.Is(fe.Err, terrain.ErrNoCRS) {
+			return &input.UsageError{Where: fe.Path, Err: fmt.Errorf("%w; pass it with --crs", fe.Err)}
+		}
+		return &input.UsageError{Where: fe.Path, Err: fe.Err}
+	}
+	return &input.UsageError{Where: fallback, Err: err}
+}
+
+func terrainSummary(opts terrain.OpenOptions, fill int, paths []string, at *input.LatLon) (*terrainReport, error) {
+	src, err := terrain.OpenWith(opts, paths...)
+	if err != nil {
+		return nil, fileUsage(err, strings.Join(paths, ","))
+	}
+	w, s, e, n := src.Extent()
+	g, err := src.Window(w, s, e, n)
+	if err != nil {
+		return nil, fileUsage(err, strings.Join(paths, ","))
+	}
+	rep := &terrainReport{
+		Source: src.Describe(), Format: g.Format, Files: paths,
+		Cols: g.Cols, Rows: g.Rows,
+		CRS: fmt.Sprintf("EPSG:%d", g.CRS.EPSG), CRSName: crsLabel(g.CRS),
+		Extent: terrainExtent{w, s, e, n},
+		CellX:  g.DX, CellY: g.DY, CellUnit: "m",
+		ResolutionM:   src.Resolution(),
+		Caution:       cautionText,
+		VoidTreatment: "obstacle",
+	}
+	if g.Format == "mosaic" {
+		rep.Format = "mosaic: " + src.Describe()
+	}
+	if g.CRS.EPSG == 4326 {
+		rep.CellUnit = "deg"
+	}
+	rep.CellEastM, rep.CellNorthM = g.CellSizeMetres()
+	if fill > 0 {
+		rep.VoidsFilled = terrain.FillVoids(g, fill)
+		rep.VoidTreatment = fmt.Sprintf("filled where at most %d cells, the rest obstacles", fill)
+	}
+	rep.Voids = g.Voids()
+	if lo, hi, ok := g.ElevationRange(); ok {
+		rep.MinM, rep.MaxM = &lo, &hi
+	}
+	if at.Given {
+		rep.At = &terrainAt{Lat: at.Lat, Lon: at.Lon}
+		if at.Lon < w || at.Lon > e || at.Lat < s || at.Lat > n {
+			return nil, input.Usagef("--at", "%s is outside the terrain (%.5f..%.5f E, %.5f..%.5f N)", at.String(), w, e, s, n)
+		}
+		if v, ok := g.Elevation(at.Lat, at.Lon); ok {
+			rep.ElevationM = &v
+		} else if inside(g, at.Lat, at.Lon) {
+			rep.At.Void = true
+		} else {
+			return nil, input.Usagef("--at", "%s is outside the terrain data", at.String())
+		}
+	}
+	return rep, nil
+}
+
+// inside reports whether lat, lon lies within the grid's cells (so that a
+// failed sample there means a void, not the edge of the data).
+func inside(g *terrain.Grid, lat, lon float64) bool {
+	w, s, e, n := g.Extent()
+	return lon >= w && lon <= e && lat >= s && lat <= n
+}
+
+func crsLabel(c terrain.CRS) string {
+	if c.EPSG == 4326 {
+		return "WGS84 geographic (lon/lat degrees)"
+	}
+	if zone, south, ok := terrain.UTMZone(c.EPSG); ok {
+		h, datum := "N", "WGS84"
+		if south {
+			h = "S"
+		}
+		if c.EPSG < 30000 {
+			datum = "ETRS89"
+		}
+		return fmt.Sprintf("%s UTM zone %d%s", datum, zone, h)
+	}
+	return "unknown"
+}
+
+func writeTerrainReport(w io.Writer, r *terrainReport, format string) error {
+	if format == "json" {
+		enc := json.NewEncoder(w)
+		enc.SetIndent("", "  ")
+		return enc.Encode(r)
+	}
+	var b strings.Builder
+	fmt.Fprintf(&b, "source:      %s\n", r.Source)
+	fmt.Fprintf(&b, "format:      %s\n", r.Format)
+	fmt.Fprintf(&b, "size:        %d × %d cells\n", r.Cols, r.Rows)
+	fmt.Fprintf(&b, "crs:         %s (%s)\n", r.CRS, r.CRSName)
+	fmt.Fprintf(&b, "extent:      %.6f..%.6f E, %.6f..%.6f N\n", r.Extent.West, r.Extent.East, r.Extent.South, r.Extent.North)
+	if r.CellUnit == "deg" {
+		fmt.Fprintf(&b, "cell:        %.4g″ × %.4g″ (%.1f m east × %.1f m north at mid-latitude)\n", r.CellX*3600, r.CellY*3600, r.CellEastM, r.CellNorthM)
+	} else {
+		fmt.Fprintf(&b, "cell:        %.4g m × %.4g m\n", r.CellX, r.CellY)
+	}
+	fmt.Fprintf(&b, "resolution:  %.1f m\n", r.ResolutionM)
+	if r.MinM != nil {
+		fmt.Fprintf(&b, "elevation:   %.1f m to %.1f m MSL\n", *r.MinM, *r.MaxM)
+	} else {
+		fmt.Fprintf(&b, "elevation:   no data (every cell is a void)\n")
+	}
+	pct := 100 * float64(r.Voids) / math.Max(1, float64(r.Cols*r.Rows))
+	if r.VoidsFilled > 0 || r.VoidTreatment != "obstacle" {
+		fmt.Fprintf(&b, "voids:       %d cells (%.3g %%) after filling %d cells; %s\n", r.Voids, pct, r.VoidsFilled, r.VoidTreatment)
+	} else {
+		fmt.Fprintf(&b, "voids:       %d cells (%.3g %%), treated as obstacles\n", r.Voids, pct)
+	}
+	if r.At != nil {
+		if r.ElevationM != nil {
+			fmt.Fprintf(&b, "at %.6f, %.6f: %.1f m MSL (bilinear)\n", r.At.Lat, r.At.Lon, *r.ElevationM)
+		} else {
+			fmt.Fprintf(&b, "at %.6f, %.6f: void (no data; an obstacle)\n", r.At.Lat, r.At.Lon)
+		}
+	}
+	fmt.Fprintf(&b, "\n%s\n", r.Caution)
+	_, err := io.WriteString(w, b.String())
+	return err
+}
