@@ -1,0 +1,165 @@
+package main
+
+import (
+	"context"
+	"encoding/json"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/spf13/cobra"
+
+	"glidereach/cmd/glidereach/input"
+	"glidereach/reach"
+)
+
+func init() {
+	register(newDemoCmd)
+	registerDemoStep(10, "performance tables of the built-in profiles", demoPolars)
+}
+
+// demoStep is one part of the demo. Steps run in increasing order; each
+// prints a short summary to d.out and writes its files with d.write.
+//
+// To add a part, register it from an init function in your own command
+// file, e.g. registerDemoStep(20, "footprints", demoFootprints); leave gaps
+// in the order numbers so later parts can go in between.
+type demoStep struct {
+	order int
+	name  string
+	run   func(ctx context.Context, d *demoRun) error
+}
+
+// demoSteps is filled once by registerDemoStep at program start and only
+// read afterwards.
+var demoSteps []demoStep
+
+func registerDemoStep(order int, name string, run func(ctx context.Context, d *demoRun) error) {
+	demoSteps = append(demoSteps, demoStep{order, name, run})
+}
+
+// demoRun is what a demo step works with.
+type demoRun struct {
+	out   io.Writer // the summary on standard output
+	dir   string    // the --out directory, created
+	files []string  // written so far, relative to dir
+}
+
+// write creates dir/name atomically with fn's output and records it.
+func (d *demoRun) write(name string, fn func(w io.Writer) error) error {
+	path := filepath.Join(d.dir, name)
+	if err := writeFileAtomic(path, func(f *os.File) error { return fn(f) }); err != nil {
+		return err
+	}
+	d.files = append(d.files, name)
+	return nil
+}
+
+func newDemoCmd() *cobra.Command {
+	var dir string
+	cmd := &cobra.Command{
+		Use:   "demo [--out DIR]",
+		Short: "Run every capability on the built-in fictional scenario and write the results",
+		Long: `demo needs no input: it runs each part of the tool on the built-in, invented
+scenario (generic aircraft profiles, fictional terrain, fields and wind) and
+writes the results into a folder, printing a short summary of each part.
+Everything in it is made up for demonstration.
+
+` + cautionText,
+		Example: `  glidereach demo
+  glidereach demo --out /tmp/glidereach-demo`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if strings.TrimSpace(dir) == "" {
+				return input.Usagef("--out", "is empty")
+			}
+			if err := os.MkdirAll(dir, 0o755); err != nil {
+				return &input.UsageError{Where: "--out", Err: err}
+			}
+			d := &demoRun{out: cmd.OutOrStdout(), dir: dir}
+			steps := append([]demoStep(nil), demoSteps...)
+			sort.SliceStable(steps, func(i, j int) bool { return steps[i].order < steps[j].order })
+			for i, s := range steps {
+				if err := cmd.Context().Err(); err != nil {
+					return err
+				}
+				fmt.Fprintf(d.out, "== %d. %s\n\n", i+1, s.name)
+				if err := s.run(cmd.Context(), d); err != nil {
+					return fmt.Errorf("demo step %q: %w", s.name, err)
+				}
+				fmt.Fprintln(d.out)
+			}
+			fmt.Fprintf(d.out, "Wrote %d files to %s:\n", len(d.files), dir)
+			for _, f := range d.files {
+				fmt.Fprintf(d.out, "  %s\n", f)
+			}
+			fmt.Fprintln(d.out)
+			_, err := io.WriteString(d.out, wrapText("Caution: "+reach.Caution, 78))
+			return err
+		},
+	}
+	cmd.Flags().StringVar(&dir, "out", "glidereach-demo", "directory to write the results into (created if needed)")
+	return cmd
+}
+
+// demoAltitudes are the altitudes (m MSL) of the demo's performance tables.
+var demoAltitudes = []float64{0, 1500, 3000}
+
+// demoPolars prints the key figures of every built-in profile at a few
+// altitudes in still air and writes the full tables (text and JSON).
+func demoPolars(ctx context.Context, d *demoRun) error {
+	tw := tabwriter.NewWriter(d.out, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "profile\taltitude\tbest glide\tat IAS\tTAS\tleast sink\tat IAS\t")
+	for _, name := range reach.BuiltinNames() {
+		var reps []*polarReport
+		for _, alt := range demoAltitudes {
+			ac, err := reach.Builtin(name)
+			if err != nil {
+				return err
+			}
+			unit := "kt"
+			if name == "sailplane" {
+				unit = "km/h" // the full tables in the units sailplane pilots use
+			}
+			rep := buildPolarReport(&polarOptions{ac: ac, alt: alt, unit: unit})
+			reps = append(reps, rep)
+			note := ""
+			if rep.LeastSink.Clamp != "" {
+				note = " (held at min speed)"
+			}
+			fmt.Fprintf(tw, "%s\t%.0f m\t1:%.1f\t%.0f kt\t%.0f kt\t%.2f m/s\t%.0f kt%s\t\n", name, alt,
+				rep.BestGlide.GlideRatio, rep.BestGlide.IAS/input.Knot, rep.BestGlide.TAS/input.Knot,
+				rep.LeastSink.Sink, rep.LeastSink.IAS/input.Knot, note)
+		}
+		if err := d.write("polar-"+name+".txt", func(w io.Writer) error {
+			for i, r := range reps {
+				if i > 0 {
+					io.WriteString(w, "\n\n")
+				}
+				if err := writePolar(w, r, "text"); err != nil {
+					return err
+				}
+			}
+			return nil
+		}); err != nil {
+			return err
+		}
+		if err := d.write("polar-"+name+".json", func(w io.Writer) error {
+			enc := json.NewEncoder(w)
+			enc.SetIndent("", "  ")
+			return enc.Encode(reps)
+		}); err != nil {
+			return err
+		}
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	fmt.Fprintln(d.out, "\nStill air, ISA, profile mass. Glide ratios do not change with altitude; true speeds")
+	fmt.Fprintln(d.out, "and sink rates rise as the air thins. Full tables: polar-NAME.txt / .json.")
+	return nil
+}
