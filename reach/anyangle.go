@@ -13,6 +13,7 @@ const (
 	cellOpen            // has a value and may be expanded (in the heap until closed)
 	cellClosed          // expanded; its value is final
 	cellEnd             // has a value but may only be an end point (below the clearance)
+	cellEndDone         // an end point whose neighbours have been offered end values
 )
 
 // noParentObs is the obstruction of a segment with no intermediate cells.
@@ -209,7 +210,13 @@ func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, boo
 
 // offer records value v at cell q reached from parent pi with obstruction
 // prev met before the cell, if it is better than what q has.
-func (p *propagation) offer(q int, pi int32, v float64, prev float32, srcIdx uint16) {
+//
+// Forward, a cell below the clearance is an end point: it is not flown over
+// on the way anywhere else, but while it is at least endLevel above the
+// ground its neighbours are offered end values through it (endOnly), so the
+// contours below the clearance (down to touching the ground) are traced
+// with the last part of the glide below the clearance, as a landing is.
+func (p *propagation) offer(q int, pi int32, v float64, prev float32, srcIdx uint16, endOnly bool) {
 	if math.IsInf(v, 0) || math.IsNaN(v) {
 		return
 	}
@@ -243,21 +250,27 @@ func (p *propagation) offer(q int, pi int32, v float64, prev float32, srcIdx uin
 		p.queue.push(int32(q), p.key(p.val[q]))
 		return
 	}
+	if endOnly && (p.state[q] == cellOpen || p.state[q] == cellClosed) {
+		return
+	}
 	p.val[q], p.par[q] = vf, pi
-	if own <= 0 {
+	if own <= 0 && !endOnly {
 		p.obs[q] = max(prev, own)
 		p.state[q] = cellOpen
 		p.queue.push(int32(q), p.key(vf))
 		return
 	}
 	// Below the clearance: an end value (for contours and fields) only.
-	p.obs[q] = own
+	p.obs[q] = max(own, 1e-3) // positive: no line of sight passes through an end point
 	if p.state[q] == cellOpen || p.state[q] == cellClosed {
 		// An open or closed cell that gets a better value stays above the
 		// clearance (better means higher); nothing to do here.
 		return
 	}
 	p.state[q] = cellEnd
+	if vf >= t+p.endLevel {
+		p.queue.push(int32(q), p.key(vf))
+	}
 }
 
 // seed starts the propagation at virtual source k: the cells around it are
@@ -276,7 +289,7 @@ func (p *propagation) seed(k int) {
 				continue
 			}
 			v := p.segment(s.X, s.Y, s.Alt, c, r)
-			p.offer(q, pi, v, noParentObs, uint16(s.Index))
+			p.offer(q, pi, v, noParentObs, uint16(s.Index), false)
 		}
 	}
 }
@@ -295,10 +308,22 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			break
 		}
 		s := int(si32)
-		if p.state[s] != cellOpen || p.queue.bucket(p.key(p.val[s])) != b {
+		if p.queue.bucket(p.key(p.val[s])) != b {
 			continue // stale entry
 		}
-		p.state[s] = cellClosed
+		endOnly := false
+		switch p.state[s] {
+		case cellOpen:
+			p.state[s] = cellClosed
+		case cellEnd:
+			if p.backward {
+				continue
+			}
+			p.state[s] = cellEndDone
+			endOnly = true
+		default:
+			continue // stale entry
+		}
 		closed++
 		if p.stop != nil && p.stop(s) {
 			break
@@ -331,15 +356,23 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			if p.l.Elev[q] != p.l.Elev[q] { // void: an obstacle
 				continue
 			}
+			if endOnly {
+				if p.state[q] == cellEndDone {
+					continue
+				}
+				v := p.segment(float64(sc), float64(sr), sv, qc, qr)
+				p.offer(q, int32(s), v, noParentObs, srcIdx, true)
+				continue
+			}
 			// Straight on from s's parent, if the line of sight holds.
 			if prev, ok := p.rayObs(pi, px, py, qc, qr); ok && prev <= 0 {
 				v := p.segment(px, py, pv, qc, qr)
-				p.offer(q, pi, v, prev, srcIdx)
+				p.offer(q, pi, v, prev, srcIdx, false)
 				continue
 			}
 			// Otherwise the path bends at s.
 			v := p.segment(float64(sc), float64(sr), sv, qc, qr)
-			p.offer(q, int32(s), v, noParentObs, srcIdx)
+			p.offer(q, int32(s), v, noParentObs, srcIdx, false)
 		}
 	}
 	if progress != nil {

@@ -136,6 +136,7 @@ func Footprint(ctx context.Context, ground *terrain.Local, start Start, model Lo
 	}
 	p := newPropagation(ground, d, false)
 	p.clearance = float32(opts.Clearance)
+	p.endLevel = float32(minLevel)
 	p.srcs = []source{{X: sx, Y: sy, Alt: start.Alt}}
 	p.initQueue(hBot-1, start.Alt+2, bucketWidth(ground.Cell, d))
 	p.seed(0)
@@ -178,7 +179,7 @@ func (f *FootprintResult) arrivalAtCellXY(gx, gy float64) (float64, bool) {
 				continue
 			}
 			q := r*p.cols + c
-			if p.state[q] != cellOpen && p.state[q] != cellClosed {
+			if p.state[q] == cellUntouched {
 				continue
 			}
 			// Through the cell itself, and straight from its parent.

@@ -1,6 +1,10 @@
 package terrain
 
-import "math"
+import (
+	"fmt"
+	"math"
+	"strings"
+)
 
 // OntoGrid samples a raster of values on Local l (one float32 per cell of l,
 // NaN for none) onto the lattice of like (same size, CRS and georeference;
@@ -61,4 +65,37 @@ func sampleValues(l *Local, values []float32, x, y float64) float64 {
 	a, b := float64(values[i]), float64(values[i+1])
 	d, e := float64(values[i+l.Cols]), float64(values[i+l.Cols+1])
 	return (a*(1-tx)+b*tx)*(1-ty) + (d*(1-tx)+e*tx)*ty
+}
+
+// GridSource serves a Grid held in memory as a Source (the demo's synthetic
+// terrain, tests).
+type GridSource struct {
+	Grid *Grid
+	Desc string // for Describe; empty means the grid's Format and Name
+}
+
+// Extent is the grid's lon/lat extent.
+func (s *GridSource) Extent() (west, south, east, north float64) { return s.Grid.Extent() }
+
+// Resolution is the finer of the grid's cell sizes in metres.
+func (s *GridSource) Resolution() float64 {
+	e, n := s.Grid.CellSizeMetres()
+	return math.Min(e, n)
+}
+
+// Window copies the part of the grid covering the box (plus a cell).
+func (s *GridSource) Window(west, south, east, north float64) (*Grid, error) {
+	c0, r0, c1, r1, ok := s.Grid.cellWindow(west, south, east, north)
+	if !ok {
+		return nil, fmt.Errorf("%w: the grid does not cover %.6g..%.6g E, %.6g..%.6g N", ErrOutside, west, east, south, north)
+	}
+	return s.Grid.subGrid(c0, r0, c1, r1), nil
+}
+
+// Describe names the grid.
+func (s *GridSource) Describe() string {
+	if s.Desc != "" {
+		return s.Desc
+	}
+	return strings.TrimSpace(s.Grid.Format + " " + s.Grid.Name)
 }
