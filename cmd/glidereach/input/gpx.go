@@ -165,13 +165,13 @@ func ParseGPX(data []byte, name string) (*Route, error) {
 	}
 	c := cands[k]
 	r := &Route{Name: c.name, Points: c.pts}
-	err = checkRoute(r, func(i int) error { return errAtLine(c.ptLines[i], "point %d", i) })
+	bad, err := checkRoute(r, func(i int) string { return fmt.Sprintf("point %d", i) })
 	if err != nil {
-		var le *lineError
-		if errors.As(err, &le) {
-			return nil, &lineError{line: le.line, err: fmt.Errorf("%s %s: %w", c.kind, quoteList([]string{c.name}), err)}
+		line := c.line
+		if bad >= 0 {
+			line = c.ptLines[bad]
 		}
-		return nil, errAtLine(c.line, "%s %s: %w", c.kind, quoteList([]string{c.name}), err)
+		return nil, errAtLine(line, "%s %s: %w", c.kind, quoteList([]string{c.name}), err)
 	}
 	return r, nil
 }

@@ -138,8 +138,7 @@ func ParseRouteGeoJSON(data []byte, name string) (*Route, error) {
 			r.Points[i].Ele, r.Points[i].HasEle = f.Z[i], true
 		}
 	}
-	err = checkRoute(r, func(i int) error { return fmt.Errorf("%s: position %d", f.where(), i) })
-	if err != nil {
+	if _, err := checkRoute(r, func(i int) string { return fmt.Sprintf("%s: position %d", f.where(), i) }); err != nil {
 		return nil, err
 	}
 	return r, nil
@@ -185,16 +184,17 @@ func quoteList(names []string) string {
 }
 
 // checkRoute validates the points of a route: at least two distinct
-// positions, plausible elevations, no nearly antipodal segment. where
-// gives the error location of point i (a line or a position index).
-func checkRoute(r *Route, where func(i int) error) error {
+// positions, plausible elevations, no nearly antipodal segment. On error it
+// returns the index of the offending point, or -1 when the error concerns
+// the whole route; label names point i in the message ("point 3").
+func checkRoute(r *Route, label func(i int) string) (int, error) {
 	if len(r.Points) < 2 {
-		return fmt.Errorf("route has %d point(s); a route needs at least 2", len(r.Points))
+		return -1, fmt.Errorf("route has %d point(s); a route needs at least 2", len(r.Points))
 	}
 	distinct := false
 	for i, p := range r.Points {
 		if p.HasEle && !(p.Ele >= minRouteEle && p.Ele <= maxRouteEle) {
-			return fmt.Errorf("%w: elevation %v m outside %v..%v m", where(i), p.Ele, minRouteEle, maxRouteEle)
+			return i, fmt.Errorf("%s: elevation %v m outside %v..%v m", label(i), p.Ele, minRouteEle, maxRouteEle)
 		}
 		if i > 0 {
 			q := r.Points[i-1]
@@ -202,14 +202,14 @@ func checkRoute(r *Route, where func(i int) error) error {
 				distinct = true
 			}
 			if _, _, _, err := geodesy.Inverse(geodesy.LatLon{Lat: q.Lat, Lon: q.Lon}, geodesy.LatLon{Lat: p.Lat, Lon: p.Lon}); err != nil {
-				return fmt.Errorf("%w: segment from the previous point: %w", where(i), err)
+				return i, fmt.Errorf("%s: segment from the previous point: %w", label(i), err)
 			}
 		}
 	}
 	if !distinct {
-		return errors.New("all points of the route are the same position")
+		return -1, errors.New("all points of the route are the same position")
 	}
-	return nil
+	return -1, nil
 }
 
 // Line returns the route's vertices as geodesy positions.
