@@ -8,6 +8,9 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"runtime"
+	"sync"
+	"sync/atomic"
 
 	"golang.org/x/image/tiff/lzw"
 )
@@ -53,7 +56,7 @@ func (info *GeoTIFFInfo) cellWindow(west, south, east, north float64) (c0, r0, c
 			ErrOutside, west, east, south, north, w, e, s, n)
 	}
 	clamp := func(v float64, hi int) int {
-		if v < 0 {
+		if !(v >= 0) {
 			return 0
 		}
 		if v > float64(hi) {
@@ -68,6 +71,9 @@ func (info *GeoTIFFInfo) cellWindow(west, south, east, north float64) (c0, r0, c
 	c1 = clamp(math.Ceil((east-info.X0)/info.DX-eps), info.Width-1)
 	r0 = clamp(math.Floor((info.Y0-north)/info.DY+eps), info.Height-1)
 	r1 = clamp(math.Ceil((info.Y0-south)/info.DY-eps), info.Height-1)
+	if c1 < c0 || r1 < r0 {
+		return 0, 0, 0, 0, fmt.Errorf("%w: geotiff window %g..%g, %g..%g holds no cell", ErrOutside, west, east, south, north)
+	}
 	return c0, r0, c1, r1, nil
 }
 
@@ -92,38 +98,97 @@ func (info *GeoTIFFInfo) readWindow(r io.ReaderAt, west, south, east, north floa
 		Elev:   make([]float32, cols*rows),
 		Format: "GeoTIFF",
 	}
-	d := &geotiffDecoder{info: info, r: r}
+	// The chunks that hold the window, decoded by up to GOMAXPROCS workers
+	// (io.ReaderAt allows parallel ReadAt calls), each with its own
+	// buffers, with at most geotiffParallelBytes of chunk buffers in all.
 	cw, ch := info.ChunkWidth, info.ChunkHeight
-	across := info.chunksAcross()
+	var jobs [][2]int
 	for ty := r0 / ch; ty <= r1/ch; ty++ {
 		for tx := c0 / cw; tx <= c1/cw; tx++ {
-			idx := ty*across + tx
-			// Chunk rows and the part of them inside the window.
-			rowsIn := ch
-			if !info.Tiled {
-				rowsIn = min(ch, info.Height-ty*ch)
-			}
-			cr0, cr1 := max(r0, ty*ch), min(r1, ty*ch+rowsIn-1)
-			cc0, cc1 := max(c0, tx*cw), min(c1, tx*cw+cw-1, info.Width-1)
-			buf, err := d.chunk(idx, rowsIn)
-			if err != nil {
+			jobs = append(jobs, [2]int{tx, ty})
+		}
+	}
+	chunkBytes := cw * ch * info.Sample.Size()
+	workers := min(runtime.GOMAXPROCS(0), len(jobs), max(1, geotiffParallelBytes/chunkBytes))
+	win := geotiffWindow{g: g, c0: c0, r0: r0, c1: c1, r1: r1}
+	if workers <= 1 {
+		d := &geotiffDecoder{info: info, r: r}
+		for _, j := range jobs {
+			if err := d.decodeInto(&win, j[0], j[1]); err != nil {
 				return nil, err
 			}
-			for rr := cr0; rr <= cr1; rr++ {
-				dst := g.Elev[(rr-r0)*cols+(cc0-c0) : (rr-r0)*cols+(cc1-c0)+1]
-				if buf == nil {
-					geotiffFillVoid(dst, info)
-					continue
+		}
+		return g, nil
+	}
+	errs := make([]error, len(jobs))
+	var next atomic.Int64
+	var failed atomic.Bool
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			d := &geotiffDecoder{info: info, r: r}
+			for !failed.Load() {
+				i := int(next.Add(1) - 1)
+				if i >= len(jobs) {
+					return
 				}
-				row := buf[(rr-ty*ch)*cw*info.Sample.Size():][:cw*info.Sample.Size()]
-				if err := d.undoPredictor(row); err != nil {
-					return nil, err
+				if errs[i] = d.decodeInto(&win, jobs[i][0], jobs[i][1]); errs[i] != nil {
+					failed.Store(true)
 				}
-				d.convert(dst, row[(cc0-tx*cw)*info.Sample.Size():])
 			}
+		}()
+	}
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return nil, err
 		}
 	}
 	return g, nil
+}
+
+// geotiffParallelBytes caps the chunk buffers held by parallel decoders.
+const geotiffParallelBytes = 64 << 20
+
+// geotiffWindow is the Grid being filled and its cell range in the raster.
+type geotiffWindow struct {
+	g              *Grid
+	c0, r0, c1, r1 int
+}
+
+// decodeInto decodes chunk (tx, ty) and copies its cells inside the window
+// into the Grid. Workers write disjoint cells.
+func (d *geotiffDecoder) decodeInto(win *geotiffWindow, tx, ty int) error {
+	info := d.info
+	cw, ch, size := info.ChunkWidth, info.ChunkHeight, info.Sample.Size()
+	idx := ty*info.chunksAcross() + tx
+	// Chunk rows and the part of them inside the window.
+	rowsIn := ch
+	if !info.Tiled {
+		rowsIn = min(ch, info.Height-ty*ch)
+	}
+	cr0, cr1 := max(win.r0, ty*ch), min(win.r1, ty*ch+rowsIn-1)
+	cc0, cc1 := max(win.c0, tx*cw), min(win.c1, tx*cw+cw-1, info.Width-1)
+	buf, err := d.chunk(idx, rowsIn)
+	if err != nil {
+		return err
+	}
+	cols := win.g.Cols
+	for rr := cr0; rr <= cr1; rr++ {
+		dst := win.g.Elev[(rr-win.r0)*cols+(cc0-win.c0) : (rr-win.r0)*cols+(cc1-win.c0)+1]
+		if buf == nil {
+			geotiffFillVoid(dst, info)
+			continue
+		}
+		row := buf[(rr-ty*ch)*cw*size:][:cw*size]
+		if err := d.undoPredictor(row); err != nil {
+			return err
+		}
+		d.convert(dst, row[(cc0-tx*cw)*size:])
+	}
+	return nil
 }
 
 // geotiffFillVoid fills the cells of a sparse (absent) chunk: no data when the file
