@@ -3,6 +3,8 @@ package terrain
 import (
 	"math"
 	"math/rand/v2"
+	"runtime"
+	"sync"
 )
 
 // Centre of the synthetic terrain: a point in the open equatorial Atlantic,
@@ -44,13 +46,12 @@ func Synthetic(seed int64, cols, rows int, cell float64) *Grid {
 	}
 	g.Elev = make([]float32, cols*rows)
 
-	type ridge struct{ px, py, cx, cy, h, w, k, ph float64 }
 	theta := math.Pi/4 + (rng.Float64()-0.5)*0.3 // SW–NE trend
-	var ridges [3]ridge
+	var ridges [3]synthRidge
 	for i := range ridges {
 		t := theta + (rng.Float64()-0.5)*0.2
 		off := (float64(i) - 1) * 0.3
-		ridges[i] = ridge{
+		ridges[i] = synthRidge{
 			px: 0.5 - off*math.Sin(theta), py: 0.5 + off*math.Cos(theta),
 			cx: math.Cos(t), cy: math.Sin(t),
 			h: 450 + 500*rng.Float64(), w: 0.05 + 0.03*rng.Float64(),
@@ -62,7 +63,6 @@ func Synthetic(seed int64, cols, rows int, cell float64) *Grid {
 	ra, rk, rph := 0.06+0.04*rng.Float64(), 8+6*rng.Float64(), 2*math.Pi*rng.Float64()
 	// Plateau in the south-east quarter.
 	pcx, pcy := 0.7+0.1*rng.Float64(), 0.2+0.1*rng.Float64()
-	const pr, prim, ptop = 0.1, 0.02, 700.0
 	// Noise lattice 33×33, two octaves.
 	var lat [33 * 33]float64
 	for i := range lat {
@@ -89,7 +89,28 @@ func Synthetic(seed int64, cols, rows int, cell float64) *Grid {
 	for c := range river {
 		river[c] = rv0 + ra*math.Sin(float64(c)*su*rk+rph)
 	}
-	for r := 0; r < rows; r++ {
+	// Rows are independent: compute them in parallel (the result does not
+	// depend on the split).
+	workers := max(1, min(runtime.GOMAXPROCS(0), rows/64))
+	var wg sync.WaitGroup
+	for wkr := 0; wkr < workers; wkr++ {
+		wg.Add(1)
+		go func(r0, r1 int) {
+			defer wg.Done()
+			synthRows(g, r0, r1, su, sv, river, ridges[:], noise, pcx, pcy)
+		}(rows*wkr/workers, rows*(wkr+1)/workers)
+	}
+	wg.Wait()
+	return g
+}
+
+type synthRidge struct{ px, py, cx, cy, h, w, k, ph float64 }
+
+// synthRows fills rows r0..r1-1 of the synthetic grid.
+func synthRows(g *Grid, r0, r1 int, su, sv float64, river []float64, ridges []synthRidge, noise func(u, v float64) float64, pcx, pcy float64) {
+	const pr, prim, ptop = 0.1, 0.02, 700.0
+	cols := g.Cols
+	for r := r0; r < r1; r++ {
 		v := 1 - float64(r)*sv // 0 south, 1 north
 		for c := 0; c < cols; c++ {
 			u := float64(c) * su
@@ -115,5 +136,4 @@ func Synthetic(seed int64, cols, rows int, cell float64) *Grid {
 			g.Elev[r*cols+c] = float32(z)
 		}
 	}
-	return g
 }
