@@ -69,7 +69,7 @@ scenario (generic aircraft profiles, fictional terrain, fields and wind) and
 writes the results into a folder, printing a short summary of each part.
 Everything in it is made up for demonstration.
 
-` + cautionText,
+` + wrapText(cautionText, 78),
 		Example: `  glidereach demo
   glidereach demo --out /tmp/glidereach-demo`,
 		Args: cobra.NoArgs,

@@ -67,7 +67,7 @@ wants a slower speed it is clamped and the table says so.
 
 Built-in profiles: ` + strings.Join(reach.BuiltinNames(), ", ") + ` (generic, invented).
 
-` + cautionText,
+` + wrapText(cautionText, 78),
 		Example: `  glidereach polar --aircraft trainer --alt 5000ft
   glidereach polar --aircraft sailplane --alt 1500m --units km/h --mc 1.5m/s
   glidereach polar --aircraft trainer --alt 6000ft --wind 270/20kt --track 090
@@ -119,7 +119,7 @@ Built-in profiles: ` + strings.Join(reach.BuiltinNames(), ", ") + ` (generic, in
 	f := cmd.Flags()
 	f.StringVar(&aircraft, "aircraft", "", "built-in profile name ("+strings.Join(reach.BuiltinNames(), ", ")+") or a YAML/JSON profile file")
 	f.Var(alt, "alt", "altitude MSL ("+input.UnitNames(input.Length)+"; bare number is m)")
-	f.Var(mass, "mass", "flying mass ("+input.UnitNames(input.Mass)+"); default the profile's mass")
+	f.Var(mass, "mass", "flying mass ("+input.UnitNames(input.Mass)+"); 0 = the profile's mass")
 	f.Var(bugs, "bugs", "contamination: sink x (1 + f), e.g. 0.1 or 10%")
 	f.Var(isaDev, "isa-dev", "temperature deviation from ISA ("+input.UnitNames(input.TempDelta)+")")
 	f.StringVar(&windSpec, "wind", "", "wind: DIR/SPEED (270/20kt), layers (0m:240/10kt,1500m:270/20kt) or a file")
@@ -255,6 +255,13 @@ func buildPolarReport(o *polarOptions) *polarReport {
 			tr = 0
 		}
 		along, cross = o.wind.Components(o.alt, tr)
+		// Drop rounding residue (1e-15 m/s) from the sine and cosine of round tracks.
+		if math.Abs(along) < 1e-9 {
+			along = 0
+		}
+		if math.Abs(cross) < 1e-9 {
+			cross = 0
+		}
 		if o.hasTrack {
 			e, n := o.wind.At(o.alt)
 			from := math.Mod(math.Atan2(-e, -n)*180/math.Pi+360, 360)
