@@ -40,13 +40,15 @@ type label struct {
 // placed is a label with its chosen box.
 type placed struct {
 	label
-	at box
+	at     box
+	leader bool // placed far from its anchor: draw a leader line
 }
 
 // placer places labels greedily. Labels are taken by priority (stable, so
 // equal priorities keep their order); each label tries eight candidate
 // positions around its anchor (right, upper right, lower right, left, upper
-// left, lower left, above, below), then the same at twice the distance, and
+// left, lower left, above, below), then the same at 2.2, 4, 6.5 and 9 times the distance (those beyond
+// 2.2 with a leader line), and
 // takes the first whose box lies inside the map and collides with no
 // symbol or earlier label. A label that fits nowhere is dropped, unless it
 // must be shown; then it takes the candidate with the least overlap.
@@ -64,7 +66,8 @@ func (p *placer) placeAll(ls []label, f, fb font.Face, pad float64) []placed {
 	for _, l := range ls {
 		w, h := labelSize(l, f, fb, pad)
 		best, bestCost, found := box{}, math.Inf(1), false
-		for _, k := range []float64{1, 2.2} {
+		far := false
+		for _, k := range []float64{1, 2.2, 4, 6.5, 9} {
 			g := l.gap*k + pad
 			ax, ay := l.anchor.X, l.anchor.Y
 			cands := []box{
@@ -89,7 +92,7 @@ func (p *placer) placeAll(ls []label, f, fb font.Face, pad float64) []placed {
 					best, bestCost = c, cost
 				}
 				if cost == 0 {
-					found = true
+					found, far = true, k > 2.2
 					break
 				}
 			}
@@ -97,11 +100,17 @@ func (p *placer) placeAll(ls []label, f, fb font.Face, pad float64) []placed {
 				break
 			}
 		}
+		if math.IsInf(bestCost, 1) && l.must { // no candidate inside the map: push one in
+			ax, ay := l.anchor.X+l.gap+pad, l.anchor.Y-h/2
+			ax = math.Max(p.bounds.x0, math.Min(ax, p.bounds.x1-w))
+			ay = math.Max(p.bounds.y0, math.Min(ay, p.bounds.y1-h))
+			best, bestCost = box{ax, ay, ax + w, ay + h}, 0
+		}
 		if math.IsInf(bestCost, 1) || (!found && !l.must) {
 			continue
 		}
 		p.occupied = append(p.occupied, best)
-		out = append(out, placed{l, best})
+		out = append(out, placed{l, best, far && found})
 	}
 	return out
 }

@@ -371,6 +371,15 @@ func (r *renderer) drawOverlays() {
 	pad := px(3)
 	lo.labels = pl.placeAll(labels, r.f.label, r.f.labelBold, pad)
 	for _, l := range lo.labels {
+		if l.leader {
+			q := pt{math.Max(l.at.x0, math.Min(l.anchor.X, l.at.x1)), math.Max(l.at.y0, math.Min(l.anchor.Y, l.at.y1))}
+			dx, dy := q.X-l.anchor.X, q.Y-l.anchor.Y
+			if d := math.Hypot(dx, dy); d > l.gap {
+				a := pt{l.anchor.X + dx/d*l.gap, l.anchor.Y + dy/d*l.gap}
+				c.stroke([]pt{a, q}, px(3), false, withAlpha(colHalo, 0.9))
+				c.stroke([]pt{a, q}, px(1.3), false, colTextMuted)
+			}
+		}
 		c.box(image.Rect(int(l.at.x0), int(l.at.y0), int(math.Ceil(l.at.x1)), int(math.Ceil(l.at.y1))),
 			withAlpha(colHalo, 0.86), withAlpha(colTextMuted, 0.6), px(1))
 		y := l.at.y0 + pad + ascent(r.f.label)

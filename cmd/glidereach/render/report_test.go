@@ -137,7 +137,9 @@ func checkSelfContained(t *testing.T, doc []byte) (imgs []string, svgs int) {
 func TestReportSelfContained(t *testing.T) {
 	s := sampleScene(hillyLocal(200, 150, 200))
 	var buf bytes.Buffer
-	if err := WriteReport(&buf, sampleReport(s)); err != nil {
+	rep := sampleReport(s)
+	rep.MapWidthPx = 900
+	if err := WriteReport(&buf, rep); err != nil {
 		t.Fatal(err)
 	}
 	doc := buf.Bytes()
@@ -155,7 +157,7 @@ func TestReportSelfContained(t *testing.T) {
 		t.Fatalf("map data URI: %v", err)
 	}
 	cfg, err := png.DecodeConfig(bytes.NewReader(raw))
-	if err != nil || cfg.Width != DefaultWidthPx {
+	if err != nil || cfg.Width != 900 {
 		t.Errorf("embedded map: %v, %d px wide", err, cfg.Width)
 	}
 	for _, want := range []string{"PLANNING AID ONLY", "Brackwater Farm", "Terrain data", "Aircraft: demo two-seat trainer",

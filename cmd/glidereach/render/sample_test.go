@@ -114,8 +114,12 @@ func TestSample(t *testing.T) {
 		t.Fatal(err)
 	}
 	s := sampleScene(hillyLocal(400, 300, 100))
+	width := 0 // the default 1600 px to look at; smaller in CI, where nobody looks
+	if *sampleDir == "" {
+		width = 600
+	}
 	var buf bytes.Buffer
-	if err := RenderPNG(&buf, s, 0); err != nil {
+	if err := RenderPNG(&buf, s, width); err != nil {
 		t.Fatal(err)
 	}
 	if err := os.WriteFile(filepath.Join(dir, "map.png"), buf.Bytes(), 0o644); err != nil {
@@ -123,7 +127,9 @@ func TestSample(t *testing.T) {
 	}
 	t.Logf("wrote %s (%d bytes)", filepath.Join(dir, "map.png"), buf.Len())
 	var rep bytes.Buffer
-	if err := WriteReport(&rep, sampleReport(s)); err != nil {
+	sr := sampleReport(s)
+	sr.MapWidthPx = width
+	if err := WriteReport(&rep, sr); err != nil {
 		t.Fatal(err)
 	}
 	if err := os.WriteFile(filepath.Join(dir, "report.html"), rep.Bytes(), 0o644); err != nil {
