@@ -1,0 +1,242 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+
+	tgeo "github.com/tidwall/geojson"
+	"github.com/tidwall/geojson/geometry"
+
+	"glidereach/reach/geodesy"
+)
+
+// writeTestFields writes a GeoJSON of point fields at the given distances
+// (m) and bearings (degrees) from lat0, lon0 and returns its path.
+func writeTestFields(t *testing.T, lat0, lon0 float64, dist, brg []float64) string {
+	t.Helper()
+	var feats []string
+	for i := range dist {
+		p, _, err := geodesy.Direct(geodesy.LatLon{Lat: lat0, Lon: lon0}, brg[i], dist[i])
+		if err != nil {
+			t.Fatal(err)
+		}
+		feats = append(feats, fmt.Sprintf(`{"type":"Feature","properties":{"name":"F%d"},"geometry":{"type":"Point","coordinates":[%.7f,%.7f]}}`, i, p.Lon, p.Lat))
+	}
+	path := filepath.Join(t.TempDir(), "fields.geojson")
+	if err := os.WriteFile(path, []byte(`{"type":"FeatureCollection","features":[`+strings.Join(feats, ",")+`]}`), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+type fc struct {
+	Type     string `json:"type"`
+	Features []struct {
+		Geometry   json.RawMessage `json:"geometry"`
+		Properties map[string]any  `json:"properties"`
+	} `json:"features"`
+}
+
+func TestReachGeoJSONContract(t *testing.T) {
+	// Flat ground, still air, trainer from 1500 m with a 300 m reserve. The
+	// output must follow RFC 7946 (closed rings, exterior counter-clockwise,
+	// §3.1.6) and the contract of DESIGN.md; each field is reachable exactly
+	// when it lies inside the reserve ring (tested with tidwall/geojson's
+	// predicates), and its required start altitude, fed back as the start
+	// altitude, arrives with the reserve within 1 m.
+	lat0, lon0 := -0.5, -24.5
+	dist := []float64{4000, 8000, 10400, 10900, 11500, 15000}
+	brg := []float64{10, 100, 200, 290, 45, 160}
+	fields := writeTestFields(t, lat0, lon0, dist, brg)
+	out := filepath.Join(t.TempDir(), "reach.geojson")
+	code, stdout, stderr := runCLI(t, "reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--aircraft", "trainer", "--fields", fields, "--levels", "0m,150m", "--out", out)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	if !strings.Contains(stdout, "PLANNING AID ONLY") {
+		t.Error("text summary lacks the caution")
+	}
+	data, err := os.ReadFile(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc fc
+	if err := json.Unmarshal(data, &doc); err != nil {
+		t.Fatal(err)
+	}
+	if doc.Type != "FeatureCollection" {
+		t.Fatalf("type %q", doc.Type)
+	}
+	var reserveRing tgeo.Object
+	var levels []float64
+	var sawStart bool
+	type fieldOut struct {
+		name      string
+		pt        geometry.Point
+		reachable bool
+		required  float64
+		arrival   float64
+	}
+	var fieldsOut []fieldOut
+	for _, f := range doc.Features {
+		obj, err := tgeo.Parse(string(f.Geometry), nil)
+		if err != nil {
+			t.Fatalf("feature geometry does not parse: %v", err)
+		}
+		switch f.Properties["kind"] {
+		case "footprint":
+			lv := f.Properties["arrival_agl_m"].(float64)
+			levels = append(levels, lv)
+			checkRings(t, f.Geometry)
+			if lv == 300 {
+				reserveRing = obj
+			}
+		case "start":
+			sawStart = true
+			if c, _ := f.Properties["caution"].(string); !strings.Contains(c, "PLANNING AID ONLY") {
+				t.Error("start feature lacks the caution")
+			}
+		case "field":
+			p := obj.Center()
+			fo := fieldOut{name: f.Properties["name"].(string), pt: geometry.Point{X: p.X, Y: p.Y}, reachable: f.Properties["reachable"].(bool)}
+			fo.required, _ = f.Properties["required_msl_m"].(float64)
+			fo.arrival, _ = f.Properties["arrival_agl_m"].(float64)
+			for _, k := range []string{"name", "reachable", "arrival_agl_m", "required_msl_m", "distance_m", "bearing_deg"} {
+				if _, ok := f.Properties[k]; !ok {
+					t.Errorf("field %s lacks property %s", fo.name, k)
+				}
+			}
+			fieldsOut = append(fieldsOut, fo)
+		}
+	}
+	if !sawStart || reserveRing == nil || len(levels) != 3 || len(fieldsOut) != len(dist) {
+		t.Fatalf("start %v, reserve ring %v, levels %v, fields %d", sawStart, reserveRing != nil, levels, len(fieldsOut))
+	}
+	nIn, nOut := 0, 0
+	for _, f := range fieldsOut {
+		inside := reserveRing.Contains(tgeo.NewPoint(f.pt))
+		if inside != f.reachable {
+			t.Errorf("field %s: reachable %v but inside the reserve ring %v (arrival %.1f m)", f.name, f.reachable, inside, f.arrival)
+		}
+		if inside {
+			nIn++
+		} else {
+			nOut++
+		}
+		// Feed the required altitude back.
+		fields1 := writeTestFields(t, lat0, lon0, nil, nil)
+		_ = fields1
+		code, out, stderr := runCLI(t, "reach", "--from", "-0.5,-24.5", "--alt", strconv.FormatFloat(f.required, 'f', 1, 64)+"m", "--aircraft", "trainer", "--fields", fields, "--format", "json")
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, stderr)
+		}
+		var r struct {
+			Fields []map[string]any `json:"fields"`
+		}
+		if err := json.Unmarshal([]byte(out), &r); err != nil {
+			t.Fatal(err)
+		}
+		for _, g := range r.Fields {
+			if g["name"] == f.name {
+				a, _ := g["arrival_agl_m"].(float64)
+				// required_msl_m is rounded to 0.1 m in the output.
+				if math.Abs(a-300) > 1 {
+					t.Errorf("field %s: from the required %.1f m the arrival is %.2f m, want 300 ± 1", f.name, f.required, a)
+				}
+			}
+		}
+	}
+	if nIn == 0 || nOut == 0 {
+		t.Errorf("test fields should lie both inside (%d) and outside (%d) the ring", nIn, nOut)
+	}
+}
+
+// checkRings asserts RFC 7946 §3.1.6 on a Polygon or MultiPolygon: closed
+// rings of at least four positions, exterior counter-clockwise, holes
+// clockwise, coordinates with at most 6 decimals.
+func checkRings(t *testing.T, raw json.RawMessage) {
+	t.Helper()
+	var g struct {
+		Type        string          `json:"type"`
+		Coordinates json.RawMessage `json:"coordinates"`
+	}
+	if err := json.Unmarshal(raw, &g); err != nil {
+		t.Fatal(err)
+	}
+	var polys [][][][2]float64
+	switch g.Type {
+	case "Polygon":
+		var p [][][2]float64
+		json.Unmarshal(g.Coordinates, &p)
+		polys = [][][][2]float64{p}
+	case "MultiPolygon":
+		json.Unmarshal(g.Coordinates, &polys)
+	default:
+		t.Fatalf("footprint geometry %s", g.Type)
+	}
+	for _, p := range polys {
+		for i, r := range p {
+			if len(r) < 4 || r[0] != r[len(r)-1] {
+				t.Fatalf("ring not closed or too short (%d positions)", len(r))
+			}
+			a := 0.0
+			for j := 1; j < len(r); j++ {
+				a += r[j-1][0]*r[j][1] - r[j][0]*r[j-1][1]
+			}
+			if (i == 0) != (a > 0) {
+				t.Errorf("ring %d wound wrongly (signed area %g)", i, a)
+			}
+			for _, pt := range r {
+				for _, v := range pt {
+					if math.Abs(v*1e6-math.Round(v*1e6)) > 1e-6 {
+						t.Fatalf("coordinate %v has more than 6 decimals", v)
+					}
+				}
+			}
+		}
+	}
+}
+
+func TestReachBadInput(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "r.geojson")
+	cases := [][]string{
+		{"reach", "--alt", "1500m"},                                              // no --from
+		{"reach", "--from", "-0.5,-24.5"},                                        // no altitude
+		{"reach", "--from", "-0.5", "--alt", "1500m"},                            // bad position
+		{"reach", "--from", "-0.5,-24.5", "--alt", "1500furlongs"},               // bad unit
+		{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--agl", "300m"},     // both
+		{"reach", "--from", "-0.5,-24.5", "--alt", "-10m"},                       // below the ground
+		{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--format", "xml"},   // format
+		{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--raster", "a.png"}, // raster type
+		{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--out", "/nonexistent/dir/x.geojson"},
+		{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--aircraft", "nosuch"},
+		{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--fields", filepath.Join(dir, "missing.geojson"), "--out", out},
+		{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--terrain", filepath.Join(dir, "missing.tif"), "--out", out},
+		{"reach", "--from", "10,10", "--alt", "1500m", "--terrain", "../../testdata/geotiff/geo_int16_strip_none.tif", "--out", out},
+		{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--levels", "abc"},
+		{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--wind", "270/500kt"},
+		{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--reserve", "-5m"},
+	}
+	for _, args := range cases {
+		code, _, stderr := runCLI(t, args...)
+		if code != 2 {
+			t.Errorf("%v: exit %d, want 2 (%s)", args, code, stderr)
+		}
+	}
+	if _, err := os.Stat(out); err == nil {
+		t.Error("a failed run left an output file behind")
+	}
+	entries, _ := os.ReadDir(dir)
+	for _, e := range entries {
+		if strings.HasPrefix(e.Name(), ".") {
+			t.Errorf("temporary file %s left behind", e.Name())
+		}
+	}
+}
