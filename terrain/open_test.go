@@ -2,6 +2,7 @@ package terrain
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -145,5 +146,122 @@ func TestOpenFillVoids(t *testing.T) {
 	g, _ = src.Window(-24.6, -0.6, -24.4, -0.4)
 	if g.Voids() != 2 {
 		t.Errorf("default keeps voids: %d", g.Voids())
+	}
+}
+
+// TestOpenGeoTIFFMatchesGDAL reads two GeoTIFF fixtures through Open (the
+// dispatch, the lon/lat → CRS window conversion and, for UTM, our
+// transverse Mercator) and compares the elevation at each listed cell
+// centre with the value gdallocationinfo -valonly printed for that cell
+// (testdata/geotiff/values.txt, made by testdata/geotiff/make.sh with GDAL).
+func TestOpenGeoTIFFMatchesGDAL(t *testing.T) {
+	text, err := os.ReadFile(filepath.Join("..", "testdata", "geotiff", "values.txt"))
+	if err != nil {
+		t.Skip("no GeoTIFF fixtures:", err)
+	}
+	for _, name := range []string{"geo_int16_strip_none.tif", "utm25828_int16_strip_packbits_nodata.tif"} {
+		src, err := Open(filepath.Join("..", "testdata", "geotiff", name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		w, s, e, n := src.Extent()
+		g, err := src.Window(w, s, e, n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		in, checked := false, 0
+		for _, line := range strings.Split(string(text), "\n") {
+			f := strings.Fields(line)
+			if len(f) == 2 && f[0] == "fixture" {
+				in = f[1] == name
+			}
+			if !in || len(f) != 4 || f[0] != "px" || f[3] == "" {
+				continue
+			}
+			var col, row int
+			var want float64
+			if _, err := fmt.Sscan(f[1], &col); err != nil {
+				continue
+			}
+			fmt.Sscan(f[2], &row)
+			if _, err := fmt.Sscan(f[3], &want); err != nil {
+				continue
+			}
+			lat, lon, err := g.fromCRS(g.X0+float64(col)*g.DX, g.Y0-float64(row)*g.DY)
+			if err != nil {
+				t.Fatal(err)
+			}
+			got, ok := g.Elevation(lat, lon)
+			if want == -9999 { // the file's nodata value
+				if ok {
+					t.Errorf("%s px %d %d: %v, GDAL nodata", name, col, row, got)
+				}
+				continue
+			}
+			if !ok || math.Abs(got-want) > 1e-6 {
+				t.Errorf("%s px %d %d: %v %v, gdallocationinfo %v", name, col, row, got, ok, want)
+			}
+			// The same through a small window around the point.
+			sub, err := src.Window(lon-1e-4, lat-1e-4, lon+1e-4, lat+1e-4)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if v, ok := sub.Elevation(lat, lon); !ok || math.Abs(v-want) > 1e-6 {
+				t.Errorf("%s px %d %d via small window: %v %v", name, col, row, v, ok)
+			}
+			checked++
+		}
+		if checked < 10 {
+			t.Errorf("%s: only %d GDAL values checked", name, checked)
+		}
+	}
+}
+
+// TestSourceContract runs every reader through the Source interface: a
+// whole-extent window and a small window agree at the centre, the window
+// misses cleanly outside, and the metadata is filled in.
+func TestSourceContract(t *testing.T) {
+	dir := t.TempDir()
+	paths := []string{
+		makeHGT(t, dir, -1, -25, 1201),
+		filepath.Join("..", "testdata", "asc", "geo_corner.asc"),
+		filepath.Join("..", "testdata", "asc", "utm_center.asc"),
+		filepath.Join("..", "testdata", "geotiff", "geo_int16_tiled_lzw_pred2.tif"),
+		filepath.Join("..", "testdata", "geotiff", "utm25828_int16_strip_packbits_nodata.tif"),
+	}
+	for _, p := range paths {
+		if _, err := os.Stat(p); err != nil {
+			t.Logf("skip %s: %v", p, err)
+			continue
+		}
+		src, err := Open(p)
+		if err != nil {
+			t.Errorf("%s: %v", p, err)
+			continue
+		}
+		if src.Resolution() <= 0 || src.Describe() == "" {
+			t.Errorf("%s: resolution %v describe %q", p, src.Resolution(), src.Describe())
+		}
+		w, s, e, n := src.Extent()
+		full, err := src.Window(w, s, e, n)
+		if err != nil || len(full.Elev) != full.Cols*full.Rows {
+			t.Errorf("%s: whole window: %v", p, err)
+			continue
+		}
+		lat, lon := s+(n-s)*0.37, w+(e-w)*0.61
+		a, okA := full.Elevation(lat, lon)
+		d := math.Min(e-w, n-s) / 50
+		part, err := src.Window(lon-d, lat-d, lon+d, lat+d)
+		if err != nil {
+			t.Errorf("%s: small window: %v", p, err)
+			continue
+		}
+		b, okB := part.Elevation(lat, lon)
+		if okA != okB || (okA && math.Abs(a-b) > 1e-6) {
+			t.Errorf("%s: full %v %v, window %v %v", p, a, okA, b, okB)
+		}
+		if _, err := src.Window(w-10, s-10, w-9, s-9); !errors.Is(err, ErrOutside) {
+			t.Errorf("%s: window outside: %v", p, err)
+		}
 	}
 }
