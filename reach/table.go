@@ -3,6 +3,8 @@ package reach
 import (
 	"fmt"
 	"math"
+	"runtime"
+	"sync"
 )
 
 // Table grid of NewTable.
@@ -32,7 +34,8 @@ type Table struct {
 // wind field wind (nil = still air) under conditions c, for altitudes
 // hMin..hMax (m MSL, nodes every TableBand metres or closer so both ends are
 // nodes) and TableDirections track directions. Queries outside hMin..hMax
-// use the nearest end. It fails when the aircraft or the conditions are
+// use the nearest end. The rows are computed on all cores (GOMAXPROCS); the
+// result does not depend on it. It fails when the aircraft or the conditions are
 // invalid or the altitude range is empty or outside −5000..20000 m.
 func NewTable(ac *Aircraft, atm Atmosphere, wind WindField, c Conditions, hMin, hMax float64) (*Table, error) {
 	if ac == nil {
@@ -57,26 +60,46 @@ func NewTable(ac *Aircraft, atm Atmosphere, wind WindField, c Conditions, hMin, 
 	}
 	t.loss = make([]float64, nh*t.nd)
 	t.stf = make([]SpeedToFly, nh*t.nd)
-	for i := 0; i < nh; i++ {
+	// Rows are independent: build them on all cores (results do not depend
+	// on the split).
+	row := func(i int) {
 		h := hMin + float64(i)*t.dh
 		rho := atm.Density(h)
-		row := t.stf[i*t.nd : (i+1)*t.nd]
+		r := t.stf[i*t.nd : (i+1)*t.nd]
 		if wind == nil {
 			s := ac.SpeedToFly(rho, 0, 0, c)
-			for j := range row {
-				row[j] = s
+			for j := range r {
+				r[j] = s
 			}
 		} else {
-			for j := range row {
+			for j := range r {
 				along, cross := wind.Components(h, float64(j)*360/float64(t.nd))
-				row[j] = ac.SpeedToFly(rho, along, cross, c)
+				r[j] = ac.SpeedToFly(rho, along, cross, c)
 			}
 		}
-		for j, s := range row {
-			t.loss[i*t.nd+j] = s.Loss
-			if s.GroundRatio > t.best {
-				t.best = s.GroundRatio
-			}
+	}
+	workers := min(runtime.GOMAXPROCS(0), (nh+7)/8)
+	if workers <= 1 {
+		for i := 0; i < nh; i++ {
+			row(i)
+		}
+	} else {
+		var wg sync.WaitGroup
+		for w := 0; w < workers; w++ {
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				for i := w; i < nh; i += workers {
+					row(i)
+				}
+			}()
+		}
+		wg.Wait()
+	}
+	for k, s := range t.stf {
+		t.loss[k] = s.Loss
+		if s.GroundRatio > t.best {
+			t.best = s.GroundRatio
 		}
 	}
 	return t, nil
