@@ -203,13 +203,13 @@ func newPolyIndex(p orb.Polygon) polyIndex {
 	return pi
 }
 
-// maxBands caps the bands per ring; about four edges per band.
-const maxBands = 4096
+// maxBands caps the bands per ring; about two edges per band below it.
+const maxBands = 8192
 
 func newRingIndex(r orb.Ring) ringIndex {
 	b := r.Bound()
 	n := len(r) - 1
-	nb := n / 4
+	nb := n / 2
 	if nb < 1 {
 		nb = 1
 	}

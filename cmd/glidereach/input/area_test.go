@@ -139,9 +139,21 @@ func TestRegionIndexMatchesBruteForce(t *testing.T) {
 	}
 }
 
-func benchmarkRegionContains(b *testing.B, n int) {
+// wobblyPolygon is a smooth closed outline of n vertices (a circle with a
+// sevenfold wobble), the kind of ring a planner draws or a contour gives.
+func wobblyPolygon(n int) orb.Polygon {
+	ring := make(orb.Ring, 0, n+1)
+	for i := 0; i < n; i++ {
+		th := 2 * math.Pi * float64(i) / float64(n)
+		rad := 1 + 0.3*math.Sin(7*th)
+		ring = append(ring, orb.Point{rad * math.Cos(th), rad * math.Sin(th)})
+	}
+	return orb.Polygon{append(ring, ring[0])}
+}
+
+func benchmarkRegionContains(b *testing.B, p orb.Polygon) {
 	r := rand.New(rand.NewPCG(5, 6))
-	a := NewRegion(orb.MultiPolygon{starPolygon(r, n)})
+	a := NewRegion(orb.MultiPolygon{p})
 	pts := make([][2]float64, 4096)
 	for i := range pts {
 		pts[i] = [2]float64{r.Float64()*3.2 - 1.6, r.Float64()*3.2 - 1.6}
@@ -154,5 +166,11 @@ func benchmarkRegionContains(b *testing.B, n int) {
 	}
 }
 
-func BenchmarkRegionContains100(b *testing.B)   { benchmarkRegionContains(b, 100) }
-func BenchmarkRegionContains10000(b *testing.B) { benchmarkRegionContains(b, 10000) }
+func BenchmarkRegionContains100(b *testing.B)   { benchmarkRegionContains(b, wobblyPolygon(100)) }
+func BenchmarkRegionContains10000(b *testing.B) { benchmarkRegionContains(b, wobblyPolygon(10000)) }
+
+// BenchmarkRegionContainsSpiky10000 is the worst case for the band index:
+// a random star whose edges each span a large part of the height.
+func BenchmarkRegionContainsSpiky10000(b *testing.B) {
+	benchmarkRegionContains(b, starPolygon(rand.New(rand.NewPCG(1, 1)), 10000))
+}
