@@ -8,7 +8,6 @@ import (
 	_ "github.com/paulmach/orb/geojson"
 	_ "github.com/paulmach/orb/simplify"
 	_ "github.com/schollz/progressbar/v3"
-	_ "github.com/tidwall/geojson"
 	_ "go.yaml.in/yaml/v3"
 	_ "golang.org/x/image/font/gofont/goregular"
 	_ "golang.org/x/image/font/opentype"
