@@ -178,7 +178,7 @@ func terrainSummary(opts terrain.OpenOptions, fill int, paths []string, at *inpu
 		VoidTreatment: "obstacle",
 	}
 	if g.Format == "mosaic" {
-		rep.Format = "mosaic: " + src.Describe()
+		rep.Format = "mosaic (see source)"
 	}
 	if g.CRS.EPSG == 4326 {
 		rep.CellUnit = "deg"
