@@ -1,0 +1,483 @@
+package reach
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"sync"
+
+	"github.com/paulmach/orb"
+
+	"glidereach/terrain"
+)
+
+// ContourPolygons traces the region of Local g where v(c, r) ≥ level by
+// marching squares (NaN counts as below), simplifies the rings by
+// Douglas–Peucker to at most half a cell of error, drops regions smaller
+// than one cell, nests holes in their outer rings, and returns the polygons
+// in lon/lat degrees (RFC 7946 winding: exteriors counter-clockwise, holes
+// clockwise; coordinates rounded to 6 decimals) with their total area in m²
+// on g's local frame. It is the contouring the footprint rings use, for any
+// raster laid out like g.Elev.
+func ContourPolygons(g *terrain.Local, v func(c, r int) float64, level float64) (orb.MultiPolygon, float64) {
+	polys := polygonsFromRings(contourRings(v, g.Cols, g.Rows, level), 0.5, 1)
+	mp := make(orb.MultiPolygon, 0, len(polys))
+	area := 0.0
+	for _, p := range polys {
+		gp := make(orb.Polygon, len(p))
+		for i, ring := range p {
+			a := 0.0
+			gr := make(orb.Ring, len(ring))
+			for j, pt := range ring {
+				x, y := g.X0+pt[0]*g.Cell, g.Y0+pt[1]*g.Cell
+				lat, lon := g.Frame.Inverse(x, y)
+				gr[j] = orb.Point{round6(lon), round6(lat)}
+				if j > 0 {
+					a += ring[j-1][0]*pt[1] - pt[0]*ring[j-1][1]
+				}
+			}
+			area += a / 2 * g.Cell * g.Cell
+			gp[i] = gr
+		}
+		mp = append(mp, gp)
+	}
+	return mp, area
+}
+
+// CoverageOptions tune Coverage. Alt is required; the zero value of the
+// others is the default stated on each.
+type CoverageOptions struct {
+	// Alt is the altitude flown over the area, m MSL; or, when AGL is
+	// true, the height above the terrain at each cell, m.
+	Alt float64
+	AGL bool
+	// Clearance is the least height above the terrain (m) the glide keeps
+	// on the way (as in RequiredOptions).
+	Clearance float64
+	// Mask marks the cells of the window that belong to the area analysed
+	// (laid out like Ground.Elev); nil means every cell. Cells outside it
+	// are still flown over; they are only not counted.
+	Mask []bool
+	// Margin is how far above the highest altitude flown (m) the least
+	// altitudes are computed, so the covered boundary is interpolated
+	// between cells that both have a value. 0 means 300 m.
+	Margin float64
+	// Workers is the number of goroutines the fields are shared among; 0
+	// means 2.
+	Workers int
+	// Progress, if not nil, is called now and then with the share done.
+	Progress func(done float64)
+}
+
+// CoverageResult is the outcome of Coverage: which cells of the area have a
+// field in reach, with its reserve, from the altitude flown.
+type CoverageResult struct {
+	Ground  *terrain.Local
+	Targets []Target
+	Opts    CoverageOptions
+	// Least is the least altitude (m MSL) from which some target is
+	// reached with its reserve, per cell (min over the targets); NaN where
+	// none is reachable from below Ceiling.
+	Least []float32
+	// Best is the target Least leads to; −1 where none.
+	Best []int16
+	// Count is the number of targets that cover each cell (reached from the
+	// altitude flown), saturating at 255.
+	Count []uint8
+	// Ceiling is the highest altitude searched, m MSL: the highest altitude
+	// flown plus the margin.
+	Ceiling float64
+	// ZoneCells and CoveredCells count the cells of the area and those of
+	// them covered by at least one target; CellArea is one cell's area (m²).
+	ZoneCells, CoveredCells int
+	CellArea                float64
+	// CoveredFraction is CoveredCells / ZoneCells (0 for an empty area).
+	CoveredFraction float64
+	// Covers[i] is the area (m²) of the zone target i covers, alone or with
+	// others; Exclusive[i] the part no other target covers. A target off
+	// the window or on a void covers nothing (Skipped[i] is true).
+	Covers, Exclusive []float64
+	Skipped           []bool
+
+	only []int16 // the last target that covered a cell (the only one where Count is 1)
+}
+
+// altAt returns the altitude flown over cell i, m MSL (NaN on a void with AGL).
+func (c *CoverageResult) altAt(i int) float64 {
+	if c.Opts.AGL {
+		return float64(c.Ground.Elev[i]) + c.Opts.Alt
+	}
+	return c.Opts.Alt
+}
+
+// inZone reports whether cell i counts.
+func (c *CoverageResult) inZone(i int) bool { return c.Opts.Mask == nil || c.Opts.Mask[i] }
+
+// Covered reports whether cell i has a target in reach from the altitude flown.
+func (c *CoverageResult) Covered(i int) bool { return c.Count[i] > 0 }
+
+// Coverage computes which cells of ground have a landing field in reach,
+// with its reserve, from the altitude flown (opts.Alt MSL, or opts.Alt above
+// the terrain at each cell when opts.AGL): cell i is covered by target t when
+// the least altitude to reach t from i (the backward solver, Required, run
+// for t alone on a sub-window around it of the reach radius from the
+// ceiling) is at most the altitude flown there. Per cell it keeps the least
+// altitude over all targets and the best target, and counts the targets
+// that cover it, from which come the covered share of the zone and, per
+// target, the area it covers and the area only it covers.
+//
+// Targets are shared among opts.Workers goroutines. ErrNoTargets when no
+// target lies on the window.
+func Coverage(ctx context.Context, ground *terrain.Local, targets []Target, model LossModel, opts CoverageOptions) (*CoverageResult, error) {
+	if ground == nil || ground.Cols < 2 || ground.Rows < 2 {
+		return nil, errors.New("reach: coverage needs a terrain window of at least 2×2 cells")
+	}
+	n := ground.Cols * ground.Rows
+	if opts.Mask != nil && len(opts.Mask) != n {
+		return nil, fmt.Errorf("reach: coverage mask has %d cells, the window %d", len(opts.Mask), n)
+	}
+	if len(targets) > math.MaxInt16 {
+		return nil, fmt.Errorf("reach: too many landing fields (%d, at most %d)", len(targets), math.MaxInt16)
+	}
+	if opts.Margin <= 0 {
+		opts.Margin = 300
+	}
+	if opts.Workers <= 0 {
+		opts.Workers = 2
+	}
+	top := opts.Alt
+	if opts.AGL {
+		top = math.Inf(-1)
+		for _, e := range ground.Elev {
+			if e == e {
+				top = math.Max(top, float64(e))
+			}
+		}
+		top += opts.Alt
+	}
+	if math.IsNaN(top) || math.IsInf(top, 0) {
+		return nil, errors.New("reach: coverage: no altitude flown (all voids?)")
+	}
+	c := &CoverageResult{Ground: ground, Targets: targets, Opts: opts, Ceiling: top + opts.Margin}
+	c.Least = make([]float32, n)
+	c.Best = make([]int16, n)
+	c.Count = make([]uint8, n)
+	c.only = make([]int16, n)
+	nan := float32(math.NaN())
+	for i := range c.Least {
+		c.Least[i], c.Best[i], c.only[i] = nan, -1, -1
+	}
+	c.Covers = make([]float64, len(targets))
+	c.Exclusive = make([]float64, len(targets))
+	c.Skipped = make([]bool, len(targets))
+	c.CellArea = ground.Cell * ground.Cell
+
+	var mu sync.Mutex
+	var firstErr error
+	done := 0
+	found := false
+	err := forTargets(ctx, len(targets), opts.Workers, func(k int) error {
+		cells, vals, covers, err := c.fieldCover(ctx, targets[k], model)
+		mu.Lock()
+		defer mu.Unlock()
+		done++
+		if opts.Progress != nil {
+			opts.Progress(float64(done) / float64(len(targets)))
+		}
+		if errors.Is(err, ErrNoTargets) {
+			c.Skipped[k] = true
+			return nil
+		}
+		if err != nil {
+			if firstErr == nil {
+				firstErr = err
+			}
+			return err
+		}
+		found = true
+		c.Covers[k] = float64(covers) * c.CellArea
+		for j, i := range cells {
+			v := vals[j]
+			if v != v {
+				continue
+			}
+			if cv := c.Least[i]; cv != cv || v < cv {
+				c.Least[i], c.Best[i] = v, int16(k)
+			}
+			if float64(v) <= c.altAt(int(i)) {
+				if c.Count[i] < 255 {
+					c.Count[i]++
+				}
+				c.only[i] = int16(k)
+			}
+		}
+		return nil
+	})
+	if firstErr != nil {
+		return nil, firstErr
+	}
+	if err != nil {
+		return nil, err
+	}
+	if !found {
+		return nil, ErrNoTargets
+	}
+	for i := 0; i < n; i++ {
+		if !c.inZone(i) {
+			continue
+		}
+		c.ZoneCells++
+		if c.Count[i] > 0 {
+			c.CoveredCells++
+		}
+		if c.Count[i] == 1 {
+			c.Exclusive[c.only[i]] += c.CellArea
+		}
+	}
+	if c.ZoneCells > 0 {
+		c.CoveredFraction = float64(c.CoveredCells) / float64(c.ZoneCells)
+	}
+	return c, nil
+}
+
+// forTargets runs fn(k) for k in 0..n−1 on w goroutines, stopping at the
+// first error or when ctx is done.
+func forTargets(ctx context.Context, n, w int, fn func(k int) error) error {
+	if w > n {
+		w = n
+	}
+	next := make(chan int)
+	var wg sync.WaitGroup
+	var once sync.Once
+	var first error
+	stop := make(chan struct{})
+	for g := 0; g < w; g++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for k := range next {
+				if err := fn(k); err != nil {
+					once.Do(func() { first = err; close(stop) })
+				}
+			}
+		}()
+	}
+loop:
+	for k := 0; k < n; k++ {
+		select {
+		case next <- k:
+		case <-stop:
+			break loop
+		case <-ctx.Done():
+			once.Do(func() { first = ctx.Err(); close(stop) })
+			break loop
+		}
+	}
+	close(next)
+	wg.Wait()
+	return first
+}
+
+// fieldCover runs the backward solver for target t alone on the part of the
+// window within its reach radius from the ceiling, and returns the cells of
+// the window it computed (indices into Ground) with their least altitudes,
+// and how many cells of the zone it covers (value at most the altitude
+// flown).
+func (c *CoverageResult) fieldCover(ctx context.Context, t Target, model LossModel) (cells []int32, vals []float32, covers int, err error) {
+	g := c.Ground
+	x, y := g.Frame.Forward(t.Lat, t.Lon)
+	fx, fy := (x-g.X0)/g.Cell, (y-g.Y0)/g.Cell
+	if fx < 0 || fy < 0 || fx > float64(g.Cols-1) || fy > float64(g.Rows-1) {
+		return nil, nil, 0, ErrNoTargets
+	}
+	radius := 0.0
+	if c.Ceiling > t.Elev+t.Reserve {
+		r, err := ReachRadius(model, c.Ceiling, t.Elev+t.Reserve)
+		if err != nil {
+			return nil, nil, 0, err
+		}
+		radius = r
+	}
+	rc := int(math.Ceil(radius/g.Cell)) + 3
+	c0, c1 := max(0, int(fx)-rc), min(g.Cols-1, int(fx)+rc+1)
+	r0, r1 := max(0, int(fy)-rc), min(g.Rows-1, int(fy)+rc+1)
+	sub := Crop(g, c0, r0, c1, r1)
+	res, err := Required(ctx, sub, []Target{t}, model, RequiredOptions{Clearance: c.Opts.Clearance, Ceiling: c.Ceiling, Workers: 1})
+	if err != nil {
+		return nil, nil, 0, err
+	}
+	for r := 0; r < sub.Rows; r++ {
+		for cc := 0; cc < sub.Cols; cc++ {
+			v := res.Required[r*sub.Cols+cc]
+			if v != v {
+				continue
+			}
+			i := (r0+r)*g.Cols + c0 + cc
+			cells = append(cells, int32(i))
+			vals = append(vals, v)
+			if float64(v) <= c.altAt(i) && c.inZone(i) {
+				covers++
+			}
+		}
+	}
+	return cells, vals, covers, nil
+}
+
+// Crop returns the part c0..c1 × r0..r1 (inclusive cell indices) of l as a
+// Local on the same frame and lattice (cell (c, r) of the crop is cell
+// (c0+c, r0+r) of l). The elevations are copied.
+func Crop(l *terrain.Local, c0, r0, c1, r1 int) *terrain.Local {
+	cols, rows := c1-c0+1, r1-r0+1
+	out := &terrain.Local{Frame: l.Frame, X0: l.X0 + float64(c0)*l.Cell, Y0: l.Y0 + float64(r0)*l.Cell, Cell: l.Cell,
+		Cols: cols, Rows: rows, Flat: l.Flat, Source: l.Source}
+	out.Elev = make([]float32, cols*rows)
+	for r := 0; r < rows; r++ {
+		copy(out.Elev[r*cols:(r+1)*cols], l.Elev[(r0+r)*l.Cols+c0:(r0+r)*l.Cols+c1+1])
+	}
+	return out
+}
+
+// Polygons contours the coverage: the covered part of the zone (cells whose
+// altitude flown is at least the least altitude) and the uncovered part, as
+// lon/lat polygons (see ContourPolygons), with their areas in m². Cells
+// outside the zone belong to neither, so both are clipped to the zone to
+// within half a cell.
+func (c *CoverageResult) Polygons() (covered, uncovered orb.MultiPolygon, coveredArea, uncoveredArea float64) {
+	g := c.Ground
+	big := 1e4
+	margin := func(i int) float64 {
+		l := float64(c.Least[i])
+		if l != l {
+			return -big
+		}
+		return c.altAt(i) - l
+	}
+	covered, coveredArea = ContourPolygons(g, func(cc, r int) float64 {
+		i := r*g.Cols + cc
+		if !c.inZone(i) {
+			return math.NaN()
+		}
+		return margin(i)
+	}, 0)
+	uncovered, uncoveredArea = ContourPolygons(g, func(cc, r int) float64 {
+		i := r*g.Cols + cc
+		if !c.inZone(i) {
+			return math.NaN()
+		}
+		m := margin(i)
+		if m >= 0 {
+			return -m - 1e-3 // strictly below the level where covered
+		}
+		return -m
+	}, 1e-3)
+	return covered, uncovered, coveredArea, uncoveredArea
+}
+
+// CandidateStep is one step of the greedy choice of candidate fields.
+type CandidateStep struct {
+	Candidate int     // index into the candidates
+	Added     float64 // m² of the zone it adds to what is covered so far
+	// CoveredFraction is the covered share of the zone after this step.
+	CoveredFraction float64
+}
+
+// CandidateRanking is the outcome of CoverageResult.Candidates.
+type CandidateRanking struct {
+	Candidates []Target
+	// Gain[i] is the area of the zone (m²) candidate i alone would add to
+	// the existing coverage; Order lists the candidates by falling gain
+	// (ties by index).
+	Gain  []float64
+	Order []int
+	// Skipped[i] is true for a candidate off the window or on a void.
+	Skipped []bool
+	// Steps is the greedy choice: at each step the candidate that adds
+	// the most to the coverage so far (the existing fields and the
+	// candidates already chosen). It stops after k steps or when no
+	// candidate adds anything.
+	Steps []CandidateStep
+}
+
+// Candidates ranks candidate fields by the area of the zone each would add
+// to the coverage c, and chooses up to k of them greedily (each step takes
+// the candidate that adds the most given the ones chosen before: the
+// standard greedy rule for maximum coverage, within 1 − 1/e of the best
+// choice of k; Nemhauser, Wolsey and Fisher 1978). Each candidate is
+// computed like a field of Coverage, with the same options.
+func (c *CoverageResult) Candidates(ctx context.Context, candidates []Target, model LossModel, k int) (*CandidateRanking, error) {
+	rk := &CandidateRanking{Candidates: candidates, Gain: make([]float64, len(candidates)), Skipped: make([]bool, len(candidates))}
+	newCells := make([][]int32, len(candidates))
+	var mu sync.Mutex
+	done := 0
+	err := forTargets(ctx, len(candidates), c.Opts.Workers, func(j int) error {
+		cells, vals, _, err := c.fieldCover(ctx, candidates[j], model)
+		if errors.Is(err, ErrNoTargets) {
+			mu.Lock()
+			rk.Skipped[j] = true
+			mu.Unlock()
+			return nil
+		}
+		if err != nil {
+			return err
+		}
+		var add []int32
+		for m, i := range cells {
+			if float64(vals[m]) <= c.altAt(int(i)) && c.inZone(int(i)) && c.Count[i] == 0 {
+				add = append(add, i)
+			}
+		}
+		mu.Lock()
+		newCells[j] = add
+		rk.Gain[j] = float64(len(add)) * c.CellArea
+		done++
+		if c.Opts.Progress != nil {
+			c.Opts.Progress(float64(done) / float64(len(candidates)))
+		}
+		mu.Unlock()
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	rk.Order = make([]int, len(candidates))
+	for i := range rk.Order {
+		rk.Order[i] = i
+	}
+	sort.SliceStable(rk.Order, func(a, b int) bool { return rk.Gain[rk.Order[a]] > rk.Gain[rk.Order[b]] })
+	taken := make([]bool, len(c.Count))
+	chosen := make([]bool, len(candidates))
+	covered := c.CoveredCells
+	for step := 0; step < k; step++ {
+		best, bestN := -1, 0
+		for j, cells := range newCells {
+			if chosen[j] {
+				continue
+			}
+			nn := 0
+			for _, i := range cells {
+				if !taken[i] {
+					nn++
+				}
+			}
+			if nn > bestN {
+				best, bestN = j, nn
+			}
+		}
+		if best < 0 {
+			break
+		}
+		chosen[best] = true
+		for _, i := range newCells[best] {
+			taken[i] = true
+		}
+		covered += bestN
+		frac := 0.0
+		if c.ZoneCells > 0 {
+			frac = float64(covered) / float64(c.ZoneCells)
+		}
+		rk.Steps = append(rk.Steps, CandidateStep{Candidate: best, Added: float64(bestN) * c.CellArea, CoveredFraction: frac})
+	}
+	return rk, nil
+}
