@@ -24,12 +24,10 @@ import (
 //     ProjectedCSTypeGeoKey 3072.
 //   - GDAL private tag GDAL_NODATA 42113 (ASCII text of the no-data value).
 
-// Limits that keep a hostile file from exhausting memory. They are checked
-// before anything is allocated.
+// Limits that keep a hostile file from exhausting memory, checked before
+// anything is allocated. A window read is also capped at MaxCells cells,
+// the package-wide limit.
 const (
-	// GeoTIFFMaxCells caps the cells of one window read (400 M cells =
-	// 1.6 GB of float32).
-	GeoTIFFMaxCells = 400_000_000
 	// GeoTIFFMaxChunkBytes caps the decoded size of one strip or tile.
 	GeoTIFFMaxChunkBytes = 256 << 20
 	geotiffMaxEntries    = 4096 // tags in one IFD

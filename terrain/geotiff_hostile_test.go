@@ -8,6 +8,7 @@ import (
 	"math"
 	"runtime"
 	"slices"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -212,7 +213,7 @@ func TestGeoTIFFHostile(t *testing.T) {
 				tiffTestField{tag: tiffTagTileOffsets, typ: tiffTypeLong, ints: repeatU(8, tiles30k)},
 				tiffTestField{tag: tiffTagTileByteCounts, typ: tiffTypeLong, ints: repeatU(n16, tiles30k)},
 			), cells),
-			other, "over the limit of 400000000 cells", 2 << 20},
+			other, "over the limit of " + strconv.Itoa(MaxCells) + " cells", 2 << 20},
 		{"strip offset past the end",
 			buildTestTIFF(le, geotiffTestFields(16, 16, stripFields(16, []uint64{1 << 30}, []uint64{n16}, 1)...), cells),
 			format, "runs past the end", 0},

@@ -27,7 +27,7 @@ import (
 // GDAL_NODATA value (and NaN samples) read as NaN; integer samples are
 // converted exactly to float32. The Grid's Name is left empty for the caller.
 //
-// Errors: a window that misses the raster (wrapping ErrOutside) or holds more than GeoTIFFMaxCells
+// Errors: a window that misses the raster (wrapping ErrOutside) or holds more than MaxCells
 // cells, and every error of ReadGeoTIFFInfo; a strip or tile that is
 // truncated or decodes to more than its declared size is a
 // *GeoTIFFFormatError.
@@ -83,9 +83,9 @@ func (info *GeoTIFFInfo) readWindow(r io.ReaderAt, west, south, east, north floa
 		return nil, err
 	}
 	cols, rows := c1-c0+1, r1-r0+1
-	if int64(cols)*int64(rows) > GeoTIFFMaxCells {
+	if int64(cols)*int64(rows) > MaxCells {
 		return nil, fmt.Errorf("terrain: geotiff: window of %d × %d cells is over the limit of %d cells; read a smaller window",
-			cols, rows, GeoTIFFMaxCells)
+			cols, rows, MaxCells)
 	}
 	g := &Grid{
 		CRS:    info.CRS,
@@ -245,10 +245,6 @@ func (d *geotiffDecoder) chunk(idx, rows int) ([]byte, error) {
 		}
 		return raw[:want], nil
 	}
-	if cap(d.out) < want {
-		d.out = make([]byte, want)
-	}
-	out := d.out[:want]
 	if d.br == nil {
 		d.br = bytes.NewReader(raw)
 	} else {
@@ -276,10 +272,11 @@ func (d *geotiffDecoder) chunk(idx, rows int) ([]byte, error) {
 	case GeoTIFFPackBits:
 		dec = &tiffPackBitsReader{r: d.br}
 	}
-	got, err := io.ReadFull(dec, out)
+	out, err := geotiffReadUpTo(dec, d.out[:0], want)
+	d.out = out[:0]
 	if err != nil {
 		if errors.Is(err, io.ErrUnexpectedEOF) || errors.Is(err, io.EOF) {
-			return nil, geotiffFormatf("%s %d is truncated: it decodes to %d bytes, want %d", info.chunkWord(), idx, got, want)
+			return nil, geotiffFormatf("%s %d is truncated: it decodes to %d bytes, want %d", info.chunkWord(), idx, len(out), want)
 		}
 		return nil, geotiffFormatf("%s %d: %v", info.chunkWord(), idx, err)
 	}
@@ -290,6 +287,32 @@ func (d *geotiffDecoder) chunk(idx, rows int) ([]byte, error) {
 		return nil, geotiffFormatf("%s %d decodes to more than its %d bytes", info.chunkWord(), idx, want)
 	}
 	return out, nil
+}
+
+// geotiffReadUpTo reads exactly want bytes from r into buf (reusing its
+// capacity). The buffer grows with what the stream really yields, not with
+// the size the header declares, so a short stream behind a large header
+// costs little memory.
+func geotiffReadUpTo(r io.Reader, buf []byte, want int) ([]byte, error) {
+	for len(buf) < want {
+		if len(buf) == cap(buf) {
+			nb := make([]byte, len(buf), min(want, max(2*cap(buf), 64<<10)))
+			copy(nb, buf)
+			buf = nb
+		}
+		n, err := r.Read(buf[len(buf):min(cap(buf), want)])
+		buf = buf[:len(buf)+n]
+		if err != nil {
+			if err == io.EOF && len(buf) == want {
+				break
+			}
+			if err == io.EOF {
+				err = io.ErrUnexpectedEOF
+			}
+			return buf, err
+		}
+	}
+	return buf, nil
 }
 
 // tiffPackBitsReader decodes PackBits (TIFF 6.0 §9): a header byte n, then
