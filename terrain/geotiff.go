@@ -276,7 +276,11 @@ func (t *tiffReader) readAt(off, n uint64, what string) ([]byte, error) {
 		return nil, geotiffFormatf("%s at offset %d, %d bytes, runs past the end of the file (%d bytes)", what, off, n, t.size)
 	}
 	b := make([]byte, n)
-	if _, err := t.r.ReadAt(b, int64(off)); err != nil && !(err == io.EOF && n > 0) {
+	// io.ReaderAt may return io.EOF with a full read at the end of the file.
+	if m, err := t.r.ReadAt(b, int64(off)); m < len(b) {
+		if err == nil || err == io.EOF {
+			return nil, geotiffFormatf("%s at offset %d is truncated: %d of %d bytes", what, off, m, n)
+		}
 		return nil, fmt.Errorf("terrain: geotiff: reading %s: %w", what, err)
 	}
 	return b, nil

@@ -412,3 +412,20 @@ func TestGeoTIFFHandBuilt(t *testing.T) {
 		t.Errorf("small window of a large raster allocated %d bytes", alloc)
 	}
 }
+
+// TestGeoTIFFTruncated cuts GDAL fixtures short, passing either the true
+// size or the original one (a reader that ends early): always an error.
+func TestGeoTIFFTruncated(t *testing.T) {
+	for _, name := range []string{"geo_int16_strip_none.tif", "geo_float32_tiled_deflate_pred3.tif", "geo_float32_bigtiff_tiled_deflate.tif"} {
+		data := readGeoTIFFFixture(t, name)
+		for _, cut := range []int{4, 100, len(data) / 3, len(data) - 10} {
+			for _, size := range []int64{int64(cut), int64(len(data))} {
+				r := bytes.NewReader(data[:cut])
+				_, err := ReadGeoTIFFWindow(r, size, -180, -90, 180, 90)
+				if err == nil {
+					t.Errorf("%s cut at %d (size %d): no error", name, cut, size)
+				}
+			}
+		}
+	}
+}

@@ -236,7 +236,10 @@ func (d *geotiffDecoder) chunk(idx, rows int) ([]byte, error) {
 		d.raw = make([]byte, n)
 	}
 	raw := d.raw[:n]
-	if _, err := d.r.ReadAt(raw, int64(off)); err != nil && !(errors.Is(err, io.EOF) && n > 0) {
+	if m, err := d.r.ReadAt(raw, int64(off)); m < len(raw) {
+		if err == nil || errors.Is(err, io.EOF) {
+			return nil, geotiffFormatf("%s %d is truncated: %d of %d bytes in the file", info.chunkWord(), idx, m, n)
+		}
 		return nil, fmt.Errorf("terrain: geotiff: reading %s %d: %w", info.chunkWord(), idx, err)
 	}
 	if info.Compression == GeoTIFFNoCompression {
