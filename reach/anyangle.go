@@ -129,7 +129,7 @@ func (p *propagation) parentPos(pi int32) (x, y float64, v float64) {
 // the altitude needed at the cell to glide to the point.
 func (p *propagation) segment(px, py, pv float64, qc, qr int) float64 {
 	dx, dy := float64(qc)-px, float64(qr)-py
-	L := math.Hypot(dx, dy) * p.cell
+	L := math.Sqrt(dx*dx+dy*dy) * p.cell
 	if L == 0 {
 		return pv
 	}

@@ -123,7 +123,15 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 // and the blend weight toward the next one.
 func (t *descent) dirIndex(bearing float64) (d0, d1 int, w float64) {
 	f := bearing / t.dirStep
-	f -= math.Floor(f/float64(t.nDir)) * float64(t.nDir)
+	n := float64(t.nDir)
+	if f < 0 {
+		f += n
+		if f < 0 {
+			f -= math.Floor(f/n) * n
+		}
+	} else if f >= n {
+		f -= math.Floor(f/n) * n
+	}
 	d0 = int(f)
 	if d0 >= t.nDir {
 		d0 = 0
@@ -263,14 +271,34 @@ func (t *descent) arriveDir(d int, h, L float64) float64 {
 // the table.
 func (t *descent) depart(h, bearing, L float64) float64 {
 	d0, d1, w := t.dirIndex(bearing)
-	g0 := t.distAt(d0, h) - L
-	g1 := t.distAt(d1, h) - L
-	if g0 < 0 || (w > 0 && g1 < 0) {
-		return math.Inf(1)
-	}
-	h0 := t.heightAt(d0, g0)
-	if w == 0 {
+	h0 := t.departDir(d0, h, L)
+	if w == 0 || t.isotropic || math.IsInf(h0, 1) {
 		return h0
 	}
-	return h0*(1-w) + t.heightAt(d1, g1)*w
+	h1 := t.departDir(d1, h, L)
+	return h0*(1-w) + h1*w
+}
+
+// departDir is depart on tabulated direction d.
+func (t *descent) departDir(d int, h, L float64) float64 {
+	row := t.dist[d*t.nh : (d+1)*t.nh]
+	f := (h - t.hBot) / t.dh
+	if f < 0 {
+		f = 0
+	}
+	i := int(f)
+	if i >= t.nh-1 {
+		return math.Inf(1)
+	}
+	u := f - float64(i)
+	g := row[i]*(1-u) + row[i+1]*u - L
+	if g < 0 {
+		return math.Inf(1)
+	}
+	perRow := row[i] - row[i+1]
+	hint := i
+	if perRow > 0 {
+		hint = i + int(L/perRow)
+	}
+	return t.heightNear(d, g, hint)
 }

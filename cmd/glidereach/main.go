@@ -10,15 +10,26 @@ import (
 	"fmt"
 	"os"
 	"os/signal"
+	"runtime/pprof"
 
 	"glidereach/cmd/glidereach/input"
 )
 
 func main() {
+	// GLIDEREACH_CPUPROFILE=file writes a CPU profile of the run (for
+	// developers measuring the solvers; see DEVELOPERS.md).
+	if path := os.Getenv("GLIDEREACH_CPUPROFILE"); path != "" {
+		if f, err := os.Create(path); err == nil {
+			pprof.StartCPUProfile(f)
+			defer pprof.StopCPUProfile()
+		}
+	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	err := newRootCmd().ExecuteContext(ctx)
 	stop()
-	os.Exit(exitCode(err))
+	code := exitCode(err)
+	pprof.StopCPUProfile()
+	os.Exit(code)
 }
 
 // exitCode maps an error to the process exit status of the command-line

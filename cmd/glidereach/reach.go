@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"sort"
 	"strings"
+	"sync"
 
 	"github.com/spf13/cobra"
 
@@ -293,13 +294,25 @@ func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positi
 	run.levels = res.Rings(dedupe(levels))
 	run.farthest, run.farBearing = res.Farthest(setup.Reserve)
 
-	// Fields.
-	for _, f := range fields {
-		fr, err := judgeField(ctx, run, f, l)
+	// Fields, two at a time (each judgement is one backward propagation).
+	run.fields = make([]fieldResult, len(fields))
+	errs := make([]error, len(fields))
+	sem := make(chan struct{}, 2)
+	var wg sync.WaitGroup
+	for i, f := range fields {
+		wg.Add(1)
+		sem <- struct{}{}
+		go func(i int, f input.Field) {
+			defer wg.Done()
+			defer func() { <-sem }()
+			run.fields[i], errs[i] = judgeField(ctx, run, f, l)
+		}(i, f)
+	}
+	wg.Wait()
+	for _, err := range errs {
 		if err != nil {
 			return nil, err
 		}
-		run.fields = append(run.fields, fr)
 	}
 	sort.SliceStable(run.fields, func(i, j int) bool {
 		a, b := run.fields[i], run.fields[j]

@@ -250,6 +250,7 @@ func reachScene(run *reachRun) *render.Scene {
 		lv := run.levels[i]
 		s.Levels = append(s.Levels, render.Level{ArrivalAGL: lv.ArrivalAGL, Polygons: lv.Polygons})
 	}
+	s.Bounds = mapBounds(run.res.Ground, run.ground)
 	m := render.NewMarker(orb.Point{run.startLon, run.startLat}, "Start")
 	m.AltMSL = run.startAlt
 	m.HeadingDeg = run.heading
@@ -312,4 +313,20 @@ func rowsOf(lines []string) [][]string {
 		out[i] = []string{l}
 	}
 	return out
+}
+
+// mapBounds is the part of the window that has terrain data: the map need
+// not show the empty margin beyond a DEM's edge. Empty (the whole window)
+// on flat ground.
+func mapBounds(l *terrain.Local, gr ground) orb.Bound {
+	if gr.src == nil {
+		return orb.Bound{}
+	}
+	w, s, e, n := terrain.LocalExtent(l.Frame, l.X0, l.Y0, l.Cell, l.Cols, l.Rows)
+	dw, ds, de, dn := gr.src.Extent()
+	b := orb.Bound{Min: orb.Point{math.Max(w, dw), math.Max(s, ds)}, Max: orb.Point{math.Min(e, de), math.Min(n, dn)}}
+	if b.Min[0] >= b.Max[0] || b.Min[1] >= b.Max[1] {
+		return orb.Bound{}
+	}
+	return b
 }

@@ -1,0 +1,72 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"path/filepath"
+)
+
+func init() {
+	registerDemoStep(20, "glide footprints over the invented landscape", demoFootprints)
+}
+
+// demoFootprint is one footprint of the demo.
+type demoFootprint struct {
+	name     string // file stem
+	aircraft string
+	lat, lon float64
+	agl      float64 // m above the ground at the start
+	heading  float64 // degrees true
+}
+
+var demoFootprintRuns = []demoFootprint{
+	{name: "reach-trainer", aircraft: "trainer", lat: -0.5, lon: -24.5, agl: 1200, heading: 250},
+	{name: "reach-sailplane", aircraft: "sailplane", lat: -0.42, lon: -24.62, agl: 900, heading: 100},
+}
+
+// demoFootprints computes a footprint for the trainer and the sailplane in
+// the demo's layered wind, judges the invented fields and writes GeoJSON,
+// an arrival-height raster, a map and a report for each.
+func demoFootprints(ctx context.Context, d *demoRun) error {
+	sc, err := loadDemoScene()
+	if err != nil {
+		return err
+	}
+	for _, r := range demoFootprintRuns {
+		g := newGlideFlags()
+		g.aircraft = r.aircraft
+		g.wind = demoWindSpec
+		setup, err := g.resolve()
+		if err != nil {
+			return err
+		}
+		pos := newPositionFlags()
+		pos.from.Lat, pos.from.Lon, pos.from.Given = r.lat, r.lon, true
+		pos.agl.Value, pos.agl.Given = r.agl, true
+		run, err := computeReach(ctx, setup, ground{src: sc.src}, pos, sc.fields, []float64{0, 150}, io.Discard)
+		if err != nil {
+			return err
+		}
+		run.heading = r.heading
+		data, err := reachGeoJSON(run)
+		if err != nil {
+			return err
+		}
+		if err := d.write(r.name+".geojson", func(w io.Writer) error { _, err := w.Write(data); return err }); err != nil {
+			return err
+		}
+		if err := writeArrivalRaster(filepath.Join(d.dir, r.name+"-arrival-agl.tif"), run); err != nil {
+			return err
+		}
+		d.files = append(d.files, r.name+"-arrival-agl.tif")
+		if err := drawReach(run, filepath.Join(d.dir, r.name+".png"), filepath.Join(d.dir, r.name+".html")); err != nil {
+			return err
+		}
+		d.files = append(d.files, r.name+".png", r.name+".html")
+		fmt.Fprintf(d.out, "-- %s, %s --\n", r.aircraft, r.name)
+		writeReachText(d.out, run)
+		fmt.Fprintln(d.out)
+	}
+	return nil
+}
