@@ -29,12 +29,26 @@ func geotiffTestGrid(epsg, cols, rows int) *Grid {
 
 // TestWriteGeoTIFFRoundTrip writes grids in every layout the writer has and
 // reads them back. GDAL 3.6.2 (gdalinfo, gdallocationinfo) was run once on
-// the default, the big-endian striped predictor and the uncompressed 16 × 16
-// tiled outputs of this grid (300 × 200, EPSG 4326 and 32725): it read the
-// size, EPSG code, origin, 30 m / 3″ cell size, AREA_OR_POINT=Area,
-// NoData=nan, and the values at cells (0,0), (7,5) (NaN) and (299,199) as
-// written.
+// the outputs of the first, second, third and fifth cases below for this
+// 300 × 200 grid: it read EPSG 4326 / 32725 / 32725 / 25830, origin
+// (-30, -35) or (500000, 6126000), cell 1/1200° or 30 m, AREA_OR_POINT=Area,
+// NoData=nan, the block sizes and PREDICTOR=3 as written, and the cell
+// values in gdalWrote below identically for all four files.
 func TestWriteGeoTIFFRoundTrip(t *testing.T) {
+	// Printed by gdallocationinfo -valonly FILE COL ROW for those files.
+	gdalWrote := []struct {
+		c, r int
+		v    float64
+	}{{0, 0, 0.125}, {7, 5, math.NaN()}, {299, 199, 398.182556152344}, {123, 77, 166.159469604492}}
+	for _, epsg := range []int{4326, 32725} {
+		g := geotiffTestGrid(epsg, 300, 200)
+		for _, p := range gdalWrote {
+			got := float64(g.Elev[p.r*g.Cols+p.c])
+			if !(math.IsNaN(p.v) && math.IsNaN(got)) && !geotiffClose(got, p.v, 1e-6) {
+				t.Errorf("EPSG %d cell (%d, %d) = %.12g, GDAL read %.12g", epsg, p.c, p.r, got, p.v)
+			}
+		}
+	}
 	for _, tc := range []struct {
 		name string
 		w    GeoTIFFWriter
