@@ -1,0 +1,436 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+
+	"github.com/spf13/cobra"
+
+	"glidereach/cmd/glidereach/input"
+	"glidereach/reach"
+	"glidereach/terrain"
+)
+
+func init() { register(newRouteCmd) }
+
+// Route and area windows. The least-altitude raster is computed on one Local
+// covering the route's (or area's) bounding box plus the reach radius; it is
+// kept under maxAreaCells cells by coarsening the cell. Flat ground needs
+// no detail (the solver is exact there) and gets at most flatAreaCells.
+const (
+	maxAreaCells  = 2001 * 2001
+	flatAreaCells = 1000 * 1000
+	minFlatCell   = 25.0 // m
+	// routeSearchAbove is how far above the highest planned altitude the
+	// least altitudes are searched (m), so that the altitude that closes
+	// a gap is found when it is up to that much higher.
+	routeSearchAbove = 1500.0
+)
+
+// routeOptions are the route command's flags.
+type routeOptions struct {
+	glide     *glideFlags
+	terr      *terrainFlags
+	route     string
+	routeName string
+	fields    string
+	alt       *input.Quantity
+	agl       *input.Quantity
+	step      *input.Quantity
+	format    string
+	out       string
+	mapPNG    string
+	report    string
+}
+
+func newRouteCmd() *cobra.Command {
+	o := &routeOptions{glide: newGlideFlags(), terr: newTerrainFlags(),
+		alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0), step: input.NewQuantity(input.Length, 250)}
+	cmd := &cobra.Command{
+		Use:   "route --route FILE --fields FILE [--alt ALT|--agl HEIGHT]",
+		Short: "Forced-landing options along a planned route: gaps and the altitude that closes them",
+		Long: `route samples a planned route (GPX 1.1 track or route, or a GeoJSON
+LineString) every --step and judges each point: the least altitude from which
+some landing field is still reached with the reserve (through the wind at
+each altitude, keeping the clearance above terrain, around ridges), the best
+field there, and the margin between the planned altitude and that least
+altitude. Stretches where no field is in reach are gaps; for each gap it
+gives where it starts and ends, its length and the altitude that would close
+it. The planned altitude is --alt (MSL), --agl (above the terrain under each
+point), or, when neither is given, the elevations stored in the route file.
+
+The margin is planned − least altitude. The least altitude already includes
+the reserve: a margin of 0 arrives over the best field with exactly the
+reserve; a margin of +200 m arrives with about reserve + 200 m.
+
+` + cautionText,
+		Example: `  glidereach route --route testdata/routes/demo-route.gpx --fields testdata/fields/demo-fields.geojson --alt 4500ft
+  glidereach route --route plan.geojson --fields fields.geojson --agl 2000ft --terrain dem/ --format csv --out profile.csv
+  glidereach route --route plan.gpx --fields fields.geojson --format geojson --out route.geojson --map route.png --report route.html`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runRoute(cmd.Context(), o, cmd.OutOrStdout(), cmd.ErrOrStderr())
+		},
+	}
+	fs := cmd.Flags()
+	o.glide.register(fs)
+	o.terr.register(fs)
+	fs.StringVar(&o.route, "route", "", "planned route: GPX 1.1 (track or route) or GeoJSON LineString file")
+	fs.StringVar(&o.routeName, "route-name", "", "which route or track of the file, when it holds several")
+	fs.StringVar(&o.fields, "fields", "", "landing fields: GeoJSON points or polygons with a name property")
+	fs.Var(o.alt, "alt", "planned altitude MSL along the whole route (m, ft)")
+	fs.Var(o.agl, "agl", "planned height above the terrain under each point (m, ft), instead of --alt")
+	fs.Var(o.step, "step", "sampling step along the route (m, ft, km, nm)")
+	fs.StringVar(&o.format, "format", "text", "output format: text, json, geojson or csv (stdout, or --out)")
+	fs.StringVar(&o.out, "out", "", "write the result to this file in --format (text summary still printed)")
+	fs.StringVar(&o.mapPNG, "map", "", "draw a map of the route and its gaps to this PNG file")
+	fs.StringVar(&o.report, "report", "", "write a self-contained HTML report with the altitude profile to this file")
+	cmd.MarkFlagsMutuallyExclusive("alt", "agl")
+	return cmd
+}
+
+// routeRun is everything a route computation produced, for the writers.
+type routeRun struct {
+	setup     *glideSetup
+	ground    ground
+	file      string
+	name      string
+	step      float64
+	altMode   string // how the planned altitude was given, for output
+	fields    []routeField
+	targets   []reach.Target
+	targetFld []int // field index of each target
+	res       *reach.RequiredResult
+	prof      *reach.RouteProfile
+	ceiling   float64
+	notes     []string
+}
+
+// routeField is a landing field as the route command used it.
+type routeField struct {
+	input.Field
+	Elev   float64 // m MSL, from the file or the terrain
+	Target int     // index into run.targets; −1 when not used
+	Note   string
+	BestM  float64 // m of route along which it is the best field and in reach
+}
+
+func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) error {
+	switch o.format {
+	case "text", "json", "geojson", "csv":
+	default:
+		return input.Usagef("--format", "%q: want text, json, geojson or csv", o.format)
+	}
+	if o.route == "" {
+		return input.Usagef("--route", "a route file is required (GPX or GeoJSON LineString)")
+	}
+	if o.fields == "" {
+		return input.Usagef("--fields", "a landing-field file is required (GeoJSON)")
+	}
+	if s := o.step.Value; !(s >= 10 && s <= 10000) {
+		return input.Usagef("--step", "%v m is outside 10 m..10 km", s)
+	}
+	for _, f := range []struct{ flag, path string }{{"--map", o.mapPNG}, {"--report", o.report}, {"--out", o.out}} {
+		if f.path != "" {
+			if err := checkOutputPath(f.flag, f.path); err != nil {
+				return err
+			}
+		}
+	}
+	setup, err := o.glide.resolve()
+	if err != nil {
+		return err
+	}
+	src, err := o.terr.open()
+	if err != nil {
+		return err
+	}
+	fields, err := input.LoadFields(o.fields)
+	if err != nil {
+		return err
+	}
+	rt, err := input.LoadRouteNamed(o.route, o.routeName)
+	if err != nil {
+		return err
+	}
+	run := &routeRun{setup: setup, ground: ground{src: src, flat: o.terr.ground.Value}, file: o.route, name: rt.Name, step: o.step.Value}
+	prog := newProgress(stderr, "route")
+	err = computeRoute(ctx, run, rt, fields, o, prog.set)
+	prog.done()
+	if err != nil {
+		return err
+	}
+	if o.out != "" {
+		data, err := routeOutput(run, o.format)
+		if err != nil {
+			return err
+		}
+		if err := writeFileAtomic(o.out, func(f *os.File) error { _, err := f.Write(data); return err }); err != nil {
+			return err
+		}
+	}
+	if o.mapPNG != "" || o.report != "" {
+		if err := drawRoute(run, o.mapPNG, o.report); err != nil {
+			return err
+		}
+	}
+	if o.out != "" || o.format == "text" {
+		writeRouteText(stdout, run)
+		if o.out != "" {
+			fmt.Fprintf(stdout, "\nwrote %s\n", o.out)
+		}
+		return nil
+	}
+	data, err := routeOutput(run, o.format)
+	if err != nil {
+		return err
+	}
+	_, err = stdout.Write(data)
+	return err
+}
+
+// routeOutput renders the run in a file format.
+func routeOutput(run *routeRun, format string) ([]byte, error) {
+	switch format {
+	case "json":
+		return routeJSON(run)
+	case "geojson":
+		return routeGeoJSON(run)
+	case "csv":
+		return routeCSV(run), nil
+	}
+	var b bytes.Buffer
+	writeRouteText(&b, run)
+	return b.Bytes(), nil
+}
+
+// computeRoute samples the route, builds the window, runs the backward
+// solver from the fields and judges the samples.
+func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []input.Field, o *routeOptions, progress func(float64)) error {
+	samples, err := rt.Samples(run.step)
+	if err != nil {
+		return &input.UsageError{Where: run.file, Err: err}
+	}
+	var dem *terrain.Grid // DEM around the route, for --agl
+	if o.agl.Given && run.ground.src != nil {
+		b := boundsOfSamples(samples)
+		dem, err = run.ground.src.Window(b[0]-0.01, b[1]-0.01, b[2]+0.01, b[3]+0.01)
+		if err != nil {
+			if errors.Is(err, terrain.ErrOutside) {
+				return input.Usagef("--route", "the route lies outside the terrain data (%s)", run.ground.describe())
+			}
+			return &input.UsageError{Where: "--terrain", Err: err}
+		}
+	}
+	pts := make([]reach.RoutePoint, len(samples))
+	for i, s := range samples {
+		p := reach.RoutePoint{Lat: s.Lat, Lon: s.Lon, Dist: s.Dist}
+		switch {
+		case o.alt.Given:
+			p.Alt = o.alt.Value
+		case o.agl.Given:
+			e := run.ground.flat
+			if dem != nil {
+				v, ok := dem.Elevation(s.Lat, s.Lon)
+				if !ok {
+					return input.Usagef("--agl", "the terrain is unknown under the route at %.1f km (%.5f, %.5f): give --alt instead", s.Dist/1000, s.Lat, s.Lon)
+				}
+				e = v
+			}
+			p.Alt = e + o.agl.Value
+		case s.HasEle:
+			p.Alt = s.Ele
+		default:
+			return input.Usagef("--alt", "give --alt or --agl: the route %s has no elevation at every point to take as the planned altitude", run.file)
+		}
+		pts[i] = p
+	}
+	switch {
+	case o.alt.Given:
+		if v := o.alt.Value; v < -400 || v > 19000 {
+			return input.Usagef("--alt", "%v m is outside -400..19000 m", v)
+		}
+		run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) along the whole route (--alt)", o.alt.Value, o.alt.Value/0.3048)
+	case o.agl.Given:
+		if v := o.agl.Value; !(v > 0 && v <= 10000) {
+			return input.Usagef("--agl", "%v m is outside 0..10000 m above the terrain", v)
+		}
+		run.altMode = fmt.Sprintf("%.0f m (%.0f ft) above the terrain under each point (--agl)", o.agl.Value, o.agl.Value/0.3048)
+	default:
+		run.altMode = "the elevations of the route file, interpolated between its points"
+	}
+	hi := math.Inf(-1)
+	for _, p := range pts {
+		if p.Alt < -400 || p.Alt > 19000 {
+			return input.Usagef(run.file, "planned altitude %.0f m at %.1f km is outside -400..19000 m", p.Alt, p.Dist/1000)
+		}
+		hi = math.Max(hi, p.Alt)
+	}
+	run.ceiling = math.Min(hi+routeSearchAbove, 19000)
+
+	// Window: the samples' box plus the reach radius from the ceiling down
+	// to the lowest ground (a first guess of 0 m, then corrected once).
+	minLat, minLon, maxLat, maxLon := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
+	for _, p := range pts {
+		minLat, maxLat = math.Min(minLat, p.Lat), math.Max(maxLat, p.Lat)
+		minLon, maxLon = math.Min(minLon, p.Lon), math.Max(maxLon, p.Lon)
+	}
+	bottom := 0.0
+	if run.ground.src == nil {
+		bottom = run.ground.flat
+	}
+	var l *terrain.Local
+	for pass := 0; pass < 2; pass++ {
+		tab, err := run.setup.table(bottom-60, run.ceiling+60)
+		if err != nil {
+			return &input.UsageError{Where: "--aircraft", Err: err}
+		}
+		radius, err := reach.ReachRadius(tab, run.ceiling, bottom)
+		if err != nil {
+			return &input.UsageError{Err: err}
+		}
+		l, _, err = areaWindow(run.ground, minLat, minLon, maxLat, maxLon, radius*1.02+1000, "--route")
+		if err != nil {
+			return err
+		}
+		lo := lowest(l)
+		if math.IsInf(lo, 1) {
+			return input.Usagef("--terrain", "the terrain around the route is all voids")
+		}
+		if lo >= bottom-1 {
+			break
+		}
+		bottom = lo
+	}
+	lo := lowest(l)
+
+	// Fields.
+	for _, f := range fields {
+		rf := routeField{Field: f, Target: -1, Elev: math.NaN()}
+		x, y := l.Frame.Forward(f.Lat, f.Lon)
+		te, on := l.Sample(x, y)
+		switch {
+		case !on:
+			rf.Note = "beyond the computed window (too far from the route to matter) or on unknown ground"
+		case f.HasElevation:
+			rf.Elev = f.Elevation
+		default:
+			rf.Elev = te
+		}
+		if on {
+			rf.Target = len(run.targets)
+			run.targets = append(run.targets, reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: rf.Elev, Reserve: run.setup.Reserve})
+			run.targetFld = append(run.targetFld, len(run.fields))
+			lo = math.Min(lo, rf.Elev)
+		}
+		run.fields = append(run.fields, rf)
+	}
+	if lo >= run.ceiling {
+		return input.Usagef("--alt", "the planned altitude is below the lowest ground or field (%.0f m)", lo)
+	}
+	tab, err := run.setup.table(lo-60, run.ceiling+60)
+	if err != nil {
+		return &input.UsageError{Where: "--aircraft", Err: err}
+	}
+	res, err := reach.Required(ctx, l, run.targets, tab, reach.RequiredOptions{Clearance: run.setup.Clearance, Ceiling: run.ceiling, Progress: progress})
+	switch {
+	case errors.Is(err, reach.ErrNoTargets):
+		res = emptyRequired(l)
+		run.notes = append(run.notes, "no landing field lies within reach of the route: all of it is a gap")
+	case err != nil:
+		return err
+	}
+	run.res = res
+	prof, err := res.Route(pts, run.ceiling)
+	if err != nil {
+		return err
+	}
+	run.prof = prof
+	// Length of route along which each field is the best one in reach.
+	for i := 1; i < len(prof.Samples); i++ {
+		a, b := prof.Samples[i-1], prof.Samples[i]
+		if a.Covered && b.Covered && a.Best == b.Best && a.Best >= 0 {
+			run.fields[run.targetFld[a.Best]].BestM += b.Dist - a.Dist
+		}
+	}
+	for _, s := range prof.Samples {
+		if !math.IsNaN(s.Terrain) && s.Alt < s.Terrain+run.setup.Clearance {
+			run.notes = append(run.notes, fmt.Sprintf("the planned altitude is below the clearance above the terrain at %.1f km (%.0f m MSL over %.0f m terrain)", s.Dist/1000, s.Alt, s.Terrain))
+			break
+		}
+	}
+	return nil
+}
+
+// emptyRequired is a RequiredResult with no field in reach anywhere.
+func emptyRequired(l *terrain.Local) *reach.RequiredResult {
+	n := l.Cols * l.Rows
+	r := &reach.RequiredResult{Ground: l, Required: make([]float32, n), Best: make([]int16, n)}
+	for i := range r.Required {
+		r.Required[i], r.Best[i] = float32(math.NaN()), -1
+	}
+	return r
+}
+
+// boundsOfSamples returns west, south, east, north of route samples.
+func boundsOfSamples(s []input.RouteSample) [4]float64 {
+	b := [4]float64{math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)}
+	for _, p := range s {
+		b[0], b[1] = math.Min(b[0], p.Lon), math.Min(b[1], p.Lat)
+		b[2], b[3] = math.Max(b[2], p.Lon), math.Max(b[3], p.Lat)
+	}
+	return b
+}
+
+// areaWindow returns a Local on a frame centred on the lat/lon box, covering
+// the box plus margin metres on every side: resampled from the DEM at its
+// resolution, coarsened to keep under maxAreaCells cells, or flat (at most
+// flatAreaCells cells, cells of at least minFlatCell). The DEM Grid read is
+// returned too (nil for flat ground). flag names the input the box came from
+// in errors.
+func areaWindow(g ground, minLat, minLon, maxLat, maxLon, margin float64, flag string) (*terrain.Local, *terrain.Grid, error) {
+	f := terrain.NewFrame((minLat+maxLat)/2, (minLon+maxLon)/2)
+	x0, y0, x1, y1 := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
+	for _, ll := range [][2]float64{{minLat, minLon}, {minLat, maxLon}, {maxLat, minLon}, {maxLat, maxLon}, {minLat, (minLon + maxLon) / 2}, {maxLat, (minLon + maxLon) / 2}} {
+		x, y := f.Forward(ll[0], ll[1])
+		x0, x1 = math.Min(x0, x), math.Max(x1, x)
+		y0, y1 = math.Min(y0, y), math.Max(y1, y)
+	}
+	x0, y0, x1, y1 = x0-margin, y0-margin, x1+margin, y1+margin
+	w, h := x1-x0, y1-y0
+	cell, capCells := minFlatCell, float64(flatAreaCells)
+	if g.src != nil {
+		cell, capCells = g.src.Resolution(), float64(maxAreaCells)
+		if !(cell > 0) {
+			cell = 30
+		}
+	}
+	if (w/cell+1)*(h/cell+1) > capCells {
+		cell = math.Sqrt(w*h/capCells) * 1.01
+		for (math.Ceil(w/cell)+1)*(math.Ceil(h/cell)+1) > capCells {
+			cell *= 1.01
+		}
+	}
+	cols, rows := int(math.Ceil(w/cell))+1, int(math.Ceil(h/cell))+1
+	if g.src == nil {
+		l := terrain.NewFlat(f, x0, y0, cell, cols, rows, g.flat)
+		l.Source = g.describe()
+		return l, nil, nil
+	}
+	ww, s, e, n := terrain.LocalExtent(f, x0, y0, cell, cols, rows)
+	grid, err := g.src.Window(ww, s, e, n)
+	if err != nil {
+		if errors.Is(err, terrain.ErrOutside) {
+			return nil, nil, input.Usagef(flag, "lies outside the terrain data (%s)", g.src.Describe())
+		}
+		return nil, nil, &input.UsageError{Where: "--terrain", Err: err}
+	}
+	l := terrain.Resample(grid, f, x0, y0, cell, cols, rows)
+	l.Source = g.src.Describe()
+	return l, grid, nil
+}
