@@ -1,0 +1,413 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"github.com/paulmach/orb"
+	"github.com/spf13/cobra"
+
+	"glidereach/cmd/glidereach/input"
+	"glidereach/reach"
+	"glidereach/terrain"
+)
+
+func init() { register(newCoverageCmd) }
+
+// coverageOptions are the coverage command's flags.
+type coverageOptions struct {
+	glide      *glideFlags
+	terr       *terrainFlags
+	fields     string
+	area       string
+	corridor   string
+	alt        *input.Quantity
+	agl        *input.Quantity
+	candidates string
+	pick       int
+	raster     string
+	format     string
+	out        string
+	mapPNG     string
+	report     string
+}
+
+func newCoverageCmd() *cobra.Command {
+	o := &coverageOptions{glide: newGlideFlags(), terr: newTerrainFlags(), alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0), pick: 3}
+	cmd := &cobra.Command{
+		Use:   "coverage --fields FILE (--area BOX|FILE | --corridor ROUTE,WIDTH) (--alt ALT|--agl HEIGHT)",
+		Short: "How much of an area or corridor has a landing field in reach, and which new field helps most",
+		Long: `coverage computes, for every cell of an area (a lon/lat box or GeoJSON
+polygons) or of a corridor along a route, whether some landing field is in
+reach with the reserve from the altitude flown there (--alt MSL, or --agl
+above the terrain at each cell), through the wind at each altitude and
+around the terrain. It reports the covered share, the covered and uncovered
+parts as polygons, the least altitude from which a field is reached at every
+cell (--raster, GeoTIFF or ESRI ASCII grid), and for every field the area it
+covers and the area only it covers. With --candidates it ranks candidate
+fields by the area each would add and chooses the best --pick of them one
+by one, each choice taking the one that adds most to what is covered.
+
+` + cautionText,
+		Example: `  glidereach coverage --fields testdata/fields/demo-fields.geojson --area -24.85,-0.8,-24.15,-0.15 --alt 1500m
+  glidereach coverage --fields fields.geojson --corridor plan.gpx,10km --agl 2000ft --terrain dem/ --raster least.tif
+  glidereach coverage --fields fields.geojson --area area.geojson --alt 1200m --candidates new.geojson --pick 2 \
+      --format geojson --out coverage.geojson --map coverage.png`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runCoverage(cmd.Context(), o, cmd.OutOrStdout(), cmd.ErrOrStderr())
+		},
+	}
+	fs := cmd.Flags()
+	o.glide.register(fs)
+	o.terr.register(fs)
+	fs.StringVar(&o.fields, "fields", "", "existing landing fields: GeoJSON points or polygons with a name property")
+	fs.StringVar(&o.area, "area", "", "area to analyse: minlon,minlat,maxlon,maxlat or a GeoJSON Polygon/MultiPolygon file")
+	fs.StringVar(&o.corridor, "corridor", "", "corridor to analyse: ROUTE,WIDTH (GPX/GeoJSON route and full width, e.g. plan.gpx,10km)")
+	fs.Var(o.alt, "alt", "altitude flown over the area, MSL (m, ft)")
+	fs.Var(o.agl, "agl", "height flown above the terrain at each cell (m, ft), instead of --alt")
+	fs.StringVar(&o.candidates, "candidates", "", "candidate fields (GeoJSON, like --fields) to rank by the area each would add")
+	fs.IntVar(&o.pick, "pick", 3, "with --candidates: how many to choose one by one (greedy)")
+	fs.StringVar(&o.raster, "raster", "", "write the least altitude (m MSL) to reach a field as a raster (.tif GeoTIFF or .asc)")
+	fs.StringVar(&o.format, "format", "text", "output format: text, json or geojson (stdout, or --out)")
+	fs.StringVar(&o.out, "out", "", "write the result to this file in --format (text summary still printed)")
+	fs.StringVar(&o.mapPNG, "map", "", "draw a map of the coverage to this PNG file")
+	fs.StringVar(&o.report, "report", "", "write a self-contained HTML report to this file")
+	cmd.MarkFlagsMutuallyExclusive("alt", "agl")
+	cmd.MarkFlagsMutuallyExclusive("area", "corridor")
+	return cmd
+}
+
+// coverageRun is everything a coverage computation produced.
+type coverageRun struct {
+	setup    *glideSetup
+	ground   ground
+	zone     input.Zone
+	zoneText string
+	altMode  string
+	fields   []routeField
+	cands    []routeField
+	res      *reach.CoverageResult
+	rank     *reach.CandidateRanking
+	grid     *terrain.Grid
+	notes    []string
+	// contoured parts, lon/lat
+	coveredArea, uncoveredArea float64
+	covered, uncovered         orb.MultiPolygon
+}
+
+func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writer) error {
+	switch o.format {
+	case "text", "json", "geojson":
+	default:
+		return input.Usagef("--format", "%q: want text, json or geojson", o.format)
+	}
+	if o.fields == "" {
+		return input.Usagef("--fields", "a landing-field file is required (GeoJSON)")
+	}
+	if o.area == "" && o.corridor == "" {
+		return input.Usagef("--area", "give the area to analyse: --area BOX|FILE or --corridor ROUTE,WIDTH")
+	}
+	if !o.alt.Given && !o.agl.Given {
+		return input.Usagef("--alt", "give the altitude flown: --alt (MSL) or --agl (above the terrain)")
+	}
+	if o.alt.Given && (o.alt.Value < -400 || o.alt.Value > 19000) {
+		return input.Usagef("--alt", "%v m is outside -400..19000 m", o.alt.Value)
+	}
+	if o.agl.Given && !(o.agl.Value > 0 && o.agl.Value <= 10000) {
+		return input.Usagef("--agl", "%v m is outside 0..10000 m above the terrain", o.agl.Value)
+	}
+	if o.pick < 0 || o.pick > 100 {
+		return input.Usagef("--pick", "%d is outside 0..100", o.pick)
+	}
+	for _, f := range []struct{ flag, path string }{{"--raster", o.raster}, {"--map", o.mapPNG}, {"--report", o.report}, {"--out", o.out}} {
+		if f.path != "" {
+			if err := checkOutputPath(f.flag, f.path); err != nil {
+				return err
+			}
+		}
+	}
+	if o.raster != "" {
+		ext := strings.ToLower(filepath.Ext(o.raster))
+		if ext != ".tif" && ext != ".tiff" && ext != ".asc" {
+			return input.Usagef("--raster", "%q: want a .tif or .asc file name", o.raster)
+		}
+	}
+	setup, err := o.glide.resolve()
+	if err != nil {
+		return err
+	}
+	src, err := o.terr.open()
+	if err != nil {
+		return err
+	}
+	fields, err := input.LoadFields(o.fields)
+	if err != nil {
+		return err
+	}
+	var cands []input.Field
+	if o.candidates != "" {
+		cands, err = input.LoadFields(o.candidates)
+		if err != nil {
+			return err
+		}
+	}
+	run := &coverageRun{setup: setup, ground: ground{src: src, flat: o.terr.ground.Value}}
+	if o.area != "" {
+		reg, err := input.ParseArea(o.area)
+		if err != nil {
+			return err
+		}
+		run.zone, run.zoneText = reg, "area "+o.area
+	} else {
+		cor, err := input.ParseCorridor(o.corridor)
+		if err != nil {
+			return err
+		}
+		run.zone, run.zoneText = cor, fmt.Sprintf("corridor %.1f km wide along %s", cor.Width/1000, o.corridor[:strings.LastIndex(o.corridor, ",")])
+	}
+	prog := newProgress(stderr, "coverage")
+	err = computeCoverage(ctx, run, o, fields, cands, prog.set)
+	prog.done()
+	if err != nil {
+		return err
+	}
+	if o.out != "" {
+		data, err := coverageOutput(run, o.format)
+		if err != nil {
+			return err
+		}
+		if err := writeFileAtomic(o.out, func(f *os.File) error { _, err := f.Write(data); return err }); err != nil {
+			return err
+		}
+	}
+	if o.raster != "" {
+		if err := writeLeastRaster(o.raster, run); err != nil {
+			return err
+		}
+	}
+	if o.mapPNG != "" || o.report != "" {
+		if err := drawCoverage(run, o.mapPNG, o.report); err != nil {
+			return err
+		}
+	}
+	if o.out != "" || o.format == "text" {
+		writeCoverageText(stdout, run)
+		for _, p := range []string{o.out, o.raster} {
+			if p != "" {
+				fmt.Fprintf(stdout, "wrote %s\n", p)
+			}
+		}
+		return nil
+	}
+	data, err := coverageOutput(run, o.format)
+	if err != nil {
+		return err
+	}
+	_, err = stdout.Write(data)
+	return err
+}
+
+func coverageOutput(run *coverageRun, format string) ([]byte, error) {
+	if format == "geojson" {
+		return coverageGeoJSON(run)
+	}
+	if format == "json" {
+		return coverageJSON(run)
+	}
+	var b strings.Builder
+	writeCoverageText(&b, run)
+	return []byte(b.String()), nil
+}
+
+// computeCoverage builds the window, the mask of the zone, runs the
+// coverage and the candidates.
+func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, fields, cands []input.Field, progress func(float64)) error {
+	b := run.zone.Bounds()
+	minLon, minLat, maxLon, maxLat := b.Min[0], b.Min[1], b.Max[0], b.Max[1]
+	flag := "--area"
+	if o.corridor != "" {
+		flag = "--corridor"
+	}
+	// The highest altitude flown: --alt, or the highest terrain of the zone
+	// plus --agl (read from a first window over the zone alone).
+	top := o.alt.Value
+	if o.agl.Given {
+		top = run.ground.flat + o.agl.Value
+		if run.ground.src != nil {
+			l0, _, err := areaWindow(run.ground, minLat, minLon, maxLat, maxLon, 0, flag)
+			if err != nil {
+				return err
+			}
+			hi := math.Inf(-1)
+			for _, e := range l0.Elev {
+				if e == e {
+					hi = math.Max(hi, float64(e))
+				}
+			}
+			if math.IsInf(hi, -1) {
+				return input.Usagef("--terrain", "the terrain over the %s is all voids", flag[2:])
+			}
+			top = hi + o.agl.Value
+		}
+		run.altMode = fmt.Sprintf("%.0f m (%.0f ft) above the terrain at each cell (--agl)", o.agl.Value, o.agl.Value/0.3048)
+	} else {
+		run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) everywhere (--alt)", o.alt.Value, o.alt.Value/0.3048)
+	}
+	const margin = 300.0 // the least altitudes are computed this far above the highest altitude flown
+	ceiling := math.Min(top+margin, 19500)
+	bottom := 0.0
+	if run.ground.src == nil {
+		bottom = run.ground.flat
+	}
+	var l *terrain.Local
+	var grid *terrain.Grid
+	for pass := 0; pass < 2; pass++ {
+		tab, err := run.setup.table(bottom-60, ceiling+60)
+		if err != nil {
+			return &input.UsageError{Where: "--aircraft", Err: err}
+		}
+		radius, err := reach.ReachRadius(tab, ceiling, bottom)
+		if err != nil {
+			return &input.UsageError{Err: err}
+		}
+		l, grid, err = areaWindow(run.ground, minLat, minLon, maxLat, maxLon, radius*1.02+1000, flag)
+		if err != nil {
+			return err
+		}
+		lo := lowest(l)
+		if math.IsInf(lo, 1) {
+			return input.Usagef("--terrain", "the terrain around the %s is all voids", flag[2:])
+		}
+		if lo >= bottom-1 {
+			break
+		}
+		bottom = lo
+	}
+	run.grid = grid
+	lo := lowest(l)
+	if lo >= top {
+		return input.Usagef("--alt", "%.0f m MSL is not above the lowest ground (%.0f m)", top, lo)
+	}
+	// Mask of the zone: each cell centre tested.
+	mask := make([]bool, l.Cols*l.Rows)
+	inZone := 0
+	for r := 0; r < l.Rows; r++ {
+		for c := 0; c < l.Cols; c++ {
+			x, y := l.XY(c, r)
+			lat, lon := l.Frame.Inverse(x, y)
+			if run.zone.Contains(lat, lon) {
+				mask[r*l.Cols+c] = true
+				inZone++
+			}
+		}
+	}
+	if inZone == 0 {
+		return input.Usagef(flag, "the %s holds no cell of the %.0f m solver grid", flag[2:], l.Cell)
+	}
+	toTargets := func(fs []input.Field) ([]routeField, []reach.Target) {
+		var rf []routeField
+		var ts []reach.Target
+		for _, f := range fs {
+			x, y := l.Frame.Forward(f.Lat, f.Lon)
+			te, on := l.Sample(x, y)
+			r := routeField{Field: f, Elev: te, Target: len(ts)}
+			if f.HasElevation {
+				r.Elev = f.Elevation
+			}
+			if !on {
+				r.Elev = math.NaN()
+				if f.HasElevation {
+					r.Elev = f.Elevation
+				}
+				r.Note = "beyond the computed window (too far to matter) or on unknown ground"
+			}
+			ts = append(ts, reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: r.Elev, Reserve: run.setup.Reserve})
+			if !math.IsNaN(r.Elev) {
+				lo = math.Min(lo, r.Elev)
+			}
+			rf = append(rf, r)
+		}
+		return rf, ts
+	}
+	var ts, cs []reach.Target
+	run.fields, ts = toTargets(fields)
+	run.cands, cs = toTargets(cands)
+	tab, err := run.setup.table(lo-60, ceiling+60)
+	if err != nil {
+		return &input.UsageError{Where: "--aircraft", Err: err}
+	}
+	share := 1.0
+	if len(cs) > 0 {
+		share = float64(len(ts)) / float64(len(ts)+len(cs))
+	}
+	opts := reach.CoverageOptions{Alt: o.alt.Value, Clearance: run.setup.Clearance, Mask: mask, Margin: margin,
+		Progress: func(d float64) { progress(d * share) }}
+	if o.agl.Given {
+		opts.Alt, opts.AGL = o.agl.Value, true
+	}
+	res, err := reach.Coverage(ctx, l, ts, tab, opts)
+	if errors.Is(err, reach.ErrNoTargets) {
+		run.notes = append(run.notes, "no existing field lies within reach of the area")
+		res, err = emptyCoverage(l, opts, len(ts))
+	}
+	if err != nil {
+		return err
+	}
+	for i := range run.fields {
+		if res.Skipped[i] && run.fields[i].Note == "" {
+			run.fields[i].Note = "off the computed window"
+		}
+	}
+	run.res = res
+	if len(cs) > 0 {
+		res.Opts.Progress = func(d float64) { progress(share + d*(1-share)) }
+		rk, err := res.Candidates(ctx, cs, tab, o.pick)
+		if err != nil {
+			return err
+		}
+		run.rank = rk
+	}
+	cov, unc, ca, ua := res.Polygons()
+	run.covered, run.uncovered, run.coveredArea, run.uncoveredArea = cov, unc, ca, ua
+	return nil
+}
+
+// emptyCoverage is the coverage with no field on the window: nothing is
+// covered (a CoverageResult with the zone counted, for the writers).
+func emptyCoverage(l *terrain.Local, opts reach.CoverageOptions, nFields int) (*reach.CoverageResult, error) {
+	n := l.Cols * l.Rows
+	c := &reach.CoverageResult{Ground: l, Opts: opts, Least: make([]float32, n), Best: make([]int16, n), Count: make([]uint8, n),
+		CellArea: l.Cell * l.Cell, Covers: make([]float64, nFields), Exclusive: make([]float64, nFields), Skipped: make([]bool, nFields)}
+	for i := range c.Least {
+		c.Least[i], c.Best[i] = float32(math.NaN()), -1
+		if opts.Mask == nil || opts.Mask[i] {
+			c.ZoneCells++
+		}
+	}
+	for i := range c.Skipped {
+		c.Skipped[i] = true
+	}
+	return c, nil
+}
+
+// writeLeastRaster writes the least altitude (m MSL) on the DEM's lattice
+// (its CRS) when that is not much finer than the solver grid, else on a
+// lon/lat lattice of about the solver's cell size.
+func writeLeastRaster(path string, run *coverageRun) error {
+	l := run.res.Ground
+	var g *terrain.Grid
+	if run.grid != nil && run.grid.Cols*run.grid.Rows <= 2*l.Cols*l.Rows {
+		g = terrain.OntoGrid(l, run.res.Least, run.grid)
+	} else {
+		g = terrain.LatLonGrid(l, run.res.Least)
+	}
+	g.Name = "least altitude to reach a landing field with the reserve, m MSL"
+	return writeRaster(path, g)
+}
