@@ -16,8 +16,12 @@ import (
 // References:
 //   - TIFF Revision 6.0, Adobe Developers Association, 1992: header, IFD,
 //     strips and tiles, compression 1/5/32773, predictor 2.
-//   - Adobe Photoshop TIFF Technical Note 3 (1995?, from memory): the
-//     floating-point predictor 3 and deflate (8, 32946).
+//   - Adobe Photoshop TIFF Technical Notes (deflate, codes 8 and 32946) and
+//     Technical Note 3 (floating-point predictor 3); titles and the byte
+//     layout of predictor 3 from memory, confirmed by the GDAL-made
+//     fixtures in testdata/geotiff (little and big endian, strips and tiles).
+//   - BigTIFF (header version 43, 8-byte offsets, 20-byte IFD entries),
+//     from memory; confirmed by a GDAL-made BIGTIFF=YES fixture.
 //   - OGC GeoTIFF Standard 1.1 (OGC 19-008r4): ModelPixelScale 33550,
 //     ModelTiepoint 33922, ModelTransformation 34264, GeoKeyDirectory 34735,
 //     GTRasterTypeGeoKey 1025, GeographicTypeGeoKey 2048,
