@@ -166,3 +166,57 @@ func TestFootprintSlopingPlane(t *testing.T) {
 		}
 	}
 }
+
+func TestFootprintLayeredWindBounds(t *testing.T) {
+	// Wind that turns and strengthens with height: 5 m/s from the west at
+	// the ground to 15 m/s from the north at 2000 m. Along every bearing u
+	// the footprint must reach at least the constant-track distance
+	// ∫ dh/λ(h, u) and at most the support function of the set of
+	// reachable displacements, ∫ max_θ cos(θ − u)/λ(h, θ) dh (optimal
+	// control with the track free at each height; Aumann integral of the
+	// per-height velocity sets — standard result, from memory), within 1 %.
+	const V, w = 25.0, 1.0
+	windAt := func(h float64) (e, n float64) {
+		f := math.Min(math.Max(h/2000, 0), 1)
+		// From the west (air moving east) to from the north (air moving south).
+		return 5 * (1 - f), -15 * f
+	}
+	loss := LossFunc(func(h, b float64) float64 {
+		e, n := windAt(h)
+		sb, cb := math.Sin(b), math.Cos(b)
+		wt := e*sb + n*cb
+		wc := e*cb - n*sb
+		return w / (math.Sqrt(V*V-wc*wc) + wt)
+	})
+	const H, reserve = 2000.0, 300.0
+	g := flatWindow(-0.5, -24.5, 1001, 130, 0)
+	res, err := Footprint(context.Background(), g, Start{Lat: -0.5, Lon: -24.5, Alt: H}, loss, FootprintOptions{Reserve: reserve, Clearance: 100})
+	if err != nil {
+		t.Fatal(err)
+	}
+	integrate := func(f func(h float64) float64) float64 {
+		const n = 400
+		dh := (H - reserve) / n
+		s := 0.0
+		for i := 0; i < n; i++ {
+			s += f(reserve+(float64(i)+0.5)*dh) * dh
+		}
+		return s
+	}
+	for u := 0.0; u < 360; u += 10 {
+		ur := u * math.Pi / 180
+		lower := integrate(func(h float64) float64 { return 1 / loss(h, ur) })
+		upper := integrate(func(h float64) float64 {
+			best := 0.0
+			for th := 0.0; th < 360; th += 0.25 {
+				tr := th * math.Pi / 180
+				best = math.Max(best, math.Cos(tr-ur)/loss(h, tr))
+			}
+			return best
+		})
+		got := edgeDistance(t, res, u, reserve)
+		if got < lower*0.99 || got > upper*1.01 {
+			t.Errorf("bearing %3.0f: reach %.0f m outside [%.0f, %.0f] m (constant track, support bound)", u, got, lower, upper)
+		}
+	}
+}
