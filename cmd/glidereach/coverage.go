@@ -18,7 +18,10 @@ import (
 	"glidereach/terrain"
 )
 
-func init() { register(newCoverageCmd) }
+func init() {
+	register(newCoverageCmd)
+	registerDemoStep(50, "emergency-field coverage of the demo area, and where a new field helps most", demoCoverage)
+}
 
 // coverageOptions are the coverage command's flags.
 type coverageOptions struct {
@@ -410,4 +413,65 @@ func writeLeastRaster(path string, run *coverageRun) error {
 	}
 	g.Name = "least altitude to reach a landing field with the reserve, m MSL"
 	return writeRaster(path, g)
+}
+
+// demoCandidates are invented candidate fields for the demo's coverage step
+// (fictional names, open-ocean coordinates like the rest of the scenario).
+var demoCandidates = []input.Field{
+	{Name: "Candidate Basalt Flat", Lat: -0.47, Lon: -24.60},
+	{Name: "Candidate Spindrift Lea", Lat: -0.62, Lon: -24.50},
+	{Name: "Candidate Urchin Bank", Lat: -0.25, Lon: -24.72},
+	{Name: "Candidate Skerry Park", Lat: -0.52, Lon: -24.25},
+}
+
+// demoCoverageAlt is the altitude flown in the demo's coverage step, m MSL.
+const demoCoverageAlt = 1800.0
+
+// demoCoverage runs the coverage command on the embedded invented area,
+// fields and landscape with the generic trainer in the demo's layered
+// wind, ranks the invented candidates and writes JSON, GeoJSON, the
+// least-altitude GeoTIFF, a map and a report.
+func demoCoverage(ctx context.Context, d *demoRun) error {
+	sc, err := loadDemoScene()
+	if err != nil {
+		return err
+	}
+	data, err := demoData.ReadFile("demodata/demo-area.geojson")
+	if err != nil {
+		return err
+	}
+	reg, err := input.ParseAreaGeoJSON(data)
+	if err != nil {
+		return err
+	}
+	g := newGlideFlags()
+	g.aircraft, g.wind = "trainer", demoWindSpec
+	setup, err := g.resolve()
+	if err != nil {
+		return err
+	}
+	o := &coverageOptions{alt: input.NewQuantity(input.Length, demoCoverageAlt), agl: input.NewQuantity(input.Length, 0), pick: 2, area: "demo-area.geojson"}
+	o.alt.Given = true
+	run := &coverageRun{setup: setup, ground: ground{src: sc.src}, zone: reg, zoneText: "area demo-area.geojson (invented)"}
+	if err := computeCoverage(ctx, run, o, sc.fields, demoCandidates, func(float64) {}); err != nil {
+		return err
+	}
+	for _, f := range []struct{ name, format string }{{"coverage.json", "json"}, {"coverage.geojson", "geojson"}} {
+		out, err := coverageOutput(run, f.format)
+		if err != nil {
+			return err
+		}
+		if err := d.write(f.name, func(w io.Writer) error { _, err := w.Write(out); return err }); err != nil {
+			return err
+		}
+	}
+	if err := writeLeastRaster(filepath.Join(d.dir, "coverage-least-msl.tif"), run); err != nil {
+		return err
+	}
+	if err := drawCoverage(run, filepath.Join(d.dir, "coverage.png"), filepath.Join(d.dir, "coverage.html")); err != nil {
+		return err
+	}
+	d.files = append(d.files, "coverage-least-msl.tif", "coverage.png", "coverage.html")
+	writeCoverageText(d.out, run)
+	return nil
 }

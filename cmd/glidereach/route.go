@@ -8,6 +8,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"path/filepath"
 
 	"github.com/spf13/cobra"
 
@@ -16,7 +17,10 @@ import (
 	"glidereach/terrain"
 )
 
-func init() { register(newRouteCmd) }
+func init() {
+	register(newRouteCmd)
+	registerDemoStep(40, "forced-landing gaps along the demo route", demoRoute)
+}
 
 // Route and area windows. The least-altitude raster is computed on one Local
 // covering the route's (or area's) bounding box plus the reach radius; it is
@@ -433,4 +437,53 @@ func areaWindow(g ground, minLat, minLon, maxLat, maxLon, margin float64, flag s
 	l := terrain.Resample(grid, f, x0, y0, cell, cols, rows)
 	l.Source = g.src.Describe()
 	return l, grid, nil
+}
+
+// demoRouteAlt is the planned altitude of the demo route (m MSL): high
+// enough that fields are in reach along part of it, not all of it.
+const demoRouteAlt = 2400.0
+
+// demoRoute runs the route command on the embedded invented route, fields
+// and landscape with the generic trainer in the demo's layered wind, and
+// writes its JSON, GeoJSON, CSV, map and report.
+func demoRoute(ctx context.Context, d *demoRun) error {
+	sc, err := loadDemoScene()
+	if err != nil {
+		return err
+	}
+	data, err := demoData.ReadFile("demodata/demo-route.gpx")
+	if err != nil {
+		return err
+	}
+	rt, err := input.ParseRoute(data, "")
+	if err != nil {
+		return err
+	}
+	g := newGlideFlags()
+	g.aircraft, g.wind = "trainer", demoWindSpec
+	setup, err := g.resolve()
+	if err != nil {
+		return err
+	}
+	o := &routeOptions{alt: input.NewQuantity(input.Length, demoRouteAlt), agl: input.NewQuantity(input.Length, 0), step: input.NewQuantity(input.Length, 250)}
+	o.alt.Given = true
+	run := &routeRun{setup: setup, ground: ground{src: sc.src}, file: "demo-route.gpx", name: rt.Name, step: o.step.Value}
+	if err := computeRoute(ctx, run, rt, sc.fields, o, nil); err != nil {
+		return err
+	}
+	for _, f := range []struct{ name, format string }{{"route.json", "json"}, {"route.geojson", "geojson"}, {"route-profile.csv", "csv"}} {
+		out, err := routeOutput(run, f.format)
+		if err != nil {
+			return err
+		}
+		if err := d.write(f.name, func(w io.Writer) error { _, err := w.Write(out); return err }); err != nil {
+			return err
+		}
+	}
+	if err := drawRoute(run, filepath.Join(d.dir, "route.png"), filepath.Join(d.dir, "route.html")); err != nil {
+		return err
+	}
+	d.files = append(d.files, "route.png", "route.html")
+	writeRouteText(d.out, run)
+	return nil
 }
