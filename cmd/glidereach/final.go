@@ -1,0 +1,459 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"glidereach/cmd/glidereach/input"
+	"glidereach/reach"
+	"glidereach/reach/geodesy"
+	"glidereach/terrain"
+)
+
+func init() {
+	register(newFinalCmd)
+	registerDemoStep(30, "final glide home over the ridges", demoFinal)
+}
+
+// finalOptions are the final command's flags.
+type finalOptions struct {
+	pos    *positionFlags
+	glide  *glideFlags
+	terr   *terrainFlags
+	to     []string
+	fields string
+	field  string
+	step   *input.Quantity
+	out    string
+	format string
+	mapPNG string
+	report string
+}
+
+func newFinalCmd() *cobra.Command {
+	o := &finalOptions{pos: newPositionFlags(), glide: newGlideFlags(), terr: newTerrainFlags(), step: input.NewQuantity(input.Length, 0)}
+	cmd := &cobra.Command{
+		Use:   "final",
+		Short: "Final glide to a goal, directly or through turn points: required altitude, arrival, terrain clearance",
+		Long: `final computes the glide from a position and altitude through optional turn
+points to a goal: per leg the track, the wind along and across it, the speed to
+fly for the MacCready setting, the ground speed, glide ratio, height lost and
+time; in total the altitude required at the start to arrive with the reserve
+(integrated backward from the goal through the wind and density layers), the
+arrival height, the margin and the time. The terrain under the glide line is
+sampled at the DEM's cell size: the lowest clearance and where it is, and
+whether the line is blocked (less than --clearance above the terrain) with the
+extra start altitude that clears it. It also finds the highest MacCready
+setting that still arrives with the reserve and the time that saves.
+
+Give each --to as LAT,LON; the last one is the goal, the others are turn
+points in order. The goal's elevation comes from LAT,LON@ELEV (a length with
+a unit, e.g. @350m or @1150ft), else from the DEM, else from --ground. With
+--fields FILE --field NAME the named field is the goal and every --to is a
+turn point. Without --alt or --agl the glide starts at the required altitude.
+
+` + cautionText,
+		Example: `  glidereach final --from -0.68,-24.32 --alt 1900m --to -0.28,-24.55 --aircraft sailplane
+  glidereach final --from -0.6,-24.6 --agl 1200m --to -0.45,-24.42 --to -0.62,-24.3@150m \
+      --wind 0m:240/10kt,1500m:270/20kt --mc 1.5m/s --format json
+  glidereach final --from -0.01,-25.04 --alt 2400m --to 0.02,-24.96 \
+      --terrain testdata/geotiff/geo_int16_strip_none.tif --map final.png --report final.html`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runFinal(cmd.Context(), o, cmd.OutOrStdout())
+		},
+	}
+	fs := cmd.Flags()
+	o.pos.register(fs)
+	o.glide.register(fs)
+	o.terr.register(fs)
+	fs.StringArrayVar(&o.to, "to", nil, "turn point or goal LAT,LON[@ELEV] (repeat; the last is the goal)")
+	fs.StringVar(&o.fields, "fields", "", "landing fields file (GeoJSON) to take the goal from with --field")
+	fs.StringVar(&o.field, "field", "", "name of the goal field in --fields")
+	fs.Var(o.step, "step", "sample spacing along the line (m, ft); default and maximum the DEM's cell size (100 m on flat ground)")
+	fs.StringVar(&o.out, "out", "", "write the result to this file (GeoJSON; JSON with --format json)")
+	fs.StringVar(&o.format, "format", "text", "output format: text, json or geojson (stdout, or --out)")
+	fs.StringVar(&o.mapPNG, "map", "", "draw a map of the glide line to this PNG file")
+	fs.StringVar(&o.report, "report", "", "write a self-contained HTML report with the altitude profile to this file")
+	return cmd
+}
+
+// finalPoint is a turn point or the goal as given on the command line.
+type finalPoint struct {
+	Lat, Lon float64
+	Elev     float64 // m MSL; meaningful when HasElev
+	HasElev  bool
+}
+
+// parseFinalPoint parses "LAT,LON" or "LAT,LON@ELEV" (ELEV a length with
+// an optional unit, bare numbers are metres).
+func parseFinalPoint(s string) (finalPoint, error) {
+	var p finalPoint
+	pos, elev, hasElev := strings.Cut(s, "@")
+	lat, lon, err := input.ParseLatLon(strings.TrimSpace(pos))
+	if err != nil {
+		return p, err
+	}
+	p.Lat, p.Lon = lat, lon
+	if hasElev {
+		v, err := input.ParseQuantity(elev, input.Length)
+		if err != nil {
+			return p, fmt.Errorf("elevation after @: %w", err)
+		}
+		if v < -500 || v > 9000 {
+			return p, fmt.Errorf("elevation %q is outside -500..9000 m", elev)
+		}
+		p.Elev, p.HasElev = v, true
+	}
+	return p, nil
+}
+
+// finalRun is everything a final-glide computation produced, for the writers.
+type finalRun struct {
+	setup     *glideSetup
+	ground    ground
+	startLat  float64
+	startLon  float64
+	startElev float64 // ground at the start, m MSL
+	altGiven  bool    // false: the glide starts at the required altitude
+	goalName  string
+	goalFrom  string // where the goal elevation came from
+	res       *reach.FinalGlideResult
+}
+
+func runFinal(ctx context.Context, o *finalOptions, stdout io.Writer) error {
+	switch o.format {
+	case "text", "json", "geojson":
+	default:
+		return input.Usagef("--format", "%q: want text, json or geojson", o.format)
+	}
+	if !o.pos.from.Given {
+		return input.Usagef("--from", "the start position is required (LAT,LON)")
+	}
+	for _, f := range []struct{ flag, path string }{{"--map", o.mapPNG}, {"--report", o.report}, {"--out", o.out}} {
+		if f.path != "" {
+			if err := checkOutputPath(f.flag, f.path); err != nil {
+				return err
+			}
+		}
+	}
+	if o.mapPNG != "" && !strings.EqualFold(filepath.Ext(o.mapPNG), ".png") {
+		return input.Usagef("--map", "%q: want a .png file name", o.mapPNG)
+	}
+	if o.step.Given && !(o.step.Value >= 1 && o.step.Value <= 5000) {
+		return input.Usagef("--step", "%v m is outside 1..5000 m", o.step.Value)
+	}
+	points := make([]finalPoint, 0, len(o.to))
+	for i, s := range o.to {
+		p, err := parseFinalPoint(s)
+		if err != nil {
+			return input.FlagError(fmt.Sprintf("--to (#%d)", i+1), s, err)
+		}
+		points = append(points, p)
+	}
+	run := &finalRun{}
+	var goal finalPoint
+	switch {
+	case o.field != "" || o.fields != "":
+		if o.fields == "" {
+			return input.Usagef("--field", "needs --fields FILE to look the field up in")
+		}
+		if o.field == "" {
+			return input.Usagef("--field", "name the goal field of %s", o.fields)
+		}
+		fields, err := input.LoadFields(o.fields)
+		if err != nil {
+			return err
+		}
+		f, err := input.FindField(fields, o.field, "--field")
+		if err != nil {
+			return err
+		}
+		goal = finalPoint{Lat: f.Lat, Lon: f.Lon, Elev: f.Elevation, HasElev: f.HasElevation}
+		run.goalName = f.Name
+		if f.HasElevation {
+			run.goalFrom = "field file"
+		}
+	case len(points) == 0:
+		return input.Usagef("--to", "the goal is required (LAT,LON[@ELEV], or --fields FILE --field NAME)")
+	default:
+		goal = points[len(points)-1]
+		points = points[:len(points)-1]
+		run.goalName = "goal"
+		if goal.HasElev {
+			run.goalFrom = "--to"
+		}
+	}
+	for i, p := range points {
+		if p.HasElev {
+			return input.Usagef(fmt.Sprintf("--to (#%d)", i+1), "%q is a turn point; only the goal (the last --to, or --field) takes @ELEV", o.to[i])
+		}
+	}
+	route := []geodesy.LatLon{{Lat: o.pos.from.Lat, Lon: o.pos.from.Lon}}
+	for _, p := range points {
+		route = append(route, geodesy.LatLon{Lat: p.Lat, Lon: p.Lon})
+	}
+	route = append(route, geodesy.LatLon{Lat: goal.Lat, Lon: goal.Lon})
+	for i := 0; i+1 < len(route); i++ {
+		s, _, _, err := geodesy.Inverse(route[i], route[i+1])
+		flag := fmt.Sprintf("--to (#%d)", i+1)
+		if i+1 == len(route)-1 && o.field != "" {
+			flag = "--field"
+		}
+		switch {
+		case err != nil:
+			return input.Usagef(flag, "leg %d: %v", i+1, err)
+		case s < 1:
+			return input.Usagef(flag, "leg %d has zero length (the point repeats the one before it)", i+1)
+		case s > 2000e3:
+			return input.Usagef(flag, "leg %d is %.0f km long; a final glide is at most 2000 km", i+1, s/1000)
+		}
+	}
+
+	setup, err := o.glide.resolve()
+	if err != nil {
+		return err
+	}
+	src, err := o.terr.open()
+	if err != nil {
+		return err
+	}
+	run.setup, run.ground = setup, ground{src: src, flat: o.terr.ground.Value}
+	run.startLat, run.startLon = o.pos.from.Lat, o.pos.from.Lon
+	elev, ok, err := run.ground.elevationAt(run.startLat, run.startLon)
+	if err != nil {
+		return &input.UsageError{Where: "--terrain", Err: err}
+	}
+	if !ok {
+		return input.Usagef("--from", "%.5f,%.5f lies off the terrain data or on a void (unknown ground)", run.startLat, run.startLon)
+	}
+	run.startElev = elev
+	startAlt := math.NaN()
+	if o.pos.alt.Given || o.pos.agl.Given {
+		a, err := o.pos.startAlt(elev)
+		if err != nil {
+			return err
+		}
+		if a <= elev {
+			return input.Usagef("--alt", "%.0f m MSL is not above the terrain at the start (%.0f m)", a, elev)
+		}
+		startAlt, run.altGiven = a, true
+	}
+	if !goal.HasElev {
+		flag := "--to"
+		if o.field != "" {
+			flag = "--field"
+		}
+		e, ok, err := run.ground.elevationAt(goal.Lat, goal.Lon)
+		if err != nil {
+			return &input.UsageError{Where: "--terrain", Err: err}
+		}
+		if !ok {
+			return input.Usagef(flag, "the goal %.5f,%.5f lies off the terrain data or on a void; give its elevation as LAT,LON@ELEV", goal.Lat, goal.Lon)
+		}
+		goal.Elev = e
+		if src != nil {
+			run.goalFrom = "terrain"
+		} else {
+			run.goalFrom = "--ground"
+		}
+	}
+	res, err := computeFinal(ctx, run, route, startAlt, goal.Elev, o.step)
+	if err != nil {
+		return err
+	}
+	run.res = res
+
+	// Files first, so that a failure leaves nothing half-written and stdout
+	// shows the summary only for a complete run.
+	if o.out != "" {
+		data, err := finalOutput(run, o.format)
+		if err != nil {
+			return err
+		}
+		if err := writeFileAtomic(o.out, func(f *os.File) error { _, err := f.Write(data); return err }); err != nil {
+			return err
+		}
+	}
+	if o.mapPNG != "" || o.report != "" {
+		if err := drawFinal(run, o.mapPNG, o.report); err != nil {
+			return err
+		}
+	}
+	if o.out != "" || o.format == "text" {
+		writeFinalText(stdout, run)
+		if o.out != "" {
+			fmt.Fprintf(stdout, "\nwrote %s\n", o.out)
+		}
+		return nil
+	}
+	data, err := finalOutput(run, o.format)
+	if err != nil {
+		return err
+	}
+	_, err = stdout.Write(data)
+	return err
+}
+
+// finalOutput is the --out / stdout document: JSON, or GeoJSON for the
+// geojson and text formats (a file written in text mode is GeoJSON, as for
+// reach).
+func finalOutput(run *finalRun, format string) ([]byte, error) {
+	if format == "json" {
+		return finalJSON(run)
+	}
+	return finalGeoJSON(run)
+}
+
+// computeFinal runs the glide with the terrain along the line.
+func computeFinal(ctx context.Context, run *finalRun, route []geodesy.LatLon, startAlt, goalElev float64, step *input.Quantity) (*reach.FinalGlideResult, error) {
+	s := run.setup
+	opts := reach.FinalGlideOptions{GoalElev: goalElev, Reserve: s.Reserve, Clearance: s.Clearance}
+	var lt *lineTerrain
+	if run.ground.src == nil {
+		flat := run.ground.flat
+		opts.Terrain = func(lat, lon float64) (float64, bool) { return flat, true }
+		opts.Step = reach.DefaultFinalStep
+	} else {
+		lt = &lineTerrain{src: run.ground.src}
+		opts.Terrain = lt.sample
+		cell := run.ground.src.Resolution()
+		if !(cell > 0) || math.IsInf(cell, 0) {
+			cell = 30
+		}
+		opts.Step = cell
+	}
+	if step.Given {
+		if step.Value > opts.Step*1.0001 {
+			return nil, input.Usagef("--step", "%.0f m is coarser than the terrain's cell size (%.1f m); a ridge could fall between samples", step.Value, opts.Step)
+		}
+		opts.Step = step.Value
+	}
+	perf := reach.Performance{Aircraft: s.Aircraft, Atm: s.Atm, Wind: s.Wind, Cond: s.Cond}
+	res, err := reach.FinalGlide(ctx, route, startAlt, perf, opts)
+	if lt != nil && lt.err != nil {
+		return nil, &input.UsageError{Where: "--terrain", Err: lt.err}
+	}
+	switch {
+	case errors.Is(err, reach.ErrFinalTooHigh):
+		return nil, &input.UsageError{Where: "--to", Err: fmt.Errorf("the goal is far out of reach: %w", err)}
+	case err != nil:
+		return nil, err
+	}
+	return res, nil
+}
+
+// lineTerrain samples a DEM along a line through small windows read as the
+// line goes (about 11 km square each), so a long line never reads the whole
+// box around it.
+type lineTerrain struct {
+	src  terrain.Source
+	grid *terrain.Grid
+	box  [4]float64 // west, south, east, north of the current window (or of the last miss)
+	miss bool       // the current box lies outside the data
+	err  error      // a read failure other than "outside"
+}
+
+// lineWindow is the half-size (degrees) of the windows lineTerrain reads.
+const lineWindow = 0.05
+
+func (t *lineTerrain) sample(lat, lon float64) (float64, bool) {
+	if t.err != nil {
+		return math.NaN(), false
+	}
+	in := func() bool {
+		// Keep a margin of a tenth of the window so bilinear sampling never
+		// needs cells beyond it.
+		m := lineWindow / 10
+		return lon >= t.box[0]+m && lat >= t.box[1]+m && lon <= t.box[2]-m && lat <= t.box[3]-m
+	}
+	if (t.grid == nil && !t.miss) || !in() {
+		t.box = [4]float64{lon - lineWindow, lat - lineWindow, lon + lineWindow, lat + lineWindow}
+		g, err := t.src.Window(t.box[0], t.box[1], t.box[2], t.box[3])
+		switch {
+		case errors.Is(err, terrain.ErrOutside):
+			t.grid, t.miss = nil, true
+		case err != nil:
+			t.err = err
+			return math.NaN(), false
+		default:
+			t.grid, t.miss = g, false
+		}
+	}
+	if t.grid == nil {
+		return math.NaN(), false
+	}
+	return t.grid.Elevation(lat, lon)
+}
+
+// demoFinalRun is the demo's final glide: the sailplane from south-east of
+// the ridges home to the invented field Tern Hollow in the demo's layered
+// wind, via a turn point, with the MacCready setting a pilot might have
+// flown the day on.
+var demoFinalRun = struct {
+	from, turn [2]float64
+	field      string
+	alt        float64
+	mc         float64
+}{from: [2]float64{-0.70, -24.30}, turn: [2]float64{-0.52, -24.36}, field: "Tern Hollow", alt: 2200, mc: 1.0}
+
+// demoFinal computes the demo's final glide and writes its GeoJSON, JSON,
+// map and report.
+func demoFinal(ctx context.Context, d *demoRun) error {
+	sc, err := loadDemoScene()
+	if err != nil {
+		return err
+	}
+	g := newGlideFlags()
+	g.aircraft = "sailplane"
+	g.wind = demoWindSpec
+	g.mc.Value = demoFinalRun.mc
+	setup, err := g.resolve()
+	if err != nil {
+		return err
+	}
+	f, err := input.FindField(sc.fields, demoFinalRun.field, "demo")
+	if err != nil {
+		return err
+	}
+	run := &finalRun{setup: setup, ground: ground{src: sc.src}, startLat: demoFinalRun.from[0], startLon: demoFinalRun.from[1],
+		altGiven: true, goalName: f.Name, goalFrom: "terrain"}
+	elev, ok, err := run.ground.elevationAt(run.startLat, run.startLon)
+	if err != nil || !ok {
+		return fmt.Errorf("demo final glide: no terrain at the start (%v)", err)
+	}
+	run.startElev = elev
+	goalElev, ok, err := run.ground.elevationAt(f.Lat, f.Lon)
+	if err != nil || !ok {
+		return fmt.Errorf("demo final glide: no terrain at %s (%v)", f.Name, err)
+	}
+	route := []geodesy.LatLon{{Lat: run.startLat, Lon: run.startLon}, {Lat: demoFinalRun.turn[0], Lon: demoFinalRun.turn[1]}, {Lat: f.Lat, Lon: f.Lon}}
+	res, err := computeFinal(ctx, run, route, demoFinalRun.alt, goalElev, input.NewQuantity(input.Length, 0))
+	if err != nil {
+		return err
+	}
+	run.res = res
+	for _, out := range []struct{ name, format string }{{"final-sailplane.geojson", "geojson"}, {"final-sailplane.json", "json"}} {
+		data, err := finalOutput(run, out.format)
+		if err != nil {
+			return err
+		}
+		if err := d.write(out.name, func(w io.Writer) error { _, err := w.Write(data); return err }); err != nil {
+			return err
+		}
+	}
+	if err := drawFinal(run, filepath.Join(d.dir, "final-sailplane.png"), filepath.Join(d.dir, "final-sailplane.html")); err != nil {
+		return err
+	}
+	d.files = append(d.files, "final-sailplane.png", "final-sailplane.html")
+	writeFinalText(d.out, run)
+	return nil
+}
