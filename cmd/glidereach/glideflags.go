@@ -119,7 +119,7 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 	if s.Clearance < 0 || s.Clearance > 3000 {
 		return nil, input.Usagef("--clearance", "%v m is outside 0..3000 m", s.Clearance)
 	}
-	s.WindText = w.String()
+	s.WindText = windText(w)
 	return s, nil
 }
 
@@ -239,4 +239,25 @@ func (p *positionFlags) startAlt(groundElev float64) (float64, error) {
 		return groundElev + p.agl.Value, nil
 	}
 	return 0, input.Usagef("--alt", "a start altitude is required (--alt MSL or --agl above the ground)")
+}
+
+// windText describes a wind profile for people: each layer as
+// "ALTm DIR°/SPEED kt", direction the wind blows from.
+func windText(p *wind.Profile) string {
+	if p == nil || p.IsCalm() {
+		return "calm"
+	}
+	ls := p.Layers()
+	if len(ls) == 1 {
+		return fmt.Sprintf("%03.0f°/%.0f kt", ls[0].Dir, ls[0].Speed/input.Knot)
+	}
+	parts := make([]string, 0, len(ls))
+	for _, l := range ls {
+		s := fmt.Sprintf("%.0f m %03.0f°/%.0f kt", l.Alt, l.Dir, l.Speed/input.Knot)
+		if l.HasTemp {
+			s += fmt.Sprintf(" %+.0f °C", l.Temp-273.15)
+		}
+		parts = append(parts, s)
+	}
+	return strings.Join(parts, ", ")
 }
