@@ -24,8 +24,11 @@ import (
 // the window, clipped to the raster: bilinear sampling is possible at every
 // point of the window that lies between the raster's outermost cell centres.
 // A window of the whole Extent reads the whole raster. Samples equal to the
-// GDAL_NODATA value (and NaN samples) read as NaN; integer samples are
-// converted exactly to float32. The Grid's Name is left empty for the caller.
+// GDAL_NODATA value (and NaN samples) read as NaN. Integer samples become
+// float32 exactly (int32 up to ±2²⁴, far beyond any elevation in metres).
+// The Grid's Name is left empty for the caller. Chunks are decoded in
+// parallel, so r must allow parallel ReadAt calls, as the io.ReaderAt
+// contract requires (*os.File and *bytes.Reader do).
 //
 // Errors: a window that misses the raster (wrapping ErrOutside) or holds more than MaxCells
 // cells, and every error of ReadGeoTIFFInfo; a strip or tile that is
