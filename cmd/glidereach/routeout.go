@@ -184,26 +184,34 @@ func routeJSON(run *routeRun) ([]byte, error) {
 	return append(data, '\n'), nil
 }
 
-// routeCSV is the profile, one row per sample, after comment lines ("# ")
-// carrying the caution and the assumptions.
+// routeCSV is the profile, one row per sample, with a plain header row so
+// spreadsheets and GDAL read it as a table. The caution, the meaning of the
+// margin and the assumptions are in the last column, "notes", one per row
+// from the first row on (comment lines would be read as data by most CSV
+// readers).
 func routeCSV(run *routeRun) []byte {
 	var b bytes.Buffer
-	fmt.Fprintf(&b, "# CAUTION: %s\n", reach.Caution)
-	fmt.Fprintf(&b, "# %s\n", marginNote)
-	for _, a := range run.assumptions() {
-		fmt.Fprintf(&b, "# %s\n", a)
-	}
+	notes := append([]string{"CAUTION: " + reach.Caution, marginNote}, run.assumptions()...)
+	notes = append(notes, run.notes...)
 	w := csv.NewWriter(&b)
-	w.Write([]string{"dist_m", "lat", "lon", "planned_msl_m", "terrain_m", "least_msl_m", "margin_above_reserve_m", "best_field", "covered"})
+	w.Write([]string{"dist_m", "lat", "lon", "planned_msl_m", "terrain_m", "least_msl_m", "margin_above_reserve_m", "best_field", "covered", "notes"})
 	f := func(v float64) string {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
 			return ""
 		}
 		return strconv.FormatFloat(math.Round(v*10)/10, 'f', -1, 64)
 	}
-	for _, s := range run.prof.Samples {
+	for i, s := range run.prof.Samples {
+		note := ""
+		if i < len(notes) {
+			note = notes[i]
+		}
 		w.Write([]string{f(s.Dist), strconv.FormatFloat(round6(s.Lat), 'f', -1, 64), strconv.FormatFloat(round6(s.Lon), 'f', -1, 64),
-			f(s.Alt), f(s.Terrain), f(s.Least), f(s.Margin), run.bestName(s.Best), strconv.FormatBool(s.Covered)})
+			f(s.Alt), f(s.Terrain), f(s.Least), f(s.Margin), run.bestName(s.Best), strconv.FormatBool(s.Covered), note})
+	}
+	// A route shorter than its notes: the rest on rows of their own.
+	for i := len(run.prof.Samples); i < len(notes); i++ {
+		w.Write([]string{"", "", "", "", "", "", "", "", "", notes[i]})
 	}
 	w.Flush()
 	return b.Bytes()

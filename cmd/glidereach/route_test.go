@@ -1,0 +1,290 @@
+package main
+
+import (
+	"context"
+	"encoding/csv"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	tgeo "github.com/tidwall/geojson"
+
+	"glidereach/cmd/glidereach/input"
+	"glidereach/reach/geodesy"
+)
+
+// writeStraightRoute writes a two-point GeoJSON LineString from lat0, lon0
+// over length m on bearing brg (degrees), without elevations.
+func writeStraightRoute(t *testing.T, lat0, lon0, brg, length float64) (string, geodesy.LatLon) {
+	t.Helper()
+	end, _, err := geodesy.Direct(geodesy.LatLon{Lat: lat0, Lon: lon0}, brg, length)
+	if err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "route.geojson")
+	js := fmt.Sprintf(`{"type":"Feature","properties":{"name":"Test line"},"geometry":{"type":"LineString","coordinates":[[%.7f,%.7f],[%.7f,%.7f]]}}`, lon0, lat0, end.Lon, end.Lat)
+	if err := os.WriteFile(path, []byte(js), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path, end
+}
+
+// abeamFields writes fields at along-route distance s (m) and offset b (m,
+// to the left) of a straight route from lat0, lon0 on bearing 90°.
+func abeamFields(t *testing.T, lat0, lon0 float64, s, b []float64) string {
+	t.Helper()
+	var feats []string
+	for i := range s {
+		p, az, err := geodesy.Direct(geodesy.LatLon{Lat: lat0, Lon: lon0}, 90, s[i])
+		if err != nil {
+			t.Fatal(err)
+		}
+		q, _, err := geodesy.Direct(p, az-90, b[i])
+		if err != nil {
+			t.Fatal(err)
+		}
+		feats = append(feats, fmt.Sprintf(`{"type":"Feature","properties":{"name":"F%d"},"geometry":{"type":"Point","coordinates":[%.7f,%.7f]}}`, i, q.Lon, q.Lat))
+	}
+	path := filepath.Join(t.TempDir(), "fields.geojson")
+	if err := os.WriteFile(path, []byte(`{"type":"FeatureCollection","features":[`+strings.Join(feats, ",")+`]}`), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+func TestRouteJSONGapsFlat(t *testing.T) {
+	// Flat ground at 0 m, still air, the trainer (glide ratio 9 at every
+	// altitude) at 1500 m with a 300 m reserve: a field b metres abeam the
+	// route is in reach along |s − s_f| ≤ √(r² − b²), r = (1500 − 300)·9
+	// (glide cone, tan γ = 1/E, Anderson, Introduction to Flight; circle–line
+	// intersection, common practice, no source). The gap ends in the JSON
+	// (DESIGN.md keys covered_fraction, gaps[].start_m/end_m) must be within
+	// one sample step of those distances.
+	const lat0, lon0, L, step = -0.5, -24.8, 70000.0, 250.0
+	route, _ := writeStraightRoute(t, lat0, lon0, 90, L)
+	sf, bf := []float64{15000, 48000}, []float64{5000, -7000}
+	fields := abeamFields(t, lat0, lon0, sf, bf)
+	code, out, stderr := runCLI(t, "route", "--route", route, "--fields", fields, "--alt", "1500m", "--aircraft", "trainer", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	var res struct {
+		Caution         string  `json:"caution"`
+		CoveredFraction float64 `json:"covered_fraction"`
+		Gaps            []struct {
+			StartM float64 `json:"start_m"`
+			EndM   float64 `json:"end_m"`
+			Close  float64 `json:"close_msl_m"`
+		} `json:"gaps"`
+		Samples []map[string]any `json:"samples"`
+	}
+	if err := json.Unmarshal([]byte(out), &res); err != nil {
+		t.Fatalf("bad JSON: %v\n%s", err, out)
+	}
+	if res.Caution == "" {
+		t.Error("JSON has no caution")
+	}
+	r := (1500.0 - 300) * 9
+	var cov [][2]float64
+	for i := range sf {
+		h := math.Sqrt(r*r - bf[i]*bf[i])
+		cov = append(cov, [2]float64{sf[i] - h, sf[i] + h})
+	}
+	want := [][2]float64{{0, cov[0][0]}, {cov[0][1], cov[1][0]}, {cov[1][1], L}}
+	if len(res.Gaps) != 3 {
+		t.Fatalf("%d gaps, want 3: %+v", len(res.Gaps), res.Gaps)
+	}
+	for i, w := range want {
+		g := res.Gaps[i]
+		if math.Abs(g.StartM-w[0]) > step || math.Abs(g.EndM-w[1]) > step {
+			t.Errorf("gap %d: %.0f..%.0f m, want %.0f..%.0f ± %.0f m", i, g.StartM, g.EndM, w[0], w[1], step)
+		}
+		if !(g.Close > 1500) {
+			t.Errorf("gap %d closes from %.0f m, want above the planned 1500 m", i, g.Close)
+		}
+	}
+	wantFrac := (cov[0][1] - cov[0][0] + cov[1][1] - cov[1][0]) / L
+	if math.Abs(res.CoveredFraction-wantFrac) > 2*step/L {
+		t.Errorf("covered_fraction %.4f, want %.4f", res.CoveredFraction, wantFrac)
+	}
+	if len(res.Samples) < int(L/step) {
+		t.Errorf("%d samples, want at least %d", len(res.Samples), int(L/step))
+	}
+	for _, k := range []string{"dist_m", "planned_msl_m", "terrain_m", "least_msl_m", "margin_above_reserve_m", "best_field", "covered"} {
+		if _, ok := res.Samples[0][k]; !ok {
+			t.Errorf("sample lacks %q", k)
+		}
+	}
+}
+
+func TestRouteOutputsAndCaution(t *testing.T) {
+	// Every format carries the caution; GeoJSON parses with tidwall/geojson
+	// (RFC 7946) and splits the route into covered and uncovered pieces
+	// whose lengths add up to the route; CSV has one row per sample.
+	dir := t.TempDir()
+	route := filepath.Join("..", "..", "testdata", "routes", "demo-route.gpx")
+	fields := filepath.Join("..", "..", "testdata", "fields", "demo-fields.geojson")
+	base := []string{"route", "--route", route, "--fields", fields, "--alt", "7500ft", "--wind", "270/15kt"}
+	gj := filepath.Join(dir, "r.geojson")
+	code, text, stderr := runCLI(t, append(base, "--format", "geojson", "--out", gj, "--map", filepath.Join(dir, "r.png"), "--report", filepath.Join(dir, "r.html"))...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	if !strings.Contains(text, "PLANNING AID ONLY") || !strings.Contains(text, "gap") {
+		t.Errorf("text summary lacks the caution or the gaps:\n%s", text)
+	}
+	data, err := os.ReadFile(gj)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := tgeo.Parse(string(data), nil); err != nil {
+		t.Fatalf("GeoJSON does not parse: %v", err)
+	}
+	var c fc
+	if err := json.Unmarshal(data, &c); err != nil {
+		t.Fatal(err)
+	}
+	kinds := map[string]int{}
+	pieces := 0.0
+	for _, f := range c.Features {
+		k, _ := f.Properties["kind"].(string)
+		kinds[k]++
+		if k == "route_start" && f.Properties["caution"] == nil {
+			t.Error("route start feature lacks the caution")
+		}
+		if k == "route_piece" {
+			pieces += f.Properties["length_m"].(float64)
+		}
+	}
+	if kinds["route_start"] != 1 || kinds["route_piece"] < 2 || kinds["gap"] < 1 || kinds["field"] != 7 {
+		t.Errorf("feature kinds %v", kinds)
+	}
+	// 58.1 km (testdata/routes/ORIGIN.md).
+	if math.Abs(pieces-58100) > 100 {
+		t.Errorf("route pieces add up to %.0f m, want about 58100 m", pieces)
+	}
+	for _, f := range []string{"r.png", "r.html"} {
+		if st, err := os.Stat(filepath.Join(dir, f)); err != nil || st.Size() == 0 {
+			t.Errorf("%s not written", f)
+		}
+	}
+	code, out, _ := runCLI(t, append(base, "--format", "csv")...)
+	if code != 0 {
+		t.Fatalf("csv exit %d", code)
+	}
+	rows, err := csv.NewReader(strings.NewReader(out)).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rows[0][0] != "dist_m" || !strings.Contains(rows[1][len(rows[1])-1], "PLANNING AID ONLY") {
+		t.Errorf("CSV header %v, first notes %q", rows[0], rows[1][len(rows[1])-1])
+	}
+	if len(rows) < 230 {
+		t.Errorf("CSV has %d rows, want one per 250 m sample (about 234)", len(rows))
+	}
+	// Per-point elevations of the GPX as the planned altitude (1200–1400 m).
+	code, out, _ = runCLI(t, "route", "--route", route, "--fields", fields, "--format", "json")
+	if code != 0 || !strings.Contains(out, `"planned_msl_m": 1200`) || !strings.Contains(out, "route file") {
+		t.Errorf("GPX elevations not used as the planned altitude (exit %d)", code)
+	}
+}
+
+func TestRouteBadInput(t *testing.T) {
+	// Bad input exits 2 naming the flag or file, and leaves no file behind.
+	route := filepath.Join("..", "..", "testdata", "routes", "demo-route.gpx")
+	fields := filepath.Join("..", "..", "testdata", "fields", "demo-fields.geojson")
+	noEle, _ := writeStraightRoute(t, -0.5, -24.6, 45, 20000)
+	dir := t.TempDir()
+	cases := []struct {
+		args []string
+		want string
+	}{
+		{[]string{"route", "--fields", fields, "--alt", "1500m"}, "--route"},
+		{[]string{"route", "--route", route, "--alt", "1500m"}, "--fields"},
+		{[]string{"route", "--route", route, "--fields", fields, "--alt", "1500m", "--step", "1m"}, "--step"},
+		{[]string{"route", "--route", route, "--fields", fields, "--alt", "1500 parsecs"}, "--alt"},
+		{[]string{"route", "--route", route, "--fields", fields, "--alt", "1500m", "--agl", "300m"}, "alt"},
+		{[]string{"route", "--route", route, "--fields", fields, "--alt", "1500m", "--format", "xml"}, "--format"},
+		{[]string{"route", "--route", noEle, "--fields", fields}, "--alt"},
+		{[]string{"route", "--route", route, "--fields", fields, "--agl", "-5m"}, "--agl"},
+		{[]string{"route", "--route", "missing.gpx", "--fields", fields, "--alt", "1500m"}, "missing.gpx"},
+		{[]string{"route", "--route", fields, "--fields", fields, "--alt", "1500m"}, "demo-fields.geojson"},
+		{[]string{"route", "--route", route, "--fields", fields, "--alt", "1500m", "--out", filepath.Join(dir, "no", "r.json")}, "--out"},
+	}
+	checkUsageErrors(t, cases)
+	ents, _ := os.ReadDir(dir)
+	if len(ents) != 0 {
+		t.Errorf("files left behind: %v", ents)
+	}
+}
+
+// checkUsageErrors runs each command line and wants a usage error (exit 2)
+// whose message names want.
+func checkUsageErrors(t *testing.T, cases []struct {
+	args []string
+	want string
+}) {
+	t.Helper()
+	for _, tc := range cases {
+		root := newRootCmd()
+		root.SetArgs(tc.args)
+		var out strings.Builder
+		root.SetOut(&out)
+		root.SetErr(&out)
+		err := root.Execute()
+		if err == nil {
+			t.Errorf("%v: no error", tc.args)
+			continue
+		}
+		var ue *input.UsageError
+		if !errors.As(err, &ue) && !isFlagError(err) {
+			t.Errorf("%v: %v is not a usage error (exit 2)", tc.args, err)
+		}
+		if !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%v: error %q does not name %q", tc.args, err, tc.want)
+		}
+	}
+}
+
+func TestDemoRouteAndCoverageSteps(t *testing.T) {
+	// The demo's route and coverage steps run on the embedded scenario and
+	// write JSON with the contract keys.
+	if testing.Short() {
+		t.Skip("runs the demo steps")
+	}
+	dir := t.TempDir()
+	var b strings.Builder
+	d := &demoRun{out: &b, dir: dir}
+	if err := demoRoute(context.Background(), d); err != nil {
+		t.Fatal(err)
+	}
+	if err := demoCoverage(context.Background(), d); err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range []string{"route.json", "coverage.json"} {
+		data, err := os.ReadFile(filepath.Join(dir, f))
+		if err != nil {
+			t.Fatal(err)
+		}
+		var m map[string]any
+		if err := json.Unmarshal(data, &m); err != nil {
+			t.Fatalf("%s: %v", f, err)
+		}
+		if _, ok := m["covered_fraction"]; !ok || m["caution"] == nil {
+			t.Errorf("%s lacks covered_fraction or caution", f)
+		}
+	}
+	for _, f := range []string{"route.geojson", "route-profile.csv", "route.png", "route.html", "coverage.geojson", "coverage-least-msl.tif", "coverage.png", "coverage.html"} {
+		if _, err := os.Stat(filepath.Join(dir, f)); err != nil {
+			t.Errorf("demo did not write %s", f)
+		}
+	}
+	if !strings.Contains(b.String(), "gap") || !strings.Contains(b.String(), "Greedy choice") {
+		t.Errorf("demo summaries lack the gaps or the greedy choice:\n%s", b.String())
+	}
+}
