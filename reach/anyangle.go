@@ -135,9 +135,9 @@ func (p *propagation) segment(px, py, pv float64, qc, qr int) float64 {
 	}
 	if p.backward {
 		// The aircraft flies from q toward the parent.
-		return p.desc.depart(pv, math.Atan2(-dx, -dy), L)
+		return p.desc.departVec(pv, -dx, -dy, L)
 	}
-	return p.desc.arrive(pv, math.Atan2(dx, dy), L)
+	return p.desc.arriveVec(pv, dx, dy, L)
 }
 
 // rayObs returns the obstruction met on the segment from parent pi at

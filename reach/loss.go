@@ -51,6 +51,7 @@ type descent struct {
 	hBot, hTop, dh float64
 	nh, nDir       int
 	dirStep        float64   // radians between tabulated directions
+	invStep        float64   // 1/dirStep
 	dist           []float64 // dist[d*nh+i] = D_d(h_i); non-increasing in i
 	isotropic      bool      // every direction has the same column: one lookup suffices
 	maxRatio       float64   // largest ground distance per metre of height in the table
@@ -70,7 +71,7 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 		nh = 2
 	}
 	dh = (hTop - hBot) / float64(nh-1)
-	t := &descent{hBot: hBot, hTop: hTop, dh: dh, nh: nh, nDir: nDir, dirStep: 2 * math.Pi / float64(nDir)}
+	t := &descent{hBot: hBot, hTop: hTop, dh: dh, nh: nh, nDir: nDir, dirStep: 2 * math.Pi / float64(nDir), invStep: float64(nDir) / (2 * math.Pi)}
 	t.dist = make([]float64, nDir*nh)
 	inv := make([]float64, nh)
 	finite := false
@@ -236,6 +237,41 @@ func (t *descent) heightAt(d int, g float64) float64 {
 // the bottom of the table.
 func (t *descent) arrive(h, bearing, L float64) float64 {
 	d0, d1, w := t.dirIndex(bearing)
+	return t.arriveBlend(d0, d1, w, h, L)
+}
+
+// arriveVec is arrive for a segment given as a vector (dx east, dy north, in
+// any unit) and its ground length L (m): the solver's hot path.
+func (t *descent) arriveVec(h, dx, dy, L float64) float64 {
+	d0, d1, w := t.vecIndex(dx, dy)
+	return t.arriveBlend(d0, d1, w, h, L)
+}
+
+// departVec is depart for a segment of travel direction (dx, dy).
+func (t *descent) departVec(h, dx, dy, L float64) float64 {
+	d0, d1, w := t.vecIndex(dx, dy)
+	return t.departBlend(d0, d1, w, h, L)
+}
+
+// vecIndex is dirIndex for the bearing of the vector (dx east, dy north).
+func (t *descent) vecIndex(dx, dy float64) (d0, d1 int, w float64) {
+	f := bearingOf(dx, dy) * t.invStep
+	if f < 0 {
+		f += float64(t.nDir)
+	}
+	d0 = int(f)
+	if d0 >= t.nDir {
+		d0 = 0
+	}
+	w = f - float64(d0)
+	d1 = d0 + 1
+	if d1 == t.nDir {
+		d1 = 0
+	}
+	return d0, d1, w
+}
+
+func (t *descent) arriveBlend(d0, d1 int, w, h, L float64) float64 {
 	h0 := t.arriveDir(d0, h, L)
 	if w == 0 || t.isotropic {
 		return h0
@@ -271,6 +307,10 @@ func (t *descent) arriveDir(d int, h, L float64) float64 {
 // the table.
 func (t *descent) depart(h, bearing, L float64) float64 {
 	d0, d1, w := t.dirIndex(bearing)
+	return t.departBlend(d0, d1, w, h, L)
+}
+
+func (t *descent) departBlend(d0, d1 int, w, h, L float64) float64 {
 	h0 := t.departDir(d0, h, L)
 	if w == 0 || t.isotropic || math.IsInf(h0, 1) {
 		return h0
@@ -301,4 +341,36 @@ func (t *descent) departDir(d int, h, L float64) float64 {
 		hint = i + int(L/perRow)
 	}
 	return t.heightNear(d, g, hint)
+}
+
+// bearingOf returns atan2(dx, dy) — the bearing, clockwise from north, of
+// the vector (dx east, dy north) — in radians in (−π, π], by an octant
+// reduction and a minimax polynomial for atan on [0, 1] (maximum error
+// 1e-5 rad, far below the 1° spacing of the descent table). It is the hot
+// path of the any-angle search; math.Atan2 is several times slower.
+func bearingOf(dx, dy float64) float64 {
+	ax, ay := math.Abs(dx), math.Abs(dy)
+	if ax == 0 && ay == 0 {
+		return 0
+	}
+	// angle from north toward east in the first quadrant: atan(ax/ay)
+	var a float64
+	if ax <= ay {
+		a = atanUnit(ax / ay)
+	} else {
+		a = math.Pi/2 - atanUnit(ay/ax)
+	}
+	if dy < 0 {
+		a = math.Pi - a
+	}
+	if dx < 0 {
+		a = -a
+	}
+	return a
+}
+
+// atanUnit approximates atan(z) for z in [0, 1] (error < 1e-5 rad).
+func atanUnit(z float64) float64 {
+	z2 := z * z
+	return z * (0.99997726 + z2*(-0.33262347+z2*(0.19354346+z2*(-0.11643287+z2*(0.05265332+z2*-0.01172120)))))
 }
