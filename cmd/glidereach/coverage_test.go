@@ -1,0 +1,168 @@
+package main
+
+import (
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	tgeo "github.com/tidwall/geojson"
+
+	"glidereach/terrain"
+)
+
+func TestCoverageJSONDiscFlat(t *testing.T) {
+	// Flat ground at 0 m, still air, the trainer (glide ratio 9) at 1500 m
+	// with a 300 m reserve: one field covers the disc of radius
+	// r = (1500 − 300)·9 = 10.8 km (glide cone, tan γ = 1/E; Anderson,
+	// Introduction to Flight), so the covered share of a box holding the
+	// disc is πr² over the box's area (common practice, no source), within
+	// 0.5 %.
+	fields := writeTestFields(t, -0.5, -24.5, []float64{0}, []float64{0})
+	box := "-24.75,-0.75,-24.25,-0.25"
+	code, out, stderr := runCLI(t, "coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--aircraft", "trainer", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	var res struct {
+		Caution         string  `json:"caution"`
+		CoveredFraction float64 `json:"covered_fraction"`
+		AreaM2          float64 `json:"area_m2"`
+		Fields          []struct {
+			Covers    float64 `json:"covers_m2"`
+			Exclusive float64 `json:"exclusive_m2"`
+		} `json:"fields"`
+	}
+	if err := json.Unmarshal([]byte(out), &res); err != nil {
+		t.Fatalf("bad JSON: %v\n%s", err, out)
+	}
+	if res.Caution == "" {
+		t.Error("no caution in the JSON")
+	}
+	r := 1200.0 * 9
+	disc := math.Pi * r * r
+	if want := disc / res.AreaM2; math.Abs(res.CoveredFraction-want) > 0.005*want {
+		t.Errorf("covered_fraction %.4f, want %.4f", res.CoveredFraction, want)
+	}
+	if len(res.Fields) != 1 || math.Abs(res.Fields[0].Exclusive-disc) > 0.005*disc {
+		t.Errorf("fields %+v, want one covering %.4g m² alone", res.Fields, disc)
+	}
+	// The box is 0.5° × 0.5° near the equator: about 55.3 km × 55.3 km
+	// (WGS84 degree lengths at 0.5° S, from memory: 110.57 km per degree of
+	// latitude, 111.32 km per degree of longitude); the cell count must be
+	// within a cell row of it.
+	if want := 0.5 * 110574 * 0.5 * 111316; math.Abs(res.AreaM2-want) > 0.01*want {
+		t.Errorf("area %.4g m², want about %.4g m²", res.AreaM2, want)
+	}
+}
+
+func TestCoverageGeoJSONRasterCandidates(t *testing.T) {
+	// GeoJSON parses (tidwall/geojson, RFC 7946) with the covered and the
+	// uncovered part; the raster is a GeoTIFF our reader opens (GDAL read the
+	// demo's, see DEVELOPERS.md) with the least altitude at the field equal
+	// to its elevation plus the reserve; candidates are ranked and picked.
+	dir := t.TempDir()
+	fields := writeTestFields(t, -0.5, -24.5, []float64{0, 20000}, []float64{0, 90})
+	cands := writeTestFields(t, -0.5, -24.5, []float64{30000, 5000}, []float64{270, 180})
+	gj, tif := filepath.Join(dir, "c.geojson"), filepath.Join(dir, "least.tif")
+	code, text, stderr := runCLI(t, "coverage", "--fields", fields, "--area", "-24.8,-0.8,-24.2,-0.2", "--alt", "1500m",
+		"--candidates", cands, "--pick", "2", "--ground", "100m", "--format", "geojson", "--out", gj, "--raster", tif,
+		"--map", filepath.Join(dir, "c.png"), "--report", filepath.Join(dir, "c.html"))
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	if !strings.Contains(text, "PLANNING AID ONLY") || !strings.Contains(text, "Greedy choice") {
+		t.Errorf("text lacks the caution or the greedy choice:\n%s", text)
+	}
+	data, err := os.ReadFile(gj)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := tgeo.Parse(string(data), nil); err != nil {
+		t.Fatalf("GeoJSON does not parse: %v", err)
+	}
+	var c fc
+	if err := json.Unmarshal(data, &c); err != nil {
+		t.Fatal(err)
+	}
+	kinds := map[string]int{}
+	var picked []any
+	for _, f := range c.Features {
+		k, _ := f.Properties["kind"].(string)
+		kinds[k]++
+		if k == "covered" && f.Properties["caution"] == nil {
+			t.Error("covered feature lacks the caution")
+		}
+		if k == "candidate" {
+			picked = append(picked, f.Properties["picked_step"])
+		}
+	}
+	if kinds["covered"] != 1 || kinds["uncovered"] != 1 || kinds["area"] != 1 || kinds["field"] != 2 || kinds["candidate"] != 2 {
+		t.Errorf("feature kinds %v", kinds)
+	}
+	// Candidate F0 (30 km west, clear of both fields) adds a whole disc and
+	// is picked first; F1 (5 km south of a field) adds a crescent.
+	if len(picked) != 2 || picked[0] != 1.0 || picked[1] != 2.0 {
+		t.Errorf("picked steps %v, want [1 2]", picked)
+	}
+	src, err := terrain.Open(tif)
+	if err != nil {
+		t.Fatal(err)
+	}
+	g, err := src.Window(-24.501, -0.501, -24.499, -0.499)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Field at 100 m with a 300 m reserve: 400 m at the field, within the
+	// rise of the glide cone over one cell of about 110 m (110/9 ≈ 12 m):
+	// the raster is sampled bilinearly across the cone's apex.
+	if v, ok := g.Elevation(-0.5, -24.5); !ok || v < 399 || v > 400+15 {
+		t.Errorf("least altitude at the field %.1f m (ok %v), want 400 m", v, ok)
+	}
+}
+
+func TestCoverageCorridorAGL(t *testing.T) {
+	// A corridor along a route with --agl on flat ground is the same as
+	// --alt at ground + AGL (common practice, no source).
+	route := filepath.Join("..", "..", "testdata", "routes", "demo-route.gpx")
+	fields := filepath.Join("..", "..", "testdata", "fields", "demo-fields.geojson")
+	get := func(args ...string) float64 {
+		code, out, stderr := runCLI(t, append([]string{"coverage", "--fields", fields, "--corridor", route + ",10km", "--ground", "200m", "--format", "json"}, args...)...)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, stderr)
+		}
+		var m map[string]any
+		if err := json.Unmarshal([]byte(out), &m); err != nil {
+			t.Fatal(err)
+		}
+		return m["covered_fraction"].(float64)
+	}
+	a, b := get("--agl", "1500m"), get("--alt", "1700m")
+	if a != b || !(a > 0 && a < 1) {
+		t.Errorf("--agl 1500m over 200 m ground covers %.4f, --alt 1700m %.4f", a, b)
+	}
+}
+
+func TestCoverageBadInput(t *testing.T) {
+	// Bad input exits 2 naming the flag or file.
+	fields := filepath.Join("..", "..", "testdata", "fields", "demo-fields.geojson")
+	box := "-24.8,-0.8,-24.2,-0.2"
+	checkUsageErrors(t, []struct {
+		args []string
+		want string
+	}{
+		{[]string{"coverage", "--area", box, "--alt", "1500m"}, "--fields"},
+		{[]string{"coverage", "--fields", fields, "--alt", "1500m"}, "--area"},
+		{[]string{"coverage", "--fields", fields, "--area", box}, "--alt"},
+		{[]string{"coverage", "--fields", fields, "--area", "-24.8,-0.8,-24.9,-0.2", "--alt", "1500m"}, "--area"},
+		{[]string{"coverage", "--fields", fields, "--area", box, "--corridor", "x.gpx,5km", "--alt", "1500m"}, "area"},
+		{[]string{"coverage", "--fields", fields, "--corridor", "x.gpx", "--alt", "1500m"}, "--corridor"},
+		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--raster", "least.png"}, "--raster"},
+		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--pick", "-1"}, "--pick"},
+		{[]string{"coverage", "--fields", fields, "--area", box, "--agl", "0m"}, "--agl"},
+		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--candidates", "none.geojson"}, "none.geojson"},
+		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--format", "csv"}, "--format"},
+	})
+}
