@@ -47,6 +47,8 @@ type FootprintResult struct {
 	Reserve float64
 	// StartX, StartY are the start in cell units of Ground.
 	StartX, StartY float64
+	// members are the footprints an Intersect combined (nil otherwise).
+	members []*FootprintResult
 }
 
 // ErrStartBelowGround is returned when the start altitude is not above the
@@ -163,6 +165,17 @@ func (f *FootprintResult) AGL(c, r int) float64 {
 // cells around the point, so it is exact along the solver's own paths. ok is
 // false when no glide reaches there.
 func (f *FootprintResult) ArrivalAt(lat, lon float64) (alt float64, ok bool) {
+	if f.members != nil {
+		low := math.Inf(1)
+		for _, m := range f.members {
+			a, ok := m.ArrivalAt(lat, lon)
+			if !ok {
+				return math.NaN(), false
+			}
+			low = math.Min(low, a)
+		}
+		return low, true
+	}
 	x, y := f.Ground.Frame.Forward(lat, lon)
 	gx, gy := (x-f.Ground.X0)/f.Ground.Cell, (y-f.Ground.Y0)/f.Ground.Cell
 	return f.arrivalAtCellXY(gx, gy)
@@ -209,7 +222,12 @@ func (f *FootprintResult) arrivalAtCellXY(gx, gy float64) (float64, bool) {
 
 // Path returns the bend points (frame metres) of the best glide from the
 // start to cell (c, r), start first, and false when no glide reaches it.
+//
+// For an Intersect of several footprints it is the path of the first.
 func (f *FootprintResult) Path(c, r int) ([][2]float64, bool) {
+	if f.members != nil {
+		return f.members[0].Path(c, r)
+	}
 	p := f.prop
 	q := r*p.cols + c
 	if p.state[q] == cellUntouched {

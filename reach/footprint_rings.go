@@ -1,6 +1,7 @@
 package reach
 
 import (
+	"errors"
 	"math"
 
 	"github.com/paulmach/orb"
@@ -76,4 +77,35 @@ func (f *FootprintResult) Farthest(agl float64) (dist, bearing float64) {
 		b += 360
 	}
 	return math.Sqrt(best) * g.Cell, b
+}
+
+// Intersect combines footprints computed on the same Ground from the same
+// start under different assumptions (for example the members of a
+// wind-uncertainty set) into the conservative one: at every cell the lowest
+// arrival altitude of the members, NaN where any member does not arrive;
+// ArrivalAt is the lowest of the members' too. It returns an error when
+// the members do not share their Ground.
+func Intersect(members []*FootprintResult) (*FootprintResult, error) {
+	if len(members) == 0 {
+		return nil, errors.New("reach: Intersect needs at least one footprint")
+	}
+	if len(members) == 1 {
+		return members[0], nil
+	}
+	first := members[0]
+	out := *first
+	out.Arrival = make([]float32, len(first.Arrival))
+	copy(out.Arrival, first.Arrival)
+	for _, m := range members[1:] {
+		if m.Ground != first.Ground {
+			return nil, errors.New("reach: Intersect: footprints on different terrain windows")
+		}
+		for i, a := range m.Arrival {
+			if a != a || a < out.Arrival[i] {
+				out.Arrival[i] = a
+			}
+		}
+	}
+	out.members = members
+	return &out, nil
 }

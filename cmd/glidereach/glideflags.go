@@ -32,6 +32,7 @@ type glideFlags struct {
 	isaDev    *input.Quantity
 	wind      string
 	windAloft string
+	windError string
 	reserve   *input.Quantity
 	clearance *input.Quantity
 }
@@ -57,16 +58,20 @@ func (g *glideFlags) register(fs *pflag.FlagSet) {
 	fs.Var(g.isaDev, "isa-dev", "temperature deviation from ISA (K or C difference) where the wind gives no temperature")
 	fs.StringVar(&g.wind, "wind", "", "wind: calm, DIR/SPEED (270/20kt), layers (0m:240/10kt,1500m:270/20kt), or a YAML/JSON/CSV file")
 	fs.StringVar(&g.windAloft, "wind-aloft", "", "coded winds-aloft groups with levels in ft, e.g. \"3000:2714 6000:2725+05\", or a bulletin file")
+	fs.StringVar(&g.windError, "wind-error", "", "wind uncertainty DIR,SPEED (e.g. 20deg,5kt): the result holds for every wind within it (conservative)")
 	fs.Var(g.reserve, "reserve", "height above a field to arrive with (m, ft); default 300 m or the profile's")
 	fs.Var(g.clearance, "clearance", "least height above terrain on the way (m, ft); default 100 m or the profile's")
 }
 
 // glideSetup is the resolved form of glideFlags.
 type glideSetup struct {
-	Aircraft  *reach.Aircraft
-	Cond      reach.Conditions
-	Atm       reach.Atmosphere
-	Wind      *wind.Profile // never nil; calm when no wind was given
+	Aircraft *reach.Aircraft
+	Cond     reach.Conditions
+	Atm      reach.Atmosphere
+	Wind     *wind.Profile // never nil; calm when no wind was given
+	// Winds are the wind scenarios a conservative result must hold for:
+	// Wind alone, or Wind and its --wind-error perturbations (Wind first).
+	Winds     []*wind.Profile
 	Reserve   float64
 	Clearance float64
 	WindText  string
@@ -120,12 +125,33 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 		return nil, input.Usagef("--clearance", "%v m is outside 0..3000 m", s.Clearance)
 	}
 	s.WindText = windText(w)
+	s.Winds = []*wind.Profile{w}
+	if g.windError != "" {
+		d, sp, err := input.ParseWindError(g.windError)
+		if err != nil {
+			return nil, input.FlagError("--wind-error", g.windError, err)
+		}
+		s.Winds = wind.Perturb(w, d, sp)
+		if len(s.Winds) > 1 {
+			s.WindText += fmt.Sprintf(" (±%.0f°, ±%.0f kt: worst of %d winds)", d, sp/input.Knot, len(s.Winds))
+		}
+	}
 	return s, nil
 }
 
 // table builds the speed-to-fly table for altitudes lo..hi (m MSL).
 func (s *glideSetup) table(lo, hi float64) (*reach.Table, error) {
-	return reach.NewTable(s.Aircraft, s.Atm, s.Wind, s.Cond, math.Max(lo, -4900), math.Min(hi, 19900))
+	return s.tableFor(s.Wind, lo, hi)
+}
+
+// tableFor builds the table in wind w (one of Winds).
+func (s *glideSetup) tableFor(w *wind.Profile, lo, hi float64) (*reach.Table, error) {
+	atm := s.Atm
+	if w.HasTemperatures() {
+		dev := atm.ISADev
+		atm.Temp = func(h float64) (float64, bool) { return w.Temperature(h, dev) }
+	}
+	return reach.NewTable(s.Aircraft, atm, w, s.Cond, math.Max(lo, -4900), math.Min(hi, 19900))
 }
 
 // assumptions lists the inputs a result rests on, for every output.

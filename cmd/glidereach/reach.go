@@ -246,13 +246,17 @@ func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positi
 	var l *terrain.Local
 	var grid *terrain.Grid
 	for pass := 0; pass < 2; pass++ {
-		tab, err := setup.table(bottom-50, alt+50)
-		if err != nil {
-			return nil, &input.UsageError{Where: "--aircraft", Err: err}
-		}
-		radius, err := reach.ReachRadius(tab, alt, bottom)
-		if err != nil {
-			return nil, &input.UsageError{Err: err}
+		radius := 0.0
+		for _, w := range setup.Winds {
+			tab, err := setup.tableFor(w, bottom-50, alt+50)
+			if err != nil {
+				return nil, &input.UsageError{Where: "--aircraft", Err: err}
+			}
+			r, err := reach.ReachRadius(tab, alt, bottom)
+			if err != nil {
+				return nil, &input.UsageError{Err: err}
+			}
+			radius = math.Max(radius, r)
 		}
 		l, grid, err = gr.window(lat, lon, radius*1.02+1000)
 		if err != nil {
@@ -273,19 +277,30 @@ func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positi
 	for _, v := range extraLevels {
 		minLevel = math.Min(minLevel, v)
 	}
-	tab, err := setup.table(lo+math.Min(minLevel, 0)-260, alt+60)
-	if err != nil {
-		return nil, &input.UsageError{Where: "--aircraft", Err: err}
-	}
 	prog := newProgress(stderr, "reach")
-	res, err := reach.Footprint(ctx, l, reach.Start{Lat: lat, Lon: lon, Alt: alt}, tab, reach.FootprintOptions{
-		Reserve: setup.Reserve, Clearance: setup.Clearance, Levels: extraLevels, Progress: prog.set})
-	prog.done()
-	if err != nil {
-		switch {
-		case errors.Is(err, reach.ErrStartBelowGround), errors.Is(err, reach.ErrStartOffGround):
-			return nil, &input.UsageError{Where: "--from", Err: err}
+	var members []*reach.FootprintResult
+	for k, w := range setup.Winds {
+		tab, err := setup.tableFor(w, lo+math.Min(minLevel, 0)-260, alt+60)
+		if err != nil {
+			return nil, &input.UsageError{Where: "--aircraft", Err: err}
 		}
+		n := float64(len(setup.Winds))
+		res, err := reach.Footprint(ctx, l, reach.Start{Lat: lat, Lon: lon, Alt: alt}, tab, reach.FootprintOptions{
+			Reserve: setup.Reserve, Clearance: setup.Clearance, Levels: extraLevels,
+			Progress: func(d float64) { prog.set((float64(k) + d) / n) }})
+		if err != nil {
+			prog.done()
+			switch {
+			case errors.Is(err, reach.ErrStartBelowGround), errors.Is(err, reach.ErrStartOffGround):
+				return nil, &input.UsageError{Where: "--from", Err: err}
+			}
+			return nil, err
+		}
+		members = append(members, res)
+	}
+	prog.done()
+	res, err := reach.Intersect(members)
+	if err != nil {
 		return nil, err
 	}
 	run.res = res
@@ -400,16 +415,28 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 		win = w
 	}
 	ceiling := math.Max(run.startAlt, fr.ElevationM+reserve) + 4000
-	tab, err := run.setup.table(math.Min(lowest(win), fr.ElevationM)-60, ceiling+60)
-	if err != nil {
-		return fr, &input.UsageError{Where: "--aircraft", Err: err}
+	req, ok := math.Inf(-1), true
+	for _, w := range run.setup.Winds {
+		tab, err := run.setup.tableFor(w, math.Min(lowest(win), fr.ElevationM)-60, ceiling+60)
+		if err != nil {
+			return fr, &input.UsageError{Where: "--aircraft", Err: err}
+		}
+		r, rok, err := reach.RequiredFrom(ctx, win, reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: fr.ElevationM, Reserve: reserve}, tab,
+			reach.RequiredOptions{Clearance: run.setup.Clearance, Ceiling: ceiling}, run.startLat, run.startLon)
+		if err != nil {
+			if errors.Is(err, reach.ErrNoTargets) || errors.Is(err, reach.ErrStartOffGround) {
+				ok = false
+				break
+			}
+			return fr, err
+		}
+		if !rok {
+			ok = false
+			break
+		}
+		req = math.Max(req, r) // the highest: it must hold in every wind
 	}
-	req, ok, err := reach.RequiredFrom(ctx, win, reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: fr.ElevationM, Reserve: reserve}, tab,
-		reach.RequiredOptions{Clearance: run.setup.Clearance, Ceiling: ceiling}, run.startLat, run.startLon)
-	if err != nil && !errors.Is(err, reach.ErrNoTargets) && !errors.Is(err, reach.ErrStartOffGround) {
-		return fr, err
-	}
-	if err == nil && ok {
+	if ok {
 		fr.RequiredMSL = req
 	} else if fr.Note == "" {
 		fr.Note = fmt.Sprintf("not reachable from below %.0f m MSL", ceiling)

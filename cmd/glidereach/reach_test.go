@@ -240,3 +240,35 @@ func TestReachBadInput(t *testing.T) {
 		}
 	}
 }
+
+func TestReachWindErrorIsConservative(t *testing.T) {
+	// With --wind-error the footprint must hold for every wind of the set
+	// (common practice for a forecast's uncertainty, no source): its area is
+	// no larger than the nominal one and a field needs no less altitude.
+	fields := writeTestFields(t, -0.5, -24.5, []float64{9000}, []float64{200})
+	get := func(extra ...string) (area, required float64) {
+		args := append([]string{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--wind", "270/20kt", "--fields", fields, "--format", "json"}, extra...)
+		code, out, stderr := runCLI(t, args...)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, stderr)
+		}
+		var r struct {
+			Levels []struct {
+				Area float64 `json:"area_m2"`
+			} `json:"levels"`
+			Fields []map[string]any `json:"fields"`
+		}
+		if err := json.Unmarshal([]byte(out), &r); err != nil {
+			t.Fatal(err)
+		}
+		return r.Levels[0].Area, r.Fields[0]["required_msl_m"].(float64)
+	}
+	a0, r0 := get()
+	a1, r1 := get("--wind-error", "20deg,5kt")
+	if !(a1 < a0) || !(r1 > r0) {
+		t.Errorf("with wind error: area %.0f (nominal %.0f), required %.1f (nominal %.1f)", a1, a0, r1, r0)
+	}
+	if code, _, _ := runCLI(t, "reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--wind-error", "400deg,5kt"); code != 2 {
+		t.Errorf("bad --wind-error: exit %d, want 2", code)
+	}
+}
