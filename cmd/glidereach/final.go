@@ -403,7 +403,7 @@ var demoFinalRun = struct {
 	field      string
 	alt        float64
 	mc         float64
-}{from: [2]float64{-0.70, -24.30}, turn: [2]float64{-0.52, -24.36}, field: "Tern Hollow", alt: 2200, mc: 1.0}
+}{from: [2]float64{-0.70, -24.30}, turn: [2]float64{-0.52, -24.36}, field: "Tern Hollow", alt: 2800, mc: 1.0}
 
 // demoFinal computes the demo's final glide and writes its GeoJSON, JSON,
 // map and report.
