@@ -81,6 +81,10 @@ func fmtSigned(v float64) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return "-"
 	}
+	v = math.Round(v)
+	if v == 0 {
+		v = 0 // no "-0"
+	}
 	return fmt.Sprintf("%+.0f", v)
 }
 
