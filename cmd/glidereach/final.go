@@ -16,6 +16,7 @@ import (
 	"glidereach/reach"
 	"glidereach/reach/geodesy"
 	"glidereach/terrain"
+	"glidereach/wind"
 )
 
 func init() {
@@ -126,6 +127,7 @@ type finalRun struct {
 	altGiven  bool    // false: the glide starts at the required altitude
 	goalName  string
 	goalFrom  string // where the goal elevation came from
+	worstWind string // with --wind-error: the wind the figures are for
 	res       *reach.FinalGlideResult
 }
 
@@ -337,18 +339,52 @@ func computeFinal(ctx context.Context, run *finalRun, route []geodesy.LatLon, st
 		}
 		opts.Step = step.Value
 	}
-	perf := reach.Performance{Aircraft: s.Aircraft, Atm: s.Atm, Wind: s.Wind, Cond: s.Cond}
-	res, err := reach.FinalGlide(ctx, route, startAlt, perf, opts)
-	if lt != nil && lt.err != nil {
-		return nil, &input.UsageError{Where: "--terrain", Err: lt.err}
+	// With --wind-error every wind of the set is flown and the one that
+	// needs the most altitude (no headway first) is reported, whole: its
+	// legs, arrival, terrain check and MacCready figures belong together.
+	winds := s.Winds
+	if len(winds) == 0 {
+		winds = []*wind.Profile{s.Wind}
 	}
+	var worst *reach.FinalGlideResult
+	for i, w := range winds {
+		perf := reach.Performance{Aircraft: s.Aircraft, Atm: s.Atm, Wind: w, Cond: s.Cond}
+		res, err := reach.FinalGlide(ctx, route, startAlt, perf, opts)
+		if lt != nil && lt.err != nil {
+			return nil, &input.UsageError{Where: "--terrain", Err: lt.err}
+		}
+		switch {
+		case errors.Is(err, reach.ErrFinalTooHigh):
+			return nil, &input.UsageError{Where: "--to", Err: fmt.Errorf("the goal is far out of reach: %w", err)}
+		case err != nil:
+			return nil, err
+		}
+		if worst == nil || finalWorse(res, worst) {
+			worst = res
+			if len(winds) > 1 {
+				run.worstWind = windText(w)
+				if i == 0 {
+					run.worstWind += " (the nominal wind)"
+				}
+			}
+		}
+	}
+	return worst, nil
+}
+
+// finalWorse reports whether a is the more demanding glide: no headway, or
+// a higher required altitude, or (equal) a lower arrival.
+func finalWorse(a, b *reach.FinalGlideResult) bool {
+	an, bn := a.Status == reach.FinalNoHeadway, b.Status == reach.FinalNoHeadway
 	switch {
-	case errors.Is(err, reach.ErrFinalTooHigh):
-		return nil, &input.UsageError{Where: "--to", Err: fmt.Errorf("the goal is far out of reach: %w", err)}
-	case err != nil:
-		return nil, err
+	case an != bn:
+		return an
+	case an:
+		return false
+	case a.Required != b.Required:
+		return a.Required > b.Required
 	}
-	return res, nil
+	return a.Arrival < b.Arrival
 }
 
 // lineTerrain samples a DEM along a line through small windows read as the

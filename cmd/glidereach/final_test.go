@@ -127,6 +127,22 @@ func TestFinalTurnPointsAndText(t *testing.T) {
 	}
 }
 
+func TestFinalWindError(t *testing.T) {
+	// --wind-error: the reported glide is the most demanding of the wind
+	// set, so it needs at least the nominal wind's altitude (the set holds
+	// the nominal wind; wind.Perturb).
+	args := []string{"--from", "-0.5,-24.5", "--alt", "1500m", "--to", "-0.45,-24.39", "--to", "-0.55,-24.3@150m",
+		"--wind", "0m:240/10kt,1500m:270/20kt", "--aircraft", "sailplane"}
+	nominal := numField(t, finalDoc(t, args...), "required_msl_m")
+	doc := finalDoc(t, append(args, "--wind-error", "20deg,5kt")...)
+	if worst := numField(t, doc, "required_msl_m"); worst < nominal {
+		t.Errorf("worst of the wind set needs %.1f m, the nominal wind %.1f m", worst, nominal)
+	}
+	if doc["worst_wind"] == nil {
+		t.Error("worst_wind missing")
+	}
+}
+
 func TestFinalGoalElevationFromDEM(t *testing.T) {
 	// The goal's elevation comes from the DEM when --to has no @ELEV: at a
 	// cell centre of testdata/geotiff/geo_int16_strip_none.tif (1/1200°

@@ -192,6 +192,9 @@ func finalAssumptions(run *finalRun) []string {
 	a := run.setup.assumptions()
 	a = append(a, "each leg flown on its geodesic track at the speed to fly for the MacCready setting, altitude integrated through the wind and density layers",
 		"terrain: "+run.ground.describe())
+	if run.worstWind != "" {
+		a = append(a, "figures for the wind of the --wind-error set that needs the most altitude: "+run.worstWind)
+	}
 	if !run.altGiven {
 		a = append(a, "no start altitude given: the glide starts at the required altitude")
 	}
@@ -302,6 +305,9 @@ func finalSummary(run *finalRun) map[string]any {
 		"wind":                      s.WindText,
 		"terrain":                   run.ground.describe(),
 		"assumptions":               finalAssumptions(run),
+	}
+	if run.worstWind != "" {
+		out["worst_wind"] = run.worstWind
 	}
 	if t := r.Terrain; t != nil {
 		out["terrain_check"] = map[string]any{
