@@ -509,18 +509,136 @@ func (g *finalGlide) backward(m LossModel, least []float64) int {
 	return -1
 }
 
+// groundSpeeder gives the ground speed (m/s) at altitude h on track th
+// (radians) flying the speed to fly: *Table and *trackTable.
+type groundSpeeder interface {
+	groundSpeed(h, th float64) float64
+}
+
+func (t *Table) groundSpeed(h, th float64) float64 { return t.At(h, th).GroundSpeed }
+
 // times returns the elapsed time (s) at each sample of the glide alt:
 // ∫ ds/G by Simpson's rule on each segment (G at its ends and middle).
-func (g *finalGlide) times(t *Table, alt []float64) []float64 {
+func (g *finalGlide) times(t groundSpeeder, alt []float64) []float64 {
 	out := make([]float64, len(alt))
 	for k, ds := range g.ds {
 		th := g.th[k]
-		g0 := t.At(alt[k], th).GroundSpeed
-		gm := t.At((alt[k]+alt[k+1])/2, th).GroundSpeed
-		g1 := t.At(alt[k+1], th).GroundSpeed
+		g0 := t.groundSpeed(alt[k], th)
+		gm := t.groundSpeed((alt[k]+alt[k+1])/2, th)
+		g1 := t.groundSpeed(alt[k+1], th)
 		out[k+1] = out[k] + ds*(1/g0+4/gm+1/g1)/6
 	}
 	return out
+}
+
+// trackTable is a Table filled lazily: the same altitude nodes, the same
+// TableDirections direction nodes and the same bilinear interpolation as
+// NewTable over hMin..hMax, but a direction column is computed only when a
+// query needs it. A final glide meets a handful of tracks, so the MacCready
+// search builds one per trial setting at a few per cent of a full Table's
+// cost. Not safe for concurrent use.
+type trackTable struct {
+	ac         *Aircraft
+	wind       WindField
+	c          Conditions
+	hMin, hMax float64
+	dh         float64
+	nh         int
+	rho        []float64
+	cols       map[int][]SpeedToFly
+}
+
+// newTrackTable prepares a trackTable; ac and c must have passed Check.
+func newTrackTable(p Performance, mc, lo, hi float64) *trackTable {
+	c := p.Cond
+	c.MacCready = mc
+	lo, hi = math.Max(lo, finalTableMin), math.Min(hi, finalTableMax)
+	if hi < lo {
+		hi = lo
+	}
+	nh := int(math.Ceil((hi-lo)/TableBand)) + 1
+	if nh < 2 {
+		nh = 2
+	}
+	t := &trackTable{ac: p.Aircraft, wind: p.Wind, c: c, hMin: lo, hMax: hi, dh: (hi - lo) / float64(nh-1), nh: nh, cols: map[int][]SpeedToFly{}}
+	if t.dh == 0 {
+		t.dh = 1
+	}
+	t.rho = make([]float64, nh)
+	for i := range t.rho {
+		t.rho[i] = p.Atm.Density(lo + float64(i)*t.dh)
+	}
+	return t
+}
+
+// col returns direction column j, computing it on first use.
+func (t *trackTable) col(j int) []SpeedToFly {
+	if c, ok := t.cols[j]; ok {
+		return c
+	}
+	c := make([]SpeedToFly, t.nh)
+	deg := float64(j) * 360 / TableDirections
+	for i := range c {
+		var along, cross float64
+		if t.wind != nil {
+			along, cross = t.wind.Components(t.hMin+float64(i)*t.dh, deg)
+		}
+		c[i] = t.ac.SpeedToFly(t.rho[i], along, cross, t.c)
+	}
+	t.cols[j] = c
+	return c
+}
+
+// cell is Table.cell on this grid.
+func (t *trackTable) cell(h, bearing float64) (i0 int, th float64, j0, j1 int, tb float64, ok bool) {
+	if math.IsNaN(h) || math.IsNaN(bearing) || math.IsInf(bearing, 0) {
+		return 0, 0, 0, 0, 0, false
+	}
+	fh := (math.Max(t.hMin, math.Min(t.hMax, h)) - t.hMin) / t.dh
+	i0 = int(fh)
+	if i0 > t.nh-2 {
+		i0 = t.nh - 2
+	}
+	th = fh - float64(i0)
+	fd := math.Mod(bearing/(2*math.Pi), 1)
+	if fd < 0 {
+		fd++
+	}
+	fd *= TableDirections
+	j0 = int(fd)
+	if j0 >= TableDirections {
+		j0, fd = 0, 0
+	}
+	tb = fd - float64(j0)
+	j1 = j0 + 1
+	if j1 == TableDirections {
+		j1 = 0
+	}
+	return i0, th, j0, j1, tb, true
+}
+
+// Loss is Table.Loss on this grid.
+func (t *trackTable) Loss(h, bearing float64) float64 {
+	i0, th, j0, j1, tb, ok := t.cell(h, bearing)
+	if !ok {
+		return math.Inf(1)
+	}
+	c0, c1 := t.col(j0), t.col(j1)
+	a, b, c, d := c0[i0].Loss, c1[i0].Loss, c0[i0+1].Loss, c1[i0+1].Loss
+	if math.IsInf(a+b+c+d, 1) {
+		return math.Inf(1)
+	}
+	return (1-th)*((1-tb)*a+tb*b) + th*((1-tb)*c+tb*d)
+}
+
+func (t *trackTable) groundSpeed(h, bearing float64) float64 {
+	i0, th, j0, j1, tb, ok := t.cell(h, bearing)
+	if !ok {
+		return math.NaN()
+	}
+	c0, c1 := t.col(j0), t.col(j1)
+	a, b, c, d := c0[i0].GroundSpeed, c1[i0].GroundSpeed, c0[i0+1].GroundSpeed, c1[i0+1].GroundSpeed
+	return (1-th)*((1-tb)*a+tb*b) + th*((1-tb)*c+tb*d)
 }
 
 // arrivalAt returns the arrival altitude at the goal gliding from h0 with
@@ -760,8 +878,8 @@ func (g *finalGlide) macCready(ctx context.Context, res *FinalGlideResult, mcMax
 	*mc = FinalMacCready{Setting: g.perf.Cond.MacCready, Affordable: nan, ArrivalAGL: nan, Time0: nan, TimeAffordable: nan, Saved: nan}
 	h0 := res.StartAlt
 	hi := h0 + 50
-	tables := map[float64]*Table{}
-	tableAt := func(m float64) (*Table, error) {
+	tables := map[float64]*trackTable{}
+	tableAt := func(m float64) (*trackTable, error) {
 		if t, ok := tables[m]; ok {
 			return t, nil
 		}
@@ -770,10 +888,7 @@ func (g *finalGlide) macCready(ctx context.Context, res *FinalGlideResult, mcMax
 		}
 		// The glides of the search end near GoalElev + Reserve; rows below
 		// that matter only for trials that fail anyway.
-		t, err := g.perf.table(m, math.Max(g.lo, g.goalTop-200), hi)
-		if err != nil {
-			return nil, err
-		}
+		t := newTrackTable(g.perf, m, math.Max(g.lo, g.goalTop-200), hi)
 		tables[m] = t
 		return t, nil
 	}

@@ -431,3 +431,26 @@ func BenchmarkFinalGlide(b *testing.B) {
 		}
 	}
 }
+
+func TestTrackTableMatchesTable(t *testing.T) {
+	// The lazily filled table of the MacCready search is NewTable's grid
+	// and interpolation: it must give the same values (to rounding).
+	ac, _ := Builtin("sailplane")
+	w := layeredWind(t, 1)
+	perf := Performance{Aircraft: ac, Atm: Atmosphere{ISADev: 5}, Wind: w, Cond: Conditions{Bugs: 0.05}}
+	full, err := perf.table(1.2, 130, 2870)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lazy := newTrackTable(perf, 1.2, 130, 2870)
+	for i := 0; i < 2000; i++ {
+		h := 100 + float64(i%97)*29.3
+		b := float64(i) * 0.7311
+		if a, c := full.Loss(h, b), lazy.Loss(h, b); math.Abs(a-c) > 1e-12*a {
+			t.Fatalf("Loss(%v, %v): table %v, track table %v", h, b, a, c)
+		}
+		if a, c := full.At(h, b).GroundSpeed, lazy.groundSpeed(h, b); math.Abs(a-c) > 1e-9 {
+			t.Fatalf("ground speed (%v, %v): table %v, track table %v", h, b, a, c)
+		}
+	}
+}
