@@ -128,6 +128,7 @@ type finalRun struct {
 	goalName  string
 	goalFrom  string // where the goal elevation came from
 	worstWind string // with --wind-error: the wind the figures are for
+	goalNote  string // a warning about the goal elevation, if any
 	res       *reach.FinalGlideResult
 }
 
@@ -266,6 +267,13 @@ func runFinal(ctx context.Context, o *finalOptions, stdout io.Writer) error {
 			run.goalFrom = "terrain"
 		} else {
 			run.goalFrom = "--ground"
+		}
+	}
+	if goal.HasElev && src != nil {
+		// A goal elevation far from the DEM's makes the clearance near the
+		// goal meaningless; say so rather than guess which is right.
+		if e, ok, err := run.ground.elevationAt(goal.Lat, goal.Lon); err == nil && ok && math.Abs(e-goal.Elev) > 30 {
+			run.goalNote = fmt.Sprintf("the terrain data give %.0f m at the goal, %+.0f m from the %.0f m used", e, e-goal.Elev, goal.Elev)
 		}
 	}
 	res, err := computeFinal(ctx, run, route, startAlt, goal.Elev, o.step)

@@ -119,6 +119,9 @@ func writeFinalText(w io.Writer, run *finalRun) {
 		fmt.Fprintf(w, " in %d legs", len(r.Legs))
 	}
 	fmt.Fprintln(w)
+	if run.goalNote != "" {
+		fmt.Fprintln(w, "NOTE:", run.goalNote)
+	}
 	fmt.Fprintf(w, "Aircraft: %s   Wind: %s   MacCready %.1f m/s\n", s.Aircraft.Name, s.WindText, s.Cond.MacCready)
 	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.describe())
 
@@ -308,6 +311,9 @@ func finalSummary(run *finalRun) map[string]any {
 	}
 	if run.worstWind != "" {
 		out["worst_wind"] = run.worstWind
+	}
+	if run.goalNote != "" {
+		out["goal_note"] = run.goalNote
 	}
 	if t := r.Terrain; t != nil {
 		out["terrain_check"] = map[string]any{
