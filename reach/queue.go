@@ -12,8 +12,9 @@ import "math"
 type bucketQueue struct {
 	lo, w   float64
 	buckets [][]int32
-	top     int // highest bucket that may be non-empty
-	n       int // entries, stale ones included
+	top     int       // highest bucket that may be non-empty
+	n       int       // entries, stale ones included
+	free    [][]int32 // emptied buckets' storage, reused by push (the front moves through the buckets, so a few suffice)
 }
 
 func newBucketQueue(lo, hi, w float64) *bucketQueue {
@@ -35,6 +36,10 @@ func (q *bucketQueue) bucket(k float32) int {
 
 func (q *bucketQueue) push(c int32, k float32) {
 	b := q.bucket(k)
+	if q.buckets[b] == nil && len(q.free) > 0 {
+		q.buckets[b] = q.free[len(q.free)-1]
+		q.free = q.free[:len(q.free)-1]
+	}
 	q.buckets[b] = append(q.buckets[b], c)
 	if b > q.top {
 		q.top = b
@@ -53,7 +58,10 @@ func (q *bucketQueue) pop() (c int32, b int, ok bool) {
 			q.n--
 			return c, q.top, true
 		}
-		q.buckets[q.top] = nil // release the bucket's memory
+		if bk != nil && len(q.free) < 64 {
+			q.free = append(q.free, bk[:0]) // keep the storage for the next buckets
+		}
+		q.buckets[q.top] = nil
 		q.top--
 	}
 	return 0, 0, false
