@@ -71,3 +71,23 @@ func (l *Local) Sample(x, y float64) (float64, bool) {
 	v := (a*(1-tx)+b*tx)*(1-ty) + (d*(1-tx)+e*tx)*ty
 	return v, !math.IsNaN(v)
 }
+
+// Crop returns the part of l covering frame box [x0, x1] × [y0, y1]
+// (metres), clipped to l, as a new Local sharing no memory with l; nil when
+// the box misses l.
+func (l *Local) Crop(x0, y0, x1, y1 float64) *Local {
+	c0 := max(int(math.Floor((x0-l.X0)/l.Cell)), 0)
+	r0 := max(int(math.Floor((y0-l.Y0)/l.Cell)), 0)
+	c1 := min(int(math.Ceil((x1-l.X0)/l.Cell)), l.Cols-1)
+	r1 := min(int(math.Ceil((y1-l.Y0)/l.Cell)), l.Rows-1)
+	if c1 < c0 || r1 < r0 {
+		return nil
+	}
+	out := &Local{Frame: l.Frame, X0: l.X0 + float64(c0)*l.Cell, Y0: l.Y0 + float64(r0)*l.Cell, Cell: l.Cell,
+		Cols: c1 - c0 + 1, Rows: r1 - r0 + 1, Flat: l.Flat, Source: l.Source}
+	out.Elev = make([]float32, out.Cols*out.Rows)
+	for r := 0; r < out.Rows; r++ {
+		copy(out.Elev[r*out.Cols:(r+1)*out.Cols], l.Elev[(r0+r)*l.Cols+c0:])
+	}
+	return out
+}

@@ -10,6 +10,7 @@ import (
 	"sort"
 	"strings"
 	"text/tabwriter"
+	"time"
 
 	"github.com/spf13/cobra"
 
@@ -88,10 +89,11 @@ Everything in it is made up for demonstration.
 					return err
 				}
 				fmt.Fprintf(d.out, "== %d. %s\n\n", i+1, s.name)
+				t0 := time.Now()
 				if err := s.run(cmd.Context(), d); err != nil {
 					return fmt.Errorf("demo step %q: %w", s.name, err)
 				}
-				fmt.Fprintln(d.out)
+				fmt.Fprintf(d.out, "(step %d took %.1f s)\n\n", i+1, time.Since(t0).Seconds())
 			}
 			fmt.Fprintf(d.out, "Wrote %d files to %s:\n", len(d.files), dir)
 			for _, f := range d.files {

@@ -559,8 +559,13 @@ func drawFinal(run *finalRun, mapPath, reportPath string) error {
 	if err != nil {
 		return err
 	}
+	// Draw the map once; the report embeds the same picture.
+	pngData, err := renderPNGBytes(scene)
+	if err != nil {
+		return err
+	}
 	if mapPath != "" {
-		if err := writeFileAtomic(mapPath, func(f *os.File) error { return render.RenderPNG(f, scene, 0) }); err != nil {
+		if err := writeBytesAtomic(mapPath, pngData); err != nil {
 			return err
 		}
 	}
@@ -591,5 +596,6 @@ func drawFinal(run *finalRun, mapPath, reportPath string) error {
 			fmtRatio(l.GroundRatio), fmtM(l.HeightLost), fmtDuration(l.Time)})
 	}
 	rep.Tables = append(rep.Tables, t, render.Table{Title: "Assumptions", Header: []string{"Input"}, Rows: rowsOf(finalAssumptions(run))})
+	rep.MapPNG = pngData
 	return writeFileAtomic(reportPath, func(f *os.File) error { return render.WriteReport(f, rep) })
 }

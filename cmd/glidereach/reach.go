@@ -405,7 +405,16 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 	// The least start altitude: backward from the field over a window that
 	// holds both the field and the start.
 	win := l
-	if !onWindow {
+	if onWindow {
+		// The backward propagation needs only the ground between the field
+		// and the start and around them; a path that would leave this box
+		// is not found, which can only raise the figure (conservative).
+		sx, sy := l.Frame.Forward(run.startLat, run.startLon)
+		m := 0.5*math.Hypot(x-sx, y-sy) + 3000
+		if c := l.Crop(math.Min(x, sx)-m, math.Min(y, sy)-m, math.Max(x, sx)+m, math.Max(y, sy)+m); c != nil && c.Cols >= 2 && c.Rows >= 2 {
+			win = c
+		}
+	} else {
 		midLat, midLon := (run.startLat+f.Lat)/2, (run.startLon+f.Lon)/2
 		w, _, err := run.ground.window(midLat, midLon, s/2*1.3+2000)
 		if err != nil {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -270,8 +271,13 @@ func reachScene(run *reachRun) *render.Scene {
 // drawReach writes the map and/or the report of a reach run.
 func drawReach(run *reachRun, mapPath, reportPath string) error {
 	scene := reachScene(run)
+	// Draw the map once; the report embeds the same picture.
+	var pngBuf bytes.Buffer
+	if err := render.RenderPNG(&pngBuf, scene, 0); err != nil {
+		return err
+	}
 	if mapPath != "" {
-		if err := writeFileAtomic(mapPath, func(f *os.File) error { return render.RenderPNG(f, scene, 0) }); err != nil {
+		if err := writeFileAtomic(mapPath, func(f *os.File) error { _, err := f.Write(pngBuf.Bytes()); return err }); err != nil {
 			return err
 		}
 	}
@@ -280,6 +286,7 @@ func drawReach(run *reachRun, mapPath, reportPath string) error {
 			Title:    scene.Title,
 			Subtitle: fmt.Sprintf("Start %.5f, %.5f - %s", run.startLat, run.startLon, run.ground.describe()),
 			Scene:    scene,
+			MapPNG:   pngBuf.Bytes(),
 			Caution:  reach.Caution,
 		}
 		for _, lv := range run.levels {
@@ -329,4 +336,19 @@ func mapBounds(l *terrain.Local, gr ground) orb.Bound {
 		return orb.Bound{}
 	}
 	return b
+}
+
+// renderPNGBytes draws a scene as PNG into memory, so that a map file and a
+// report can share one drawing.
+func renderPNGBytes(scene *render.Scene) ([]byte, error) {
+	var buf bytes.Buffer
+	if err := render.RenderPNG(&buf, scene, 0); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
+// writeBytesAtomic writes data to path atomically.
+func writeBytesAtomic(path string, data []byte) error {
+	return writeFileAtomic(path, func(f *os.File) error { _, err := f.Write(data); return err })
 }

@@ -5,6 +5,7 @@ import (
 	"encoding/base64"
 	"fmt"
 	"html/template"
+	"image/png"
 	"io"
 
 	"glidereach/reach"
@@ -22,6 +23,9 @@ type Report struct {
 	Scene *Scene
 	// MapWidthPx is the map's width in pixels; 0 means DefaultWidthPx.
 	MapWidthPx int
+	// MapPNG, when not empty, is Scene already drawn by RenderPNG: it is
+	// embedded as it is instead of drawing the scene a second time.
+	MapPNG []byte
 	// Summary is a few short lines of results, shown as a list under the
 	// caution.
 	Summary []string
@@ -109,16 +113,26 @@ func WriteReport(w io.Writer, r *Report) error {
 		if d.Caution == "" {
 			d.Caution = r.Scene.caution()
 		}
-		img, err := Render(r.Scene, r.MapWidthPx)
-		if err != nil {
-			return err
+		data := r.MapPNG
+		if len(data) > 0 {
+			cfg, err := png.DecodeConfig(bytes.NewReader(data))
+			if err != nil {
+				return fmt.Errorf("render: report map: %w", err)
+			}
+			d.MapW, d.MapH = cfg.Width, cfg.Height
+		} else {
+			img, err := Render(r.Scene, r.MapWidthPx)
+			if err != nil {
+				return err
+			}
+			var buf bytes.Buffer
+			if err := encodePNG(&buf, img); err != nil {
+				return err
+			}
+			data = buf.Bytes()
+			d.MapW, d.MapH = img.Bounds().Dx(), img.Bounds().Dy()
 		}
-		var png bytes.Buffer
-		if err := encodePNG(&png, img); err != nil {
-			return err
-		}
-		d.Map = template.URL("data:image/png;base64," + base64.StdEncoding.EncodeToString(png.Bytes()))
-		d.MapW, d.MapH = img.Bounds().Dx(), img.Bounds().Dy()
+		d.Map = template.URL("data:image/png;base64," + base64.StdEncoding.EncodeToString(data))
 		d.Inputs = r.Scene.Inputs
 		d.Source = r.Scene.dataSource()
 	}
