@@ -255,8 +255,13 @@ func shortCoverageAlt(run *coverageRun) string {
 // drawCoverage writes the map and/or the report of a coverage run.
 func drawCoverage(run *coverageRun, mapPath, reportPath string) error {
 	scene := coverageScene(run)
+	// Draw the map once; the report embeds the same picture.
+	pngData, err := renderPNGBytes(scene)
+	if err != nil {
+		return err
+	}
 	if mapPath != "" {
-		if err := writeFileAtomic(mapPath, func(f *os.File) error { return render.RenderPNG(f, scene, 0) }); err != nil {
+		if err := writeBytesAtomic(mapPath, pngData); err != nil {
 			return err
 		}
 	}
@@ -293,5 +298,6 @@ func drawCoverage(run *coverageRun, mapPath, reportPath string) error {
 		rep.Tables = append(rep.Tables, ct, st)
 	}
 	rep.Tables = append(rep.Tables, render.Table{Title: "Assumptions", Header: []string{"Input"}, Rows: rowsOf(run.assumptions())})
+	rep.MapPNG = pngData
 	return writeFileAtomic(reportPath, func(f *os.File) error { return render.WriteReport(f, rep) })
 }

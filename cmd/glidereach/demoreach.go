@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"sync"
 )
 
 func init() {
@@ -33,21 +34,34 @@ func demoFootprints(ctx context.Context, d *demoRun) error {
 	if err != nil {
 		return err
 	}
-	for _, r := range demoFootprintRuns {
-		g := newGlideFlags()
-		g.aircraft = r.aircraft
-		g.wind = demoWindSpec
-		setup, err := g.resolve()
-		if err != nil {
-			return err
+	// The two footprints are independent: compute them side by side.
+	runs := make([]*reachRun, len(demoFootprintRuns))
+	errs := make([]error, len(demoFootprintRuns))
+	var wg sync.WaitGroup
+	for i, r := range demoFootprintRuns {
+		wg.Add(1)
+		go func(i int, r demoFootprint) {
+			defer wg.Done()
+			g := newGlideFlags()
+			g.aircraft = r.aircraft
+			g.wind = demoWindSpec
+			setup, err := g.resolve()
+			if err != nil {
+				errs[i] = err
+				return
+			}
+			pos := newPositionFlags()
+			pos.from.Lat, pos.from.Lon, pos.from.Given = r.lat, r.lon, true
+			pos.agl.Value, pos.agl.Given = r.agl, true
+			runs[i], errs[i] = computeReach(ctx, setup, ground{src: sc.src}, pos, sc.fields, []float64{0, 150}, io.Discard)
+		}(i, r)
+	}
+	wg.Wait()
+	for i, r := range demoFootprintRuns {
+		if errs[i] != nil {
+			return errs[i]
 		}
-		pos := newPositionFlags()
-		pos.from.Lat, pos.from.Lon, pos.from.Given = r.lat, r.lon, true
-		pos.agl.Value, pos.agl.Given = r.agl, true
-		run, err := computeReach(ctx, setup, ground{src: sc.src}, pos, sc.fields, []float64{0, 150}, io.Discard)
-		if err != nil {
-			return err
-		}
+		run := runs[i]
 		run.heading = r.heading
 		data, err := reachGeoJSON(run)
 		if err != nil {

@@ -393,8 +393,13 @@ func shortAltMode(run *routeRun) string {
 // drawRoute writes the map and/or the report of a route run.
 func drawRoute(run *routeRun, mapPath, reportPath string) error {
 	scene := routeScene(run)
+	// Draw the map once; the report embeds the same picture.
+	pngData, err := renderPNGBytes(scene)
+	if err != nil {
+		return err
+	}
 	if mapPath != "" {
-		if err := writeFileAtomic(mapPath, func(f *os.File) error { return render.RenderPNG(f, scene, 0) }); err != nil {
+		if err := writeBytesAtomic(mapPath, pngData); err != nil {
 			return err
 		}
 	}
@@ -444,5 +449,6 @@ func drawRoute(run *routeRun, mapPath, reportPath string) error {
 		ft.Rows = append(ft.Rows, []string{f.Name, fmtM(f.Elev), fmt.Sprintf("%.1f", f.BestM/1000), f.Note})
 	}
 	rep.Tables = append(rep.Tables, gt, ft, render.Table{Title: "Assumptions", Header: []string{"Input"}, Rows: rowsOf(run.assumptions())})
+	rep.MapPNG = pngData
 	return writeFileAtomic(reportPath, func(f *os.File) error { return render.WriteReport(f, rep) })
 }
