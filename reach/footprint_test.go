@@ -2,9 +2,11 @@ package reach
 
 import (
 	"context"
+	"errors"
 	"math"
 	"testing"
 
+	"glidereach/reach/geodesy"
 	"glidereach/terrain"
 )
 
@@ -218,5 +220,72 @@ func TestFootprintLayeredWindBounds(t *testing.T) {
 		if got < lower*0.99 || got > upper*1.01 {
 			t.Errorf("bearing %3.0f: reach %.0f m outside [%.0f, %.0f] m (constant track, support bound)", u, got, lower, upper)
 		}
+	}
+}
+
+func TestFootprintTrainerRingEllipsoidal(t *testing.T) {
+	// The built-in trainer in still air over flat ground at sea level, with
+	// its speed-to-fly table (density, and so the true speeds, change with
+	// height): the reserve ring lies at ∫ E(h) dh from the start, E(h) the
+	// ground glide ratio at each height — for this best_glide polar a
+	// constant 9 (the glide ratio does not change with altitude; Anderson,
+	// Introduction to Flight, gliding flight). Every ring vertex is checked
+	// against the ellipsoidal (Vincenty, WGS84) distance from the start,
+	// within 0.5 %.
+	ac, err := Builtin("trainer")
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab, err := NewTable(ac, Atmosphere{}, nil, Conditions{}, -300, 2100)
+	if err != nil {
+		t.Fatal(err)
+	}
+	const H, reserve = 2000.0, 300.0
+	want := 0.0
+	for h := reserve + 0.5; h < H; h++ {
+		want += 1 / tab.Loss(h, 0.3)
+	}
+	lat0, lon0 := -35.2, 150.3 // a mid-latitude, where the ellipsoid's radii differ most from a sphere's
+	g := flatWindow(lat0, lon0, 601, 60, 0)
+	res, err := Footprint(context.Background(), g, Start{Lat: lat0, Lon: lon0, Alt: H}, tab, FootprintOptions{Reserve: reserve, Clearance: 100})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ring := res.Rings([]float64{reserve})[0]
+	if len(ring.Polygons) != 1 {
+		t.Fatalf("%d polygons", len(ring.Polygons))
+	}
+	worst := 0.0
+	for _, p := range ring.Polygons[0][0] {
+		d, _, _, err := geodesy.Inverse(geodesy.LatLon{Lat: lat0, Lon: lon0}, geodesy.LatLon{Lat: p[1], Lon: p[0]})
+		if err != nil {
+			t.Fatal(err)
+		}
+		worst = math.Max(worst, math.Abs(d-want)/want)
+	}
+	if worst > 0.005 {
+		t.Errorf("ring vertices up to %.3f %% off the %.0f m radius", worst*100, want)
+	}
+	t.Logf("radius %.0f m, worst vertex error %.3f %%", want, worst*100)
+}
+
+func TestFootprintStartOnVoid(t *testing.T) {
+	// A glide cannot be planned from over unknown ground: a start on a void
+	// cell or off the window is refused.
+	g := flatWindow(-0.5, -24.5, 41, 100, 0)
+	g.Flat = false
+	for r := 18; r <= 22; r++ {
+		for c := 18; c <= 22; c++ {
+			g.Elev[r*41+c] = float32(math.NaN())
+		}
+	}
+	if _, err := Footprint(context.Background(), g, Start{Lat: -0.5, Lon: -24.5, Alt: 1000}, ConstantLoss(10), FootprintOptions{}); !errors.Is(err, ErrStartOffGround) {
+		t.Errorf("start on a void: %v, want ErrStartOffGround", err)
+	}
+	if _, err := Footprint(context.Background(), g, Start{Lat: 0.5, Lon: -24.5, Alt: 1000}, ConstantLoss(10), FootprintOptions{}); !errors.Is(err, ErrStartOffGround) {
+		t.Errorf("start off the window: %v, want ErrStartOffGround", err)
+	}
+	if _, err := Footprint(context.Background(), flatWindow(-0.5, -24.5, 41, 100, 500), Start{Lat: -0.5, Lon: -24.5, Alt: 400}, ConstantLoss(10), FootprintOptions{}); !errors.Is(err, ErrStartBelowGround) {
+		t.Errorf("start below the ground: %v, want ErrStartBelowGround", err)
 	}
 }

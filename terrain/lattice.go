@@ -29,16 +29,15 @@ func OntoGrid(l *Local, values []float32, like *Grid) *Grid {
 }
 
 // LatLonGrid samples values of Local l onto a geographic (EPSG:4326) lattice
-// covering l's extent with about the same cell size, for rasters computed on
-// flat ground where no DEM lattice exists.
+// of square cells in degrees covering l's extent, about l's cell size
+// north–south, for rasters computed on flat ground where no DEM lattice
+// exists.
 func LatLonGrid(l *Local, values []float32) *Grid {
 	w, s, e, n := LocalExtent(l.Frame, l.X0, l.Y0, l.Cell, l.Cols, l.Rows)
+	// Square cells in degrees (ESRI ASCII grids allow no other), about the
+	// Local's cell size north–south and finer east–west.
 	dlat := l.Cell / 111320.0
-	coslat := math.Cos(l.Frame.Lat0 * math.Pi / 180)
-	if coslat < 0.01 {
-		coslat = 0.01
-	}
-	dlon := dlat / coslat
+	dlon := dlat
 	cols := int(math.Ceil((e-w)/dlon)) + 1
 	rows := int(math.Ceil((n-s)/dlat)) + 1
 	like := &Grid{CRS: CRS{EPSG: 4326}, Cols: cols, Rows: rows, X0: w, Y0: n, DX: dlon, DY: dlat, Name: l.Source}

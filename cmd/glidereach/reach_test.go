@@ -14,6 +14,7 @@ import (
 	"github.com/tidwall/geojson/geometry"
 
 	"glidereach/reach/geodesy"
+	"glidereach/terrain"
 )
 
 // writeTestFields writes a GeoJSON of point fields at the given distances
@@ -270,5 +271,38 @@ func TestReachWindErrorIsConservative(t *testing.T) {
 	}
 	if code, _, _ := runCLI(t, "reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--wind-error", "400deg,5kt"); code != 2 {
 		t.Errorf("bad --wind-error: exit %d, want 2", code)
+	}
+}
+
+func TestReachRasterRoundTrip(t *testing.T) {
+	// --raster writes the arrival height above ground; read back with the
+	// project's own readers (whose GeoTIFF and ASCII-grid decoding is checked
+	// against GDAL-made fixtures), it must give at the start the start height
+	// above the ground and, on flat ground in still air with the trainer's
+	// glide ratio of 9, 1500 − d/9 at distance d (tan γ = 1/E).
+	dir := t.TempDir()
+	for _, name := range []string{"agl.tif", "agl.asc"} {
+		path := filepath.Join(dir, name)
+		code, _, stderr := runCLI(t, "reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--aircraft", "trainer", "--raster", path)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, stderr)
+		}
+		src, err := terrain.OpenWith(terrain.OpenOptions{CRS: terrain.CRS{EPSG: 4326}}, path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		g, err := src.Window(-24.6, -0.6, -24.4, -0.4)
+		if err != nil {
+			t.Fatal(err)
+		}
+		// The apex of the cone is sampled between cells ≈ 44 m apart:
+		// within a cell of it the height is 1500 − 44/9 ≈ 1495 m at worst.
+		if v, ok := g.Elevation(-0.5, -24.5); !ok || math.Abs(v-1500) > 5 {
+			t.Errorf("%s: %.1f m at the start, want 1500", name, v)
+		}
+		p, _, _ := geodesy.Direct(geodesy.LatLon{Lat: -0.5, Lon: -24.5}, 60, 6000)
+		if v, ok := g.Elevation(p.Lat, p.Lon); !ok || math.Abs(v-(1500-6000.0/9)) > 5 {
+			t.Errorf("%s: %.1f m 6 km out, want %.1f", name, v, 1500-6000.0/9)
+		}
 	}
 }
