@@ -168,25 +168,31 @@ func contourRings(v func(c, r int) float64, cols, rows int, level float64) []orb
 }
 
 // polygonsFromRings simplifies rings (cell units) with Douglas–Peucker at
-// tol cells, drops rings smaller than minArea cells², and nests holes
-// (clockwise rings) into the smallest outer ring that contains them.
+// tol cells, drops outer rings smaller than minArea cells² (slivers of
+// reachable ground; dropping them is conservative), keeps every hole however
+// small (unreachable ground is never hidden; a hole that simplification would
+// collapse is kept as traced), and nests holes (clockwise rings) into the
+// smallest outer ring that contains them.
 func polygonsFromRings(rings []orb.Ring, tol, minArea float64) []orb.Polygon {
 	var outers []orb.Ring
 	var holes []orb.Ring
 	dp := simplify.DouglasPeucker(tol)
 	for _, r := range rings {
+		hole := r.Orientation() != orb.CCW
 		s := dp.Ring(r.Clone())
-		if len(s) < 4 {
+		if len(s) < 4 || s.Orientation() != r.Orientation() {
+			if !hole {
+				continue // a sliver of reachable ground: dropping it is conservative
+			}
+			s = r // never drop or flip unreachable ground: keep the ring as traced
+		}
+		if !hole && math.Abs(planar.Area(s)) < minArea { // planar.Area is signed
 			continue
 		}
-		a := math.Abs(planar.Area(s)) // planar.Area is signed (positive counter-clockwise)
-		if a < minArea {
-			continue
-		}
-		if s.Orientation() == orb.CCW {
-			outers = append(outers, s)
-		} else {
+		if hole {
 			holes = append(holes, s)
+		} else {
+			outers = append(outers, s)
 		}
 	}
 	polys := make([]orb.Polygon, len(outers))

@@ -50,3 +50,27 @@ func TestContourSplitRegions(t *testing.T) {
 		t.Fatalf("got %d polygons, want 2", len(polys))
 	}
 }
+
+func TestContourKeepsSmallHoles(t *testing.T) {
+	// A single cell of unreachable ground inside a reachable region must
+	// stay a hole (safety: never hide unreachable ground), while a single
+	// reachable cell alone is dropped.
+	v := func(c, r int) float64 {
+		switch {
+		case c == 10 && r == 10:
+			return -50 // one high cell
+		case c == 30 && r == 10:
+			return 50 // an isolated reachable cell, far out
+		case c < 20:
+			return 50
+		}
+		return -50
+	}
+	polys := polygonsFromRings(contourRings(v, 40, 21, 0), 0.5, 1)
+	if len(polys) != 1 {
+		t.Fatalf("%d polygons, want 1 (the sliver dropped)", len(polys))
+	}
+	if len(polys[0]) != 2 {
+		t.Fatalf("%d rings, want the outer ring and the one-cell hole", len(polys[0]))
+	}
+}
