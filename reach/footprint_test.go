@@ -140,6 +140,23 @@ func TestFootprintAroundWallEnd(t *testing.T) {
 	if got, want := float64(res.Arrival[150*n+150+40]), H-40*cell/E; math.Abs(got-want) > 0.01 {
 		t.Errorf("straight glide: arrival %.2f, want %.2f", got, want)
 	}
+	if p, ok := res.Path(150+40, 150); !ok || len(p) != 2 {
+		t.Errorf("straight glide: path %v, want start and end only", p)
+	}
+	// Behind the wall the path bends only at the wall's end: every bend
+	// point lies within two cells of the corner.
+	p, ok := res.Path(wallC+60, 150)
+	if !ok {
+		t.Fatal("no path behind the wall")
+	}
+	for _, v := range p[1 : len(p)-1] {
+		if d := math.Hypot(v[0]-(g.X0+ex+150*cell), v[1]-(g.Y0+ey+150*cell)); d > 2*cell {
+			t.Errorf("bend at (%.0f, %.0f) m, %.0f m from the wall's end", v[0], v[1], d)
+		}
+	}
+	if len(p) < 3 || len(p) > 5 {
+		t.Errorf("path behind the wall has %d points, want a bend or two at the corner", len(p))
+	}
 }
 
 func TestFootprintSlopingPlane(t *testing.T) {
