@@ -98,11 +98,11 @@ Built-in profiles: ` + strings.Join(reach.BuiltinNames(), ", ") + ` (generic, in
 				if !o.hasTrack {
 					return input.Usagef("--track", "is required with a wind (the track to hold, degrees true, e.g. --track 090)")
 				}
-				o.wind, o.windText = w, w.String()
+				o.wind, o.windText = w, windText(w)
 			}
 			if w.HasTemperatures() {
 				o.wind = w
-				o.windText = w.String()
+				o.windText = windText(w)
 			}
 			o.atm = reach.Atmosphere{ISADev: o.isaDev}
 			if w.HasTemperatures() {
@@ -204,11 +204,14 @@ type polarWind struct {
 
 // polarReport is the whole result of polar, in SI; text and JSON are views.
 type polarReport struct {
-	Aircraft     string       `json:"aircraft"`
-	PolarForm    string       `json:"polar_form"`
-	AltitudeM    float64      `json:"altitude_m"`
+	Aircraft  string  `json:"aircraft"`
+	PolarForm string  `json:"polar_form"`
+	AltitudeM float64 `json:"altitude_m"`
+	// ISADevK is the deviation from ISA of the air at AltitudeM: --isa-dev,
+	// or what the wind layers' temperatures give there (TempSource).
 	ISADevK      float64      `json:"isa_dev_k"`
 	TemperatureK float64      `json:"temperature_k"`
+	TempSource   string       `json:"temperature_source"` // "isa_dev" or "wind_layers"
 	Density      float64      `json:"density_kg_m3"`
 	Sigma        float64      `json:"sigma"`
 	MassKg       float64      `json:"mass_kg"`
@@ -243,6 +246,11 @@ func buildPolarReport(o *polarOptions) *polarReport {
 		TemperatureK: o.atm.Temperature(o.alt), Density: rho, Sigma: fig.Sigma,
 		MassKg: fig.Mass, RefMassKg: ac.RefMass, Bugs: c.Bugs, AirSink: c.AirSink, MacCready: c.MacCready,
 		StallIAS: fig.StallIAS, MinIAS: fig.MinIAS, MaxIAS: fig.MaxIAS, Caution: reach.Caution, unit: o.unit,
+	}
+	r.TempSource = "isa_dev"
+	if o.wind != nil && o.wind.HasTemperatures() {
+		isaT, _, _ := reach.ISA(o.alt)
+		r.ISADevK, r.TempSource = r.TemperatureK-isaT, "wind_layers"
 	}
 	r.MinSource = fmt.Sprintf("%.1f x stall", reach.StallMargin)
 	if ac.MinIAS > 0 {
@@ -334,8 +342,12 @@ func writePolar(w io.Writer, r *polarReport, format string) error {
 	fpm := func(v float64) float64 { return v / input.FPM }
 	var b strings.Builder
 	fmt.Fprintf(&b, "%s (%s polar) at %.0f m / %.0f ft MSL\n", r.Aircraft, r.PolarForm, r.AltitudeM, r.AltitudeM/input.Foot)
-	fmt.Fprintf(&b, "Air: %.1f °C (ISA %+.0f K), density %.4f kg/m³, sigma %.4f (TAS = IAS / %.4f)\n",
-		r.TemperatureK-273.15, r.ISADevK, r.Density, r.Sigma, math.Sqrt(r.Sigma))
+	tempFrom := fmt.Sprintf("ISA %+.0f K", r.ISADevK)
+	if r.TempSource == "wind_layers" {
+		tempFrom = fmt.Sprintf("ISA %+.1f K, from the wind layers' temperatures", r.ISADevK)
+	}
+	fmt.Fprintf(&b, "Air: %.1f °C (%s), density %.4f kg/m³, sigma %.4f (TAS = IAS / %.4f)\n",
+		r.TemperatureK-273.15, tempFrom, r.Density, r.Sigma, math.Sqrt(r.Sigma))
 	fmt.Fprintf(&b, "Mass %.0f kg (reference %.0f kg)", r.MassKg, r.RefMassKg)
 	if r.Bugs > 0 {
 		fmt.Fprintf(&b, ", contamination +%.0f %% sink", 100*r.Bugs)
@@ -347,9 +359,19 @@ func writePolar(w io.Writer, r *polarReport, format string) error {
 	fmt.Fprintf(&b, "Usable speeds %s to %s IAS (stall %s; minimum = %s)\n", sp1(r.MinIAS), sp1(r.MaxIAS), sp1(r.StallIAS), r.MinSource)
 	ground := r.Wind != nil || r.AirSink > 0
 	if r.Wind != nil {
-		fmt.Fprintf(&b, "Wind %s\nWind at %.0f m: from %03.0f° at %s; on track %03.0f°: %s %s, crosswind %s\n",
-			r.Wind.Description, r.AltitudeM, r.Wind.FromDeg, sp1(r.Wind.Speed), r.Wind.TrackDeg,
-			map[bool]string{true: "tailwind", false: "headwind"}[r.Wind.Along >= 0], sp1(math.Abs(r.Wind.Along)), sp1(math.Abs(r.Wind.Cross)))
+		fmt.Fprintf(&b, "Wind: %s\n", r.Wind.Description)
+		if r.Wind.Speed < 0.005 {
+			fmt.Fprintf(&b, "Wind at %.0f m: calm\n", r.AltitudeM)
+		} else {
+			// wind.Profile.Components: cross > 0 is wind from the left of the track.
+			side := ""
+			if s := math.Round(math.Abs(r.Wind.Cross)/u.factor*10) / 10; s > 0 {
+				side = map[bool]string{true: " from the left", false: " from the right"}[r.Wind.Cross > 0]
+			}
+			fmt.Fprintf(&b, "Wind at %.0f m: from %03.0f° at %s; on track %03.0f°: %s %s, crosswind %s%s\n",
+				r.AltitudeM, r.Wind.FromDeg, sp1(r.Wind.Speed), r.Wind.TrackDeg,
+				map[bool]string{true: "tailwind", false: "headwind"}[r.Wind.Along >= 0], sp1(math.Abs(r.Wind.Along)), sp1(math.Abs(r.Wind.Cross)), side)
+		}
 	} else {
 		b.WriteString("Still air\n")
 	}

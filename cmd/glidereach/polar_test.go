@@ -190,3 +190,47 @@ func TestPolarBadInputExit2(t *testing.T) {
 		}
 	}
 }
+
+func TestPolarWindAndTemperatureLines(t *testing.T) {
+	// Layers 0 ft (no temperature) and 1524 m (5000 ft) −5 °C: at 6000 ft the layer
+	// temperature is carried up with the ISA lapse, −5 − 0.0065·304.8 =
+	// −6.98 °C, and ISA there is 288.15 − 0.0065·1828.8 = 276.26 K (ICAO
+	// standard atmosphere), so the air is ISA −10.094 K, not the --isa-dev 0.
+	code, out, _ := runCLI(t, "polar", "--aircraft", "trainer", "--alt", "6000ft",
+		"--wind", "0ft:240/10kt,5000ft:270/20kt@-5C", "--track", "180")
+	if code != 0 {
+		t.Fatalf("exit %d", code)
+	}
+	for _, want := range []string{
+		"Air: -7.0 °C (ISA -10.1 K, from the wind layers' temperatures)",
+		// Layers described in knots, like every other command.
+		"Wind: 0 m 240°/10 kt, 1524 m 270°/20 kt -5 °C",
+		// A west wind on a southbound track comes from the right (wind
+		// package sign convention: cross > 0 from the left).
+		"crosswind 20.0 kt from the right",
+	} {
+		if !strings.Contains(out, want) {
+			t.Errorf("output lacks %q:\n%s", want, out)
+		}
+	}
+	code, out, _ = runCLI(t, "polar", "--aircraft", "trainer", "--alt", "6000ft",
+		"--wind", "0ft:240/10kt,5000ft:270/20kt@-5C", "--track", "180", "--format", "json")
+	var r struct {
+		Dev    float64 `json:"isa_dev_k"`
+		Source string  `json:"temperature_source"`
+	}
+	if code != 0 || json.Unmarshal([]byte(out), &r) != nil || r.Source != "wind_layers" || math.Abs(r.Dev-(-10.094)) > 0.001 {
+		t.Errorf("JSON temperature: exit %d, %+v", code, r)
+	}
+	// Wind from the north on track 090 is a crosswind from the left
+	// (wind package convention); 9900 (light and variable) at the flight
+	// level decodes as calm and is printed as calm, not as a direction.
+	_, out, _ = runCLI(t, "polar", "--aircraft", "trainer", "--alt", "1000m", "--wind", "360/15kt", "--track", "090")
+	if !strings.Contains(out, "crosswind 15.0 kt from the left") {
+		t.Errorf("north wind on track 090:\n%s", out)
+	}
+	_, out, _ = runCLI(t, "polar", "--aircraft", "trainer", "--alt", "6000ft", "--wind-aloft", "3000:9900 6000:9900+02 9000:1908-04", "--track", "090")
+	if !strings.Contains(out, "Wind at 1829 m: calm") {
+		t.Errorf("light and variable at the altitude:\n%s", out)
+	}
+}
