@@ -65,47 +65,87 @@ func (c Conditions) Validate() error {
 	return nil
 }
 
+// MaxGlideRatio is the largest still-air glide ratio a profile may give
+// anywhere in its usable range. The best open-class sailplanes reach about
+// 60–70 (common practice, from memory); a polar beyond 100 is a typing or
+// fitting error, not an aircraft. The best_glide form has the same bound.
+const MaxGlideRatio = 100.0
+
+// ProfileError is the error of Aircraft.Validate: Field names the profile
+// key at fault as written in profile files ("reference_mass", "mass",
+// "stall_speed", "min_speed", "max_speed", "reserve", "clearance" or
+// "polar"), so a loader can point at its line.
+type ProfileError struct {
+	Field string
+	Err   error
+}
+
+func (e *ProfileError) Error() string { return e.Err.Error() }
+func (e *ProfileError) Unwrap() error { return e.Err }
+
 // Validate checks that the profile is physical: positive reference mass,
 // stall speed below the maximum speed, a usable minimum above the stall and
-// below the maximum, and a polar whose sink is positive over the whole usable
-// range at the reference mass. The message says what is wrong.
+// below the maximum, and a polar whose sink is positive and whose glide ratio
+// is at most MaxGlideRatio over the whole usable range at the reference
+// mass. The error is a *ProfileError whose message says what is wrong.
 func (ac *Aircraft) Validate() error {
 	name := ac.Name
 	if name == "" {
 		name = "aircraft"
 	}
-	fail := func(format string, args ...any) error {
-		return fmt.Errorf("reach: %s: %s", name, fmt.Sprintf(format, args...))
+	fail := func(field, format string, args ...any) error {
+		return &ProfileError{Field: field, Err: fmt.Errorf("reach: %s: %s", name, fmt.Sprintf(format, args...))}
 	}
+	kt := func(v float64) string { return fmt.Sprintf("%.1f m/s (%.1f kt)", v, v/knot) }
 	finitePos := func(v float64) bool { return v > 0 && !math.IsInf(v, 0) }
+	minField := "stall_speed"
+	if ac.MinIAS > 0 {
+		minField = "min_speed"
+	}
 	switch {
 	case !finitePos(ac.RefMass):
-		return fail("reference mass %v kg is not positive", ac.RefMass)
+		return fail("reference_mass", "reference mass %v kg is not positive", ac.RefMass)
 	case !(ac.Mass >= 0) || math.IsInf(ac.Mass, 0):
-		return fail("mass %v kg is not positive", ac.Mass)
+		return fail("mass", "mass %v kg is not positive", ac.Mass)
 	case ac.Mass > 0 && (ac.Mass < 0.3*ac.RefMass || ac.Mass > 3*ac.RefMass):
-		return fail("mass %.0f kg is far from the reference mass %.0f kg (allowed 0.3..3 times); the polar would not apply", ac.Mass, ac.RefMass)
+		return fail("mass", "mass %.0f kg is far from the reference mass %.0f kg (allowed 0.3..3 times); the polar would not apply", ac.Mass, ac.RefMass)
 	case !finitePos(ac.StallIAS):
-		return fail("stall speed %v m/s is not positive", ac.StallIAS)
+		return fail("stall_speed", "stall speed %v m/s is not positive", ac.StallIAS)
 	case !finitePos(ac.MaxIAS):
-		return fail("maximum speed %v m/s is not positive", ac.MaxIAS)
+		return fail("max_speed", "maximum speed %v m/s is not positive", ac.MaxIAS)
 	case ac.StallIAS >= ac.MaxIAS:
-		return fail("stall speed %.1f m/s is not below the maximum speed %.1f m/s", ac.StallIAS, ac.MaxIAS)
+		return fail("stall_speed", "stall speed %s is not below the maximum speed %s", kt(ac.StallIAS), kt(ac.MaxIAS))
 	case !(ac.MinIAS >= 0) || math.IsInf(ac.MinIAS, 0):
-		return fail("minimum speed %v m/s is not positive", ac.MinIAS)
+		return fail("min_speed", "minimum speed %v m/s is not positive", ac.MinIAS)
 	case ac.MinIAS > 0 && ac.MinIAS <= ac.StallIAS:
-		return fail("minimum speed %.1f m/s is not above the stall speed %.1f m/s", ac.MinIAS, ac.StallIAS)
+		return fail("min_speed", "minimum speed %s is not above the stall speed %s", kt(ac.MinIAS), kt(ac.StallIAS))
 	case ac.baseMinIAS() >= ac.MaxIAS:
-		return fail("lowest usable speed %.1f m/s (%s) is not below the maximum speed %.1f m/s", ac.baseMinIAS(), ac.minSource(), ac.MaxIAS)
+		return fail(minField, "lowest usable speed %s (%s) is not below the maximum speed %s", kt(ac.baseMinIAS()), ac.minSource(), kt(ac.MaxIAS))
 	case ac.Polar == nil:
-		return fail("no polar")
+		return fail("polar", "no polar")
 	case !(ac.Reserve >= 0) || math.IsInf(ac.Reserve, 0):
-		return fail("reserve %v m is negative", ac.Reserve)
+		return fail("reserve", "reserve %v m is negative", ac.Reserve)
 	case !(ac.Clearance >= 0) || math.IsInf(ac.Clearance, 0):
-		return fail("clearance %v m is negative", ac.Clearance)
+		return fail("clearance", "clearance %v m is negative", ac.Clearance)
 	}
 	if err := ac.checkSink(ac.baseMinIAS(), ac.MaxIAS); err != nil {
-		return fail("%v", err)
+		return fail("polar", "%v", err)
+	}
+	if err := ac.checkRatio(ac.baseMinIAS(), ac.MaxIAS); err != nil {
+		return fail("polar", "%v", err)
+	}
+	return nil
+}
+
+// checkRatio samples the still-air glide ratio v/w₀(v) over [lo, hi] at the
+// reference mass and fails where it exceeds MaxGlideRatio.
+func (ac *Aircraft) checkRatio(lo, hi float64) error {
+	const n = 256
+	for i := 0; i <= n; i++ {
+		v := lo + (hi-lo)*float64(i)/n
+		if r := v / ac.Polar.Sink(v); r > MaxGlideRatio {
+			return fmt.Errorf("%s polar gives a glide ratio of %.0f at %.1f m/s (%.0f kt), more than %.0f: no aircraft glides that well; check the polar's figures", ac.Polar.Form(), r, v, v/knot, MaxGlideRatio)
+		}
 	}
 	return nil
 }
@@ -125,7 +165,7 @@ func (ac *Aircraft) checkSink(lo, hi float64) error {
 		v := lo + (hi-lo)*float64(i)/n
 		w := ac.Polar.Sink(v)
 		if !(w > 0) || math.IsInf(w, 0) {
-			return fmt.Errorf("%s polar gives sink %.3f m/s at %.1f m/s (%.0f kt), inside the usable range %.1f..%.1f m/s; sink must be positive (downwards) at every usable speed", ac.Polar.Form(), w, v, v*3600/1852, lo, hi)
+			return fmt.Errorf("%s polar gives sink %.3f m/s at %.1f m/s (%.0f kt), inside the usable range %.1f..%.1f m/s; sink must be positive (downwards) at every usable speed", ac.Polar.Form(), w, v, v/knot, lo, hi)
 		}
 	}
 	return nil

@@ -1,6 +1,7 @@
 package reach
 
 import (
+	"errors"
 	"math"
 	"strings"
 	"testing"
@@ -34,6 +35,10 @@ func TestAircraftValidateRejects(t *testing.T) {
 		{"sink not positive in range", func(a *Aircraft) {
 			a.Polar = polarFunc(func(v float64) float64 { return 2 - v/25 })
 		}, "sink must be positive"},
+		// MaxGlideRatio: beyond the best sailplanes (common practice, from memory).
+		{"glide ratio 150", func(a *Aircraft) {
+			a.Polar = polarFunc(func(v float64) float64 { return v / 150 })
+		}, "no aircraft glides that well"},
 	}
 	for _, c := range cases {
 		a := good()
@@ -151,5 +156,25 @@ func TestBuiltins(t *testing.T) {
 	}
 	if _, err := Builtin("jumbo"); err == nil || !strings.Contains(err.Error(), "trainer") {
 		t.Errorf("unknown builtin: %v", err)
+	}
+}
+
+func TestValidateNamesTheField(t *testing.T) {
+	// The loader points at the line of ProfileError.Field.
+	for _, c := range []struct {
+		mod   func(a *Aircraft)
+		field string
+	}{
+		{func(a *Aircraft) { a.StallIAS = 70 }, "stall_speed"},
+		{func(a *Aircraft) { a.MinIAS = 20 }, "min_speed"},
+		{func(a *Aircraft) { a.Mass = 5000 }, "mass"},
+		{func(a *Aircraft) { a.Polar = polarFunc(func(v float64) float64 { return v / 150 }) }, "polar"},
+	} {
+		a := &Aircraft{Name: "x", RefMass: 700, StallIAS: 25, MaxIAS: 60, Polar: &BestGlidePolar{Speed: 34, Ratio: 9}}
+		c.mod(a)
+		var pe *ProfileError
+		if err := a.Validate(); !errors.As(err, &pe) || pe.Field != c.field {
+			t.Errorf("%v: want a *ProfileError for %q", err, c.field)
+		}
 	}
 }

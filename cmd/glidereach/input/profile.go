@@ -109,6 +109,10 @@ func ParseAircraft(file string, data []byte) (*reach.Aircraft, error) {
 		ac.Name = strings.TrimSuffix(filepath.Base(file), filepath.Ext(file))
 	}
 	if err := ac.Validate(); err != nil {
+		var pe *reach.ProfileError
+		if errors.As(err, &pe) && p.lines[pe.Field] > 0 {
+			return nil, &UsageError{Where: file + ":" + strconv.Itoa(p.lines[pe.Field]), Err: err}
+		}
 		return nil, &UsageError{Where: file, Err: err}
 	}
 	return ac, nil
@@ -137,7 +141,10 @@ func checkJSON(data []byte) *jsonErr {
 	return &jsonErr{line: 1 + bytes.Count(data[:off], []byte("\n")), err: fmt.Errorf("not valid JSON: %w", err)}
 }
 
-type profileParser struct{ file string }
+type profileParser struct {
+	file  string
+	lines map[string]int // line of each top-level key, for errors found after parsing
+}
 
 func (p *profileParser) errAt(n *yaml.Node, format string, args ...any) error {
 	if n == nil || n.Line == 0 {
@@ -238,6 +245,10 @@ func (p *profileParser) aircraft(root *yaml.Node) (*reach.Aircraft, error) {
 		return nil, err
 	}
 	ac := &reach.Aircraft{}
+	p.lines = map[string]int{}
+	for i := 0; i+1 < len(root.Content); i += 2 {
+		p.lines[root.Content[i].Value] = root.Content[i].Line
+	}
 	if n, ok := m["name"]; ok {
 		if ac.Name, err = p.scalar(n, "name"); err != nil {
 			return nil, err

@@ -78,8 +78,13 @@ var badProfiles = []struct {
 	{"bad unit", "reference_mass: 750stone\nstall_speed: 48kt\nmax_speed: 120kt\n" + bgPolar, "p.yaml:1: reference_mass"},
 	{"speed as length", "reference_mass: 750kg\nstall_speed: 48ft\nmax_speed: 120kt\n" + bgPolar, "unknown speed unit"},
 	{"negative mass", "reference_mass: -750kg\nstall_speed: 48kt\nmax_speed: 120kt\n" + bgPolar, "must be positive"},
-	{"stall above max", "reference_mass: 750kg\nstall_speed: 130kt\nmax_speed: 120kt\n" + bgPolar, "stall speed"},
-	{"min below stall", okHead + "min_speed: 40kt\n" + bgPolar, "not above the stall"},
+	// Errors found by reach after parsing still point at the key's line.
+	{"stall above max", "reference_mass: 750kg\nstall_speed: 130kt\nmax_speed: 120kt\n" + bgPolar, "p.yaml:2: reach: p: stall speed 66.9 m/s (130.0 kt) is not below"},
+	{"min below stall", okHead + "min_speed: 40kt\n" + bgPolar, "p.yaml:5: reach: t: minimum speed 20.6 m/s (40.0 kt) is not above the stall"},
+	{"mass far off", okHead + "mass: 5000kg\n" + bgPolar, "p.yaml:5: reach: t: mass 5000 kg is far from"},
+	// Sink falling with speed all the way to 120 km/h: positive, but a glide
+	// ratio of about 190 at 190 km/h, which no aircraft has.
+	{"glide ratio beyond any aircraft", "name: t\nreference_mass: 380kg\nstall_speed: 65km/h\nmax_speed: 250km/h\npolar:\n  form: points\n  points: [[80km/h, 0.9m/s], [120km/h, 0.5m/s], [160km/h, 0.3m/s]]\n", "p.yaml:5: reach: t: points polar gives a glide ratio of"},
 	{"unknown form", okHead + "polar:\n  form: spline\n", "unknown form"},
 	{"no form", okHead + "polar:\n  glide_ratio: 9\n", "missing key \"form\""},
 	{"key of other form", okHead + "polar:\n  form: best_glide\n  best_glide_speed: 65kt\n  glide_ratio: 9\n  cd0: 0.02\n", "does not belong"},
