@@ -292,7 +292,13 @@ func parseWindAloftText(path string, data []byte, station string) (*wind.Profile
 	case len(lines) == 0:
 		return nil, &UsageError{Where: filePos(path, headerNo, 1), Err: errors.New("no data line after the FT header")}
 	default:
-		return nil, &UsageError{Where: path, Err: fmt.Errorf("%d data lines: name the station (FILE:STATION)", len(lines))}
+		var names []string
+		for _, l := range lines {
+			if l.station != "" {
+				names = append(names, l.station)
+			}
+		}
+		return nil, &UsageError{Where: path, Err: fmt.Errorf("%d data lines (stations %s): name the station (FILE:STATION)", len(lines), strings.Join(names, ", "))}
 	}
 	if len(pick.groups) == 0 {
 		return nil, &UsageError{Where: filePos(path, pick.no, 1), Err: errors.New("data line has no groups")}

@@ -177,7 +177,7 @@ func TestParseWindAloftFile(t *testing.T) {
 
 	// Bulletin layout: the FT header gives the levels.
 	const bulletin = "../../../testdata/wind/forecast-bulletin.txt"
-	if _, err := ParseWindAloftFile(bulletin, ""); err == nil || !strings.Contains(err.Error(), "2 data lines") {
+	if _, err := ParseWindAloftFile(bulletin, ""); err == nil || !strings.Contains(err.Error(), "2 data lines (stations QQA, QQB): name the station") {
 		t.Errorf("two stations without a choice: error %v", err)
 	}
 	a, err := ParseWindAloftFile(bulletin, "qqa")
