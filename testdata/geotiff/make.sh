@@ -84,6 +84,11 @@ fixture() {
       echo "geo $x $y $(gdallocationinfo -valonly -geoloc "$name.tif" $x $y)"
     done
   } >> values.txt
+  # What GDAL read must be the surface (-180..2400 m) or the no-data value:
+  # a fixture GDAL itself misreads proves nothing.
+  awk -v f="$name" '/^fixture /{cur = $2} cur == f".tif" && ($1 == "px" || $1 == "geo") {
+      v = $NF + 0; if (v != -9999 && (v < -200 || v > 2500)) { print "make.sh: GDAL read " v " from " f; bad = 1 } }
+    END { exit bad }' values.txt
 }
 
 g=EPSG:4326
@@ -98,9 +103,14 @@ fixture geo_float32_strip_lzw_pred3_nodata geovoid $g Float32 -co BLOCKYSIZE=5 -
 fixture geo_float32_strip_packbits  geo    $g Float32 -a_nodata none -co COMPRESS=PACKBITS
 fixture geo_float64_tiled_lzw_pred3 geo    $g Float64 -a_nodata none -co TILED=YES -co BLOCKXSIZE=32 -co BLOCKYSIZE=16 -co COMPRESS=LZW -co PREDICTOR=3
 fixture geo_float64_strip_deflate   geo    $g Float64 -a_nodata none -co COMPRESS=DEFLATE
-# Big-endian files (ENDIANNESS=BIG), including the floating-point predictor.
+# Big-endian files (ENDIANNESS=BIG). No big-endian file with the
+# floating-point predictor: GDAL 3.6.2 writes ENDIANNESS=BIG PREDICTOR=3 with
+# the byte lanes least significant first (Technical Note 3 puts the most
+# significant first, as GDAL's little-endian files do) and reads its own file
+# back as garbage (gdallocationinfo printed 3.489e-41 for the cell that holds
+# 900 m). terrain/geotiff_test.go builds that case by hand instead.
 fixture geo_int16_be_strip_deflate_pred2 geo $g Int16 -a_nodata none -co ENDIANNESS=BIG -co COMPRESS=DEFLATE -co PREDICTOR=2
-fixture geo_float32_be_tiled_lzw_pred3 geovoid $g Float32 -co ENDIANNESS=BIG -co TILED=YES -co BLOCKXSIZE=32 -co BLOCKYSIZE=32 -co COMPRESS=LZW -co PREDICTOR=3
+fixture geo_float32_be_tiled_lzw geovoid $g Float32 -co ENDIANNESS=BIG -co TILED=YES -co BLOCKXSIZE=32 -co BLOCKYSIZE=32 -co COMPRESS=LZW
 # BigTIFF.
 fixture geo_float32_bigtiff_tiled_deflate geo $g Float32 -a_nodata none -co BIGTIFF=YES -co TILED=YES -co COMPRESS=DEFLATE
 # Two bands stored as separate planes (band 1 is read) and interleaved (refused).
