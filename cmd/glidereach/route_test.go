@@ -288,3 +288,197 @@ func TestDemoRouteAndCoverageSteps(t *testing.T) {
 		t.Errorf("demo summaries lack the gaps or the greedy choice:\n%s", b.String())
 	}
 }
+
+// fixtureDEM is the GeoTIFF test fixture the route and coverage tests run
+// on: 120 × 90 cells of 1/1200° from -25.05 E, 0.0375 N (gdalinfo,
+// testdata/geotiff/values.txt), an invented surface with a low block in
+// the south-east corner (cells i > 100, j > 70 of make.sh) behind a cliff.
+const fixtureDEM = "../../testdata/geotiff/geo_int16_strip_none.tif"
+
+// nearFixtureCliff reports whether lat, lon lies within two cells of the
+// fixture's cliff (the edge of the low block), where two bilinear
+// resamplings of a 1.5 km step in one cell may differ by hundreds of
+// metres.
+func nearFixtureCliff(lat, lon float64) bool {
+	c, r := (lon+25.05)*1200, (0.0375-lat)*1200
+	return (math.Abs(c-101) <= 2 && r >= 68) || (math.Abs(r-71) <= 2 && c >= 98)
+}
+
+// routeDoc is the part of route --format json the tests read.
+type routeDoc struct {
+	CoveredFraction float64 `json:"covered_fraction"`
+	Gaps            []struct {
+		StartM float64 `json:"start_m"`
+		EndM   float64 `json:"end_m"`
+		LenM   float64 `json:"length_m"`
+	} `json:"gaps"`
+	Fields []struct {
+		Name string   `json:"name"`
+		Lat  float64  `json:"lat"`
+		Lon  float64  `json:"lon"`
+		Elev *float64 `json:"elevation_m"`
+	} `json:"fields"`
+	Samples []struct {
+		Dist    float64  `json:"dist_m"`
+		Lat     float64  `json:"lat"`
+		Lon     float64  `json:"lon"`
+		Planned float64  `json:"planned_msl_m"`
+		Terrain float64  `json:"terrain_m"`
+		Least   *float64 `json:"least_msl_m"`
+		Margin  *float64 `json:"margin_above_reserve_m"`
+		Covered bool     `json:"covered"`
+	} `json:"samples"`
+}
+
+func routeJSONDoc(t *testing.T, args ...string) routeDoc {
+	t.Helper()
+	code, out, stderr := runCLI(t, append(append([]string{"route"}, args...), "--format", "json")...)
+	if code != 0 {
+		t.Fatalf("route %v: exit %d: %s", args, code, stderr)
+	}
+	var d routeDoc
+	if err := json.Unmarshal([]byte(out), &d); err != nil {
+		t.Fatalf("bad JSON: %v", err)
+	}
+	return d
+}
+
+func TestRouteOnGeoTIFFFixture(t *testing.T) {
+	// The route command on a terrain fixture: the GPX 1.1 track
+	// testdata/routes/fixture-route.gpx over geo_int16_strip_none.tif with
+	// the two fields of testdata/fields/fixture-fields.geojson (both at
+	// pixel centres, see their ORIGIN.md), the trainer (1:9 at every
+	// density) in still air, reserve 300 m, clearance 100 m.
+	route := filepath.Join("..", "..", "testdata", "routes", "fixture-route.gpx")
+	fields := filepath.Join("..", "..", "testdata", "fields", "fixture-fields.geojson")
+	base := []string{"--route", route, "--fields", fields, "--terrain", fixtureDEM, "--step", "100m"}
+	d := routeJSONDoc(t, base...)
+
+	// Field elevations from the DEM: gdallocationinfo -valonly (gdal-bin
+	// 3.6.2, testdata/geotiff/values.txt) printed px 31 16 = 1009 and
+	// px 110 80 = -130 at these pixels.
+	gdal := map[string]float64{"Upland Test Strip": 1009, "Lowland Test Strip": -130}
+	if len(d.Fields) != 2 {
+		t.Fatalf("%d fields", len(d.Fields))
+	}
+	for _, f := range d.Fields {
+		if f.Elev == nil || math.Abs(*f.Elev-gdal[f.Name]) > 1 {
+			t.Errorf("%s: elevation %v, GDAL printed %v m", f.Name, f.Elev, gdal[f.Name])
+		}
+	}
+	const reserve, clearance, E = 300.0, 100.0, 9.0
+	atField, raised := 0, 0
+	for _, s := range d.Samples {
+		if s.Least == nil {
+			t.Fatalf("no least altitude at %.0f m: every point of the fixture route has a field in reach below the search ceiling", s.Dist)
+		}
+		least := *s.Least
+		// The glide keeps the clearance above the terrain, so the least
+		// altitude is never below terrain + clearance (common practice, no
+		// source; 0.5 m for the rounding of the JSON).
+		if least < s.Terrain+clearance-0.5 {
+			t.Errorf("%.0f m: least %.1f m is below terrain %.1f m + clearance", s.Dist, least, s.Terrain)
+		}
+		// The straight line is the shortest glide: least ≥ elevation +
+		// reserve + d/E over the fields (tan γ = 1/E;
+		// Anderson, Introduction to Flight, gliding flight), within 0.5 %
+		// of the glide part for the grid's discretisation.
+		cone, bound := math.Inf(1), math.Inf(1)
+		for _, f := range d.Fields {
+			dist, _, _, err := geodesy.Inverse(geodesy.LatLon{Lat: s.Lat, Lon: s.Lon}, geodesy.LatLon{Lat: f.Lat, Lon: f.Lon})
+			if err != nil {
+				t.Fatal(err)
+			}
+			cone = math.Min(cone, *f.Elev+reserve+dist/E)
+			bound = math.Min(bound, *f.Elev+reserve+0.995*dist/E)
+			if dist < 1 {
+				atField++
+				// Over the field itself: its elevation plus the reserve,
+				// within the cone's rise over one cell (92.6 m / 9 ≈ 10 m).
+				if least < *f.Elev+reserve-0.5 || least > *f.Elev+reserve+11 {
+					t.Errorf("over %s: least %.1f m, want %.1f m + at most 11 m", f.Name, least, *f.Elev+reserve)
+				}
+				// The sample's terrain is the DEM's there (GDAL's value).
+				if math.Abs(s.Terrain-gdal[f.Name]) > 1 {
+					t.Errorf("terrain over %s %.1f m, GDAL printed %v m", f.Name, s.Terrain, gdal[f.Name])
+				}
+			}
+		}
+		if least < bound-0.5 {
+			t.Errorf("%.0f m: least %.1f m is below the straight-glide bound %.1f m", s.Dist, least, bound)
+		}
+		if least > cone+50 {
+			raised++
+		}
+		if math.Abs(*s.Margin-(s.Planned-least)) > 0.11 {
+			t.Errorf("%.0f m: margin %.1f, want planned − least = %.1f", s.Dist, *s.Margin, s.Planned-least)
+		}
+	}
+	if atField != 2 {
+		t.Errorf("%d samples over a field, want 2 (the route passes over both)", atField)
+	}
+	// The fixture's ridges and cliff must matter: somewhere the least
+	// altitude is well above the straight-glide bound.
+	if raised < len(d.Samples)/4 {
+		t.Errorf("terrain raised the least altitude at only %d of %d samples", raised, len(d.Samples))
+	}
+	// Planned altitude from the track's <ele> (1900 m rising to 2000 m,
+	// testdata/routes/ORIGIN.md), interpolated along the track.
+	if p0, p1 := d.Samples[0].Planned, d.Samples[len(d.Samples)-1].Planned; p0 != 1900 || p1 != 2000 {
+		t.Errorf("planned altitude %v .. %v m, want 1900 .. 2000 m from the GPX <ele>", p0, p1)
+	}
+
+	// --alt 1500 m: gaps. Each sample inside a gap is uncovered and each
+	// outside covered, and the covered fraction is 1 − (sum of the gap
+	// lengths)/length (definitions of DESIGN.md).
+	d = routeJSONDoc(t, append(base, "--alt", "1500m")...)
+	if len(d.Gaps) == 0 {
+		t.Fatal("no gaps at 1500 m over the fixture")
+	}
+	L := d.Samples[len(d.Samples)-1].Dist
+	sum := 0.0
+	for _, g := range d.Gaps {
+		if !(g.StartM <= g.EndM) || g.StartM < 0 || g.EndM > L+0.1 || math.Abs(g.EndM-g.StartM-g.LenM) > 0.2 {
+			t.Errorf("gap %+v on a route of %.0f m", g, L)
+		}
+		sum += g.LenM
+	}
+	if want := 1 - sum/L; math.Abs(d.CoveredFraction-want) > 1e-3 {
+		t.Errorf("covered_fraction %.4f, gaps leave %.4f", d.CoveredFraction, want)
+	}
+	for _, s := range d.Samples {
+		in := false
+		for _, g := range d.Gaps {
+			if s.Dist > g.StartM+0.1 && s.Dist < g.EndM-0.1 {
+				in = true
+			}
+		}
+		if in && s.Covered || !in && !s.Covered && !nearGapEnd(s.Dist, d) {
+			t.Errorf("%.0f m: covered %v, inside a gap %v", s.Dist, s.Covered, in)
+		}
+		if s.Covered != (s.Margin != nil && *s.Margin >= 0) {
+			t.Errorf("%.0f m: covered %v with margin %v", s.Dist, s.Covered, s.Margin)
+		}
+	}
+
+	// --agl 500 m: the planned altitude is the terrain under each point
+	// plus 500 m (DESIGN.md, common practice), away from the cliff where
+	// the DEM and the solver's resampled grid differ.
+	d = routeJSONDoc(t, append(base, "--agl", "500m")...)
+	for _, s := range d.Samples {
+		if !nearFixtureCliff(s.Lat, s.Lon) && math.Abs(s.Planned-s.Terrain-500) > 2 {
+			t.Errorf("%.0f m: planned %.1f m over terrain %.1f m, want 500 m above it", s.Dist, s.Planned, s.Terrain)
+		}
+	}
+}
+
+// nearGapEnd reports whether a route distance is at a gap's end (within
+// 0.1 m), where a sample may be either side.
+func nearGapEnd(dist float64, d routeDoc) bool {
+	for _, g := range d.Gaps {
+		if math.Abs(dist-g.StartM) <= 0.1 || math.Abs(dist-g.EndM) <= 0.1 {
+			return true
+		}
+	}
+	return false
+}
