@@ -373,7 +373,7 @@ func writePolar(w io.Writer, r *polarReport, format string) error {
 				map[bool]string{true: "tailwind", false: "headwind"}[r.Wind.Along >= 0], sp1(math.Abs(r.Wind.Along)), sp1(math.Abs(r.Wind.Cross)), side)
 		}
 	} else {
-		b.WriteString("Still air\n")
+		b.WriteString("Wind: calm\n")
 	}
 	b.WriteString("\n")
 	tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)

@@ -45,6 +45,7 @@ func TestPolarTrainerTable(t *testing.T) {
 		"Usable speeds 62.4 kt to 120.0 kt IAS",
 		"PLANNING AID ONLY",
 		"best glide, speed to fly",
+		"Wind: calm",
 	} {
 		if !strings.Contains(out, want) {
 			t.Errorf("output lacks %q:\n%s", want, out)
