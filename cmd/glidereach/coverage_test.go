@@ -166,3 +166,127 @@ func TestCoverageBadInput(t *testing.T) {
 		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--format", "csv"}, "--format"},
 	})
 }
+
+// readFixtureLattice reads the whole of a raster over the GeoTIFF
+// fixture's extent with our reader (checked against GDAL in terrain's
+// tests).
+func readFixtureLattice(t *testing.T, path string) *terrain.Grid {
+	t.Helper()
+	src, err := terrain.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	g, err := src.Window(-25.05, -0.0375, -24.95, 0.0375)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return g
+}
+
+func TestCoverageOnGeoTIFFFixture(t *testing.T) {
+	// The coverage command on a terrain fixture: the whole of
+	// geo_int16_strip_none.tif with the two fields of
+	// testdata/fields/fixture-fields.geojson (pixel centres, see ORIGIN.md),
+	// the trainer in still air, reserve 300 m, clearance 100 m.
+	fields := filepath.Join("..", "..", "testdata", "fields", "fixture-fields.geojson")
+	box := "-25.05,-0.0375,-24.95,0.0375"
+	dem := readFixtureLattice(t, fixtureDEM)
+	gdal := map[string]float64{"Upland Test Strip": 1009, "Lowland Test Strip": -130}
+	for _, mode := range []struct {
+		flag, value string
+		flown       func(elev float64) float64
+	}{
+		{"--alt", "1500m", func(float64) float64 { return 1500 }},
+		// --agl: the altitude flown is the terrain at each cell plus the
+		// height (DESIGN.md; common practice, no source).
+		{"--agl", "400m", func(e float64) float64 { return e + 400 }},
+	} {
+		dir := t.TempDir()
+		tif := filepath.Join(dir, "least.tif")
+		code, out, stderr := runCLI(t, "coverage", "--fields", fields, "--area", box, mode.flag, mode.value,
+			"--terrain", fixtureDEM, "--raster", tif, "--format", "json")
+		if code != 0 {
+			t.Fatalf("%s %s: exit %d: %s", mode.flag, mode.value, code, stderr)
+		}
+		var res struct {
+			CoveredFraction float64 `json:"covered_fraction"`
+			CoveredM2       float64 `json:"covered_m2"`
+			AreaM2          float64 `json:"area_m2"`
+			Fields          []struct {
+				Name      string  `json:"name"`
+				Elev      float64 `json:"elevation_m"`
+				Lat       float64 `json:"lat"`
+				Lon       float64 `json:"lon"`
+				Covers    float64 `json:"covers_m2"`
+				Exclusive float64 `json:"exclusive_m2"`
+			} `json:"fields"`
+		}
+		if err := json.Unmarshal([]byte(out), &res); err != nil {
+			t.Fatalf("bad JSON: %v", err)
+		}
+		// The fixture is 0.1° × 0.075° at the equator: about 11.13 km ×
+		// 8.29 km (WGS84 degree lengths near 0°, from memory: 110.57 km per
+		// degree of latitude, 111.32 km of longitude), within 1 %.
+		if want := 0.1 * 111320 * 0.075 * 110574; math.Abs(res.AreaM2-want) > 0.01*want {
+			t.Errorf("%s: area %.4g m², want about %.4g m²", mode.flag, res.AreaM2, want)
+		}
+		// Field elevations from the DEM: gdallocationinfo -valonly
+		// (gdal-bin 3.6.2, testdata/geotiff/values.txt) printed px 31 16 =
+		// 1009 and px 110 80 = -130.
+		union := 0.0
+		for _, f := range res.Fields {
+			if math.Abs(f.Elev-gdal[f.Name]) > 1 {
+				t.Errorf("%s: elevation %.1f m, GDAL printed %v m", f.Name, f.Elev, gdal[f.Name])
+			}
+			if !(f.Exclusive <= f.Covers) || f.Covers <= 0 {
+				t.Errorf("%s %s: covers %.0f m², only it %.0f m²", mode.flag, f.Name, f.Covers, f.Exclusive)
+			}
+			union += f.Covers
+		}
+		if res.CoveredM2 > union+1 {
+			t.Errorf("%s: covered %.0f m² is more than the fields cover together (%.0f m²)", mode.flag, res.CoveredM2, union)
+		}
+		// The raster is on the DEM's own lattice: 120 × 90 cells, north-west
+		// corner -25.05, 0.0375, cells of 1/1200° (gdalinfo,
+		// testdata/geotiff/values.txt).
+		least := readFixtureLattice(t, tif)
+		if least.Cols != 120 || least.Rows != 90 || math.Abs(least.DX-1.0/1200) > 1e-12 || math.Abs(least.X0-(-25.05+0.5/1200)) > 1e-9 || math.Abs(least.Y0-(0.0375-0.5/1200)) > 1e-9 {
+			t.Fatalf("raster lattice %d×%d from %.7f, %.7f by %.9f°, want the DEM's", least.Cols, least.Rows, least.X0, least.Y0, least.DX)
+		}
+		// At each field's pixel: its elevation plus the reserve, within
+		// the glide cone's rise over one solver cell (92 m / 9 ≈ 10 m; the
+		// raster is interpolated from the solver grid).
+		for _, f := range res.Fields {
+			v, ok := least.Elevation(f.Lat, f.Lon)
+			if !ok || v < f.Elev+300-0.5 || v > f.Elev+300+11 {
+				t.Errorf("%s: least altitude at the field %.1f m (ok %v), want %.1f m + at most 11 m", f.Name, v, ok, f.Elev+300)
+			}
+		}
+		// Covered share: the cells whose least altitude is at most the
+		// altitude flown there. The command counts the cells of its solver
+		// grid (92.1 m), the raster holds the DEM's lattice (92.6 m), so
+		// the two shares agree to about the cells along the boundaries:
+		// within 2 % of the area.
+		cov, bad := 0, 0
+		for i, v := range least.Elev {
+			e := float64(dem.Elev[i])
+			if v == v && float64(v) <= mode.flown(e) {
+				cov++
+			}
+			// Least altitudes respect the clearance above the terrain
+			// (common practice, no source), within the bilinear blending
+			// of the two lattices: 5 m, except along the cliff.
+			x, y := least.X0+float64(i%least.Cols)*least.DX, least.Y0-float64(i/least.Cols)*least.DY
+			if v == v && float64(v) < e+100-5 && !nearFixtureCliff(y, x) {
+				bad++
+			}
+		}
+		share := float64(cov) / float64(len(least.Elev))
+		if math.Abs(share-res.CoveredFraction) > 0.02 || res.CoveredFraction <= 0.05 || res.CoveredFraction >= 0.95 {
+			t.Errorf("%s %s: covered_fraction %.4f, raster share %.4f", mode.flag, mode.value, res.CoveredFraction, share)
+		}
+		if bad > 0 {
+			t.Errorf("%s: %d cells with a least altitude below terrain + clearance", mode.flag, bad)
+		}
+	}
+}
