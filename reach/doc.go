@@ -1,5 +1,9 @@
 // Package reach models the glide performance of an aircraft without thrust and
-// (in later files) solves for the ground it can still reach.
+// solves for the ground it can still reach: the forward footprint from a
+// position and altitude (Footprint, rings by marching squares), the least
+// altitude from which a set of fields is reached (Required), the final glide
+// along a line (FinalGlide), and the route and coverage analyses built on
+// the backward raster. DEVELOPERS.md describes the solvers' design.
 //
 // # Units and conventions
 //
