@@ -39,6 +39,7 @@ type terrainReport struct {
 	Voids         int           `json:"voids"`
 	VoidsFilled   int           `json:"voids_filled"`
 	VoidTreatment string        `json:"void_treatment"`
+	Warnings      []string      `json:"warnings"`
 	At            *terrainAt    `json:"at,omitempty"`
 	ElevationM    *float64      `json:"elevation_m"` // null without --at and at a void
 	Caution       string        `json:"caution"`
@@ -189,8 +190,12 @@ func terrainSummary(opts terrain.OpenOptions, fill int, paths []string, at *inpu
 		rep.VoidTreatment = fmt.Sprintf("filled where at most %d cells, the rest obstacles", fill)
 	}
 	rep.Voids = g.Voids()
+	rep.Warnings = []string{}
 	if lo, hi, ok := g.ElevationRange(); ok {
 		rep.MinM, rep.MaxM = &lo, &hi
+		if w := implausibleElevations(lo, hi); w != "" {
+			rep.Warnings = append(rep.Warnings, w)
+		}
 	}
 	if at.Given {
 		rep.At = &terrainAt{Lat: at.Lat, Lon: at.Lon}
@@ -206,6 +211,26 @@ func terrainSummary(opts terrain.OpenOptions, fill int, paths []string, at *inpu
 		}
 	}
 	return rep, nil
+}
+
+// Land on Earth lies between about −430 m (the Dead Sea shore) and 8849 m
+// (the highest summit); both figures from memory, widened to round numbers.
+const (
+	plausibleLowM  = -500
+	plausibleHighM = 9000
+)
+
+// implausibleElevations returns a warning when lo..hi (m) goes beyond the
+// elevations of land: sea-floor data, or a no-data value the file does not
+// declare (−32768, −9999, …) or samples misread. Such cells count as ground,
+// not voids, so the user must know.
+func implausibleElevations(lo, hi float64) string {
+	if lo >= plausibleLowM && hi <= plausibleHighM {
+		return ""
+	}
+	return fmt.Sprintf("elevations go beyond %d..%d m, the range of land: unless this is sea-floor data, "+
+		"the file may hold a no-data value it does not declare (such as -32768 or -9999) or be misread; "+
+		"those cells are taken as ground, not as voids", plausibleLowM, plausibleHighM)
 }
 
 // inside reports whether lat, lon lies within the grid's cells (so that a
@@ -254,6 +279,9 @@ func writeTerrainReport(w io.Writer, r *terrainReport, format string) error {
 		fmt.Fprintf(&b, "elevation:   %.1f m to %.1f m MSL\n", *r.MinM, *r.MaxM)
 	} else {
 		fmt.Fprintf(&b, "elevation:   no data (every cell is a void)\n")
+	}
+	for _, w := range r.Warnings {
+		fmt.Fprintf(&b, "warning:     %s\n", w)
 	}
 	pct := 100 * float64(r.Voids) / math.Max(1, float64(r.Cols*r.Rows))
 	if r.VoidsFilled > 0 || r.VoidTreatment != "obstacle" {

@@ -4,8 +4,10 @@ import (
 	"bytes"
 	"encoding/json"
 	"errors"
+	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -129,5 +131,189 @@ func TestTerrainCommandBadInput(t *testing.T) {
 	}
 	if _, err := runTerrain(t); err == nil || exitCode(err) != 2 {
 		t.Errorf("no file: %v", err)
+	}
+}
+
+// gdalSummary is what GDAL 3.6.2 printed about one fixture.
+type gdalSummary struct {
+	name             string
+	cols, rows       int
+	nodata           bool
+	wgs84            []float64 // west, south, east, north
+	min, max         float64
+	hasMinMax, inter bool // inter: pixel-interleaved bands (refused)
+	rotated          bool
+}
+
+// readGDALSummaries parses testdata/geotiff/values.txt (written by
+// make.sh from gdalinfo -json and gdalinfo -json -mm).
+func readGDALSummaries(t *testing.T) []*gdalSummary {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join("..", "..", "testdata", "geotiff", "values.txt"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out []*gdalSummary
+	var cur *gdalSummary
+	num := func(s string) float64 {
+		v, err := strconv.ParseFloat(s, 64)
+		if err != nil {
+			t.Fatalf("values.txt: %q: %v", s, err)
+		}
+		return v
+	}
+	for _, line := range strings.Split(string(b), "\n") {
+		fs := strings.Fields(line)
+		if len(fs) < 2 || strings.HasPrefix(fs[0], "#") {
+			continue
+		}
+		switch fs[0] {
+		case "fixture":
+			cur = &gdalSummary{name: fs[1]}
+			out = append(out, cur)
+		case "info":
+			var info struct {
+				Size       [2]int   `json:"size"`
+				NoData     *float64 `json:"nodata"`
+				Interleave string   `json:"interleave"`
+				Bands      int      `json:"bands"`
+			}
+			if err := json.Unmarshal([]byte(strings.TrimPrefix(line, "info ")), &info); err != nil {
+				t.Fatal(err)
+			}
+			cur.cols, cur.rows, cur.nodata = info.Size[0], info.Size[1], info.NoData != nil
+			cur.inter = info.Interleave == "PIXEL" && info.Bands > 1
+		case "wgs84":
+			for _, f := range fs[1:] {
+				cur.wgs84 = append(cur.wgs84, num(f))
+			}
+		case "minmax":
+			cur.min, cur.max, cur.hasMinMax = num(fs[1]), num(fs[2]), true
+		case "transform":
+			cur.rotated = true
+		}
+	}
+	return out
+}
+
+// TestTerrainCommandGeoTIFFFixtures runs `glidereach terrain --format json`
+// on every GeoTIFF fixture (made with GDAL by testdata/geotiff/make.sh) and
+// compares the summary with what gdalinfo printed: size, lon/lat extent
+// (wgs84Extent), elevation range (gdalinfo -mm), voids; files GDAL reads
+// but this tool refuses must exit 2 naming the file and the tag.
+func TestTerrainCommandGeoTIFFFixtures(t *testing.T) {
+	fixtures := readGDALSummaries(t)
+	if len(fixtures) < 20 {
+		t.Fatalf("values.txt lists %d fixtures", len(fixtures))
+	}
+	for _, fx := range fixtures {
+		p := filepath.Join("..", "..", "testdata", "geotiff", fx.name)
+		out, err := runTerrain(t, p, "--format", "json")
+		if fx.rotated || fx.inter {
+			tag := "ModelTransformation (34264)"
+			if fx.inter {
+				tag = "SamplesPerPixel (277)"
+			}
+			var ue *input.UsageError
+			if !errors.As(err, &ue) || ue.Where != p || !strings.Contains(err.Error(), tag) || exitCode(err) != 2 {
+				t.Errorf("%s: %v, want exit 2 naming the file and %s", fx.name, err, tag)
+			}
+			continue
+		}
+		if err != nil {
+			t.Errorf("%s: %v", fx.name, err)
+			continue
+		}
+		var rep terrainReport
+		if err := json.Unmarshal([]byte(out), &rep); err != nil {
+			t.Fatalf("%s: %v\n%s", fx.name, err, out)
+		}
+		if rep.Cols != fx.cols || rep.Rows != fx.rows {
+			t.Errorf("%s: %d × %d, gdalinfo %d × %d", fx.name, rep.Cols, rep.Rows, fx.cols, fx.rows)
+		}
+		// The fixture name starts with the EPSG code make.sh gave it.
+		wantCRS := "EPSG:4326"
+		if strings.HasPrefix(fx.name, "utm") {
+			wantCRS = "EPSG:" + fx.name[3:8]
+		}
+		if rep.CRS != wantCRS {
+			t.Errorf("%s: crs %s, want %s", fx.name, rep.CRS, wantCRS)
+		}
+		// gdalinfo prints the wgs84Extent to 7 decimals; ours is the box of
+		// the projected outline, the same to well under 1e-6°.
+		got := []float64{rep.Extent.West, rep.Extent.South, rep.Extent.East, rep.Extent.North}
+		for i := range got {
+			if len(fx.wgs84) != 4 || math.Abs(got[i]-fx.wgs84[i]) > 1e-6 {
+				t.Errorf("%s: extent %v, gdalinfo wgs84Extent %v", fx.name, got, fx.wgs84)
+				break
+			}
+		}
+		// gdalinfo -mm prints float32 extremes rounded to 3 decimals.
+		if !fx.hasMinMax || rep.MinM == nil || math.Abs(*rep.MinM-fx.min) > 1e-3 || math.Abs(*rep.MaxM-fx.max) > 1e-3 {
+			t.Errorf("%s: elevation %v..%v, gdalinfo -mm %g..%g", fx.name, rep.MinM, rep.MaxM, fx.min, fx.max)
+		}
+		// make.sh cuts a 12 × 6 cell no-data block into the _nodata surfaces.
+		if wantVoids := map[bool]int{true: 72}[fx.nodata]; rep.Voids != wantVoids {
+			t.Errorf("%s: %d voids, want %d", fx.name, rep.Voids, wantVoids)
+		}
+		if len(rep.Warnings) != 0 || rep.Caution == "" {
+			t.Errorf("%s: warnings %q, caution %q", fx.name, rep.Warnings, rep.Caution)
+		}
+	}
+}
+
+// TestTerrainCommandASCUTM checks the summary of the centre-registered UTM
+// grid testdata/asc/utm_center.asc against what gdalinfo -json -mm (GDAL
+// 3.6.2) printed for it: wgs84Extent -21.0001348 -0.5067851 -20.999326
+// -0.5062423, computed minimum -5 and maximum 3.5, no data -32768 (one
+// cell).
+func TestTerrainCommandASCUTM(t *testing.T) {
+	out, err := runTerrain(t, filepath.Join("..", "..", "testdata", "asc", "utm_center.asc"), "--format", "json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rep terrainReport
+	if err := json.Unmarshal([]byte(out), &rep); err != nil {
+		t.Fatal(err)
+	}
+	want := []float64{-21.0001348, -0.5067851, -20.999326, -0.5062423}
+	got := []float64{rep.Extent.West, rep.Extent.South, rep.Extent.East, rep.Extent.North}
+	for i := range got {
+		if math.Abs(got[i]-want[i]) > 1e-6 {
+			t.Errorf("extent %v, gdalinfo %v", got, want)
+			break
+		}
+	}
+	if rep.CRS != "EPSG:32727" || rep.Cols != 3 || rep.Rows != 2 || rep.Voids != 1 || rep.MinM == nil || *rep.MinM != -5 || *rep.MaxM != 3.5 {
+		t.Errorf("report %+v", rep)
+	}
+}
+
+// TestTerrainCommandWarnsImplausible: a grid whose cells hold -32768 that
+// its header does not declare as no data is summarised with a warning, in
+// text and JSON (land lies between about -430 m and 8849 m, from memory).
+func TestTerrainCommandWarnsImplausible(t *testing.T) {
+	p := filepath.Join(t.TempDir(), "undeclared.asc")
+	grid := "ncols 3\nnrows 2\nxllcorner -24.5\nyllcorner -0.5\ncellsize 0.01\nNODATA_value -9999\n100 110 -32768\n120 130 140\n"
+	if err := os.WriteFile(p, []byte(grid), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, err := runTerrain(t, p, "--crs", "EPSG:4326")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(out, "warning:") || !strings.Contains(out, "-32768") {
+		t.Errorf("no warning:\n%s", out)
+	}
+	out, err = runTerrain(t, p, "--crs", "EPSG:4326", "--format", "json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rep terrainReport
+	if err := json.Unmarshal([]byte(out), &rep); err != nil {
+		t.Fatal(err)
+	}
+	if len(rep.Warnings) != 1 || rep.Voids != 0 {
+		t.Errorf("warnings %q, voids %d", rep.Warnings, rep.Voids)
 	}
 }

@@ -52,8 +52,16 @@ surface etrs28 500000 4980000 25 1
   echo "# What GDAL $(gdalinfo --version | sed 's/,.*//; s/^GDAL //') printed for the fixtures made by make.sh."
   echo "# fixture NAME: the file; info: gdalinfo -json (size, block size, data type, no-data, compression);"
   echo "# corner NAME X Y: gdalinfo -json cornerCoordinates; px COL ROW VALUE: gdallocationinfo -valonly;"
-  echo "# geo X Y VALUE: gdallocationinfo -valonly -geoloc (X Y in the file's CRS)."
+  echo "# geo X Y VALUE: gdallocationinfo -valonly -geoloc (X Y in the file's CRS);"
+  echo "# wgs84 W S E N: box of gdalinfo -json wgs84Extent; minmax MIN MAX: gdalinfo -json -mm computedMin/Max."
 } >> values.txt
+
+# wgs84_minmax FILE JSON: the lon/lat box of gdalinfo's wgs84Extent and the
+# band 1 minimum and maximum gdalinfo -mm computes (no-data excluded).
+wgs84_minmax() {
+  echo "wgs84 $(jq -r '.wgs84Extent.coordinates[0] | [(map(.[0]) | min), (map(.[1]) | min), (map(.[0]) | max), (map(.[1]) | max)] | @tsv' <<<"$2")"
+  echo "minmax $(gdalinfo -json -mm "$1" | jq -r '.bands[0] | "\(.computedMin) \(.computedMax)"')"
+}
 
 # make NAME SRC SRS TYPE [gdal_translate options...]
 fixture() {
@@ -68,6 +76,7 @@ fixture() {
     echo "fixture $name.tif"
     echo "info $(jq -c '{size: .size, block: .bands[0].block, type: .bands[0].type, nodata: .bands[0].noDataValue, compression: .metadata.IMAGE_STRUCTURE.COMPRESSION, interleave: .metadata.IMAGE_STRUCTURE.INTERLEAVE, bands: (.bands | length), area_or_point: .metadata[""].AREA_OR_POINT}' <<<"$j")"
     jq -r '.cornerCoordinates | to_entries[] | "corner \(.key) \(.value[0]) \(.value[1])"' <<<"$j"
+    wgs84_minmax "$name.tif" "$j"
     # Cells: the four corners, tile and strip edges, and some inside.
     for p in "0 0" "119 0" "0 89" "119 89" "63 31" "64 32" "31 16" "32 17" "77 45" "101 71" "110 80" "45 33" "50 35" "7 6" "8 7" "100 60"; do
       echo "px $p $(gdallocationinfo -valonly "$name.tif" $p)"
@@ -131,6 +140,7 @@ for n in geo_int16_2band_planar geo_int16_2band_pixel; do
     echo "fixture $n.tif"
     echo "info $(jq -c '{size: .size, block: .bands[0].block, type: .bands[0].type, nodata: .bands[0].noDataValue, compression: .metadata.IMAGE_STRUCTURE.COMPRESSION, interleave: .metadata.IMAGE_STRUCTURE.INTERLEAVE, bands: (.bands | length), area_or_point: .metadata[""].AREA_OR_POINT}' <<<"$j")"
     jq -r '.cornerCoordinates | to_entries[] | "corner \(.key) \(.value[0]) \(.value[1])"' <<<"$j"
+    wgs84_minmax "$n.tif" "$j"
     for p in "0 0" "119 0" "0 89" "119 89" "63 31" "64 32" "31 16" "77 45" "101 71" "110 80"; do
       echo "px $p $(gdallocationinfo -valonly -b 1 "$n.tif" $p)"
     done
