@@ -82,10 +82,10 @@ An ESRI ASCII grid needs its CRS: from a .prj file beside it, or --crs. The
 tool does not guess from the numbers.
 
 ` + cautionText,
-		Example: `  glidereach terrain N34W119.hgt
-  glidereach terrain tiles/ --at 34.25,-118.75
+		Example: `  glidereach terrain S01W025.hgt
+  glidereach terrain tiles/ --at -0.75,-24.25
   glidereach terrain dem.tif --format json
-  glidereach terrain grid.asc --crs EPSG:32633 --voids fill`,
+  glidereach terrain grid.asc --crs EPSG:32727 --voids fill`,
 		Args: cobra.MinimumNArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if format != "text" && format != "json" {
