@@ -15,6 +15,7 @@ import (
 	"glidereach/cmd/glidereach/input"
 	"glidereach/reach"
 	"glidereach/terrain"
+	"glidereach/wind"
 )
 
 func init() {
@@ -337,17 +338,37 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 	if lo >= run.ceiling {
 		return input.Usagef("--alt", "the planned altitude is below the lowest ground or field (%.0f m)", lo)
 	}
-	tab, err := run.setup.table(lo-60, run.ceiling+60)
-	if err != nil {
-		return &input.UsageError{Where: "--aircraft", Err: err}
+	// With --wind-error every wind of the set is flown and each cell keeps
+	// the highest least altitude (conservative: from there some field is in
+	// reach whichever wind of the set blows).
+	winds := run.setup.Winds
+	if len(winds) == 0 {
+		winds = []*wind.Profile{run.setup.Wind}
 	}
-	res, err := reach.Required(ctx, l, run.targets, tab, reach.RequiredOptions{Clearance: run.setup.Clearance, Ceiling: run.ceiling, Progress: progress})
-	switch {
-	case errors.Is(err, reach.ErrNoTargets):
+	var res *reach.RequiredResult
+	for k, w := range winds {
+		tab, err := run.setup.tableFor(w, lo-60, run.ceiling+60)
+		if err != nil {
+			return &input.UsageError{Where: "--aircraft", Err: err}
+		}
+		opts := reach.RequiredOptions{Clearance: run.setup.Clearance, Ceiling: run.ceiling}
+		if progress != nil {
+			n := float64(len(winds))
+			opts.Progress = func(d float64) { progress((float64(k) + d) / n) }
+		}
+		r, err := reach.Required(ctx, l, run.targets, tab, opts)
+		if err != nil {
+			res = nil
+			if errors.Is(err, reach.ErrNoTargets) {
+				break
+			}
+			return err
+		}
+		res = worstRequired(res, r)
+	}
+	if res == nil {
 		res = emptyRequired(l)
 		run.notes = append(run.notes, "no landing field lies within reach of the route: all of it is a gap")
-	case err != nil:
-		return err
 	}
 	run.res = res
 	prof, err := res.Route(pts, run.ceiling)
@@ -369,6 +390,25 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 		}
 	}
 	return nil
+}
+
+// worstRequired folds b into a (nil on the first wind): each cell keeps the
+// higher least altitude and that wind's best field; NaN (no field in reach
+// below the ceiling) in either wind stays NaN.
+func worstRequired(a, b *reach.RequiredResult) *reach.RequiredResult {
+	if a == nil {
+		return b
+	}
+	for i, v := range b.Required {
+		switch {
+		case a.Required[i] != a.Required[i]:
+		case v != v:
+			a.Required[i], a.Best[i] = v, -1
+		case v > a.Required[i]:
+			a.Required[i], a.Best[i] = v, b.Best[i]
+		}
+	}
+	return a
 }
 
 // emptyRequired is a RequiredResult with no field in reach anywhere.

@@ -482,3 +482,51 @@ func nearGapEnd(dist float64, d routeDoc) bool {
 	}
 	return false
 }
+
+func TestRouteWindError(t *testing.T) {
+	// --wind-error 30deg,10kt on a uniform 270/20kt: the least altitude at
+	// every sample is the highest of the nine winds 240°, 270°, 300° ×
+	// 10, 20, 30 kt (wind.Perturb) each flown alone — the result holds
+	// whichever of them blows (conservative by construction, common
+	// practice, no source) — so the route is never more covered than in the
+	// nominal wind.
+	route := filepath.Join("..", "..", "testdata", "routes", "demo-route.gpx")
+	fields := filepath.Join("..", "..", "testdata", "fields", "demo-fields.geojson")
+	base := []string{"--route", route, "--fields", fields, "--alt", "2000m", "--step", "1km"}
+	worst := routeJSONDoc(t, append(base, "--wind", "270/20kt", "--wind-error", "30deg,10kt")...)
+	nominal := routeJSONDoc(t, append(base, "--wind", "270/20kt")...)
+	want := make([]float64, len(worst.Samples))
+	for _, dir := range []string{"240", "270", "300"} {
+		for _, sp := range []string{"10", "20", "30"} {
+			d := routeJSONDoc(t, append(base, "--wind", dir+"/"+sp+"kt")...)
+			for i, s := range d.Samples {
+				v := math.NaN()
+				if s.Least != nil {
+					v = *s.Least
+				}
+				switch {
+				case dir == "240" && sp == "10", math.IsNaN(want[i]):
+					if dir == "240" && sp == "10" {
+						want[i] = v
+					}
+				case math.IsNaN(v) || v > want[i]:
+					want[i] = v
+				}
+			}
+		}
+	}
+	for i, s := range worst.Samples {
+		got := math.NaN()
+		if s.Least != nil {
+			got = *s.Least
+		}
+		// 0.2 %: each wind flown alone gets its own solver window (sized by
+		// its own glide range), so the grids differ slightly.
+		if math.IsNaN(got) != math.IsNaN(want[i]) || math.Abs(got-want[i]) > 0.002*want[i]+0.11 {
+			t.Errorf("%.0f m: least %.1f m with --wind-error, highest of the nine winds %.1f m", s.Dist, got, want[i])
+		}
+	}
+	if !(worst.CoveredFraction < nominal.CoveredFraction) {
+		t.Errorf("covered %.3f with --wind-error, %.3f in the nominal wind", worst.CoveredFraction, nominal.CoveredFraction)
+	}
+}
