@@ -146,6 +146,12 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 	if err != nil {
 		return err
 	}
+	if len(setup.Winds) > 1 {
+		// Shares, per-field and candidate areas are not computed over a
+		// set of winds; refusing is safer than a result that only looks
+		// conservative.
+		return input.Usagef("--wind-error", "coverage does not yet combine a wind-error set: run it once per wind of the set (--wind with each direction and speed) and take the smallest covered share")
+	}
 	src, err := o.terr.open()
 	if err != nil {
 		return err
