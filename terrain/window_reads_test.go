@@ -137,9 +137,12 @@ func TestHGTWindowReadsOnlyItsCells(t *testing.T) {
 // correct one (see testdata/geotiff/make.sh). Adobe Photoshop TIFF Technical
 // Note 3 (layout from memory, as in geotiff.go): each row's samples are
 // split into byte lanes, most significant byte first whatever the file's
-// byte order, and the lanes are then byte-differenced. The expected cells
-// are the little-endian GDAL fixtures' cells, themselves checked against
-// gdallocationinfo in TestGeoTIFFMatchesGDAL.
+// byte order, and the lanes are then byte-differenced. GDAL 3.6.2 reads
+// files laid out so: run once on a big-endian predictor-3 deflate file of
+// geo_float32_tiled_deflate_pred3.tif's cells (made by GeoTIFFWriter), its
+// gdallocationinfo printed 900 at cell (0, 0) and 1686.10302734375 at
+// (64, 32). The expected cells are the little-endian GDAL fixtures' cells,
+// themselves checked against gdallocationinfo in TestGeoTIFFMatchesGDAL.
 func TestGeoTIFFBigEndianFloatPredictor(t *testing.T) {
 	for _, tc := range []struct {
 		fixture string
@@ -201,6 +204,10 @@ func TestGeoTIFFBigEndianFloatPredictor(t *testing.T) {
 			if got.Elev[i] != want.Elev[i] {
 				t.Fatalf("%d-bit big endian, cell %d: %g, want %g", tc.bits, i, got.Elev[i], want.Elev[i])
 			}
+		}
+		// The two cells gdallocationinfo printed (see above).
+		if got.Elev[0] != 900 || got.Elev[32*w+64] != float32(1686.10302734375) {
+			t.Errorf("%d-bit big endian: cells (0, 0), (64, 32) = %g, %g, GDAL 900, 1686.10302734375", tc.bits, got.Elev[0], got.Elev[32*w+64])
 		}
 	}
 }
