@@ -136,6 +136,9 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 			}
 		}
 	}
+	if o.mapPNG != "" && !strings.EqualFold(filepath.Ext(o.mapPNG), ".png") {
+		return input.Usagef("--map", "%q: want a .png file name", o.mapPNG)
+	}
 	if o.raster != "" {
 		ext := strings.ToLower(filepath.Ext(o.raster))
 		if ext != ".tif" && ext != ".tiff" && ext != ".asc" {

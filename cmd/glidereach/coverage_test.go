@@ -164,6 +164,7 @@ func TestCoverageBadInput(t *testing.T) {
 		{[]string{"coverage", "--fields", fields, "--area", box, "--agl", "0m"}, "--agl"},
 		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--candidates", "none.geojson"}, "none.geojson"},
 		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--format", "csv"}, "--format"},
+		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--map", "coverage.jpg"}, "--map"},
 		// A wind-error set is refused rather than silently ignored.
 		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--wind", "270/20kt", "--wind-error", "20deg,5kt"}, "--wind-error"},
 	})

@@ -9,6 +9,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"github.com/spf13/cobra"
 
@@ -146,6 +147,9 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 				return err
 			}
 		}
+	}
+	if o.mapPNG != "" && !strings.EqualFold(filepath.Ext(o.mapPNG), ".png") {
+		return input.Usagef("--map", "%q: want a .png file name", o.mapPNG)
 	}
 	setup, err := o.glide.resolve()
 	if err != nil {

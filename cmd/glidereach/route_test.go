@@ -215,6 +215,7 @@ func TestRouteBadInput(t *testing.T) {
 		{[]string{"route", "--route", "missing.gpx", "--fields", fields, "--alt", "1500m"}, "missing.gpx"},
 		{[]string{"route", "--route", fields, "--fields", fields, "--alt", "1500m"}, "demo-fields.geojson"},
 		{[]string{"route", "--route", route, "--fields", fields, "--alt", "1500m", "--out", filepath.Join(dir, "no", "r.json")}, "--out"},
+		{[]string{"route", "--route", route, "--fields", fields, "--alt", "1500m", "--map", filepath.Join(dir, "r.jpg")}, "--map"},
 	}
 	checkUsageErrors(t, cases)
 	ents, _ := os.ReadDir(dir)
