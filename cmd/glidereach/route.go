@@ -289,6 +289,9 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 		minLat, maxLat = math.Min(minLat, p.Lat), math.Max(maxLat, p.Lat)
 		minLon, maxLon = math.Min(minLon, p.Lon), math.Max(maxLon, p.Lon)
 	}
+	if maxLon-minLon > 180 {
+		return input.Usagef("--route", "%s crosses the antimeridian, which is not supported", run.file)
+	}
 	bottom := 0.0
 	if run.ground.src == nil {
 		bottom = run.ground.flat

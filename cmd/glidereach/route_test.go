@@ -199,6 +199,7 @@ func TestRouteBadInput(t *testing.T) {
 	route := filepath.Join("..", "..", "testdata", "routes", "demo-route.gpx")
 	fields := filepath.Join("..", "..", "testdata", "fields", "demo-fields.geojson")
 	noEle, _ := writeStraightRoute(t, -0.5, -24.6, 45, 20000)
+	anti, _ := writeStraightRoute(t, -0.5, 179.95, 90, 20000)
 	dir := t.TempDir()
 	cases := []struct {
 		args []string
@@ -216,6 +217,7 @@ func TestRouteBadInput(t *testing.T) {
 		{[]string{"route", "--route", fields, "--fields", fields, "--alt", "1500m"}, "demo-fields.geojson"},
 		{[]string{"route", "--route", route, "--fields", fields, "--alt", "1500m", "--out", filepath.Join(dir, "no", "r.json")}, "--out"},
 		{[]string{"route", "--route", route, "--fields", fields, "--alt", "1500m", "--map", filepath.Join(dir, "r.jpg")}, "--map"},
+		{[]string{"route", "--route", anti, "--fields", fields, "--alt", "1500m"}, "antimeridian"},
 	}
 	checkUsageErrors(t, cases)
 	ents, _ := os.ReadDir(dir)
