@@ -25,7 +25,8 @@
 // The background is a hillshade of the DEM by Horn's method (see Hillshade)
 // blended with a hypsometric tint of the project's own choosing (see
 // palette.go). Flat ground (terrain.Local.Flat) is drawn as an even pale
-// tint. Voids (NaN) are drawn in grey and named in the legend.
+// tint. Voids (NaN) are drawn in grey and the map beyond the raster in a
+// lighter grey; each is named in the legend only when the map shows it.
 //
 // # Colours
 //
@@ -33,8 +34,10 @@
 // Universal Design", 2008), chosen to stay distinguishable under the common
 // forms of colour-vision deficiency (deuteranopia, protanopia, tritanopia).
 // No meaning is carried by colour alone: reachable fields are filled circles,
-// fields out of reach are crosses; route pieces with a field in reach are
-// solid, pieces without are dashed; uncovered coverage is hatched.
+// fields out of reach are crosses, proposed fields open rings with a plus;
+// route pieces with a field in reach are solid, pieces without are dashed;
+// uncovered coverage is hatched. A field beyond the map's edge is drawn at
+// the edge with an arrow toward it and its distance beyond the edge.
 //
 // # Text
 //

@@ -26,6 +26,9 @@ const (
 	lgArea
 	lgTerrain
 	lgVoid
+	lgOffMap
+	lgProposed
+	lgTurn
 )
 
 type legendItem struct {
@@ -55,16 +58,30 @@ func (r *renderer) legendItems() []legendItem {
 			it = append(it, legendItem{kind: lgStart, text: "Start, arrow = heading"})
 		}
 	}
-	var reach, out bool
+	var reach, out, proposed, arrival bool
 	for _, f := range s.Fields {
-		reach = reach || f.Reachable
-		out = out || !f.Reachable
+		switch {
+		case f.Proposed:
+			proposed = true
+		case f.Reachable:
+			reach = true
+			arrival = arrival || !math.IsNaN(f.ArrivalAGL)
+		default:
+			out = true
+		}
 	}
 	if reach {
-		it = append(it, legendItem{kind: lgReachable, text: "Field in reach (arrival height above it)"})
+		t := "Field in reach"
+		if arrival {
+			t += " (arrival height above it)"
+		}
+		it = append(it, legendItem{kind: lgReachable, text: t})
 	}
 	if out {
 		it = append(it, legendItem{kind: lgUnreachable, text: "Field out of reach"})
+	}
+	if proposed {
+		it = append(it, legendItem{kind: lgProposed, text: "Proposed field (not yet a landing option)"})
 	}
 	var cov, open bool
 	for _, p := range s.Route {
@@ -82,7 +99,10 @@ func (r *renderer) legendItems() []legendItem {
 	}
 	if g := s.Glide; g != nil {
 		it = append(it, legendItem{kind: lgGlide, text: "Final glide line"})
-		if !math.IsNaN(g.LowestClearance) {
+		if len(g.Turns) > 0 {
+			it = append(it, legendItem{kind: lgTurn, text: "Turn point"})
+		}
+		if !math.IsNaN(g.LowestClearance) && r.lowestAtField() < 0 {
 			it = append(it, legendItem{kind: lgLowest, text: "Lowest terrain clearance"})
 		}
 	}
@@ -105,13 +125,43 @@ func (r *renderer) legendItems() []legendItem {
 		it = append(it, legendItem{kind: lgTerrain,
 			text: fmt.Sprintf("Terrain %s to %s MSL, shaded", s.height(lo), s.height(hi))})
 	}
-	for _, v := range l.Elev {
-		if v != v {
-			it = append(it, legendItem{kind: lgVoid, text: "No terrain data (treated as obstacle)"})
-			break
-		}
+	void, off := r.visibleGaps()
+	if void {
+		it = append(it, legendItem{kind: lgVoid, text: "No terrain data (treated as obstacle)"})
+	}
+	if off {
+		it = append(it, legendItem{kind: lgOffMap, text: "Outside the computed window"})
 	}
 	return it
+}
+
+// visibleGaps reports whether the map shows void cells of the raster and
+// whether it reaches beyond the raster (the off-map grey): only what is
+// on the map gets a legend entry.
+func (r *renderer) visibleGaps() (void, off bool) {
+	lo, l := r.lo, r.s.Terrain
+	minX, maxY := lo.minX, lo.maxY
+	maxX := minX + float64(lo.mapRect.Dx())*lo.mpp
+	minY := maxY - float64(lo.mapRect.Dy())*lo.mpp
+	h := l.Cell / 2
+	rx0, ry0 := l.X0-h, l.Y0-h
+	rx1, ry1 := l.X0+float64(l.Cols-1)*l.Cell+h, l.Y0+float64(l.Rows-1)*l.Cell+h
+	// Half a pixel of slack: the map's own rounding.
+	e := lo.mpp / 2
+	off = minX < rx0-e || minY < ry0-e || maxX > rx1+e || maxY > ry1+e
+	c0 := max(0, int(math.Floor((minX-rx0)/l.Cell)))
+	c1 := min(l.Cols-1, int(math.Floor((maxX-rx0)/l.Cell)))
+	r0 := max(0, int(math.Floor((minY-ry0)/l.Cell)))
+	r1 := min(l.Rows-1, int(math.Floor((maxY-ry0)/l.Cell)))
+	for row := r0; row <= r1 && !void; row++ {
+		for _, v := range l.Elev[row*l.Cols+c0 : row*l.Cols+c1+1] {
+			if v != v {
+				void = true
+				break
+			}
+		}
+	}
+	return void, off
 }
 
 // drawLegend draws the legend in its rectangle, two columns.
@@ -215,6 +265,13 @@ func (r *renderer) legendSymbol(it legendItem, x, y, sw float64) {
 		c.stroke(rect(x, y-h/2, x+sw, y+h/2), px(1), true, withAlpha(colTextMuted, 0.6))
 	case lgVoid:
 		c.fillRect(x, y-h/2, x+sw, y+h/2, colVoid)
+	case lgOffMap:
+		c.fillRect(x, y-h/2, x+sw, y+h/2, colOffMap)
+		c.stroke(rect(x, y-h/2, x+sw, y+h/2), px(1), true, withAlpha(colTextMuted, 0.6))
+	case lgProposed:
+		r.proposedSymbol(mid, px(9))
+	case lgTurn:
+		r.turnSymbol(mid)
 	}
 }
 
@@ -229,7 +286,7 @@ func (r *renderer) inputLines(width float64) []string {
 		}
 	}
 	out = append(out, "\x01Terrain data")
-	out = append(out, wrap(r.f.legend, s.dataSource(), width)...)
+	out = append(out, wrap(r.f.legend, s.sourceText(), width)...)
 	return out
 }
 

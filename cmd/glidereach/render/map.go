@@ -178,6 +178,8 @@ func render(s *Scene, widthPx int) (*image.RGBA, *layout, error) {
 	lo.cautionRect = image.Rect(margin, cTop, widthPx-margin, cTop+cautionH)
 	lo.H = lo.cautionRect.Max.Y + margin
 
+	lo.northDeg = trueNorth(lo)
+
 	r.img = image.NewRGBA(image.Rect(0, 0, lo.W, lo.H))
 	r.c = newCanvas(r.img)
 	fillSolid(r.img, r.img.Bounds(), colPaper)
@@ -296,7 +298,10 @@ func (r *renderer) drawOverlays() {
 		line := lo.line(g.Line)
 		c.stroke(line, px(7), false, withAlpha(colHalo, 0.9))
 		c.stroke(line, px(3), false, colGlide)
-		if !math.IsNaN(g.LowestClearance) {
+		for _, tp := range g.Turns {
+			r.turnSymbol(lo.toPix(tp.Point))
+		}
+		if !math.IsNaN(g.LowestClearance) && r.lowestAtField() < 0 {
 			p := lo.toPix(g.Lowest)
 			d := px(10)
 			dia := []pt{{p.X, p.Y - d}, {p.X + d, p.Y}, {p.X, p.Y + d}, {p.X - d, p.Y}}
@@ -311,19 +316,65 @@ func (r *renderer) drawOverlays() {
 		float64(lo.mapRect.Max.X) - 2, float64(lo.mapRect.Max.Y) - 2}}
 	var labels []label
 	symR := px(9)
-	for _, f := range s.Fields {
+	lowestField := r.lowestAtField()
+	for i, f := range s.Fields {
 		p := lo.toPix(f.Point)
-		r.fieldSymbol(p, f.Reachable, symR)
-		pl.reserve(boxAround(p, symR+px(2)))
 		lines := []string{f.Name}
+		if q, off := r.edgePoint(p, symR+px(16)); off {
+			// Beyond the map: the symbol stands at the edge with an arrow
+			// toward the field and the distance still to go.
+			pl.reserve(r.offMapArrow(q, p, symR))
+			e, _ := r.edgePoint(p, 0)
+			km := math.Hypot(p.X-e.X, p.Y-e.Y) * lo.mpp / 1000
+			d := fmt.Sprintf("%.0f", km)
+			if km < 9.95 {
+				d = fmt.Sprintf("%.1f", km)
+			}
+			lines = append(lines, d+" km beyond the map edge")
+			p = q
+		}
+		pl.reserve(boxAround(p, symR+px(2)))
+		switch {
+		case f.Proposed:
+			r.proposedSymbol(p, symR)
+		default:
+			r.fieldSymbol(p, f.Reachable, symR)
+		}
 		if !math.IsNaN(f.ArrivalAGL) {
-			lines = append(lines, "arrive "+s.signedHeight(f.ArrivalAGL))
+			lines = append(lines, "arrive "+s.signedHeight(f.ArrivalAGL)+" AGL")
+		}
+		if f.Note != "" {
+			lines = append(lines, f.Note)
+		}
+		if i == lowestField {
+			lines = append(lines, "lowest clearance "+s.height(s.Glide.LowestClearance)+" here")
 		}
 		prio := 2
-		if f.Reachable {
+		if f.Reachable && !f.Proposed {
 			prio = 1
 		}
 		labels = append(labels, label{lines: lines, bold: true, anchor: p, gap: symR, priority: prio, must: true, col: colText})
+	}
+	if g := s.Glide; g != nil {
+		for _, tp := range g.Turns {
+			p := lo.toPix(tp.Point)
+			pl.reserve(boxAround(p, px(8)))
+			labels = append(labels, label{lines: []string{tp.Name}, bold: true, anchor: p, gap: px(8), priority: 3, must: true, col: colText})
+		}
+	}
+	if n := len(s.Route); n > 0 {
+		first, last := s.Route[0].Line, s.Route[n-1].Line
+		if len(first) > 0 && len(last) > 0 {
+			for _, e := range []struct {
+				p    orb.Point
+				text string
+			}{{first[0], "route start"}, {last[len(last)-1], "route end"}} {
+				p := lo.toPix(e.p)
+				r.turnSymbol(p)
+				pl.reserve(boxAround(p, px(8)))
+				labels = append(labels, label{lines: []string{e.text}, bold: true, anchor: p, gap: px(8), priority: 3, must: true, col: colText})
+			}
+		}
 	}
 	if m := s.Start; m != nil {
 		p := lo.toPix(m.Point)
@@ -339,7 +390,7 @@ func (r *renderer) drawOverlays() {
 		}
 		labels = append(labels, label{lines: lines, bold: true, anchor: p, gap: px(16), priority: 0, must: true, col: colText})
 	}
-	if g := s.Glide; g != nil && !math.IsNaN(g.LowestClearance) {
+	if g := s.Glide; g != nil && !math.IsNaN(g.LowestClearance) && lowestField < 0 {
 		p := lo.toPix(g.Lowest)
 		pl.reserve(boxAround(p, px(10)))
 		labels = append(labels, label{lines: []string{"lowest clearance", s.height(g.LowestClearance)},
@@ -421,6 +472,100 @@ func (r *renderer) fieldSymbol(p pt, reachable bool, rad float64) {
 		c.addStroke(a, px(4), false)
 	}
 	c.paint(colUnreachable)
+}
+
+// proposedSymbol draws a proposed field: an open blue ring with a plus,
+// on a white halo, a shape of its own beside the filled circle and the
+// cross.
+func (r *renderer) proposedSymbol(p pt, rad float64) {
+	c, px := r.c, r.px
+	ring := circle(p, rad, 0)
+	c.stroke(ring, px(6.5), true, colHalo)
+	arms := [][]pt{{{p.X - rad*0.55, p.Y}, {p.X + rad*0.55, p.Y}}, {{p.X, p.Y - rad*0.55}, {p.X, p.Y + rad*0.55}}}
+	for _, a := range arms {
+		c.addStroke(a, px(5.5), false)
+	}
+	c.paint(colHalo)
+	c.stroke(ring, px(3), true, colProposed)
+	for _, a := range arms {
+		c.addStroke(a, px(2.6), false)
+	}
+	c.paint(colProposed)
+}
+
+// turnSymbol draws a turn point or a route end: a small white dot with a
+// black ring.
+func (r *renderer) turnSymbol(p pt) {
+	c, px := r.c, r.px
+	c.addRing(circle(p, px(6.5), 0), 1)
+	c.paint(colText)
+	c.addRing(circle(p, px(4.2), 0), 1)
+	c.paint(colHalo)
+}
+
+// edgePoint returns p when it lies on the map, else the point where the
+// line from the map centre to p meets the map's frame inset by inset
+// pixels, and true.
+func (r *renderer) edgePoint(p pt, inset float64) (pt, bool) {
+	m := r.lo.mapRect
+	x0, y0, x1, y1 := float64(m.Min.X), float64(m.Min.Y), float64(m.Max.X), float64(m.Max.Y)
+	if p.X >= x0 && p.X <= x1 && p.Y >= y0 && p.Y <= y1 {
+		return p, false
+	}
+	c := pt{(x0 + x1) / 2, (y0 + y1) / 2}
+	hx, hy := (x1-x0)/2-inset, (y1-y0)/2-inset
+	dx, dy := p.X-c.X, p.Y-c.Y
+	t := math.Inf(1)
+	if dx != 0 {
+		t = math.Min(t, hx/math.Abs(dx))
+	}
+	if dy != 0 {
+		t = math.Min(t, hy/math.Abs(dy))
+	}
+	if math.IsInf(t, 1) || !(t > 0) {
+		return c, true
+	}
+	return pt{c.X + dx*t, c.Y + dy*t}, true
+}
+
+// offMapArrow draws a black arrowhead beside the symbol at q, pointing
+// toward the field's true position p beyond the map's edge, and returns
+// the arrow's box.
+func (r *renderer) offMapArrow(q, p pt, rad float64) box {
+	c, px := r.c, r.px
+	dx, dy := p.X-q.X, p.Y-q.Y
+	d := math.Hypot(dx, dy)
+	if d == 0 {
+		return boxAround(q, rad)
+	}
+	ux, uy := dx/d, dy/d
+	b := pt{q.X + ux*(rad+px(3)), q.Y + uy*(rad+px(3))}
+	tip := pt{q.X + ux*(rad+px(13)), q.Y + uy*(rad+px(13))}
+	w := px(6)
+	tri := []pt{tip, {b.X - uy*w, b.Y + ux*w}, {b.X + uy*w, b.Y - ux*w}}
+	c.stroke(tri, px(3), true, colHalo)
+	c.addRing(tri, 1)
+	c.paint(colText)
+	m := pt{(b.X + tip.X) / 2, (b.Y + tip.Y) / 2}
+	return boxAround(m, px(8))
+}
+
+// lowestAtField is the index of the field the glide line's lowest point
+// coincides with (within its symbol), or -1. The lowest clearance is then
+// told in the field's label instead of a diamond hidden under it.
+func (r *renderer) lowestAtField() int {
+	g := r.s.Glide
+	if g == nil || math.IsNaN(g.LowestClearance) {
+		return -1
+	}
+	lp := r.lo.toPix(g.Lowest)
+	for i, f := range r.s.Fields {
+		p := r.lo.toPix(f.Point)
+		if math.Hypot(p.X-lp.X, p.Y-lp.Y) <= r.px(9)+r.px(10) {
+			return i
+		}
+	}
+	return -1
 }
 
 // startSymbol draws the start: a black arrowhead along the heading, or a
@@ -508,16 +653,20 @@ func fmtLen(v float64) string {
 	return fmt.Sprintf("%g", v)
 }
 
-// drawNorthArrow draws an arrow to true north at the map's upper right and
-// returns its box. True north is found at the map centre by projecting a
-// point 0.01° north of it.
-func (r *renderer) drawNorthArrow() box {
-	lo, c, px := r.lo, r.c, r.px
+// trueNorth is the direction of true north at the map centre, degrees
+// clockwise from map up, found by projecting a point 0.01° north of it.
+func trueNorth(lo *layout) float64 {
 	cx := lo.minX + float64(lo.mapRect.Dx())*lo.mpp/2
 	cy := lo.maxY - float64(lo.mapRect.Dy())*lo.mpp/2
 	lat, lon := lo.frame.Inverse(cx, cy)
 	nx, ny := lo.frame.Forward(lat+0.01, lon)
-	lo.northDeg = math.Atan2(nx-cx, ny-cy) * 180 / math.Pi
+	return math.Atan2(nx-cx, ny-cy) * 180 / math.Pi
+}
+
+// drawNorthArrow draws an arrow to true north (layout.northDeg) at the
+// map's upper right and returns its box.
+func (r *renderer) drawNorthArrow() box {
+	lo, c, px := r.lo, r.c, r.px
 	a := lo.northDeg * math.Pi / 180
 	dx, dy := math.Sin(a), -math.Cos(a)
 	ex, ey := -dy, dx

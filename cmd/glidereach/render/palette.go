@@ -28,6 +28,7 @@ var (
 	colReachLine     = okBlue        // footprint outline
 	colReachable     = okBluishGreen // field in reach: filled circle
 	colUnreachable   = okVermillion  // field out of reach: cross
+	colProposed      = okBlue        // proposed field: open ring with a plus
 	colRouteCovered  = okBluishGreen // solid
 	colRouteOpen     = okVermillion  // dashed
 	colGap           = okYellow      // wide band under the route

@@ -134,7 +134,7 @@ func WriteReport(w io.Writer, r *Report) error {
 		}
 		d.Map = template.URL("data:image/png;base64," + base64.StdEncoding.EncodeToString(data))
 		d.Inputs = r.Scene.Inputs
-		d.Source = r.Scene.dataSource()
+		d.Source = r.Scene.sourceText()
 	}
 	if d.Caution == "" {
 		d.Caution = reach.Caution

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 
 	"github.com/paulmach/orb"
 
@@ -42,7 +43,9 @@ type Scene struct {
 	Fields []FieldMark
 
 	// Route is the planned route, in pieces coloured by whether a field is
-	// in reach along them.
+	// in reach along them, in flying order: the first point of the first
+	// piece is labelled "route start", the last point of the last piece
+	// "route end".
 	Route []RoutePiece
 
 	// Gaps are stretches of the route with no landing option.
@@ -115,6 +118,14 @@ type FieldMark struct {
 	// ArrivalAGL is the arrival height above the field, metres (negative:
 	// short of it by that much); NaN when unknown (not labelled).
 	ArrivalAGL float64
+	// Note is one more label line saying why, e.g. "below the 300 m
+	// reserve" for a field out of reach that would still be reached
+	// without the reserve. Empty means none.
+	Note string
+	// Proposed marks a candidate field that does not exist yet (a
+	// coverage suggestion): drawn as an open ring with a plus, neither in
+	// reach nor out of reach. Reachable is ignored.
+	Proposed bool
 }
 
 // RoutePiece is a stretch of the planned route.
@@ -142,6 +153,15 @@ type GlideLine struct {
 	// LowestClearance is the least height above terrain along the line,
 	// metres; NaN when not known.
 	LowestClearance float64
+	// Turns are the turn points between start and goal, in order, each
+	// drawn as a small ringed dot with its name.
+	Turns []TurnPoint
+}
+
+// TurnPoint is a named point of a final-glide line.
+type TurnPoint struct {
+	Name  string
+	Point orb.Point // lon, lat
 }
 
 // Coverage shows an area split into the part with a field in reach and the
@@ -193,6 +213,16 @@ func (s *Scene) dataSource() string {
 		return s.Terrain.Source
 	}
 	return "flat ground"
+}
+
+// sourceText is dataSource without a leading "terrain: ", for places that
+// already head it "Terrain data".
+func (s *Scene) sourceText() string {
+	t := s.dataSource()
+	if len(t) > len("terrain: ") && strings.EqualFold(t[:len("terrain: ")], "terrain: ") {
+		return t[len("terrain: "):]
+	}
+	return t
 }
 
 // height formats a height in the scene's height unit: "1500 m" or "4921 ft".

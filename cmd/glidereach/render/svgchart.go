@@ -18,8 +18,19 @@ type Profile struct {
 	Series []Series
 	// Marks are labelled points (fields, the lowest clearance).
 	Marks []ProfileMark
+	// Bands are stretches of the line shaded across the chart (the
+	// route's gaps), in the map's gap yellow.
+	Bands []ProfileBand
 	// HeightFeet labels the altitude axis in feet (values stay metres).
 	HeightFeet bool
+}
+
+// ProfileBand is a shaded stretch, metres from the start.
+type ProfileBand struct {
+	FromM, ToM float64
+	// Label names the band in the chart's legend ("gap: no field in
+	// reach"); bands with equal labels share one entry.
+	Label string
 }
 
 // SeriesKind says how a series is drawn. Each kind has its own colour
@@ -149,6 +160,13 @@ func WriteProfileSVG(w io.Writer, p *Profile) error {
 		chartT+chartPlotH/2, chartT+chartPlotH/2, unit)
 	pr(`<rect x="%g" y="%g" width="%g" height="%g" fill="none" stroke="#666"/>`, chartL, chartT, chartPlotW, chartPlotH)
 
+	for _, b := range p.Bands {
+		if !(b.ToM > b.FromM) {
+			continue
+		}
+		left, right := X(math.Max(0, b.FromM)), X(math.Min(xb, b.ToM))
+		pr(`<rect x="%.1f" y="%g" width="%.1f" height="%g" fill="%s" fill-opacity="0.35"/>`, left, chartT, right-left, chartPlotH, hex(okYellow))
+	}
 	// Curves: terrain first (filled to the axis), then the lines.
 	for pass := 0; pass < 2; pass++ {
 		for _, s := range p.Series {
@@ -179,21 +197,28 @@ func WriteProfileSVG(w io.Writer, p *Profile) error {
 			}
 		}
 	}
+	var marks []ProfileMark
 	for _, m := range p.Marks {
-		if math.IsNaN(m.AltMSL) || math.IsNaN(m.DistM) {
-			continue
+		if !math.IsNaN(m.AltMSL) && !math.IsNaN(m.DistM) {
+			marks = append(marks, m)
 		}
-		x, y := X(m.DistM), Y(m.AltMSL)
-		pr(`<circle cx="%.1f" cy="%.1f" r="5" fill="%s" stroke="#000" stroke-width="1.2"/>`, x, y, hex(okReddishPurpl))
-		anchor, dx := "start", 8.0
-		if x > chartL+chartPlotW*0.75 {
-			anchor, dx = "end", -8
-		}
+	}
+	for _, m := range marks {
+		pr(`<circle cx="%.1f" cy="%.1f" r="5" fill="%s" stroke="#000" stroke-width="1.2"/>`, X(m.DistM), Y(m.AltMSL), hex(okReddishPurpl))
+	}
+	for _, l := range placeMarkLabels(marks, X, Y) {
 		pr(`<text x="%.1f" y="%.1f" font-size="13" text-anchor="%s" fill="#1a1a1a" stroke="#fff" stroke-width="3" paint-order="stroke">%s</text>`,
-			x+dx, y-8, anchor, html.EscapeString(m.Label))
+			l.x, l.y, l.anchor, html.EscapeString(l.text))
 	}
 	// Legend, top left inside the plot.
 	lx, ly := chartL+12, chartT+18
+	next := func(name string) {
+		pr(`<text x="%g" y="%g" font-size="13" fill="#1a1a1a">%s</text>`, lx+38, ly+2, html.EscapeString(name))
+		lx += 38 + 7.5*float64(len([]rune(name))) + 24
+		if lx > chartL+chartPlotW-200 {
+			lx, ly = chartL+12, ly+18
+		}
+	}
 	for _, s := range p.Series {
 		st := styleOf(s.Kind)
 		if s.Kind == SeriesTerrain {
@@ -205,12 +230,16 @@ func WriteProfileSVG(w io.Writer, p *Profile) error {
 			}
 			pr(`<line x1="%g" y1="%g" x2="%g" y2="%g" stroke="%s" stroke-width="%g"%s/>`, lx, ly-3, lx+30, ly-3, st.stroke, st.width, dash)
 		}
-		name := s.Name
-		pr(`<text x="%g" y="%g" font-size="13" fill="#1a1a1a">%s</text>`, lx+38, ly+2, html.EscapeString(name))
-		lx += 38 + 7.5*float64(len([]rune(name))) + 24
-		if lx > chartL+chartPlotW-200 {
-			lx, ly = chartL+12, ly+18
+		next(s.Name)
+	}
+	seen := map[string]bool{}
+	for _, b := range p.Bands {
+		if b.Label == "" || seen[b.Label] {
+			continue
 		}
+		seen[b.Label] = true
+		pr(`<rect x="%g" y="%g" width="30" height="10" fill="%s" fill-opacity="0.6" stroke="#888"/>`, lx, ly-8, hex(okYellow))
+		next(b.Label)
 	}
 	pr(`</svg>`)
 	return bw.Flush()
@@ -258,4 +287,66 @@ func fmtTick(v float64) string {
 		return fmt.Sprintf("%.0f", v)
 	}
 	return strings.TrimRight(strings.TrimRight(fmt.Sprintf("%.2f", v), "0"), ".")
+}
+
+// markLabel is a mark's label as placed on the chart: text baseline at
+// (x, y), anchored at its start or end.
+type markLabel struct {
+	x, y   float64
+	anchor string
+	text   string
+	b      box
+}
+
+// chartCharW is the mean advance of the chart's 13-unit sans-serif font
+// (about 0.55 em), used to keep mark labels apart.
+const chartCharW = 7.2
+
+// placeMarkLabels puts each mark's label above or below its dot, to the
+// right (to the left in the last quarter of the plot), nearer first, on
+// the first spot inside the plot that overlaps no earlier label and no
+// dot; when none is free, the plain spot above the dot.
+func placeMarkLabels(marks []ProfileMark, X, Y func(float64) float64) []markLabel {
+	var dots, taken []box
+	for _, m := range marks {
+		dots = append(dots, boxAround(pt{X(m.DistM), Y(m.AltMSL)}, 6))
+	}
+	plot := box{chartL, chartT, chartL + chartPlotW, chartT + chartPlotH}
+	var out []markLabel
+	for _, m := range marks {
+		x, y := X(m.DistM), Y(m.AltMSL)
+		w := chartCharW*float64(len([]rune(m.Label))) + 4
+		var cands []markLabel
+		for _, dy := range []float64{-8, 19, -24, 35, -40, 51} {
+			for _, left := range []bool{x > chartL+chartPlotW*0.75, x <= chartL+chartPlotW*0.75} {
+				l := markLabel{x: x + 8, y: y + dy, anchor: "start", text: m.Label}
+				l.b = box{l.x - 2, l.y - 12, l.x + w, l.y + 4}
+				if left {
+					l.x, l.anchor = x-8, "end"
+					l.b = box{l.x - w, l.y - 12, l.x + 2, l.y + 4}
+				}
+				cands = append(cands, l)
+			}
+		}
+		best := cands[0]
+		for _, c := range cands {
+			if !c.b.inside(plot) {
+				continue
+			}
+			free := true
+			for _, o := range append(taken, dots...) {
+				if c.b.overlap(o) > 0 {
+					free = false
+					break
+				}
+			}
+			if free {
+				best = c
+				break
+			}
+		}
+		taken = append(taken, best.b)
+		out = append(out, best)
+	}
+	return out
 }
