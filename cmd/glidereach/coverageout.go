@@ -230,7 +230,8 @@ func coverageScene(run *coverageRun) *render.Scene {
 	if run.rank != nil {
 		for k, st := range run.rank.Steps {
 			c := run.cands[st.Candidate]
-			s.Fields = append(s.Fields, render.FieldMark{Name: fmt.Sprintf("%s (proposed, pick %d)", c.Name, k+1), Point: orb.Point{c.Lon, c.Lat}, Reachable: false, ArrivalAGL: math.NaN()})
+			s.Fields = append(s.Fields, render.FieldMark{Name: c.Name, Point: orb.Point{c.Lon, c.Lat}, Proposed: true,
+				ArrivalAGL: math.NaN(), Note: fmt.Sprintf("proposed, pick %d", k+1)})
 		}
 	}
 	zb := run.zone.Bounds()

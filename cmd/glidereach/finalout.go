@@ -492,7 +492,19 @@ func finalScene(run *finalRun) (*render.Scene, error) {
 	s.Start = m
 	g := r.Route[len(r.Route)-1]
 	reachable := r.Status == reach.FinalOK || r.Status == reach.FinalTerrainUnknown
-	s.Fields = append(s.Fields, render.FieldMark{Name: run.goalName, Point: orb.Point{g.Lon, g.Lat}, Reachable: reachable, ArrivalAGL: r.ArrivalAGL})
+	goal := render.FieldMark{Name: run.goalName, Point: orb.Point{g.Lon, g.Lat}, Reachable: reachable, ArrivalAGL: r.ArrivalAGL}
+	switch r.Status {
+	case reach.FinalShort:
+		goal.Note = fmt.Sprintf("below the %.0f m reserve", run.setup.Reserve)
+	case reach.FinalBlocked:
+		goal.Note = "line blocked by terrain"
+	case reach.FinalNoHeadway:
+		goal.Note = "no headway against the wind"
+	}
+	s.Fields = append(s.Fields, goal)
+	for i := 1; i < len(r.Route)-1; i++ {
+		gl.Turns = append(gl.Turns, render.TurnPoint{Name: finalPointName(run, i), Point: orb.Point{r.Route[i].Lon, r.Route[i].Lat}})
+	}
 	s.Inputs = []string{
 		"Aircraft: " + run.setup.Aircraft.Name,
 		fmt.Sprintf("Start: %.0f m MSL, required %s m", r.StartAlt, fmtM(r.Required)),

@@ -257,7 +257,11 @@ func reachScene(run *reachRun) *render.Scene {
 	m.HeadingDeg = run.heading
 	s.Start = m
 	for _, f := range run.fields {
-		s.Fields = append(s.Fields, render.FieldMark{Name: f.Name, Point: orb.Point{f.Lon, f.Lat}, Reachable: f.Reachable, ArrivalAGL: f.ArrivalAGLM})
+		fm := render.FieldMark{Name: f.Name, Point: orb.Point{f.Lon, f.Lat}, Reachable: f.Reachable, ArrivalAGL: f.ArrivalAGLM}
+		if !f.Reachable && f.ArrivalAGLM >= 0 { // reached, but not with the reserve
+			fm.Note = fmt.Sprintf("below the %.0f m reserve", run.setup.Reserve)
+		}
+		s.Fields = append(s.Fields, fm)
 	}
 	s.Inputs = []string{
 		"Aircraft: " + run.setup.Aircraft.Name,

@@ -434,6 +434,7 @@ func drawRoute(run *routeRun, mapPath, reportPath string) error {
 	}
 	for i, g := range p.Gaps {
 		prof.Marks = append(prof.Marks, render.ProfileMark{DistM: (g.Start + g.End) / 2, AltMSL: p.Samples[(g.First+g.Last)/2].Alt, Label: fmt.Sprintf("gap %d", i+1)})
+		prof.Bands = append(prof.Bands, render.ProfileBand{FromM: g.Start, ToM: g.End, Label: "gap: no field in reach"})
 	}
 	rep.Profile = prof
 	gt := render.Table{Title: "Gaps", Header: []string{"Gap", "From (km)", "To (km)", "Length (km)", "Start", "End", "Closed from"}}
