@@ -83,7 +83,8 @@ const (
 	// FinalShort: the glide arrives below the reserve.
 	FinalShort
 	// FinalBlocked: the glide line passes the terrain with less than the
-	// demanded clearance somewhere (it may be short too).
+	// demanded clearance somewhere, and the terrain, not the reserve, sets
+	// the altitude needed (it may be short too).
 	FinalBlocked
 	// FinalNoHeadway: on some leg the wind is stronger than the aircraft can
 	// make good at any usable speed; no altitude is enough.
@@ -438,7 +439,11 @@ func FinalGlide(ctx context.Context, route []geodesy.LatLon, startAlt float64, p
 		return nil, err
 	}
 	switch {
-	case res.Terrain != nil && res.Terrain.Blocked:
+	// Blocked only where the terrain is the limit: the line arrives with
+	// the reserve, or clearing the terrain needs more than the reserve
+	// does. A glide that merely falls short (its line then meets the
+	// ground, even flat ground) is short.
+	case res.Terrain != nil && res.Terrain.Blocked && (res.AboveReserve >= -1e-6 || res.Terrain.LeastClearAlt > res.Required+0.5):
 		res.Status = FinalBlocked
 	case res.AboveReserve < -1e-6:
 		res.Status = FinalShort

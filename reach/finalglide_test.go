@@ -326,6 +326,34 @@ func TestFinalGlideFlatNotBlocked(t *testing.T) {
 	}
 }
 
+func TestFinalGlideShortOverFlatIsNotBlocked(t *testing.T) {
+	// Flat ground at the goal's elevation, still air, a start far too low:
+	// the line meets the ground because the glide is short, not because
+	// terrain is in the way — status short, with the shortfall D/E +
+	// reserve − start (tan γ = 1/E; Anderson, Introduction to Flight). A
+	// ridge that needs more than the reserve does keeps the status blocked
+	// even when the glide is also short.
+	ac := testGlider(25, 30)
+	start := geodesy.LatLon{Lat: -0.5, Lon: -24.5}
+	goal, _, _ := geodesy.Direct(start, 0, 15000)
+	route := []geodesy.LatLon{start, goal}
+	flat := func(lat, lon float64) (float64, bool) { return 100, true }
+	opts := FinalGlideOptions{GoalElev: 100, Reserve: 200, Clearance: 100, Terrain: flat, Step: 50}
+	res := mustFinal(t, route, 400, Performance{Aircraft: ac}, opts)
+	if res.Status != FinalShort {
+		t.Errorf("short over flat ground: status %v, want short", res.Status)
+	}
+	if want := 400 - (100 + 200 + 15000/30.0); math.Abs(res.AboveReserve-want) > 0.5 {
+		t.Errorf("above the reserve %.1f m, want %.1f m", res.AboveReserve, want)
+	}
+	frame := terrain.NewFrame(start.Lat, start.Lon)
+	l := ridgeLocal(frame, 50, 8000, 600, 100, 1400)
+	opts.Terrain = func(lat, lon float64) (float64, bool) { return l.Sample(frame.Forward(lat, lon)) }
+	if r := mustFinal(t, route, 400, Performance{Aircraft: ac}, opts); r.Status != FinalBlocked || !(r.Terrain.LeastClearAlt > r.Required+100) {
+		t.Errorf("short and behind a ridge: status %v, least clearing %.0f m, required %.0f m", r.Status, r.Terrain.LeastClearAlt, r.Required)
+	}
+}
+
 func TestFinalGlideAffordableMacCready(t *testing.T) {
 	// The highest affordable MacCready setting, flown, arrives at the
 	// reserve within 1 m (definition of the setting; common practice, no
