@@ -317,3 +317,33 @@ func TestTerrainCommandWarnsImplausible(t *testing.T) {
 		t.Errorf("warnings %q, voids %d", rep.Warnings, rep.Voids)
 	}
 }
+
+// TestTerrainCommandAtUTMEdges: in a UTM grid, a point of a no-data block
+// is a void (JSON elevation_m null, at.void true), and a corner of the
+// lon/lat box that lies outside the rotated outline is refused, not called
+// a void. The void point is the centre of cell (45, 32) of
+// utm25828_int16_strip_packbits_nodata.tif (inside make.sh's no-data
+// block), converted by GDAL 3.6.2's gdaltransform -s_srs EPSG:25828
+// -t_srs EPSG:4326; the other point lies just inside the south-east corner
+// of the wgs84Extent gdalinfo printed for
+// utm32725_float32_strip_deflate_pred3.tif, east of the raster's outline
+// there (grid convergence turns the outline against the meridians).
+func TestTerrainCommandAtUTMEdges(t *testing.T) {
+	dir := filepath.Join("..", "..", "testdata", "geotiff")
+	out, err := runTerrain(t, filepath.Join(dir, "utm25828_int16_strip_packbits_nodata.tif"), "--at", "44.9863800557064,-14.9855709404344", "--format", "json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rep terrainReport
+	if err := json.Unmarshal([]byte(out), &rep); err != nil {
+		t.Fatal(err)
+	}
+	if rep.ElevationM != nil || rep.At == nil || !rep.At.Void {
+		t.Errorf("void point: elevation %v, at %+v", rep.ElevationM, rep.At)
+	}
+	_, err = runTerrain(t, filepath.Join(dir, "utm32725_float32_strip_deflate_pred3.tif"), "--at", "-35.06273,-32.96052")
+	var ue *input.UsageError
+	if !errors.As(err, &ue) || ue.Where != "--at" || !strings.Contains(err.Error(), "outside the terrain's cells") {
+		t.Errorf("corner outside the outline: %v", err)
+	}
+}
