@@ -91,8 +91,19 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 	}
 	s := &glideSetup{Aircraft: ac, Wind: w}
 	s.Cond = reach.Conditions{Mass: g.mass.Value, Bugs: g.bugs.Value, AirSink: g.airSink.Value, MacCready: g.mc.Value}
-	if err := s.Cond.Validate(); err != nil {
-		return nil, &input.UsageError{Err: err}
+	// Check each condition alone so the error names its flag.
+	for _, c := range []struct {
+		flag string
+		cond reach.Conditions
+	}{
+		{"--mass", reach.Conditions{Mass: s.Cond.Mass}},
+		{"--bugs", reach.Conditions{Bugs: s.Cond.Bugs}},
+		{"--air-sink", reach.Conditions{AirSink: s.Cond.AirSink}},
+		{"--mc", reach.Conditions{MacCready: s.Cond.MacCready}},
+	} {
+		if err := c.cond.Validate(); err != nil {
+			return nil, &input.UsageError{Where: c.flag, Err: err}
+		}
 	}
 	if err := ac.Check(s.Cond); err != nil {
 		return nil, &input.UsageError{Where: "--mass", Err: err}

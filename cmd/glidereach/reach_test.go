@@ -2,7 +2,9 @@ package main
 
 import (
 	"encoding/json"
+	"errors"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -13,6 +15,7 @@ import (
 	tgeo "github.com/tidwall/geojson"
 	"github.com/tidwall/geojson/geometry"
 
+	"glidereach/cmd/glidereach/input"
 	"glidereach/reach/geodesy"
 	"glidereach/terrain"
 )
@@ -229,6 +232,17 @@ func TestReachBadInput(t *testing.T) {
 		code, _, stderr := runCLI(t, args...)
 		if code != 2 {
 			t.Errorf("%v: exit %d, want 2 (%s)", args, code, stderr)
+		}
+	}
+	for flag, value := range map[string]string{"--bugs": "5", "--mc": "-1m/s", "--air-sink": "30m/s", "--mass": "-3kg"} {
+		root := newRootCmd()
+		root.SetArgs([]string{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", flag, value})
+		root.SetOut(io.Discard)
+		root.SetErr(io.Discard)
+		err := root.Execute()
+		var ue *input.UsageError
+		if !errors.As(err, &ue) || !strings.Contains(err.Error(), flag) {
+			t.Errorf("%s %s: error %v; want a usage error naming the flag", flag, value, err)
 		}
 	}
 	if _, err := os.Stat(out); err == nil {

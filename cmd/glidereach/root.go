@@ -46,6 +46,20 @@ terrain into the ground that can still be reached with a reserve height.
 	for _, newCmd := range commands {
 		root.AddCommand(newCmd())
 	}
+	// cobra's own commands get examples too.
+	root.InitDefaultCompletionCmd()
+	root.InitDefaultHelpCmd()
+	for _, c := range root.Commands() {
+		switch c.Name() {
+		case "completion":
+			c.Example = `  glidereach completion bash > /etc/bash_completion.d/glidereach
+  source <(glidereach completion bash)
+  glidereach completion zsh > "${fpath[1]}/_glidereach"`
+		case "help":
+			c.Example = `  glidereach help reach
+  glidereach help final`
+		}
+	}
 	return root
 }
 
