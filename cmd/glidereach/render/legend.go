@@ -125,43 +125,13 @@ func (r *renderer) legendItems() []legendItem {
 		it = append(it, legendItem{kind: lgTerrain,
 			text: fmt.Sprintf("Terrain %s to %s MSL, shaded", s.height(lo), s.height(hi))})
 	}
-	void, off := r.visibleGaps()
-	if void {
+	if r.voidShown {
 		it = append(it, legendItem{kind: lgVoid, text: "No terrain data (treated as obstacle)"})
 	}
-	if off {
+	if r.offShown {
 		it = append(it, legendItem{kind: lgOffMap, text: "Outside the computed window"})
 	}
 	return it
-}
-
-// visibleGaps reports whether the map shows void cells of the raster and
-// whether it reaches beyond the raster (the off-map grey): only what is
-// on the map gets a legend entry.
-func (r *renderer) visibleGaps() (void, off bool) {
-	lo, l := r.lo, r.s.Terrain
-	minX, maxY := lo.minX, lo.maxY
-	maxX := minX + float64(lo.mapRect.Dx())*lo.mpp
-	minY := maxY - float64(lo.mapRect.Dy())*lo.mpp
-	h := l.Cell / 2
-	rx0, ry0 := l.X0-h, l.Y0-h
-	rx1, ry1 := l.X0+float64(l.Cols-1)*l.Cell+h, l.Y0+float64(l.Rows-1)*l.Cell+h
-	// Half a pixel of slack: the map's own rounding.
-	e := lo.mpp / 2
-	off = minX < rx0-e || minY < ry0-e || maxX > rx1+e || maxY > ry1+e
-	c0 := max(0, int(math.Floor((minX-rx0)/l.Cell)))
-	c1 := min(l.Cols-1, int(math.Floor((maxX-rx0)/l.Cell)))
-	r0 := max(0, int(math.Floor((minY-ry0)/l.Cell)))
-	r1 := min(l.Rows-1, int(math.Floor((maxY-ry0)/l.Cell)))
-	for row := r0; row <= r1 && !void; row++ {
-		for _, v := range l.Elev[row*l.Cols+c0 : row*l.Cols+c1+1] {
-			if v != v {
-				void = true
-				break
-			}
-		}
-	}
-	return void, off
 }
 
 // drawLegend draws the legend in its rectangle, two columns.

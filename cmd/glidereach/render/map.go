@@ -117,6 +117,10 @@ type renderer struct {
 	c   *canvas
 	f   *faces
 	px  func(float64) float64 // design pixels at 1600 px width → pixels
+
+	z                   []float32 // the DEM resampled to the map's pixels (sampleTerrain)
+	state               []uint8   // pxGround, pxVoid or pxOff per map pixel
+	voidShown, offShown bool      // some map pixel is void / off the raster
 }
 
 func render(s *Scene, widthPx int) (*image.RGBA, *layout, error) {
@@ -159,6 +163,7 @@ func render(s *Scene, widthPx int) (*image.RGBA, *layout, error) {
 
 	// The panel below the map: legend (left), inputs and source (right),
 	// caution (full width).
+	r.sampleTerrain() // before the legend: it lists voids only when they show
 	items := r.legendItems()
 	panelTop := lo.mapRect.Max.Y + int(r.px(12))
 	inner := widthPx - 2*margin

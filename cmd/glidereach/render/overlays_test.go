@@ -40,7 +40,9 @@ func legendOf(t *testing.T, s *Scene) []legendItem {
 	if err != nil {
 		t.Fatal(err)
 	}
-	return (&renderer{s: s, lo: lo, f: fc, px: func(v float64) float64 { return v * lo.scale }}).legendItems()
+	r := &renderer{s: s, lo: lo, f: fc, px: func(v float64) float64 { return v * lo.scale }}
+	r.sampleTerrain()
+	return r.legendItems()
 }
 
 func TestOffMapFieldDrawnAtTheEdge(t *testing.T) {

@@ -20,83 +20,12 @@ const (
 // relative to flat ground (so flat ground shows its tint unchanged, slopes
 // facing the light are lightened, slopes facing away darkened).
 func (r *renderer) drawTerrain() {
+	if r.z == nil {
+		r.sampleTerrain()
+	}
 	lo, l := r.lo, r.s.Terrain
 	mw, mh := lo.mapRect.Dx(), lo.mapRect.Dy()
-	src := l
-	if k := int(lo.mpp / l.Cell); k >= 2 && !l.Flat {
-		src = decimate(l, k)
-	}
-	// Column and row lookups: x depends only on the column, y on the row.
-	type tap struct {
-		i0, i1 int
-		t      float32
-		off    bool
-	}
-	taps := func(n int, first, step float64, x0, cell float64, cells, cellsOrig int, x0Orig, cellOrig float64) []tap {
-		out := make([]tap, n)
-		for i := range out {
-			v := first + (float64(i)+0.5)*step
-			fo := (v - x0Orig) / cellOrig
-			if fo < -0.5 || fo > float64(cellsOrig)-0.5 {
-				out[i].off = true
-				continue
-			}
-			f := (v - x0) / cell
-			f = math.Max(0, math.Min(float64(cells-1), f))
-			i0 := int(f)
-			if i0 >= cells-1 {
-				i0 = max(cells-2, 0)
-			}
-			i1 := min(i0+1, cells-1)
-			out[i] = tap{i0: i0, i1: i1, t: float32(f - float64(i0))}
-			if i1 == i0 {
-				out[i].t = 0
-			}
-		}
-		return out
-	}
-	xs := taps(mw, lo.minX, lo.mpp, src.X0, src.Cell, src.Cols, l.Cols, l.X0, l.Cell)
-	ys := taps(mh, lo.maxY, -lo.mpp, src.Y0, src.Cell, src.Rows, l.Rows, l.Y0, l.Cell)
-
-	z := make([]float32, mw*mh)
-	state := make([]uint8, mw*mh)
-	nan := float32(math.NaN())
-	for j, ty := range ys {
-		row := z[j*mw : (j+1)*mw]
-		st := state[j*mw : (j+1)*mw]
-		if ty.off {
-			for i := range st {
-				st[i], row[i] = pxOff, nan
-			}
-			continue
-		}
-		r0, r1 := src.Elev[ty.i0*src.Cols:], src.Elev[ty.i1*src.Cols:]
-		for i, tx := range xs {
-			if tx.off {
-				st[i], row[i] = pxOff, nan
-				continue
-			}
-			a, b, c, d := r0[tx.i0], r0[tx.i1], r1[tx.i0], r1[tx.i1]
-			v := (a*(1-tx.t)+b*tx.t)*(1-ty.t) + (c*(1-tx.t)+d*tx.t)*ty.t
-			if v != v { // a void corner: nearest corner instead
-				v = a
-				if tx.t >= 0.5 {
-					v = b
-				}
-				if ty.t >= 0.5 {
-					v = c
-					if tx.t >= 0.5 {
-						v = d
-					}
-				}
-			}
-			row[i] = v
-			if v != v {
-				st[i] = pxVoid
-			}
-		}
-	}
-
+	z, state := r.z, r.state
 	lowE, highE := elevRange(l)
 	span := math.Max(highE-lowE, 300)
 	var shade []float32
@@ -187,4 +116,100 @@ func decimate(l *terrain.Local, k int) *terrain.Local {
 		}
 	}
 	return d
+}
+
+// sampleTerrain resamples the DEM to the map's pixel grid (r.z) and marks
+// each pixel ground, void or off the raster (r.state); the legend lists
+// voids and off-raster ground only when some pixel shows them.
+func (r *renderer) sampleTerrain() {
+	lo, l := r.lo, r.s.Terrain
+	mw, mh := lo.mapRect.Dx(), lo.mapRect.Dy()
+	src := l
+	if k := int(lo.mpp / l.Cell); k >= 2 && !l.Flat {
+		src = decimate(l, k)
+	}
+	// Column and row lookups: x depends only on the column, y on the row.
+	type tap struct {
+		i0, i1 int
+		t      float32
+		off    bool
+	}
+	taps := func(n int, first, step float64, x0, cell float64, cells, cellsOrig int, x0Orig, cellOrig float64) []tap {
+		out := make([]tap, n)
+		for i := range out {
+			v := first + (float64(i)+0.5)*step
+			fo := (v - x0Orig) / cellOrig
+			if fo < -0.5 || fo > float64(cellsOrig)-0.5 {
+				out[i].off = true
+				continue
+			}
+			f := (v - x0) / cell
+			f = math.Max(0, math.Min(float64(cells-1), f))
+			i0 := int(f)
+			if i0 >= cells-1 {
+				i0 = max(cells-2, 0)
+			}
+			i1 := min(i0+1, cells-1)
+			out[i] = tap{i0: i0, i1: i1, t: float32(f - float64(i0))}
+			if i1 == i0 {
+				out[i].t = 0
+			}
+		}
+		return out
+	}
+	xs := taps(mw, lo.minX, lo.mpp, src.X0, src.Cell, src.Cols, l.Cols, l.X0, l.Cell)
+	ys := taps(mh, lo.maxY, -lo.mpp, src.Y0, src.Cell, src.Rows, l.Rows, l.Y0, l.Cell)
+
+	z := make([]float32, mw*mh)
+	state := make([]uint8, mw*mh)
+	nan := float32(math.NaN())
+	for j, ty := range ys {
+		row := z[j*mw : (j+1)*mw]
+		st := state[j*mw : (j+1)*mw]
+		if ty.off {
+			for i := range st {
+				st[i], row[i] = pxOff, nan
+			}
+			continue
+		}
+		r0, r1 := src.Elev[ty.i0*src.Cols:], src.Elev[ty.i1*src.Cols:]
+		for i, tx := range xs {
+			if tx.off {
+				st[i], row[i] = pxOff, nan
+				continue
+			}
+			a, b, c, d := r0[tx.i0], r0[tx.i1], r1[tx.i0], r1[tx.i1]
+			v := (a*(1-tx.t)+b*tx.t)*(1-ty.t) + (c*(1-tx.t)+d*tx.t)*ty.t
+			if v != v { // a void corner: nearest corner instead
+				v = a
+				if tx.t >= 0.5 {
+					v = b
+				}
+				if ty.t >= 0.5 {
+					v = c
+					if tx.t >= 0.5 {
+						v = d
+					}
+				}
+			}
+			row[i] = v
+			if v != v {
+				st[i] = pxVoid
+			}
+		}
+	}
+
+	// The outermost two pixels lie under the map's frame line: what shows
+	// only there is not listed.
+	for j := 2; j < mh-2; j++ {
+		for _, st := range state[j*mw+2 : (j+1)*mw-2] {
+			switch st {
+			case pxVoid:
+				r.voidShown = true
+			case pxOff:
+				r.offShown = true
+			}
+		}
+	}
+	r.z, r.state = z, state
 }
