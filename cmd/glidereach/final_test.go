@@ -432,3 +432,25 @@ func TestFinalDemoStep(t *testing.T) {
 		t.Errorf("demo status %v\n%s", doc["status"], out.String())
 	}
 }
+
+func TestFinalShortOnFlatGround(t *testing.T) {
+	// Flat ground, still air, trainer (1:9) from 1000 m over 15 km: the
+	// glide loses 15000/9 ≈ 1667 m (tan γ = 1/E; Anderson, Introduction to
+	// Flight) and is short of the goal by that less 1000 m plus the 300 m
+	// reserve; the status is short, not blocked, though the line meets the
+	// flat ground.
+	const D = 15000.0
+	dlon := D / geodesy.A * 180 / math.Pi
+	args := []string{"--from", "0,-24.5", "--alt", "1000m", "--to", "0," + ftoa(-24.5+dlon)}
+	doc := finalDoc(t, args...)
+	if doc["status"] != "short" {
+		t.Errorf("status %v, want short", doc["status"])
+	}
+	if a, want := numField(t, doc, "arrival_above_reserve_m"), 1000-D/9-300; math.Abs(a-want) > 0.002*D/9 {
+		t.Errorf("arrival above the reserve %.1f m, want %.1f m", a, want)
+	}
+	code, out, _ := finalCLI(t, append([]string{"final"}, args...)...)
+	if code != 0 || !strings.Contains(out, "Status: SHORT") || strings.Contains(out, "Blocked at") {
+		t.Errorf("exit %d:\n%s", code, out)
+	}
+}

@@ -159,8 +159,14 @@ func writeFinalText(w io.Writer, run *finalRun) {
 			if !t.Verified {
 				v = "NOT verified"
 			}
-			fmt.Fprintf(w, "Blocked at %.1f km (%.5f, %.5f): %s; +%.0f m at the start clears it (%s)\n",
-				t.BlockDist/1000, t.BlockLat, t.BlockLon, aboveTerrain(t.BlockClearance), math.Ceil(t.Extra), v)
+			label := "Blocked at"
+			if r.Status != reach.FinalBlocked {
+				// Short: the line meets the ground because the glide is
+				// short; the reserve, not the terrain, sets the altitude.
+				label = "Below the clearance (the glide is short) at"
+			}
+			fmt.Fprintf(w, "%s %.1f km (%.5f, %.5f): %s; +%.0f m at the start clears it (%s)\n",
+				label, t.BlockDist/1000, t.BlockLat, t.BlockLon, aboveTerrain(t.BlockClearance), math.Ceil(t.Extra), v)
 		}
 		if t.LeastClearAlt > r.Required+0.5 {
 			fmt.Fprintf(w, "Least start altitude that also clears the terrain: %.0f m MSL\n", math.Ceil(t.LeastClearAlt))
