@@ -98,12 +98,28 @@ func TestTerrainCommandBadInput(t *testing.T) {
 	ascTrunc := filepath.Join("..", "..", "testdata", "asc", "truncated.asc")
 	noPrj := filepath.Join("..", "..", "testdata", "asc", "noprj.asc")
 	geo := filepath.Join("..", "..", "testdata", "asc", "geo_corner.asc")
+	// A GDAL fixture cut short, and one with bytes 20000..20099 (inside the
+	// deflate stream of its tile 5) flipped.
+	tif, err := os.ReadFile(filepath.Join("..", "..", "testdata", "geotiff", "geo_float32_tiled_deflate_pred3.tif"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	tifCut := filepath.Join(dir, "cut.tif")
+	os.WriteFile(tifCut, tif[:len(tif)/2], 0o644)
+	bad := bytes.Clone(tif)
+	for i := 20000; i < 20100; i++ {
+		bad[i] ^= 0x5a
+	}
+	tifBad := filepath.Join(dir, "corrupt.tif")
+	os.WriteFile(tifBad, bad, 0o644)
 	cases := []struct {
 		args  []string
 		where string
 		msg   string
 	}{
 		{[]string{trunc}, trunc, "truncated"},
+		{[]string{tifCut}, tifCut, "past the end of the file"},
+		{[]string{tifBad}, tifBad, "invalid file: tile"},
 		{[]string{ascTrunc, "--crs", "EPSG:4326"}, ascTrunc, "line 7"},
 		{[]string{noPrj}, noPrj, "--crs"},
 		{[]string{noPrj, "--crs", "EPSG:3857"}, "--crs", "not a supported CRS"},
