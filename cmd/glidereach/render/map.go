@@ -256,6 +256,9 @@ func (r *renderer) drawOverlays() {
 	if cv := s.Coverage; cv != nil {
 		for _, p := range lo.polys(cv.Area) {
 			for _, rg := range p {
+				if len(rg) == 0 {
+					continue
+				}
 				for _, d := range dashes(append(rg, rg[0]), px(10), px(6)) {
 					c.addStroke(d, px(2), false)
 				}

@@ -2,6 +2,7 @@ package render
 
 import (
 	"bytes"
+	"io"
 	"math"
 	"strings"
 	"testing"
@@ -244,4 +245,23 @@ func TestProfileBandsAndSourceLine(t *testing.T) {
 		t.Errorf("report source line is not \"Terrain data: hills.tif\"")
 	}
 	checkSelfContained(t, buf.Bytes())
+}
+
+func TestDegenerateGeometryDoesNotPanic(t *testing.T) {
+	s := flatScene()
+	f := s.Terrain.Frame
+	nan := orb.Point{math.NaN(), math.NaN()}
+	// Empty rings and lines, single points and NaN coordinates are drawn as
+	// nothing rather than crashing the command (RULES.md: nothing panics on
+	// user input).
+	s.Levels = []Level{{Polygons: orb.MultiPolygon{{orb.Ring{}}, {orb.Ring{at(f, 0, 0)}}}}}
+	s.Coverage = &Coverage{Area: orb.MultiPolygon{{orb.Ring{}}}, Covered: orb.MultiPolygon{{}}, Uncovered: orb.MultiPolygon{{orb.Ring{nan, nan, nan}}}}
+	s.Route = []RoutePiece{{Line: orb.LineString{}}, {Line: orb.LineString{at(f, 1, 1)}}}
+	s.Gaps = []Gap{{Line: orb.LineString{}}, {Line: orb.LineString{at(f, 1, 1)}}}
+	s.Glide = &GlideLine{Line: orb.LineString{nan}, Lowest: nan, LowestClearance: 10, Turns: []TurnPoint{{Name: "TP", Point: nan}}}
+	s.Fields = []FieldMark{{Name: "Nowhere", Point: nan, ArrivalAGL: math.NaN()}}
+	s.Start = NewMarker(nan, "")
+	if err := RenderPNG(io.Discard, s, 400); err != nil {
+		t.Fatal(err)
+	}
 }
