@@ -555,13 +555,15 @@ func (info *GeoTIFFInfo) parseLayout(t *tiffReader) error {
 	if err != nil {
 		return err
 	}
+	// Predictor 2 on float samples differences their bit patterns as
+	// unsigned integers of the sample's width (what libtiff does and GDAL
+	// writes for PREDICTOR=2 on Float32/Float64).
 	switch {
-	case p == 1:
-	case p == 2 && info.Sample != SampleFloat32 && info.Sample != SampleFloat64:
+	case p == 1, p == 2:
 	case p == 3 && (info.Sample == SampleFloat32 || info.Sample == SampleFloat64):
 	default:
 		return geotiffUnsupported(tiffTagPredictor, fmt.Sprintf("%d with %s samples", p, info.Sample),
-			"want 1 (none), 2 (horizontal) for integer samples, 3 (floating point) for float samples")
+			"want 1 (none), 2 (horizontal), or 3 (floating point) for float samples")
 	}
 	info.Predictor = int(p)
 

@@ -379,7 +379,9 @@ func (p *tiffPackBitsReader) Read(dst []byte) (int, error) {
 //
 // Horizontal differencing (Predictor 2, TIFF 6.0 §14): each sample is
 // stored as its difference from the previous one, modulo 2^bits, in the
-// file's byte order. Floating-point predictor (3, Adobe Technical Note 3):
+// file's byte order; float samples are differenced as the unsigned
+// integers of their bit patterns (libtiff's reading, confirmed by
+// GDAL-made Float32 and Float64 PREDICTOR=2 fixtures). Floating-point predictor (3, Adobe Technical Note 3):
 // the row's bytes are reordered so that all most-significant bytes come
 // first, then the next, …, and then byte-differenced; this order is
 // big-endian whatever the file's byte order.
@@ -400,6 +402,12 @@ func (d *geotiffDecoder) undoPredictor(row []byte) error {
 			for i := 4; i+3 < len(row); i += 4 {
 				prev += o.Uint32(row[i:])
 				o.PutUint32(row[i:], prev)
+			}
+		case 8:
+			prev := o.Uint64(row)
+			for i := 8; i+7 < len(row); i += 8 {
+				prev += o.Uint64(row[i:])
+				o.PutUint64(row[i:], prev)
 			}
 		}
 	case 3:

@@ -112,6 +112,9 @@ fixture geo_float32_strip_lzw_pred3_nodata geovoid $g Float32 -co BLOCKYSIZE=5 -
 fixture geo_float32_strip_packbits  geo    $g Float32 -a_nodata none -co COMPRESS=PACKBITS
 fixture geo_float64_tiled_lzw_pred3 geo    $g Float64 -a_nodata none -co TILED=YES -co BLOCKXSIZE=32 -co BLOCKYSIZE=16 -co COMPRESS=LZW -co PREDICTOR=3
 fixture geo_float64_strip_deflate   geo    $g Float64 -a_nodata none -co COMPRESS=DEFLATE
+# Horizontal differencing of float bit patterns (PREDICTOR=2 on floats).
+fixture geo_float32_strip_deflate_pred2 geovoid $g Float32 -co BLOCKYSIZE=9 -co COMPRESS=DEFLATE -co PREDICTOR=2
+fixture geo_float64_tiled_lzw_pred2 geo    $g Float64 -a_nodata none -co TILED=YES -co BLOCKXSIZE=48 -co BLOCKYSIZE=48 -co COMPRESS=LZW -co PREDICTOR=2
 # Big-endian files (ENDIANNESS=BIG). No big-endian file with the
 # floating-point predictor: GDAL 3.6.2 writes ENDIANNESS=BIG PREDICTOR=3 with
 # the byte lanes least significant first (Technical Note 3 puts the most
