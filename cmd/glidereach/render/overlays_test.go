@@ -265,3 +265,40 @@ func TestDegenerateGeometryDoesNotPanic(t *testing.T) {
 		t.Fatal(err)
 	}
 }
+
+func TestNoSeamAlongVoidEdge(t *testing.T) {
+	// An even slope rising to the east, 100 m cells, the three northern
+	// rows void. Along a pixel row just south of the void every pixel sees
+	// the same slope, so the shaded colour must not vary along the row (a
+	// dashed seam there read as a fence on the map). Tolerance ±3 levels
+	// (common practice, no source).
+	l := hillyLocal(60, 40, 100)
+	for r := 0; r < l.Rows; r++ {
+		for c := 0; c < l.Cols; c++ {
+			x, _ := l.XY(c, r)
+			l.Elev[r*l.Cols+c] = float32(300 + 0.08*x)
+			if r >= l.Rows-3 {
+				l.Elev[r*l.Cols+c] = float32(math.NaN())
+			}
+		}
+	}
+	img, lo, err := render(&Scene{Terrain: l}, 1200)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The last valid row's centre is 3.5 cells below the top edge; a
+	// quarter cell above it the bilinear taps include a void corner.
+	y := float64(lo.mapRect.Min.Y) + 3.25*100/lo.mpp
+	jump := 0
+	for x := lo.mapRect.Min.X + 40; x < lo.mapRect.Max.X-40; x++ {
+		a, b := img.RGBAAt(x, int(y)), img.RGBAAt(x+1, int(y))
+		for _, d := range []int{int(a.R) - int(b.R), int(a.G) - int(b.G), int(a.B) - int(b.B)} {
+			jump = max(jump, d, -d)
+		}
+	}
+	// The tint changes by about a level per pixel along the slope; steps
+	// one cell long made the shade jump by tens of levels at cell edges.
+	if jump > 3 {
+		t.Errorf("colour jumps by %d levels between neighbouring pixels along the row next to the void", jump)
+	}
+}

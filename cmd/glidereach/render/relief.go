@@ -180,15 +180,35 @@ func (r *renderer) sampleTerrain() {
 			}
 			a, b, c, d := r0[tx.i0], r0[tx.i1], r1[tx.i0], r1[tx.i1]
 			v := (a*(1-tx.t)+b*tx.t)*(1-ty.t) + (c*(1-tx.t)+d*tx.t)*ty.t
-			if v != v { // a void corner: nearest corner instead
-				v = a
+			if v != v {
+				// A void corner. The pixel is void when its nearest corner
+				// is (a void cell covers its own square); otherwise its
+				// height is the bilinear mean of the valid corners, so the
+				// ground stays smooth up to the void. (The nearest corner's
+				// value instead made steps one cell long, which the
+				// hillshade drew as a dashed seam along every void edge.)
+				near := a
 				if tx.t >= 0.5 {
-					v = b
+					near = b
 				}
 				if ty.t >= 0.5 {
-					v = c
+					near = c
 					if tx.t >= 0.5 {
-						v = d
+						near = d
+					}
+				}
+				v = near
+				if near == near {
+					var sw, sv float32
+					for _, q := range [4][2]float32{{a, (1 - tx.t) * (1 - ty.t)}, {b, tx.t * (1 - ty.t)},
+						{c, (1 - tx.t) * ty.t}, {d, tx.t * ty.t}} {
+						if q[0] == q[0] {
+							sw += q[1]
+							sv += q[1] * q[0]
+						}
+					}
+					if sw > 0 {
+						v = sv / sw
 					}
 				}
 			}
