@@ -52,6 +52,10 @@ func sampleValues(l *Local, values []float32, x, y float64) float64 {
 	if fx < 0 || fy < 0 || fx > float64(l.Cols-1) || fy > float64(l.Rows-1) {
 		return math.NaN()
 	}
+	if l.Cols < 2 || l.Rows < 2 {
+		// One row or column: nearest cell.
+		return float64(values[int(math.Round(fy))*l.Cols+int(math.Round(fx))])
+	}
 	c, r := int(fx), int(fy)
 	if c >= l.Cols-1 {
 		c = l.Cols - 2

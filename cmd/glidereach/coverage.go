@@ -170,7 +170,7 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 			return err
 		}
 	}
-	run := &coverageRun{setup: setup, ground: ground{src: src, flat: o.terr.ground.Value}}
+	run := &coverageRun{setup: setup, ground: ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}}
 	if o.area != "" {
 		reg, err := input.ParseArea(o.area)
 		if err != nil {

@@ -229,7 +229,7 @@ func runFinal(ctx context.Context, o *finalOptions, stdout io.Writer) error {
 	if err != nil {
 		return err
 	}
-	run.setup, run.ground = setup, ground{src: src, flat: o.terr.ground.Value}
+	run.setup, run.ground = setup, ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(os.Stderr)}
 	run.startLat, run.startLon = o.pos.from.Lat, o.pos.from.Lon
 	elev, ok, err := run.ground.elevationAt(run.startLat, run.startLon)
 	if err != nil {

@@ -136,6 +136,14 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 			return err
 		}
 	}
+	if o.mapPNG != "" && strings.ToLower(filepath.Ext(o.mapPNG)) != ".png" {
+		return input.Usagef("--map", "%q: want a .png file name", o.mapPNG)
+	}
+	if o.report != "" {
+		if ext := strings.ToLower(filepath.Ext(o.report)); ext != ".html" && ext != ".htm" {
+			return input.Usagef("--report", "%q: want an .html file name", o.report)
+		}
+	}
 	if o.raster != "" {
 		ext := strings.ToLower(filepath.Ext(o.raster))
 		if ext != ".tif" && ext != ".tiff" && ext != ".asc" {
@@ -157,7 +165,7 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 			return err
 		}
 	}
-	run, err := computeReach(ctx, setup, ground{src: src, flat: o.terr.ground.Value}, o.pos, fields, extra, stderr)
+	run, err := computeReach(ctx, setup, ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}, o.pos, fields, extra, stderr)
 	if err != nil {
 		return err
 	}
@@ -305,7 +313,7 @@ func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positi
 	}
 	run.res = res
 	levels := append([]float64{setup.Reserve}, extraLevels...)
-	sort.Float64s(levels[1:])
+	sort.Sort(sort.Reverse(sort.Float64Slice(levels))) // highest first, as a pilot reads them
 	run.levels = res.Rings(dedupe(levels))
 	run.farthest, run.farBearing = res.Farthest(setup.Reserve)
 

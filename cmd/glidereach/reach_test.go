@@ -227,6 +227,8 @@ func TestReachBadInput(t *testing.T) {
 		{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--levels", "abc"},
 		{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--wind", "270/500kt"},
 		{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--reserve", "-5m"},
+		{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--map", filepath.Join(dir, "m.jpg")},
+		{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--report", filepath.Join(dir, "r.pdf")},
 	}
 	for _, args := range cases {
 		code, _, stderr := runCLI(t, args...)

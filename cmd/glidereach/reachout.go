@@ -247,8 +247,7 @@ func reachScene(run *reachRun) *render.Scene {
 		DataSource: "terrain: " + run.ground.describe(),
 		Caution:    reach.Caution,
 	}
-	for i := len(run.levels) - 1; i >= 0; i-- {
-		lv := run.levels[i]
+	for _, lv := range run.levels {
 		s.Levels = append(s.Levels, render.Level{ArrivalAGL: lv.ArrivalAGL, Polygons: lv.Polygons})
 	}
 	s.Bounds = mapBounds(run.res.Ground, run.ground)

@@ -167,7 +167,7 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 	if err != nil {
 		return err
 	}
-	run := &routeRun{setup: setup, ground: ground{src: src, flat: o.terr.ground.Value}, file: o.route, name: rt.Name, step: o.step.Value}
+	run := &routeRun{setup: setup, ground: ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}, file: o.route, name: rt.Name, step: o.step.Value}
 	prog := newProgress(stderr, "route")
 	err = computeRoute(ctx, run, rt, fields, o, prog.set)
 	prog.done()

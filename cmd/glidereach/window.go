@@ -3,7 +3,9 @@ package main
 import (
 	"errors"
 	"fmt"
+	"io"
 	"math"
+	"sync"
 
 	"glidereach/cmd/glidereach/input"
 	"glidereach/terrain"
@@ -22,6 +24,9 @@ const (
 type ground struct {
 	src  terrain.Source // nil: flat
 	flat float64        // m MSL when src is nil
+	// warn, if not nil, receives warnings about the terrain read (the
+	// commands print them on stderr).
+	warn func(string)
 }
 
 func (g ground) describe() string {
@@ -84,7 +89,26 @@ func (g ground) window(lat0, lon0, radius float64) (*terrain.Local, *terrain.Gri
 	}
 	l := terrain.Resample(grid, f, -half, -half, cell, n, n)
 	l.Source = g.src.Describe()
+	if w := terrainWarning(l); w != "" && g.warn != nil {
+		g.warn(w)
+	}
 	return l, grid, nil
+}
+
+// terrainWarning returns a warning when the window's elevations are not
+// those of land (an undeclared no-data value taken as ground, or a misread
+// file), else "".
+func terrainWarning(l *terrain.Local) string {
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, e := range l.Elev {
+		if e == e {
+			lo, hi = math.Min(lo, float64(e)), math.Max(hi, float64(e))
+		}
+	}
+	if math.IsInf(lo, 1) {
+		return ""
+	}
+	return implausibleElevations(lo, hi)
 }
 
 // lowest returns the lowest known elevation of l (m); +Inf when all are voids.
@@ -96,4 +120,19 @@ func lowest(l *terrain.Local) float64 {
 		}
 	}
 	return lo
+}
+
+// warnOnce returns a warn function for ground that prints each distinct
+// warning once on w.
+func warnOnce(w io.Writer) func(string) {
+	var mu sync.Mutex
+	seen := map[string]bool{}
+	return func(msg string) {
+		mu.Lock()
+		defer mu.Unlock()
+		if !seen[msg] {
+			seen[msg] = true
+			fmt.Fprintln(w, "glidereach: warning:", msg)
+		}
+	}
 }
