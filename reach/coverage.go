@@ -292,13 +292,15 @@ func (c *CoverageResult) fieldCover(ctx context.Context, t Target, model LossMod
 	if fx < 0 || fy < 0 || fx > float64(g.Cols-1) || fy > float64(g.Rows-1) {
 		return nil, nil, 0, ErrNoTargets
 	}
-	radius := 0.0
-	if c.Ceiling > t.Elev+t.Reserve {
-		r, err := ReachRadius(model, c.Ceiling, t.Elev+t.Reserve)
-		if err != nil {
-			return nil, nil, 0, err
-		}
-		radius = r
+	if !(c.Ceiling > t.Elev+t.Reserve) {
+		// Even over the field the least altitude (its elevation plus the
+		// reserve) is above the ceiling: it covers nothing. Not an error —
+		// the altitude flown may simply be below the high ground it is on.
+		return nil, nil, 0, nil
+	}
+	radius, err := ReachRadius(model, c.Ceiling, t.Elev+t.Reserve)
+	if err != nil {
+		return nil, nil, 0, err
 	}
 	rc := int(math.Ceil(radius/g.Cell)) + 3
 	c0, c1 := max(0, int(fx)-rc), min(g.Cols-1, int(fx)+rc+1)

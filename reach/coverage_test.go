@@ -187,3 +187,38 @@ func TestCrop(t *testing.T) {
 		}
 	}
 }
+
+func TestCoverageFieldAboveTheAltitudeFlown(t *testing.T) {
+	// A field on a plateau higher than the altitude flown covers nothing
+	// (even over it the least altitude, its elevation plus the reserve, is
+	// above); it is not an error, and a low field still covers its disc
+	// of radius (H − elev − reserve)·E (glide cone, tan γ = 1/E; Anderson,
+	// Introduction to Flight) within 0.5 %.
+	// H + the 300 m margin the least altitudes are computed above it stays
+	// below the plateau: the field there has no cell to compute.
+	const E, H, reserve = 10.0, 1000.0, 300.0
+	g := flatWindow(-0.5, -24.5, 601, 100, 0)
+	l := *g
+	l.Flat = false
+	l.Elev = append([]float32(nil), g.Elev...)
+	for r := 0; r < 60; r++ { // a 1500 m plateau in the south-west corner
+		for c := 0; c < 60; c++ {
+			l.Elev[r*l.Cols+c] = 1500
+		}
+	}
+	hx, hy := l.XY(30, 30)
+	ts := discTargets(&l, 0, reserve, [2]float64{0, 0})
+	hlat, hlon := l.Frame.Inverse(hx, hy)
+	ts = append(ts, Target{Lat: hlat, Lon: hlon, Elev: 1500, Reserve: reserve})
+	c, err := Coverage(context.Background(), &l, ts, ConstantLoss(E), CoverageOptions{Alt: H, Clearance: 100})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := (H - reserve) * E
+	if disc := math.Pi * r * r; math.Abs(c.Covers[0]-disc) > 0.005*disc {
+		t.Errorf("low field covers %.4g m², want %.4g m²", c.Covers[0], disc)
+	}
+	if c.Covers[1] != 0 || c.Skipped[1] {
+		t.Errorf("plateau field: covers %.4g m², skipped %v; want 0, not skipped", c.Covers[1], c.Skipped[1])
+	}
+}
