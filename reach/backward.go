@@ -44,6 +44,11 @@ type RequiredResult struct {
 	Targets  []Target
 	Required []float32 // m MSL; NaN where no target is reachable below the ceiling
 	Best     []int16   // index into Targets; −1 where none
+	// Elevation, when not nil, gives the ground elevation at a point for
+	// reports (a DEM's own bilinear value), where Ground may hold an
+	// obstacle surface (the highest sample per cell) that the solver kept
+	// its clearance over. Nil means Ground's own value.
+	Elevation func(lat, lon float64) (float64, bool)
 }
 
 // ErrNoTargets is returned by Required when no target lies on the ground window.

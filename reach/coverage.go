@@ -53,6 +53,11 @@ type CoverageOptions struct {
 	// true, the height above the terrain at each cell, m.
 	Alt float64
 	AGL bool
+	// AGLGround, with AGL, is the ground the height flown is measured from,
+	// laid out like Ground.Elev (a DEM's bilinear surface, where Ground
+	// holds the higher obstacle surface the glides keep their clearance
+	// over); nil means Ground.Elev.
+	AGLGround []float32
 	// Clearance is the least height above the terrain (m) the glide keeps
 	// on the way (as in RequiredOptions).
 	Clearance float64
@@ -107,6 +112,9 @@ type CoverageResult struct {
 // altAt returns the altitude flown over cell i, m MSL (NaN on a void with AGL).
 func (c *CoverageResult) altAt(i int) float64 {
 	if c.Opts.AGL {
+		if c.Opts.AGLGround != nil {
+			return float64(c.Opts.AGLGround[i]) + c.Opts.Alt
+		}
 		return float64(c.Ground.Elev[i]) + c.Opts.Alt
 	}
 	return c.Opts.Alt
@@ -135,6 +143,9 @@ func Coverage(ctx context.Context, ground *terrain.Local, targets []Target, mode
 		return nil, errors.New("reach: coverage needs a terrain window of at least 2×2 cells")
 	}
 	n := ground.Cols * ground.Rows
+	if opts.AGLGround != nil && len(opts.AGLGround) != n {
+		return nil, fmt.Errorf("reach: coverage AGL ground has %d cells, the window %d", len(opts.AGLGround), n)
+	}
 	if opts.Mask != nil && len(opts.Mask) != n {
 		return nil, fmt.Errorf("reach: coverage mask has %d cells, the window %d", len(opts.Mask), n)
 	}

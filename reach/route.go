@@ -17,8 +17,9 @@ type RoutePoint struct {
 // RouteSample is the forced-landing judgement at one route point.
 type RouteSample struct {
 	RoutePoint
-	// Terrain is the ground elevation under the point, m MSL (bilinear on
-	// the solver's window); NaN off the window or on a void.
+	// Terrain is the ground elevation under the point, m MSL (the result's
+	// Elevation, else bilinear on the solver's window); NaN off the window
+	// or on a void.
 	Terrain float64
 	// Least is the least altitude (m MSL) from which some field is reached
 	// with its reserve (it includes the reserve); NaN when no field is
@@ -108,6 +109,11 @@ func (r *RequiredResult) Route(points []RoutePoint, ceiling float64) (*RouteProf
 		x, y := g.Frame.Forward(pt.Lat, pt.Lon)
 		if e, ok := g.Sample(x, y); ok {
 			s.Terrain = e
+			if r.Elevation != nil {
+				if e, ok := r.Elevation(pt.Lat, pt.Lon); ok {
+					s.Terrain = e
+				}
+			}
 		}
 		if a, best, ok := r.RequiredAt(pt.Lat, pt.Lon); ok {
 			s.Least, s.Best = a, best

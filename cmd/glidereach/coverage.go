@@ -327,8 +327,7 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 		var rf []routeField
 		var ts []reach.Target
 		for _, f := range fs {
-			x, y := l.Frame.Forward(f.Lat, f.Lon)
-			te, on := l.Sample(x, y)
+			te, on := pointElevation(l, grid, f.Lat, f.Lon)
 			r := routeField{Field: f, Elev: te, Target: len(ts)}
 			if f.HasElevation {
 				r.Elev = f.Elevation
@@ -363,6 +362,11 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 		Progress: func(d float64) { progress(d * share) }}
 	if o.agl.Given {
 		opts.Alt, opts.AGL = o.agl.Value, true
+		if grid != nil {
+			// The height flown is measured from the DEM's own ground; l holds
+			// the obstacle surface (highest sample per cell).
+			opts.AGLGround = terrain.Resample(grid, l.Frame, l.X0, l.Y0, l.Cell, l.Cols, l.Rows).Elev
+		}
 	}
 	res, err := reach.Coverage(ctx, l, ts, tab, opts)
 	if errors.Is(err, reach.ErrNoTargets) {

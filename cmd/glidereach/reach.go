@@ -383,7 +383,7 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 		fr.DistanceM, fr.BearingDeg = s, math.Mod(az+360, 360)
 	}
 	x, y := l.Frame.Forward(f.Lat, f.Lon)
-	te, onWindow := l.Sample(x, y)
+	te, onWindow := pointElevation(l, run.grid, f.Lat, f.Lon)
 	switch {
 	case f.HasElevation:
 		fr.ElevationM = f.Elevation

@@ -297,6 +297,7 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 		bottom = run.ground.flat
 	}
 	var l *terrain.Local
+	var grid *terrain.Grid
 	for pass := 0; pass < 2; pass++ {
 		tab, err := run.setup.table(bottom-60, run.ceiling+60)
 		if err != nil {
@@ -306,7 +307,7 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 		if err != nil {
 			return &input.UsageError{Err: err}
 		}
-		l, _, err = areaWindow(run.ground, minLat, minLon, maxLat, maxLon, radius*1.02+1000, "--route")
+		l, grid, err = areaWindow(run.ground, minLat, minLon, maxLat, maxLon, radius*1.02+1000, "--route")
 		if err != nil {
 			return err
 		}
@@ -324,8 +325,7 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 	// Fields.
 	for _, f := range fields {
 		rf := routeField{Field: f, Target: -1, Elev: math.NaN()}
-		x, y := l.Frame.Forward(f.Lat, f.Lon)
-		te, on := l.Sample(x, y)
+		te, on := pointElevation(l, grid, f.Lat, f.Lon)
 		switch {
 		case !on:
 			rf.Note = "beyond the computed window (too far from the route to matter) or on unknown ground"
@@ -376,6 +376,9 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 	if res == nil {
 		res = emptyRequired(l)
 		run.notes = append(run.notes, "no landing field lies within reach of the route: all of it is a gap")
+	}
+	if grid != nil {
+		res.Elevation = grid.Elevation // report the DEM's own ground, not the obstacle surface
 	}
 	run.res = res
 	prof, err := res.Route(pts, run.ceiling)
@@ -481,7 +484,8 @@ func areaWindow(g ground, minLat, minLon, maxLat, maxLon, margin float64, flag s
 		}
 		return nil, nil, &input.UsageError{Where: "--terrain", Err: err}
 	}
-	l := terrain.Resample(grid, f, x0, y0, cell, cols, rows)
+	// Obstacle surface: the highest DEM sample per cell (see ground.window).
+	l := terrain.ResampleHigh(grid, f, x0, y0, cell, cols, rows)
 	l.Source = g.src.Describe()
 	return l, grid, nil
 }

@@ -87,7 +87,9 @@ func (g ground) window(lat0, lon0, radius float64) (*terrain.Local, *terrain.Gri
 		}
 		return nil, nil, &input.UsageError{Where: "--terrain", Err: err}
 	}
-	l := terrain.Resample(grid, f, -half, -half, cell, n, n)
+	// The solvers keep their clearance over the highest DEM sample in each
+	// cell, so a ridge between samples is never cut down.
+	l := terrain.ResampleHigh(grid, f, -half, -half, cell, n, n)
 	l.Source = g.src.Describe()
 	if w := terrainWarning(l); w != "" && g.warn != nil {
 		g.warn(w)
@@ -135,4 +137,18 @@ func warnOnce(w io.Writer) func(string) {
 			fmt.Fprintln(w, "glidereach: warning:", msg)
 		}
 	}
+}
+
+// pointElevation returns the elevation at a point of window l for a field:
+// the DEM's own bilinear value when grid (the DEM window l was resampled
+// from) is given — l itself holds the obstacle surface, the highest sample
+// per cell, which would overstate a field's elevation — else l's value. ok
+// is false off the window or on a void.
+func pointElevation(l *terrain.Local, grid *terrain.Grid, lat, lon float64) (float64, bool) {
+	x, y := l.Frame.Forward(lat, lon)
+	te, on := l.Sample(x, y)
+	if !on || grid == nil {
+		return te, on
+	}
+	return grid.Elevation(lat, lon)
 }

@@ -1,0 +1,39 @@
+package terrain
+
+import "testing"
+
+func TestResampleHighNeverBelowTheDEM(t *testing.T) {
+	// A cliff between samples: bilinear resampling cuts it down, the
+	// obstacle resampling never does. Checked against the DEM itself: every
+	// DEM sample within a Local cell's footprint is ≤ that cell's value.
+	g := Synthetic(3, 200, 200, 1.0/3600)
+	// Add a one-sample spike.
+	g.Elev[100*200+100] += 800
+	f := NewFrame(SyntheticLat, SyntheticLon)
+	for _, cell := range []float64{20, 31, 75} {
+		n := int(5000 / cell)
+		half := float64(n-1) / 2 * cell
+		hi := ResampleHigh(g, f, -half, -half, cell, n, n)
+		bl := Resample(g, f, -half, -half, cell, n, n)
+		spikeLat := g.Y0 - 100*g.DY
+		spikeLon := g.X0 + 100*g.DX
+		x, y := f.Forward(spikeLat, spikeLon)
+		c, r, ok := hi.CellOf(x, y)
+		if !ok {
+			t.Fatal("spike off the window")
+		}
+		want := float64(g.Elev[100*200+100])
+		if got := hi.At(c, r); got < want-1e-3 {
+			t.Errorf("cell %.0f m: obstacle surface %.1f m at the spike, below the DEM's %.1f m", cell, got, want)
+		}
+		if got := bl.At(c, r); cell > 31 && got >= want-1 {
+			t.Logf("cell %.0f m: bilinear happened to hit the spike", cell)
+		}
+		// Everywhere: not below the bilinear surface.
+		for i := range hi.Elev {
+			if hi.Elev[i] == hi.Elev[i] && bl.Elev[i] == bl.Elev[i] && hi.Elev[i] < bl.Elev[i]-1e-3 {
+				t.Fatalf("cell %.0f m: obstacle surface %.2f below bilinear %.2f at %d", cell, hi.Elev[i], bl.Elev[i], i)
+			}
+		}
+	}
+}
