@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 
@@ -190,40 +189,11 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 	if err != nil {
 		return err
 	}
-	if o.out != "" {
-		data, err := coverageOutput(run, o.format)
-		if err != nil {
-			return err
-		}
-		if err := writeFileAtomic(o.out, func(f *os.File) error { _, err := f.Write(data); return err }); err != nil {
-			return err
-		}
-	}
-	if o.raster != "" {
-		if err := writeLeastRaster(o.raster, run); err != nil {
-			return err
-		}
-	}
-	if o.mapPNG != "" || o.report != "" {
-		if err := drawCoverage(run, o.mapPNG, o.report); err != nil {
-			return err
-		}
-	}
-	if o.out != "" || o.format == "text" {
-		writeCoverageText(stdout, run)
-		for _, p := range []string{o.out, o.raster} {
-			if p != "" {
-				fmt.Fprintf(stdout, "wrote %s\n", p)
-			}
-		}
-		return nil
-	}
-	data, err := coverageOutput(run, o.format)
-	if err != nil {
-		return err
-	}
-	_, err = stdout.Write(data)
-	return err
+	return deliver(stdout, results{out: o.out, format: o.format, raster: o.raster, mapPNG: o.mapPNG, report: o.report,
+		document:    func(format string) ([]byte, error) { return coverageOutput(run, format) },
+		writeRaster: func(path string) error { return writeLeastRaster(path, run) },
+		draw:        func(m, r string) error { return drawCoverage(run, m, r) },
+		text:        func(w io.Writer) { writeCoverageText(w, run) }})
 }
 
 func coverageOutput(run *coverageRun, format string) ([]byte, error) {

@@ -284,33 +284,10 @@ func runFinal(ctx context.Context, o *finalOptions, stdout io.Writer) error {
 
 	// Files first, so that a failure leaves nothing half-written and stdout
 	// shows the summary only for a complete run.
-	if o.out != "" {
-		data, err := finalOutput(run, o.format)
-		if err != nil {
-			return err
-		}
-		if err := writeFileAtomic(o.out, func(f *os.File) error { _, err := f.Write(data); return err }); err != nil {
-			return err
-		}
-	}
-	if o.mapPNG != "" || o.report != "" {
-		if err := drawFinal(run, o.mapPNG, o.report); err != nil {
-			return err
-		}
-	}
-	if o.out != "" || o.format == "text" {
-		writeFinalText(stdout, run)
-		if o.out != "" {
-			fmt.Fprintf(stdout, "\nwrote %s\n", o.out)
-		}
-		return nil
-	}
-	data, err := finalOutput(run, o.format)
-	if err != nil {
-		return err
-	}
-	_, err = stdout.Write(data)
-	return err
+	return deliver(stdout, results{out: o.out, format: o.format, mapPNG: o.mapPNG, report: o.report,
+		document: func(format string) ([]byte, error) { return finalOutput(run, format) },
+		draw:     func(m, r string) error { return drawFinal(run, m, r) },
+		text:     func(w io.Writer) { writeFinalText(w, run) }})
 }
 
 // finalOutput is the --out / stdout document: JSON, or GeoJSON for the

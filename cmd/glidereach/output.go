@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 )
@@ -33,4 +34,65 @@ func writeFileAtomic(path string, write func(f *os.File) error) (err error) {
 		return fmt.Errorf("writing %s: %w", path, err)
 	}
 	return nil
+}
+
+// results is what one command run delivers, in the order of the
+// command-line contract: files first (so a failure leaves nothing
+// half-written and prints no summary), then stdout.
+type results struct {
+	out, format    string // --out and --format
+	raster         string // --raster, "" when the command has none
+	mapPNG, report string
+	// document renders the --out file (and stdout for non-text formats).
+	document func(format string) ([]byte, error)
+	// writeRaster, draw and text write the raster, the map and report,
+	// and the human summary.
+	writeRaster func(path string) error
+	draw        func(mapPath, reportPath string) error
+	text        func(w io.Writer)
+}
+
+// deliver writes the files a run asked for and then stdout: the text
+// summary when --format is text or --out was given (followed by the files
+// written), else the document in the chosen format.
+func deliver(stdout io.Writer, r results) error {
+	if r.out != "" {
+		data, err := r.document(r.format)
+		if err != nil {
+			return err
+		}
+		if err := writeBytesAtomic(r.out, data); err != nil {
+			return err
+		}
+	}
+	if r.raster != "" {
+		if err := r.writeRaster(r.raster); err != nil {
+			return err
+		}
+	}
+	if r.mapPNG != "" || r.report != "" {
+		if err := r.draw(r.mapPNG, r.report); err != nil {
+			return err
+		}
+	}
+	if r.out != "" || r.format == "text" {
+		r.text(stdout)
+		first := true
+		for _, p := range []string{r.out, r.raster, r.mapPNG, r.report} {
+			if p != "" {
+				if first {
+					fmt.Fprintln(stdout)
+					first = false
+				}
+				fmt.Fprintf(stdout, "wrote %s\n", p)
+			}
+		}
+		return nil
+	}
+	data, err := r.document(r.format)
+	if err != nil {
+		return err
+	}
+	_, err = stdout.Write(data)
+	return err
 }

@@ -171,52 +171,16 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 	}
 	run.heading = o.heading
 
-	// Files first, so a failure leaves nothing half-written and stdout shows
-	// the summary only for a complete run.
-	if o.out != "" {
-		var data []byte
-		if o.format == "json" {
-			data, err = reachJSON(run)
-		} else {
-			data, err = reachGeoJSON(run)
-		}
-		if err != nil {
-			return err
-		}
-		if err := writeFileAtomic(o.out, func(f *os.File) error { _, err := f.Write(data); return err }); err != nil {
-			return err
-		}
-	}
-	if o.raster != "" {
-		if err := writeArrivalRaster(o.raster, run); err != nil {
-			return err
-		}
-	}
-	if o.mapPNG != "" || o.report != "" {
-		if err := drawReach(run, o.mapPNG, o.report); err != nil {
-			return err
-		}
-	}
-	switch {
-	case o.out != "" || o.format == "text":
-		writeReachText(stdout, run)
-		if o.out != "" {
-			fmt.Fprintf(stdout, "\nwrote %s\n", o.out)
-		}
-	case o.format == "json":
-		data, err := reachJSON(run)
-		if err != nil {
-			return err
-		}
-		stdout.Write(data)
-	default:
-		data, err := reachGeoJSON(run)
-		if err != nil {
-			return err
-		}
-		stdout.Write(data)
-	}
-	return nil
+	return deliver(stdout, results{out: o.out, format: o.format, raster: o.raster, mapPNG: o.mapPNG, report: o.report,
+		document: func(format string) ([]byte, error) {
+			if format == "json" {
+				return reachJSON(run)
+			}
+			return reachGeoJSON(run) // geojson, and the --out file of text mode
+		},
+		writeRaster: func(path string) error { return writeArrivalRaster(path, run) },
+		draw:        func(m, r string) error { return drawReach(run, m, r) },
+		text:        func(w io.Writer) { writeReachText(w, run) }})
 }
 
 // checkOutputPath refuses an output path whose directory does not exist, so

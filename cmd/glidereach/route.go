@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 
@@ -174,33 +173,10 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 	if err != nil {
 		return err
 	}
-	if o.out != "" {
-		data, err := routeOutput(run, o.format)
-		if err != nil {
-			return err
-		}
-		if err := writeFileAtomic(o.out, func(f *os.File) error { _, err := f.Write(data); return err }); err != nil {
-			return err
-		}
-	}
-	if o.mapPNG != "" || o.report != "" {
-		if err := drawRoute(run, o.mapPNG, o.report); err != nil {
-			return err
-		}
-	}
-	if o.out != "" || o.format == "text" {
-		writeRouteText(stdout, run)
-		if o.out != "" {
-			fmt.Fprintf(stdout, "\nwrote %s\n", o.out)
-		}
-		return nil
-	}
-	data, err := routeOutput(run, o.format)
-	if err != nil {
-		return err
-	}
-	_, err = stdout.Write(data)
-	return err
+	return deliver(stdout, results{out: o.out, format: o.format, mapPNG: o.mapPNG, report: o.report,
+		document: func(format string) ([]byte, error) { return routeOutput(run, format) },
+		draw:     func(m, r string) error { return drawRoute(run, m, r) },
+		text:     func(w io.Writer) { writeRouteText(w, run) }})
 }
 
 // routeOutput renders the run in a file format.
