@@ -13,38 +13,6 @@ import (
 	"glidereach/terrain"
 )
 
-// ContourPolygons traces the region of Local g where v(c, r) ≥ level by
-// marching squares (NaN counts as below), simplifies the rings by
-// Douglas–Peucker to at most half a cell of error, drops regions smaller
-// than one cell, nests holes in their outer rings, and returns the polygons
-// in lon/lat degrees (RFC 7946 winding: exteriors counter-clockwise, holes
-// clockwise; coordinates rounded to 6 decimals) with their total area in m²
-// on g's local frame. It is the contouring the footprint rings use, for any
-// raster laid out like g.Elev.
-func ContourPolygons(g *terrain.Local, v func(c, r int) float64, level float64) (orb.MultiPolygon, float64) {
-	polys := polygonsFromRings(contourRings(v, g.Cols, g.Rows, level), 0.5, 1)
-	mp := make(orb.MultiPolygon, 0, len(polys))
-	area := 0.0
-	for _, p := range polys {
-		gp := make(orb.Polygon, len(p))
-		for i, ring := range p {
-			a := 0.0
-			gr := make(orb.Ring, len(ring))
-			for j, pt := range ring {
-				x, y := g.X0+pt[0]*g.Cell, g.Y0+pt[1]*g.Cell
-				lat, lon := g.Frame.Inverse(x, y)
-				gr[j] = orb.Point{round6(lon), round6(lat)}
-				if j > 0 {
-					a += ring[j-1][0]*pt[1] - pt[0]*ring[j-1][1]
-				}
-			}
-			area += a / 2 * g.Cell * g.Cell
-			gp[i] = gr
-		}
-		mp = append(mp, gp)
-	}
-	return mp, area
-}
 
 // CoverageOptions tune Coverage. Alt is required; the zero value of the
 // others is the default stated on each.

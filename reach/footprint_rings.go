@@ -24,27 +24,7 @@ func (f *FootprintResult) Rings(levels []float64) []Level {
 	v := func(c, r int) float64 { return f.AGL(c, r) }
 	out := make([]Level, 0, len(levels))
 	for _, lv := range levels {
-		polys := polygonsFromRings(contourRings(v, g.Cols, g.Rows, lv), 0.5, 1)
-		mp := make(orb.MultiPolygon, 0, len(polys))
-		area := 0.0
-		for _, p := range polys {
-			gp := make(orb.Polygon, len(p))
-			for i, ring := range p {
-				a := 0.0
-				gr := make(orb.Ring, len(ring))
-				for j, pt := range ring {
-					x, y := g.X0+pt[0]*g.Cell, g.Y0+pt[1]*g.Cell
-					lat, lon := g.Frame.Inverse(x, y)
-					gr[j] = orb.Point{round6(lon), round6(lat)}
-					if j > 0 {
-						a += ring[j-1][0]*pt[1] - pt[0]*ring[j-1][1]
-					}
-				}
-				area += a / 2 * g.Cell * g.Cell
-				gp[i] = gr
-			}
-			mp = append(mp, gp)
-		}
+		mp, area := ContourPolygons(g, v, lv)
 		out = append(out, Level{ArrivalAGL: lv, Polygons: mp, Area: area})
 	}
 	return out
