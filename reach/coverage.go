@@ -13,7 +13,6 @@ import (
 	"glidereach/terrain"
 )
 
-
 // CoverageOptions tune Coverage. Alt is required; the zero value of the
 // others is the default stated on each.
 type CoverageOptions struct {
