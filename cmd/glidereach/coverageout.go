@@ -256,15 +256,9 @@ func shortCoverageAlt(run *coverageRun) string {
 // drawCoverage writes the map and/or the report of a coverage run.
 func drawCoverage(run *coverageRun, mapPath, reportPath string) error {
 	scene := coverageScene(run)
-	// Draw the map once; the report embeds the same picture.
-	pngData, err := renderPNGBytes(scene)
+	pngData, err := drawMap(scene, mapPath)
 	if err != nil {
 		return err
-	}
-	if mapPath != "" {
-		if err := writeBytesAtomic(mapPath, pngData); err != nil {
-			return err
-		}
 	}
 	if reportPath == "" {
 		return nil

@@ -577,15 +577,9 @@ func drawFinal(run *finalRun, mapPath, reportPath string) error {
 	if err != nil {
 		return err
 	}
-	// Draw the map once; the report embeds the same picture.
-	pngData, err := renderPNGBytes(scene)
+	pngData, err := drawMap(scene, mapPath)
 	if err != nil {
 		return err
-	}
-	if mapPath != "" {
-		if err := writeBytesAtomic(mapPath, pngData); err != nil {
-			return err
-		}
 	}
 	if reportPath == "" {
 		return nil

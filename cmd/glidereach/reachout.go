@@ -274,22 +274,16 @@ func reachScene(run *reachRun) *render.Scene {
 // drawReach writes the map and/or the report of a reach run.
 func drawReach(run *reachRun, mapPath, reportPath string) error {
 	scene := reachScene(run)
-	// Draw the map once; the report embeds the same picture.
-	var pngBuf bytes.Buffer
-	if err := render.RenderPNG(&pngBuf, scene, 0); err != nil {
+	pngData, err := drawMap(scene, mapPath)
+	if err != nil {
 		return err
-	}
-	if mapPath != "" {
-		if err := writeFileAtomic(mapPath, func(f *os.File) error { _, err := f.Write(pngBuf.Bytes()); return err }); err != nil {
-			return err
-		}
 	}
 	if reportPath != "" {
 		rep := &render.Report{
 			Title:    scene.Title,
 			Subtitle: fmt.Sprintf("Start %.5f, %.5f - %s", run.startLat, run.startLon, run.ground.describe()),
 			Scene:    scene,
-			MapPNG:   pngBuf.Bytes(),
+			MapPNG:   pngData,
 			Caution:  reach.Caution,
 		}
 		for _, lv := range run.levels {
@@ -349,6 +343,21 @@ func renderPNGBytes(scene *render.Scene) ([]byte, error) {
 		return nil, err
 	}
 	return buf.Bytes(), nil
+}
+
+// drawMap draws scene once and writes it to mapPath when that is not
+// empty; the report embeds the same PNG.
+func drawMap(scene *render.Scene, mapPath string) ([]byte, error) {
+	data, err := renderPNGBytes(scene)
+	if err != nil {
+		return nil, err
+	}
+	if mapPath != "" {
+		if err := writeBytesAtomic(mapPath, data); err != nil {
+			return nil, err
+		}
+	}
+	return data, nil
 }
 
 // writeBytesAtomic writes data to path atomically.

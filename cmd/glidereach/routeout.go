@@ -393,15 +393,9 @@ func shortAltMode(run *routeRun) string {
 // drawRoute writes the map and/or the report of a route run.
 func drawRoute(run *routeRun, mapPath, reportPath string) error {
 	scene := routeScene(run)
-	// Draw the map once; the report embeds the same picture.
-	pngData, err := renderPNGBytes(scene)
+	pngData, err := drawMap(scene, mapPath)
 	if err != nil {
 		return err
-	}
-	if mapPath != "" {
-		if err := writeBytesAtomic(mapPath, pngData); err != nil {
-			return err
-		}
 	}
 	if reportPath == "" {
 		return nil
