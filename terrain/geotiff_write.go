@@ -9,6 +9,7 @@ import (
 	"io"
 	"math"
 	"slices"
+	"strings"
 )
 
 // WriteGeoTIFF writes g as a single-band float32 GeoTIFF that GDAL and GIS
@@ -34,6 +35,10 @@ type GeoTIFFWriter struct {
 	// Tile is the tile side in cells, a multiple of 16 (TIFF 6.0); 0 means
 	// 256.
 	Tile int
+	// Description, when not empty, is written as ImageDescription (TIFF
+	// tag 270, ASCII; gdalinfo shows it as TIFFTAG_IMAGEDESCRIPTION): what
+	// the values are, and the caution that goes with them.
+	Description string
 }
 
 // Write writes g to w as described on GeoTIFFWriter. It builds the
@@ -217,6 +222,15 @@ func (o GeoTIFFWriter) Write(w io.Writer, g *Grid) error {
 	}
 	if hasNaN {
 		fields = append(fields, field{tiffTagGDALNoData, tiffTypeASCII, 4, []byte("nan\x00")})
+	}
+	if o.Description != "" {
+		d := strings.Map(func(r rune) rune {
+			if r == 0 || r > 0x7e { // 7-bit ASCII, no NUL inside (TIFF 6.0 §2)
+				return '?'
+			}
+			return r
+		}, o.Description) + "\x00"
+		fields = append(fields, field{270, tiffTypeASCII, len(d), []byte(d)})
 	}
 	// Offsets are filled in below, once the data position is known.
 	fields = append(fields,

@@ -395,7 +395,7 @@ func writeLeastRaster(path string, run *coverageRun) error {
 		g = terrain.LatLonGrid(l, run.res.Least)
 	}
 	g.Name = "least altitude to reach a landing field with the reserve, m MSL"
-	return writeRaster(path, g)
+	return writeRaster(path, g, "least altitude (m MSL) from which a landing field is reached with the reserve; NaN where none is below the ceiling")
 }
 
 // demoCandidates are invented candidate fields for the demo's coverage step

@@ -225,17 +225,19 @@ func writeArrivalRaster(path string, run *reachRun) error {
 	} else {
 		g = terrain.LatLonGrid(run.res.Ground, vals)
 	}
-	return writeRaster(path, g)
+	return writeRaster(path, g, "arrival height above ground (m); NaN where no glide arrives")
 }
 
-// writeRaster writes g as GeoTIFF or ESRI ASCII grid by the path's extension.
-func writeRaster(path string, g *terrain.Grid) error {
+// writeRaster writes g as GeoTIFF or ESRI ASCII grid by the path's
+// extension. A GeoTIFF carries what the values are and the caution in its
+// ImageDescription; an ASCII grid has no place for text.
+func writeRaster(path string, g *terrain.Grid, what string) error {
 	ext := strings.ToLower(filepath.Ext(path))
 	return writeFileAtomic(path, func(f *os.File) error {
 		if ext == ".asc" {
 			return terrain.WriteASC(f, g)
 		}
-		return terrain.WriteGeoTIFF(f, g)
+		return terrain.GeoTIFFWriter{Description: "glidereach: " + what + ". " + reach.Caution}.Write(f, g)
 	})
 }
 
