@@ -89,3 +89,32 @@ func ResampleHigh(g *Grid, f Frame, x0, y0, cell float64, cols, rows int) *Local
 	}
 	return l
 }
+
+// HighAround returns the highest of the grid samples around lat, lon (the
+// two to four whose cells the point lies between): the obstacle height there,
+// never below the ground between samples the way a bilinear value can be.
+// ok is false off the grid or when one of them is a void.
+func (g *Grid) HighAround(lat, lon float64) (float64, bool) {
+	x, y, err := g.toCRS(lat, lon)
+	if err != nil || len(g.Elev) == 0 {
+		return math.NaN(), false
+	}
+	fc, fr := (x-g.X0)/g.DX, (g.Y0-y)/g.DY
+	if !(fc >= -0.5 && fr >= -0.5 && fc <= float64(g.Cols)-0.5 && fr <= float64(g.Rows)-0.5) {
+		return math.NaN(), false
+	}
+	c0, r0 := max(int(math.Floor(fc)), 0), max(int(math.Floor(fr)), 0)
+	c1, r1 := min(int(math.Ceil(fc)), g.Cols-1), min(int(math.Ceil(fr)), g.Rows-1)
+	c0, r0 = min(c0, g.Cols-1), min(r0, g.Rows-1)
+	hi := math.Inf(-1)
+	for r := r0; r <= r1; r++ {
+		for c := c0; c <= c1; c++ {
+			v := float64(g.Elev[r*g.Cols+c])
+			if v != v {
+				return math.NaN(), false
+			}
+			hi = math.Max(hi, v)
+		}
+	}
+	return hi, true
+}

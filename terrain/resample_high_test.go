@@ -37,3 +37,21 @@ func TestResampleHighNeverBelowTheDEM(t *testing.T) {
 		}
 	}
 }
+
+func TestHighAround(t *testing.T) {
+	// Between four samples the obstacle height is their highest; on a
+	// sample, that sample (checked by hand on a 2×2 grid).
+	g := &Grid{CRS: CRS{EPSG: 4326}, Cols: 2, Rows: 2, X0: 0, Y0: 1, DX: 1, DY: 1, Elev: []float32{10, 40, 20, 30}}
+	if v, ok := g.HighAround(0.5, 0.5); !ok || v != 40 {
+		t.Errorf("middle: %v %v, want 40", v, ok)
+	}
+	if v, ok := g.HighAround(0, 0); !ok || v != 20 {
+		t.Errorf("on the south-west sample: %v %v, want 20", v, ok)
+	}
+	if b, _ := g.Elevation(0.5, 0.5); b >= 40 {
+		t.Errorf("bilinear %v should be below the highest sample", b)
+	}
+	if _, ok := g.HighAround(5, 5); ok {
+		t.Error("off the grid: want ok false")
+	}
+}

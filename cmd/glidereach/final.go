@@ -412,7 +412,9 @@ func (t *lineTerrain) sample(lat, lon float64) (float64, bool) {
 	if t.grid == nil {
 		return math.NaN(), false
 	}
-	return t.grid.Elevation(lat, lon)
+	// The obstacle height: the highest DEM sample around the point, so a
+	// ridge crest between samples is not cut down (see terrain.ResampleHigh).
+	return t.grid.HighAround(lat, lon)
 }
 
 // demoFinalRun is the demo's final glide: the sailplane from south-east of
