@@ -322,3 +322,51 @@ func TestReachRasterRoundTrip(t *testing.T) {
 		}
 	}
 }
+
+func TestReachOnGeoTIFFFixture(t *testing.T) {
+	// reach over a DEM: the UTM GeoTIFF fixture made with GDAL (see
+	// testdata/geotiff/make.sh; our reader matches the values GDAL printed).
+	// The start height above the ground must be measured from the DEM's
+	// value there, the footprint must not be empty, and the output must
+	// name the terrain file.
+	const dem = "../../testdata/geotiff/utm32626_int16_tiled_deflate.tif"
+	src, err := terrain.Open(dem)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lat, lon := 4.988, -27.164
+	g, err := src.Window(lon-0.01, lat-0.01, lon+0.01, lat+0.01)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ground, ok := g.Elevation(lat, lon)
+	if !ok {
+		t.Fatal("fixture has no ground at the start")
+	}
+	code, out, stderr := runCLI(t, "reach", "--from", "4.988,-27.164", "--agl", "300m", "--terrain", dem, "--reserve", "100m", "--clearance", "50m", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	var r struct {
+		Start struct {
+			Alt    float64 `json:"alt_msl_m"`
+			Ground float64 `json:"ground_m"`
+		} `json:"start"`
+		Levels []struct {
+			Area float64 `json:"area_m2"`
+		} `json:"levels"`
+		Terrain string `json:"terrain"`
+	}
+	if err := json.Unmarshal([]byte(out), &r); err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(r.Start.Ground-ground) > 0.1 || math.Abs(r.Start.Alt-(ground+300)) > 0.1 {
+		t.Errorf("start ground %.1f m, alt %.1f m; want %.1f and %.1f", r.Start.Ground, r.Start.Alt, ground, ground+300)
+	}
+	if len(r.Levels) == 0 || r.Levels[0].Area <= 0 {
+		t.Errorf("empty footprint over the fixture: %+v", r.Levels)
+	}
+	if !strings.Contains(r.Terrain, "utm32626_int16_tiled_deflate.tif") {
+		t.Errorf("terrain named %q", r.Terrain)
+	}
+}
