@@ -25,6 +25,11 @@ type CoverageOptions struct {
 	// holds the higher obstacle surface the glides keep their clearance
 	// over); nil means Ground.Elev.
 	AGLGround []float32
+	// Also are further loss models the result must hold in too (the other
+	// winds of a wind-uncertainty set): per target and cell the least
+	// altitude is the highest over model and Also, so a cell counts as
+	// covered only when the target is in reach in every one of them.
+	Also []LossModel
 	// Clearance is the least height above the terrain (m) the glide keeps
 	// on the way (as in RequiredOptions).
 	Clearance float64
@@ -157,7 +162,7 @@ func Coverage(ctx context.Context, ground *terrain.Local, targets []Target, mode
 	done := 0
 	found := false
 	err := forTargets(ctx, len(targets), opts.Workers, func(k int) error {
-		cells, vals, covers, err := c.fieldCover(ctx, targets[k], model)
+		cells, vals, covers, err := c.fieldCover(ctx, targets[k], append([]LossModel{model}, opts.Also...))
 		mu.Lock()
 		defer mu.Unlock()
 		done++
@@ -263,7 +268,7 @@ loop:
 // the window it computed (indices into Ground) with their least altitudes,
 // and how many cells of the zone it covers (value at most the altitude
 // flown).
-func (c *CoverageResult) fieldCover(ctx context.Context, t Target, model LossModel) (cells []int32, vals []float32, covers int, err error) {
+func (c *CoverageResult) fieldCover(ctx context.Context, t Target, models []LossModel) (cells []int32, vals []float32, covers int, err error) {
 	g := c.Ground
 	x, y := g.Frame.Forward(t.Lat, t.Lon)
 	fx, fy := (x-g.X0)/g.Cell, (y-g.Y0)/g.Cell
@@ -276,21 +281,37 @@ func (c *CoverageResult) fieldCover(ctx context.Context, t Target, model LossMod
 		// the altitude flown may simply be below the high ground it is on.
 		return nil, nil, 0, nil
 	}
-	radius, err := ReachRadius(model, c.Ceiling, t.Elev+t.Reserve)
-	if err != nil {
-		return nil, nil, 0, err
+	radius := 0.0
+	for _, m := range models {
+		r, err := ReachRadius(m, c.Ceiling, t.Elev+t.Reserve)
+		if err != nil {
+			return nil, nil, 0, err
+		}
+		radius = math.Max(radius, r)
 	}
 	rc := int(math.Ceil(radius/g.Cell)) + 3
 	c0, c1 := max(0, int(fx)-rc), min(g.Cols-1, int(fx)+rc+1)
 	r0, r1 := max(0, int(fy)-rc), min(g.Rows-1, int(fy)+rc+1)
 	sub := Crop(g, c0, r0, c1, r1)
-	res, err := Required(ctx, sub, []Target{t}, model, RequiredOptions{Clearance: c.Opts.Clearance, Ceiling: c.Ceiling, Workers: 1})
-	if err != nil {
-		return nil, nil, 0, err
+	var worst []float32
+	for _, m := range models {
+		res, err := Required(ctx, sub, []Target{t}, m, RequiredOptions{Clearance: c.Opts.Clearance, Ceiling: c.Ceiling, Workers: 1})
+		if err != nil {
+			return nil, nil, 0, err
+		}
+		if worst == nil {
+			worst = res.Required
+			continue
+		}
+		for i, v := range res.Required {
+			if v != v || v > worst[i] { // NaN: out of reach in this model
+				worst[i] = v
+			}
+		}
 	}
 	for r := 0; r < sub.Rows; r++ {
 		for cc := 0; cc < sub.Cols; cc++ {
-			v := res.Required[r*sub.Cols+cc]
+			v := worst[r*sub.Cols+cc]
 			if v != v {
 				continue
 			}
@@ -392,7 +413,7 @@ func (c *CoverageResult) Candidates(ctx context.Context, candidates []Target, mo
 	var mu sync.Mutex
 	done := 0
 	err := forTargets(ctx, len(candidates), c.Opts.Workers, func(j int) error {
-		cells, vals, _, err := c.fieldCover(ctx, candidates[j], model)
+		cells, vals, _, err := c.fieldCover(ctx, candidates[j], append([]LossModel{model}, c.Opts.Also...))
 		if errors.Is(err, ErrNoTargets) {
 			mu.Lock()
 			rk.Skipped[j] = true

@@ -148,12 +148,6 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 	if err != nil {
 		return err
 	}
-	if len(setup.Winds) > 1 {
-		// Shares, per-field and candidate areas are not computed over a
-		// set of winds; refusing is safer than a result that only looks
-		// conservative.
-		return input.Usagef("--wind-error", "coverage does not yet combine a wind-error set: run it once per wind of the set (--wind with each direction and speed) and take the smallest covered share")
-	}
 	src, err := o.terr.open()
 	if err != nil {
 		return err
@@ -251,14 +245,19 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 	var l *terrain.Local
 	var grid *terrain.Grid
 	for pass := 0; pass < 2; pass++ {
-		tab, err := run.setup.table(bottom-60, ceiling+60)
-		if err != nil {
-			return &input.UsageError{Where: "--aircraft", Err: err}
+		radius := 0.0
+		for _, w := range run.setup.Winds {
+			tab, err := run.setup.tableFor(w, bottom-60, ceiling+60)
+			if err != nil {
+				return &input.UsageError{Where: "--aircraft", Err: err}
+			}
+			r, err := reach.ReachRadius(tab, ceiling, bottom)
+			if err != nil {
+				return &input.UsageError{Err: err}
+			}
+			radius = math.Max(radius, r)
 		}
-		radius, err := reach.ReachRadius(tab, ceiling, bottom)
-		if err != nil {
-			return &input.UsageError{Err: err}
-		}
+		var err error
 		l, grid, err = areaWindow(run.ground, minLat, minLon, maxLat, maxLon, radius*1.02+1000, flag)
 		if err != nil {
 			return err
@@ -324,11 +323,21 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 	if err != nil {
 		return &input.UsageError{Where: "--aircraft", Err: err}
 	}
+	// With --wind-error every wind of the set must hold: the other winds'
+	// tables go in as CoverageOptions.Also.
+	var also []reach.LossModel
+	for _, w := range run.setup.Winds[1:] {
+		t, err := run.setup.tableFor(w, lo-60, ceiling+60)
+		if err != nil {
+			return &input.UsageError{Where: "--aircraft", Err: err}
+		}
+		also = append(also, t)
+	}
 	share := 1.0
 	if len(cs) > 0 {
 		share = float64(len(ts)) / float64(len(ts)+len(cs))
 	}
-	opts := reach.CoverageOptions{Alt: o.alt.Value, Clearance: run.setup.Clearance, Mask: mask, Margin: margin,
+	opts := reach.CoverageOptions{Alt: o.alt.Value, Clearance: run.setup.Clearance, Mask: mask, Margin: margin, Also: also,
 		Progress: func(d float64) { progress(d * share) }}
 	if o.agl.Given {
 		opts.Alt, opts.AGL = o.agl.Value, true

@@ -165,8 +165,7 @@ func TestCoverageBadInput(t *testing.T) {
 		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--candidates", "none.geojson"}, "none.geojson"},
 		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--format", "csv"}, "--format"},
 		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--map", "coverage.jpg"}, "--map"},
-		// A wind-error set is refused rather than silently ignored.
-		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--wind", "270/20kt", "--wind-error", "20deg,5kt"}, "--wind-error"},
+		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--wind", "270/20kt", "--wind-error", "400deg,5kt"}, "--wind-error"},
 	})
 }
 
@@ -291,5 +290,37 @@ func TestCoverageOnGeoTIFFFixture(t *testing.T) {
 		if bad > 0 {
 			t.Errorf("%s: %d cells with a least altitude below terrain + clearance", mode.flag, bad)
 		}
+	}
+}
+
+func TestCoverageWindErrorHoldsInEveryWind(t *testing.T) {
+	// With --wind-error a cell is covered only when a field is in reach in
+	// every wind of the set (conservative for a forecast's uncertainty,
+	// common practice, no source): the covered share is no larger than with
+	// the nominal wind or with any single member of the set flown alone.
+	fields := "../../testdata/fields/demo-fields.geojson"
+	box := "-24.8,-0.8,-24.2,-0.2"
+	share := func(extra ...string) float64 {
+		args := append([]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--format", "json"}, extra...)
+		code, out, stderr := runCLI(t, args...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", args, code, stderr)
+		}
+		var r struct {
+			Covered float64 `json:"covered_fraction"`
+		}
+		if err := json.Unmarshal([]byte(out), &r); err != nil {
+			t.Fatal(err)
+		}
+		return r.Covered
+	}
+	withErr := share("--wind", "270/20kt", "--wind-error", "20deg,5kt")
+	for _, w := range []string{"270/20kt", "250/15kt", "290/25kt", "250/25kt", "290/15kt"} {
+		if s := share("--wind", w); withErr > s+1e-9 {
+			t.Errorf("covered share with the wind set %.4f exceeds the share in %s alone, %.4f", withErr, w, s)
+		}
+	}
+	if withErr <= 0 {
+		t.Errorf("covered share %.4f: the set should still cover something", withErr)
 	}
 }
