@@ -128,21 +128,8 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 	if o.pick < 0 || o.pick > 100 {
 		return input.Usagef("--pick", "%d is outside 0..100", o.pick)
 	}
-	for _, f := range []struct{ flag, path string }{{"--raster", o.raster}, {"--map", o.mapPNG}, {"--report", o.report}, {"--out", o.out}} {
-		if f.path != "" {
-			if err := checkOutputPath(f.flag, f.path); err != nil {
-				return err
-			}
-		}
-	}
-	if o.mapPNG != "" && !strings.EqualFold(filepath.Ext(o.mapPNG), ".png") {
-		return input.Usagef("--map", "%q: want a .png file name", o.mapPNG)
-	}
-	if o.raster != "" {
-		ext := strings.ToLower(filepath.Ext(o.raster))
-		if ext != ".tif" && ext != ".tiff" && ext != ".asc" {
-			return input.Usagef("--raster", "%q: want a .tif or .asc file name", o.raster)
-		}
+	if err := checkOutputs(o.out, o.raster, o.mapPNG, o.report); err != nil {
+		return err
 	}
 	setup, err := o.glide.resolve()
 	if err != nil {

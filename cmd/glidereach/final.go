@@ -141,15 +141,8 @@ func runFinal(ctx context.Context, o *finalOptions, stdout io.Writer) error {
 	if !o.pos.from.Given {
 		return input.Usagef("--from", "the start position is required (LAT,LON)")
 	}
-	for _, f := range []struct{ flag, path string }{{"--map", o.mapPNG}, {"--report", o.report}, {"--out", o.out}} {
-		if f.path != "" {
-			if err := checkOutputPath(f.flag, f.path); err != nil {
-				return err
-			}
-		}
-	}
-	if o.mapPNG != "" && !strings.EqualFold(filepath.Ext(o.mapPNG), ".png") {
-		return input.Usagef("--map", "%q: want a .png file name", o.mapPNG)
+	if err := checkOutputs(o.out, "", o.mapPNG, o.report); err != nil {
+		return err
 	}
 	if o.step.Given && !(o.step.Value >= 1 && o.step.Value <= 5000) {
 		return input.Usagef("--step", "%v m is outside 1..5000 m", o.step.Value)

@@ -5,6 +5,9 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"strings"
+
+	"glidereach/cmd/glidereach/input"
 )
 
 // writeFileAtomic writes data to path through a temporary file in the same
@@ -95,4 +98,37 @@ func deliver(stdout io.Writer, r results) error {
 	}
 	_, err = stdout.Write(data)
 	return err
+}
+
+// checkOutputs refuses, before any computation, output paths whose
+// directory does not exist, a --map that is not a .png and a --raster that
+// is not a .tif or .asc (empty paths are not asked for).
+func checkOutputs(out, raster, mapPNG, report string) error {
+	for _, f := range []struct{ flag, path string }{{"--raster", raster}, {"--map", mapPNG}, {"--report", report}, {"--out", out}} {
+		if f.path != "" {
+			if err := checkOutputPath(f.flag, f.path); err != nil {
+				return err
+			}
+		}
+	}
+	if mapPNG != "" && !strings.EqualFold(filepath.Ext(mapPNG), ".png") {
+		return input.Usagef("--map", "%q: want a .png file name", mapPNG)
+	}
+	if raster != "" {
+		ext := strings.ToLower(filepath.Ext(raster))
+		if ext != ".tif" && ext != ".tiff" && ext != ".asc" {
+			return input.Usagef("--raster", "%q: want a .tif or .asc file name", raster)
+		}
+	}
+	return nil
+}
+
+// checkOutputPath refuses an output path whose directory does not exist, so
+// the error comes before the computation.
+func checkOutputPath(flag, path string) error {
+	dir := filepath.Dir(path)
+	if st, err := os.Stat(dir); err != nil || !st.IsDir() {
+		return input.Usagef(flag, "%q: directory %s does not exist", path, dir)
+	}
+	return nil
 }

@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"sort"
 	"strings"
@@ -128,26 +127,12 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 		}
 		extra = append(extra, v)
 	}
-	for _, f := range []struct{ flag, path string }{{"--raster", o.raster}, {"--map", o.mapPNG}, {"--report", o.report}, {"--out", o.out}} {
-		if f.path == "" {
-			continue
-		}
-		if err := checkOutputPath(f.flag, f.path); err != nil {
-			return err
-		}
-	}
-	if o.mapPNG != "" && strings.ToLower(filepath.Ext(o.mapPNG)) != ".png" {
-		return input.Usagef("--map", "%q: want a .png file name", o.mapPNG)
+	if err := checkOutputs(o.out, o.raster, o.mapPNG, o.report); err != nil {
+		return err
 	}
 	if o.report != "" {
 		if ext := strings.ToLower(filepath.Ext(o.report)); ext != ".html" && ext != ".htm" {
 			return input.Usagef("--report", "%q: want an .html file name", o.report)
-		}
-	}
-	if o.raster != "" {
-		ext := strings.ToLower(filepath.Ext(o.raster))
-		if ext != ".tif" && ext != ".tiff" && ext != ".asc" {
-			return input.Usagef("--raster", "%q: want a .tif or .asc file name", o.raster)
 		}
 	}
 	setup, err := o.glide.resolve()
@@ -181,16 +166,6 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 		writeRaster: func(path string) error { return writeArrivalRaster(path, run) },
 		draw:        func(m, r string) error { return drawReach(run, m, r) },
 		text:        func(w io.Writer) { writeReachText(w, run) }})
-}
-
-// checkOutputPath refuses an output path whose directory does not exist, so
-// the error comes before the computation.
-func checkOutputPath(flag, path string) error {
-	dir := filepath.Dir(path)
-	if st, err := os.Stat(dir); err != nil || !st.IsDir() {
-		return input.Usagef(flag, "%q: directory %s does not exist", path, dir)
-	}
-	return nil
 }
 
 // computeReach runs the footprint and judges the fields.

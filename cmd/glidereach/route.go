@@ -8,7 +8,6 @@ import (
 	"io"
 	"math"
 	"path/filepath"
-	"strings"
 
 	"github.com/spf13/cobra"
 
@@ -140,15 +139,8 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 	if s := o.step.Value; !(s >= 10 && s <= 10000) {
 		return input.Usagef("--step", "%v m is outside 10 m..10 km", s)
 	}
-	for _, f := range []struct{ flag, path string }{{"--map", o.mapPNG}, {"--report", o.report}, {"--out", o.out}} {
-		if f.path != "" {
-			if err := checkOutputPath(f.flag, f.path); err != nil {
-				return err
-			}
-		}
-	}
-	if o.mapPNG != "" && !strings.EqualFold(filepath.Ext(o.mapPNG), ".png") {
-		return input.Usagef("--map", "%q: want a .png file name", o.mapPNG)
+	if err := checkOutputs(o.out, "", o.mapPNG, o.report); err != nil {
+		return err
 	}
 	setup, err := o.glide.resolve()
 	if err != nil {
