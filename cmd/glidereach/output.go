@@ -101,8 +101,9 @@ func deliver(stdout io.Writer, r results) error {
 }
 
 // checkOutputs refuses, before any computation, output paths whose
-// directory does not exist, a --map that is not a .png and a --raster that
-// is not a .tif or .asc (empty paths are not asked for).
+// directory does not exist, a --map that is not a .png, a --report that is
+// not an .html and a --raster that is not a .tif or .asc (empty paths are
+// not asked for).
 func checkOutputs(out, raster, mapPNG, report string) error {
 	for _, f := range []struct{ flag, path string }{{"--raster", raster}, {"--map", mapPNG}, {"--report", report}, {"--out", out}} {
 		if f.path != "" {
@@ -113,6 +114,11 @@ func checkOutputs(out, raster, mapPNG, report string) error {
 	}
 	if mapPNG != "" && !strings.EqualFold(filepath.Ext(mapPNG), ".png") {
 		return input.Usagef("--map", "%q: want a .png file name", mapPNG)
+	}
+	if report != "" {
+		if ext := strings.ToLower(filepath.Ext(report)); ext != ".html" && ext != ".htm" {
+			return input.Usagef("--report", "%q: want an .html file name", report)
+		}
 	}
 	if raster != "" {
 		ext := strings.ToLower(filepath.Ext(raster))

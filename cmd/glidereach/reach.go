@@ -6,9 +6,7 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"path/filepath"
 	"sort"
-	"strings"
 	"sync"
 
 	"github.com/spf13/cobra"
@@ -129,11 +127,6 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 	}
 	if err := checkOutputs(o.out, o.raster, o.mapPNG, o.report); err != nil {
 		return err
-	}
-	if o.report != "" {
-		if ext := strings.ToLower(filepath.Ext(o.report)); ext != ".html" && ext != ".htm" {
-			return input.Usagef("--report", "%q: want an .html file name", o.report)
-		}
 	}
 	setup, err := o.glide.resolve()
 	if err != nil {

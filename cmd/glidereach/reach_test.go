@@ -370,3 +370,23 @@ func TestReachOnGeoTIFFFixture(t *testing.T) {
 		t.Errorf("terrain named %q", r.Terrain)
 	}
 }
+
+func TestOutputNamesCheckedByEveryCommand(t *testing.T) {
+	// A --report that is not .html and a --map that is not .png are
+	// refused (exit 2) by every command that writes them, before computing.
+	dir := t.TempDir()
+	fields := "../../testdata/fields/demo-fields.geojson"
+	base := map[string][]string{
+		"reach":    {"reach", "--from", "-0.5,-24.5", "--alt", "1500m"},
+		"final":    {"final", "--from", "-0.5,-24.5", "--alt", "1500m", "--to", "-0.45,-24.6"},
+		"route":    {"route", "--route", "../../testdata/routes/demo-route.gpx", "--fields", fields, "--alt", "1500m"},
+		"coverage": {"coverage", "--fields", fields, "--area", "-24.8,-0.8,-24.2,-0.2", "--alt", "1500m"},
+	}
+	for name, args := range base {
+		for _, bad := range [][]string{{"--report", filepath.Join(dir, "r.pdf")}, {"--map", filepath.Join(dir, "m.jpg")}} {
+			if code, _, _ := runCLI(t, append(append([]string{}, args...), bad...)...); code != 2 {
+				t.Errorf("%s %v: exit %d, want 2", name, bad, code)
+			}
+		}
+	}
+}
