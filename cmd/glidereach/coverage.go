@@ -440,17 +440,17 @@ func demoCoverage(ctx context.Context, d *demoRun) error {
 		if err != nil {
 			return err
 		}
-		if err := d.write(f.name, func(w io.Writer) error { _, err := w.Write(out); return err }); err != nil {
+		if err := d.writeBytes(f.name, out); err != nil {
 			return err
 		}
 	}
 	if err := writeLeastRaster(filepath.Join(d.dir, "coverage-least-msl.tif"), run); err != nil {
 		return err
 	}
-	if err := drawCoverage(run, filepath.Join(d.dir, "coverage.png"), filepath.Join(d.dir, "coverage.html")); err != nil {
+	d.files = append(d.files, "coverage-least-msl.tif")
+	if err := d.drawBoth("coverage", func(m, r string) error { return drawCoverage(run, m, r) }); err != nil {
 		return err
 	}
-	d.files = append(d.files, "coverage-least-msl.tif", "coverage.png", "coverage.html")
 	writeCoverageText(d.out, run)
 	return nil
 }

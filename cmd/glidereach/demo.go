@@ -60,6 +60,21 @@ func (d *demoRun) write(name string, fn func(w io.Writer) error) error {
 	return nil
 }
 
+// writeBytes writes data as dir/name atomically and records it.
+func (d *demoRun) writeBytes(name string, data []byte) error {
+	return d.write(name, func(w io.Writer) error { _, err := w.Write(data); return err })
+}
+
+// drawBoth writes stem.png and stem.html with a command's map-and-report
+// writer and records them.
+func (d *demoRun) drawBoth(stem string, draw func(mapPath, reportPath string) error) error {
+	if err := draw(filepath.Join(d.dir, stem+".png"), filepath.Join(d.dir, stem+".html")); err != nil {
+		return err
+	}
+	d.files = append(d.files, stem+".png", stem+".html")
+	return nil
+}
+
 func newDemoCmd() *cobra.Command {
 	var dir string
 	cmd := &cobra.Command{

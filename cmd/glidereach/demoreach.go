@@ -67,17 +67,16 @@ func demoFootprints(ctx context.Context, d *demoRun) error {
 		if err != nil {
 			return err
 		}
-		if err := d.write(r.name+".geojson", func(w io.Writer) error { _, err := w.Write(data); return err }); err != nil {
+		if err := d.writeBytes(r.name+".geojson", data); err != nil {
 			return err
 		}
 		if err := writeArrivalRaster(filepath.Join(d.dir, r.name+"-arrival-agl.tif"), run); err != nil {
 			return err
 		}
 		d.files = append(d.files, r.name+"-arrival-agl.tif")
-		if err := drawReach(run, filepath.Join(d.dir, r.name+".png"), filepath.Join(d.dir, r.name+".html")); err != nil {
+		if err := d.drawBoth(r.name, func(m, rp string) error { return drawReach(run, m, rp) }); err != nil {
 			return err
 		}
-		d.files = append(d.files, r.name+".png", r.name+".html")
 		fmt.Fprintf(d.out, "-- %s, %s --\n", r.aircraft, r.name)
 		writeReachText(d.out, run)
 		fmt.Fprintln(d.out)

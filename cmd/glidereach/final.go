@@ -7,7 +7,6 @@ import (
 	"io"
 	"math"
 	"os"
-	"path/filepath"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -462,14 +461,13 @@ func demoFinal(ctx context.Context, d *demoRun) error {
 		if err != nil {
 			return err
 		}
-		if err := d.write(out.name, func(w io.Writer) error { _, err := w.Write(data); return err }); err != nil {
+		if err := d.writeBytes(out.name, data); err != nil {
 			return err
 		}
 	}
-	if err := drawFinal(run, filepath.Join(d.dir, "final-sailplane.png"), filepath.Join(d.dir, "final-sailplane.html")); err != nil {
+	if err := d.drawBoth("final-sailplane", func(m, r string) error { return drawFinal(run, m, r) }); err != nil {
 		return err
 	}
-	d.files = append(d.files, "final-sailplane.png", "final-sailplane.html")
 	writeFinalText(d.out, run)
 	return nil
 }

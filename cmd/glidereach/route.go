@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"path/filepath"
 
 	"github.com/spf13/cobra"
 
@@ -495,14 +494,13 @@ func demoRoute(ctx context.Context, d *demoRun) error {
 		if err != nil {
 			return err
 		}
-		if err := d.write(f.name, func(w io.Writer) error { _, err := w.Write(out); return err }); err != nil {
+		if err := d.writeBytes(f.name, out); err != nil {
 			return err
 		}
 	}
-	if err := drawRoute(run, filepath.Join(d.dir, "route.png"), filepath.Join(d.dir, "route.html")); err != nil {
+	if err := d.drawBoth("route", func(m, r string) error { return drawRoute(run, m, r) }); err != nil {
 		return err
 	}
-	d.files = append(d.files, "route.png", "route.html")
 	writeRouteText(d.out, run)
 	return nil
 }
