@@ -543,14 +543,12 @@ func (g *finalGlide) times(t groundSpeeder, alt []float64) []float64 {
 // search builds one per trial setting at a few per cent of a full Table's
 // cost. Not safe for concurrent use.
 type trackTable struct {
-	ac         *Aircraft
-	wind       WindField
-	c          Conditions
-	hMin, hMax float64
-	dh         float64
-	nh         int
-	rho        []float64
-	cols       map[int][]SpeedToFly
+	ac   *Aircraft
+	wind WindField
+	c    Conditions
+	tableGrid
+	rho  []float64
+	cols map[int][]SpeedToFly
 }
 
 // newTrackTable prepares a trackTable; ac and c must have passed Check.
@@ -565,7 +563,7 @@ func newTrackTable(p Performance, mc, lo, hi float64) *trackTable {
 	if nh < 2 {
 		nh = 2
 	}
-	t := &trackTable{ac: p.Aircraft, wind: p.Wind, c: c, hMin: lo, hMax: hi, dh: (hi - lo) / float64(nh-1), nh: nh, cols: map[int][]SpeedToFly{}}
+	t := &trackTable{ac: p.Aircraft, wind: p.Wind, c: c, tableGrid: tableGrid{hMin: lo, hMax: hi, dh: (hi - lo) / float64(nh-1), nh: nh, nd: TableDirections}, cols: map[int][]SpeedToFly{}}
 	if t.dh == 0 {
 		t.dh = 1
 	}
@@ -592,34 +590,6 @@ func (t *trackTable) col(j int) []SpeedToFly {
 	}
 	t.cols[j] = c
 	return c
-}
-
-// cell is Table.cell on this grid.
-func (t *trackTable) cell(h, bearing float64) (i0 int, th float64, j0, j1 int, tb float64, ok bool) {
-	if math.IsNaN(h) || math.IsNaN(bearing) || math.IsInf(bearing, 0) {
-		return 0, 0, 0, 0, 0, false
-	}
-	fh := (math.Max(t.hMin, math.Min(t.hMax, h)) - t.hMin) / t.dh
-	i0 = int(fh)
-	if i0 > t.nh-2 {
-		i0 = t.nh - 2
-	}
-	th = fh - float64(i0)
-	fd := math.Mod(bearing/(2*math.Pi), 1)
-	if fd < 0 {
-		fd++
-	}
-	fd *= TableDirections
-	j0 = int(fd)
-	if j0 >= TableDirections {
-		j0, fd = 0, 0
-	}
-	tb = fd - float64(j0)
-	j1 = j0 + 1
-	if j1 == TableDirections {
-		j1 = 0
-	}
-	return i0, th, j0, j1, tb, true
 }
 
 // Loss is Table.Loss on this grid.

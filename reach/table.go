@@ -23,11 +23,10 @@ const (
 // where the loss grows without bound; there any corner without headway makes
 // the interpolated loss +Inf (conservative).
 type Table struct {
-	hMin, hMax, dh float64
-	nh, nd         int
-	loss           []float64    // nh × nd, row = altitude node
-	stf            []SpeedToFly // same layout
-	best           float64
+	tableGrid
+	loss []float64    // nh × nd, row = altitude node
+	stf  []SpeedToFly // same layout
+	best float64
 }
 
 // NewTable computes the speed-to-fly table for ac in the atmosphere atm and
@@ -54,7 +53,7 @@ func NewTable(ac *Aircraft, atm Atmosphere, wind WindField, c Conditions, hMin, 
 	if nh < 2 {
 		nh = 2
 	}
-	t := &Table{hMin: hMin, hMax: hMax, dh: (hMax - hMin) / float64(nh-1), nh: nh, nd: TableDirections}
+	t := &Table{tableGrid: tableGrid{hMin: hMin, hMax: hMax, dh: (hMax - hMin) / float64(nh-1), nh: nh, nd: TableDirections}}
 	if t.dh == 0 {
 		t.dh = 1 // a single altitude: both rows are equal
 	}
@@ -105,9 +104,18 @@ func NewTable(ac *Aircraft, atm Atmosphere, wind WindField, c Conditions, hMin, 
 	return t, nil
 }
 
+// tableGrid is the altitude × track lattice of a speed-to-fly table: nh
+// altitude rows every dh metres from hMin to hMax, nd track columns evenly
+// spaced from north. Table and the final glide's lazily filled trackTable
+// share it.
+type tableGrid struct {
+	hMin, hMax, dh float64
+	nh, nd         int
+}
+
 // cell locates (h, bearing) in the grid: row i0 and i0+1 with weight th on
 // the upper one, columns j0 and j1 with weight tb on j1.
-func (t *Table) cell(h, bearing float64) (i0 int, th float64, j0, j1 int, tb float64, ok bool) {
+func (t *tableGrid) cell(h, bearing float64) (i0 int, th float64, j0, j1 int, tb float64, ok bool) {
 	if math.IsNaN(h) || math.IsNaN(bearing) || math.IsInf(bearing, 0) {
 		return 0, 0, 0, 0, 0, false
 	}
