@@ -292,7 +292,7 @@ func (c *CoverageResult) fieldCover(ctx context.Context, t Target, models []Loss
 	rc := int(math.Ceil(radius/g.Cell)) + 3
 	c0, c1 := max(0, int(fx)-rc), min(g.Cols-1, int(fx)+rc+1)
 	r0, r1 := max(0, int(fy)-rc), min(g.Rows-1, int(fy)+rc+1)
-	sub := Crop(g, c0, r0, c1, r1)
+	sub := g.CropCells(c0, r0, c1, r1)
 	var worst []float32
 	for _, m := range models {
 		res, err := Required(ctx, sub, []Target{t}, m, RequiredOptions{Clearance: c.Opts.Clearance, Ceiling: c.Ceiling, Workers: 1})
@@ -324,20 +324,6 @@ func (c *CoverageResult) fieldCover(ctx context.Context, t Target, models []Loss
 		}
 	}
 	return cells, vals, covers, nil
-}
-
-// Crop returns the part c0..c1 × r0..r1 (inclusive cell indices) of l as a
-// Local on the same frame and lattice (cell (c, r) of the crop is cell
-// (c0+c, r0+r) of l). The elevations are copied.
-func Crop(l *terrain.Local, c0, r0, c1, r1 int) *terrain.Local {
-	cols, rows := c1-c0+1, r1-r0+1
-	out := &terrain.Local{Frame: l.Frame, X0: l.X0 + float64(c0)*l.Cell, Y0: l.Y0 + float64(r0)*l.Cell, Cell: l.Cell,
-		Cols: cols, Rows: rows, Flat: l.Flat, Source: l.Source}
-	out.Elev = make([]float32, cols*rows)
-	for r := 0; r < rows; r++ {
-		copy(out.Elev[r*cols:(r+1)*cols], l.Elev[(r0+r)*l.Cols+c0:(r0+r)*l.Cols+c1+1])
-	}
-	return out
 }
 
 // Polygons contours the coverage: the covered part of the zone (cells whose

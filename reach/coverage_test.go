@@ -175,7 +175,7 @@ func TestCrop(t *testing.T) {
 	// A crop is the same lattice: cell (c, r) of the crop is cell
 	// (c0+c, r0+r) of the source (common practice, no source).
 	g := hillyWindow(50, 30, 2)
-	s := Crop(g, 5, 7, 20, 30)
+	s := g.CropCells(5, 7, 20, 30)
 	if s.Cols != 16 || s.Rows != 24 {
 		t.Fatalf("crop %d×%d, want 16×24", s.Cols, s.Rows)
 	}

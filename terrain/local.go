@@ -83,6 +83,13 @@ func (l *Local) Crop(x0, y0, x1, y1 float64) *Local {
 	if c1 < c0 || r1 < r0 {
 		return nil
 	}
+	return l.CropCells(c0, r0, c1, r1)
+}
+
+// CropCells returns cells c0..c1 × r0..r1 (inclusive, within l) as a Local
+// on the same frame and lattice — cell (c, r) of the crop is cell
+// (c0+c, r0+r) of l — with the elevations copied.
+func (l *Local) CropCells(c0, r0, c1, r1 int) *Local {
 	out := &Local{Frame: l.Frame, X0: l.X0 + float64(c0)*l.Cell, Y0: l.Y0 + float64(r0)*l.Cell, Cell: l.Cell,
 		Cols: c1 - c0 + 1, Rows: r1 - r0 + 1, Flat: l.Flat, Source: l.Source}
 	out.Elev = make([]float32, out.Cols*out.Rows)
