@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -133,11 +132,7 @@ func coverageJSON(run *coverageRun) ([]byte, error) {
 	if run.rank != nil {
 		out["candidates"], out["picks"] = run.candidatesJSON()
 	}
-	data, err := json.MarshalIndent(out, "", "  ")
-	if err != nil {
-		return nil, err
-	}
-	return append(data, '\n'), nil
+	return jsonDoc(out, "  ")
 }
 
 func multiGeometry(mp orb.MultiPolygon) orb.Geometry {
@@ -207,11 +202,7 @@ func coverageGeoJSON(run *coverageRun) ([]byte, error) {
 		ff.Properties = c
 		fc.Append(ff)
 	}
-	data, err := json.MarshalIndent(fc, "", " ")
-	if err != nil {
-		return nil, err
-	}
-	return append(data, '\n'), nil
+	return jsonDoc(fc, " ")
 }
 
 // coverageScene builds the map of a coverage run.

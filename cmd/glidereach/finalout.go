@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -369,11 +368,7 @@ func finalJSON(run *finalRun) ([]byte, error) {
 		tps = append(tps, latLonJSON(p))
 	}
 	out["turn_points"] = tps
-	data, err := json.MarshalIndent(out, "", "  ")
-	if err != nil {
-		return nil, err
-	}
-	return append(data, '\n'), nil
+	return jsonDoc(out, "  ")
 }
 
 // finalGeoJSON writes an RFC 7946 FeatureCollection: the glide line (a
@@ -434,11 +429,7 @@ func finalGeoJSON(run *finalRun) ([]byte, error) {
 			"extra_alt_m": num(t.Extra), "caution": reach.Caution}
 		fc.Append(f)
 	}
-	data, err := json.MarshalIndent(fc, "", " ")
-	if err != nil {
-		return nil, err
-	}
-	return append(data, '\n'), nil
+	return jsonDoc(fc, " ")
 }
 
 func sumDist(legs []reach.FinalLeg) float64 {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"fmt"
 	"io"
 	"os"
@@ -137,4 +138,14 @@ func checkOutputPath(flag, path string) error {
 		return input.Usagef(flag, "%q: directory %s does not exist", path, dir)
 	}
 	return nil
+}
+
+// jsonDoc marshals an output document, indented by indent, with a final
+// newline.
+func jsonDoc(v any, indent string) ([]byte, error) {
+	data, err := json.MarshalIndent(v, "", indent)
+	if err != nil {
+		return nil, err
+	}
+	return append(data, '\n'), nil
 }

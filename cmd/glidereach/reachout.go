@@ -2,7 +2,6 @@ package main
 
 import (
 	"bytes"
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -84,11 +83,7 @@ func reachGeoJSON(run *reachRun) ([]byte, error) {
 		ff.Properties = fieldProps(f)
 		fc.Append(ff)
 	}
-	data, err := json.MarshalIndent(fc, "", " ")
-	if err != nil {
-		return nil, err
-	}
-	return append(data, '\n'), nil
+	return jsonDoc(fc, " ")
 }
 
 func round6(v float64) float64 { return math.Round(v*1e6) / 1e6 }
@@ -147,11 +142,7 @@ func reachJSON(run *reachRun) ([]byte, error) {
 		"fields":               fields,
 		"assumptions":          run.setup.assumptions(),
 	}
-	data, err := json.MarshalIndent(out, "", "  ")
-	if err != nil {
-		return nil, err
-	}
-	return append(data, '\n'), nil
+	return jsonDoc(out, "  ")
 }
 
 func fmtM(v float64) string {

@@ -3,7 +3,6 @@ package main
 import (
 	"bytes"
 	"encoding/csv"
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -177,11 +176,7 @@ func routeJSON(run *routeRun) ([]byte, error) {
 		"notes":             append([]string{}, run.notes...),
 		"assumptions":       run.assumptions(),
 	}
-	data, err := json.MarshalIndent(out, "", "  ")
-	if err != nil {
-		return nil, err
-	}
-	return append(data, '\n'), nil
+	return jsonDoc(out, "  ")
 }
 
 // routeCSV is the profile, one row per sample, with a plain header row so
@@ -316,11 +311,7 @@ func routeGeoJSON(run *routeRun) ([]byte, error) {
 		}
 		fc.Append(f)
 	}
-	data, err := json.MarshalIndent(fc, "", " ")
-	if err != nil {
-		return nil, err
-	}
-	return append(data, '\n'), nil
+	return jsonDoc(fc, " ")
 }
 
 // routeScene builds the map of a route run.
