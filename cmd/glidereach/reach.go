@@ -103,6 +103,33 @@ type reachRun struct {
 	farthest   float64
 	farBearing float64
 	grid       *terrain.Grid // DEM window, nil on flat ground
+
+	tablesMu sync.Mutex
+	tables   map[int]*reach.Table // per wind of setup.Winds, for judging fields
+}
+
+// fieldTable returns the speed-to-fly table of wind k covering lo..hi (m MSL),
+// shared by the fields' backward runs: a table is built once and rebuilt
+// wider only when a field needs more.
+func (run *reachRun) fieldTable(k int, lo, hi float64) (*reach.Table, error) {
+	run.tablesMu.Lock()
+	defer run.tablesMu.Unlock()
+	if t := run.tables[k]; t != nil {
+		tlo, thi := t.Range()
+		if tlo <= lo && thi >= hi {
+			return t, nil
+		}
+		lo, hi = math.Min(lo, tlo), math.Max(hi, thi)
+	}
+	t, err := run.setup.tableFor(run.setup.Winds[k], lo, hi)
+	if err != nil {
+		return nil, err
+	}
+	if run.tables == nil {
+		run.tables = map[int]*reach.Table{}
+	}
+	run.tables[k] = t
+	return t, nil
 }
 
 func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) error {
@@ -365,8 +392,8 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 	}
 	ceiling := math.Max(run.startAlt, fr.ElevationM+reserve) + 4000
 	req, ok := math.Inf(-1), true
-	for _, w := range run.setup.Winds {
-		tab, err := run.setup.tableFor(w, math.Min(lowest(win), fr.ElevationM)-60, ceiling+60)
+	for k := range run.setup.Winds {
+		tab, err := run.fieldTable(k, math.Min(lowest(win), fr.ElevationM)-60, ceiling+60)
 		if err != nil {
 			return fr, &input.UsageError{Where: "--aircraft", Err: err}
 		}
