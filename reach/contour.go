@@ -36,6 +36,7 @@ func contourRings(v func(c, r int) float64, cols, rows int, level float64) []orb
 	vid := func(c, r int) int { return ((r+1)*w+(c+1))*2 + 1 }
 	type seg struct{ from, to int }
 	next := make(map[int]int) // edge id where a segment starts -> edge id where it ends
+	var starts []int          // segment starts in scan order, so rings (and their simplification) do not depend on map order
 	point := make(map[int]orb.Point)
 	edgePoint := func(id int, c, r int, horizontal bool) {
 		if _, ok := point[id]; ok {
@@ -138,15 +139,14 @@ func contourRings(v func(c, r int) float64, cols, rows int, level float64) []orb
 					}
 				}
 				next[s.from] = s.to
+				starts = append(starts, s.from)
 			}
 		}
 	}
 	var rings []orb.Ring
-	for len(next) > 0 {
-		var start int
-		for k := range next {
-			start = k
-			break
+	for _, start := range starts {
+		if _, ok := next[start]; !ok {
+			continue // already part of a traced ring
 		}
 		ring := orb.Ring{point[start]}
 		id := start

@@ -74,3 +74,25 @@ func TestContourKeepsSmallHoles(t *testing.T) {
 		t.Fatalf("%d rings, want the outer ring and the one-cell hole", len(polys[0]))
 	}
 }
+
+func TestContourDeterministic(t *testing.T) {
+	// The same raster gives the same rings, vertex for vertex, every time
+	// (outputs must be reproducible; the tracing must not follow map order).
+	v := func(c, r int) float64 {
+		return 30 - math.Hypot(float64(c-40)*1.3, float64(r-35)) + 3*math.Sin(float64(c)/3)
+	}
+	first := polygonsFromRings(contourRings(v, 81, 71, 0), 0.5, 1)
+	for k := 0; k < 10; k++ {
+		again := polygonsFromRings(contourRings(v, 81, 71, 0), 0.5, 1)
+		if len(again) != len(first) {
+			t.Fatal("polygon count differs between runs")
+		}
+		for i := range first {
+			for j := range first[i] {
+				if !first[i][j].Equal(again[i][j]) {
+					t.Fatalf("run %d: ring %d/%d differs", k, i, j)
+				}
+			}
+		}
+	}
+}
