@@ -142,11 +142,26 @@ func writeFinalText(w io.Writer, run *finalRun) {
 	if r.Status == reach.FinalNoHeadway {
 		fmt.Fprintln(w, "Required at the start: none (no headway)")
 	} else {
-		fmt.Fprintf(w, "Required at the start: %.0f m MSL (%.0f ft): goal %.0f m + reserve %.0f m + %.0f m lost on the way\n",
-			r.Required, r.Required/input.Foot, r.GoalElev, r.Reserve, r.Required-r.GoalElev-r.Reserve)
-		fmt.Fprintf(w, "Arrival: %.0f m above the goal, %s m against the reserve; start margin %s m\n",
-			r.ArrivalAGL, fmtSigned(r.AboveReserve), fmtSigned(r.Margin))
-		fmt.Fprintf(w, "Time: %s\n", fmtDuration(r.Time))
+		if terrainSetsAltitude(r) {
+			fmt.Fprintf(w, "Required at the start: %.0f m MSL (%.0f ft), set by the terrain: the least start that keeps the %.0f m clearance and arrives with the reserve\n",
+				math.Ceil(r.Required), math.Ceil(r.Required)/input.Foot, run.setup.Clearance)
+			fmt.Fprintf(w, "  (the straight line without the terrain would need %.0f m: goal %.0f m + reserve %.0f m + %.0f m lost on the way)\n",
+				r.RequiredStraight, r.GoalElev, r.Reserve, r.RequiredStraight-r.GoalElev-r.Reserve)
+		} else {
+			fmt.Fprintf(w, "Required at the start: %.0f m MSL (%.0f ft): goal %.0f m + reserve %.0f m + %.0f m lost on the way\n",
+				r.Required, r.Required/input.Foot, r.GoalElev, r.Reserve, r.Required-r.GoalElev-r.Reserve)
+		}
+		if math.IsNaN(r.ArrivalAGL) {
+			fmt.Fprintf(w, "Arrival: NONE from %.0f m: the glide line meets the terrain before the goal; start margin %s m\n",
+				r.StartAlt, fmtSigned(math.Floor(r.Margin)))
+			if c, ok := clearArrivalAGL(r); ok {
+				fmt.Fprintf(w, "  from the required %.0f m it arrives %.0f m above the goal\n", math.Ceil(r.Required), c)
+			}
+		} else {
+			fmt.Fprintf(w, "Arrival: %.0f m above the goal, %s m against the reserve; start margin %s m\n",
+				r.ArrivalAGL, fmtSigned(math.Floor(r.AboveReserve)), fmtSigned(math.Floor(r.Margin)))
+			fmt.Fprintf(w, "Time: %s\n", fmtDuration(r.Time))
+		}
 	}
 	if t := r.Terrain; t != nil && r.Status != reach.FinalNoHeadway {
 		if !math.IsNaN(t.LowestClearance) {
@@ -167,12 +182,11 @@ func writeFinalText(w io.Writer, run *finalRun) {
 			fmt.Fprintf(w, "%s %.1f km (%.5f, %.5f): %s; +%.0f m at the start clears it (%s)\n",
 				label, t.BlockDist/1000, t.BlockLat, t.BlockLon, aboveTerrain(t.BlockClearance), math.Ceil(t.Extra), v)
 		}
-		if t.LeastClearAlt > r.Required+0.5 {
-			fmt.Fprintf(w, "Least start altitude that also clears the terrain: %.0f m MSL\n", math.Ceil(t.LeastClearAlt))
-		}
 	}
 	if mc := r.MacCready; r.Status != reach.FinalNoHeadway {
 		switch {
+		case math.IsNaN(mc.Affordable) && r.Terrain != nil:
+			fmt.Fprintln(w, "MacCready: no setting affordable (even setting 0 does not both clear the terrain and arrive with the reserve)")
 		case math.IsNaN(mc.Affordable):
 			fmt.Fprintln(w, "MacCready: no setting affordable (even setting 0 arrives below the reserve)")
 		default:
@@ -180,8 +194,8 @@ func writeFinalText(w io.Writer, run *finalRun) {
 			if mc.AtLimit {
 				lim = " (search limit; speeds held at the maximum)"
 			}
-			if r.Terrain != nil && r.Terrain.Blocked {
-				lim += " (reserve only: the line is blocked)"
+			if r.Terrain != nil {
+				lim += " (keeps the clearance above the terrain)"
 			}
 			fmt.Fprintf(w, "MacCready: highest affordable %.1f m/s%s, arrives %.0f m above the goal in %s, %s sooner than at setting 0\n",
 				math.Floor(mc.Affordable*10)/10, lim, mc.ArrivalAGL, fmtDuration(mc.TimeAffordable), fmtDuration(mc.Saved))
@@ -193,6 +207,19 @@ func writeFinalText(w io.Writer, run *finalRun) {
 		fmt.Fprintln(w, "  -", a)
 	}
 	fmt.Fprintln(w, "\nCAUTION:", reach.Caution)
+}
+
+// terrainSetsAltitude reports whether the terrain, not the reserve, sets
+// the required altitude (so the headline differs from the straight line's).
+func terrainSetsAltitude(r *reach.FinalGlideResult) bool {
+	return r.Terrain != nil && r.Required > r.RequiredStraight+0.5
+}
+
+// clearArrivalAGL is the arrival height above the goal on the glide from
+// the required (terrain-clearing) altitude.
+func clearArrivalAGL(r *reach.FinalGlideResult) (float64, bool) {
+	c := r.Profile[len(r.Profile)-1].Clear - r.GoalElev
+	return c, !math.IsNaN(c)
 }
 
 // finalAssumptions adds the final glide's own assumptions to the setup's.
@@ -207,6 +234,18 @@ func finalAssumptions(run *finalRun) []string {
 		a = append(a, "no start altitude given: the glide starts at the required altitude")
 	}
 	return a
+}
+
+// requiredSetBy names what sets the required altitude: "terrain",
+// "reserve", or "none" (no headway).
+func requiredSetBy(r *reach.FinalGlideResult) string {
+	switch {
+	case math.IsInf(r.Required, 1):
+		return "none"
+	case terrainSetsAltitude(r):
+		return "terrain"
+	}
+	return "reserve"
 }
 
 // finalIndices picks at most finalProfileMax samples of the profile, evenly,
@@ -284,35 +323,38 @@ func finalSummary(run *finalRun) map[string]any {
 	}
 	mc := r.MacCready
 	out := map[string]any{
-		"caution":                   reach.Caution,
-		"status":                    r.Status.String(),
-		"status_text":               finalStatusText(run),
-		"required_msl_m":            num(r.Required),
-		"arrival_agl_m":             num(r.ArrivalAGL),
-		"arrival_msl_m":             num(r.Arrival),
-		"arrival_above_reserve_m":   num(r.AboveReserve),
-		"margin_m":                  num(r.Margin),
-		"start_msl_m":               num(r.StartAlt),
-		"start_given":               run.altGiven,
-		"goal_elevation_m":          num(r.GoalElev),
-		"goal_elevation_from":       run.goalFrom,
-		"reserve_m":                 s.Reserve,
-		"clearance_m":               s.Clearance,
-		"distance_m":                num(r.Distance),
-		"time_s":                    num(r.Time),
-		"mac_cready_m_s":            s.Cond.MacCready,
-		"affordable_mac_cready_m_s": num4(mc.Affordable),
-		"affordable_at_limit":       mc.AtLimit,
-		"affordable_arrival_agl_m":  num(mc.ArrivalAGL),
-		"time_mc0_s":                num(mc.Time0),
-		"time_affordable_s":         num(mc.TimeAffordable),
-		"time_saved_s":              num(mc.Saved),
-		"no_headway_leg":            noHeadway,
-		"legs":                      legs,
-		"aircraft":                  s.Aircraft.Name,
-		"wind":                      s.WindText,
-		"terrain":                   run.ground.describe(),
-		"assumptions":               finalAssumptions(run),
+		"caution":                        reach.Caution,
+		"status":                         r.Status.String(),
+		"status_text":                    finalStatusText(run),
+		"required_msl_m":                 num(r.Required),
+		"required_set_by":                requiredSetBy(r),
+		"required_without_terrain_msl_m": num(r.RequiredStraight),
+		"arrival_without_terrain_agl_m":  num(r.LineArrival - r.GoalElev),
+		"arrival_agl_m":                  num(r.ArrivalAGL),
+		"arrival_msl_m":                  num(r.Arrival),
+		"arrival_above_reserve_m":        num(r.AboveReserve),
+		"margin_m":                       num(r.Margin),
+		"start_msl_m":                    num(r.StartAlt),
+		"start_given":                    run.altGiven,
+		"goal_elevation_m":               num(r.GoalElev),
+		"goal_elevation_from":            run.goalFrom,
+		"reserve_m":                      s.Reserve,
+		"clearance_m":                    s.Clearance,
+		"distance_m":                     num(r.Distance),
+		"time_s":                         num(r.Time),
+		"mac_cready_m_s":                 s.Cond.MacCready,
+		"affordable_mac_cready_m_s":      num4(mc.Affordable),
+		"affordable_at_limit":            mc.AtLimit,
+		"affordable_arrival_agl_m":       num(mc.ArrivalAGL),
+		"time_mc0_s":                     num(mc.Time0),
+		"time_affordable_s":              num(mc.TimeAffordable),
+		"time_saved_s":                   num(mc.Saved),
+		"no_headway_leg":                 noHeadway,
+		"legs":                           legs,
+		"aircraft":                       s.Aircraft.Name,
+		"wind":                           s.WindText,
+		"terrain":                        run.ground.describe(),
+		"assumptions":                    finalAssumptions(run),
 	}
 	if run.worstWind != "" {
 		out["worst_wind"] = run.worstWind
@@ -494,7 +536,7 @@ func finalScene(run *finalRun) (*render.Scene, error) {
 	case reach.FinalShort:
 		goal.Note = fmt.Sprintf("below the %.0f m reserve", run.setup.Reserve)
 	case reach.FinalBlocked:
-		goal.Note = "line blocked by terrain"
+		goal.Note = fmt.Sprintf("blocked by terrain: needs %.0f m", math.Ceil(r.Required))
 	case reach.FinalNoHeadway:
 		goal.Note = "no headway against the wind"
 	}
@@ -504,7 +546,7 @@ func finalScene(run *finalRun) (*render.Scene, error) {
 	}
 	s.Inputs = []string{
 		"Aircraft: " + run.setup.Aircraft.Name,
-		fmt.Sprintf("Start: %.0f m MSL, required %s m", r.StartAlt, fmtM(r.Required)),
+		fmt.Sprintf("Start: %.0f m MSL, required %s m", r.StartAlt, fmtM(math.Ceil(r.Required))),
 		"Wind: " + run.setup.WindText,
 		fmt.Sprintf("MacCready %.1f m/s", run.setup.Cond.MacCready),
 		fmt.Sprintf("Reserve: %.0f m, clearance %.0f m", run.setup.Reserve, run.setup.Clearance),
@@ -530,14 +572,36 @@ func finalProfile(run *finalRun) *render.Profile {
 	if r.Terrain != nil {
 		p.Series = append(p.Series, mk("terrain", render.SeriesTerrain, func(g reach.GlidePoint) float64 { return g.Terrain }))
 	}
-	p.Series = append(p.Series,
-		mk(fmt.Sprintf("glide from %.0f m", r.StartAlt), render.SeriesGlide, func(g reach.GlidePoint) float64 { return g.Alt }),
-		mk("least altitude (arrive with reserve)", render.SeriesLeast, func(g reach.GlidePoint) float64 { return g.Least }))
+	last := r.Profile[len(r.Profile)-1]
+	least := "least altitude (arrive with reserve)"
+	if r.Terrain != nil {
+		least = "least altitude, terrain ignored (arrive with reserve)"
+	}
+	if math.IsNaN(r.ArrivalAGL) {
+		// The glide from the start does not get there: draw the one from
+		// the required altitude as the line to fly, and the start's only
+		// up to where it meets the terrain.
+		blocked := false
+		p.Series = append(p.Series,
+			mk(fmt.Sprintf("glide from %.0f m (least that clears the terrain)", math.Ceil(r.Required)), render.SeriesGlide, func(g reach.GlidePoint) float64 { return g.Clear }),
+			mk(fmt.Sprintf("glide from %.0f m: blocked", r.StartAlt), render.SeriesBlocked, func(g reach.GlidePoint) float64 {
+				if blocked || g.Clearance < 0 {
+					blocked = true
+					return math.NaN()
+				}
+				return g.Alt
+			}))
+		if c, ok := clearArrivalAGL(r); ok {
+			p.Marks = append(p.Marks, render.ProfileMark{DistM: last.Dist, AltMSL: last.Clear, Label: fmt.Sprintf("%s: arrive %s m AGL from %.0f m", run.goalName, fmtM(c), math.Ceil(r.Required))})
+		}
+	} else {
+		p.Series = append(p.Series, mk(fmt.Sprintf("glide from %.0f m", r.StartAlt), render.SeriesGlide, func(g reach.GlidePoint) float64 { return g.Alt }))
+		p.Marks = append(p.Marks, render.ProfileMark{DistM: last.Dist, AltMSL: last.Alt, Label: fmt.Sprintf("%s: arrive %s m AGL", run.goalName, fmtM(r.ArrivalAGL))})
+	}
+	p.Series = append(p.Series, mk(least, render.SeriesLeast, func(g reach.GlidePoint) float64 { return g.Least }))
 	if r.Terrain != nil {
 		p.Series = append(p.Series, mk("terrain + clearance / reserve", render.SeriesReserve, func(g reach.GlidePoint) float64 { return g.Floor }))
 	}
-	last := r.Profile[len(r.Profile)-1]
-	p.Marks = append(p.Marks, render.ProfileMark{DistM: last.Dist, AltMSL: last.Alt, Label: fmt.Sprintf("%s: arrive %s m AGL", run.goalName, fmtM(r.ArrivalAGL))})
 	for i := 1; i < len(r.Route)-1; i++ {
 		p.Marks = append(p.Marks, render.ProfileMark{DistM: sumDist(r.Legs[:i]), AltMSL: r.Legs[i].StartAlt, Label: finalPointName(run, i)})
 	}
@@ -584,9 +648,16 @@ func drawFinal(run *finalRun, mapPath, reportPath string) error {
 		Summary:  []string{finalStatusText(run)},
 	}
 	if r.Status != reach.FinalNoHeadway {
-		rep.Summary = append(rep.Summary,
-			fmt.Sprintf("Required at the start: %.0f m MSL (goal %.0f m + reserve %.0f m + losses)", r.Required, r.GoalElev, r.Reserve),
-			fmt.Sprintf("Arrival: %.0f m above the goal (%s m against the reserve), time %s", r.ArrivalAGL, fmtSigned(r.AboveReserve), fmtDuration(r.Time)))
+		if terrainSetsAltitude(r) {
+			rep.Summary = append(rep.Summary, fmt.Sprintf("Required at the start: %.0f m MSL, set by the terrain (the straight line without the terrain would need %.0f m)", math.Ceil(r.Required), r.RequiredStraight))
+		} else {
+			rep.Summary = append(rep.Summary, fmt.Sprintf("Required at the start: %.0f m MSL (goal %.0f m + reserve %.0f m + losses)", r.Required, r.GoalElev, r.Reserve))
+		}
+		if math.IsNaN(r.ArrivalAGL) {
+			rep.Summary = append(rep.Summary, fmt.Sprintf("Arrival: none from %.0f m: the glide line meets the terrain; start margin %s m", r.StartAlt, fmtSigned(math.Floor(r.Margin))))
+		} else {
+			rep.Summary = append(rep.Summary, fmt.Sprintf("Arrival: %.0f m above the goal (%s m against the reserve), time %s", r.ArrivalAGL, fmtSigned(math.Floor(r.AboveReserve)), fmtDuration(r.Time)))
+		}
 		rep.Profile = finalProfile(run)
 	}
 	if mc := r.MacCready; !math.IsNaN(mc.Affordable) {
