@@ -135,6 +135,7 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 	if err != nil {
 		return err
 	}
+	setup.printWarnings(stderr)
 	src, err := o.terr.open()
 	if err != nil {
 		return err

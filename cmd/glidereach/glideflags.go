@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"io"
 	"math"
 	"strings"
 
@@ -19,6 +20,22 @@ import (
 const (
 	defaultReserve   = 300.0
 	defaultClearance = 100.0
+)
+
+// Settings below these draw a warning on stderr and in every output's
+// assumptions (common practice, no source): a reserve under about 150 m
+// (500 ft) leaves no room for a circuit or even a straight-in approach
+// with a turn; an en-route clearance under about 50 m leaves nothing for
+// sinking air, turbulence near a ridge or a DEM that misses trees and
+// masts; a lowest speed under 1.3 × the stall speed (the usual approach
+// speed margin, the same factor as reach.StallMargin) leaves no margin for
+// gusts, turns or a heavier aircraft. A reserve or clearance of 0 is
+// allowed (a planner's "touch the ground" ring) but warned about loudly;
+// negative values and a lowest speed at or below the stall are refused.
+const (
+	warnReserve   = 150.0
+	warnClearance = 50.0
+	warnMinSpeed  = 1.3
 )
 
 // glideFlags are the flags every glide computation takes: the aircraft and
@@ -59,8 +76,22 @@ func (g *glideFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&g.wind, "wind", "", "wind: calm, DIR/SPEED (270/20kt), layers (0m:240/10kt,1500m:270/20kt), or a YAML/JSON/CSV file")
 	fs.StringVar(&g.windAloft, "wind-aloft", "", "coded winds-aloft groups with levels in ft, e.g. \"3000:2714 6000:2725+05\", or a bulletin file")
 	fs.StringVar(&g.windError, "wind-error", "", "wind uncertainty DIR,SPEED (e.g. 20deg,5kt): the result holds for every wind within it (conservative)")
-	fs.Var(g.reserve, "reserve", "height above a field to arrive with (m, ft); default 300 m or the profile's")
-	fs.Var(g.clearance, "clearance", "least height above terrain on the way (m, ft); default 100 m or the profile's")
+	fs.Var(g.reserve, "reserve", "height above a field to arrive with (m, ft); default: the aircraft profile's ("+builtinDefaults(func(a *reach.Aircraft) float64 { return a.Reserve })+"), else 300 m; below 150 m warns, 0 warns loudly")
+	fs.Var(g.clearance, "clearance", "least height above terrain on the way (m, ft); default: the aircraft profile's ("+builtinDefaults(func(a *reach.Aircraft) float64 { return a.Clearance })+"), else 100 m; below 50 m warns, 0 warns loudly")
+	// The default depends on the profile, so no single "(default …)".
+	fs.Lookup("reserve").DefValue = ""
+	fs.Lookup("clearance").DefValue = ""
+}
+
+// builtinDefaults lists a built-in profile setting, "trainer 300 m, …".
+func builtinDefaults(f func(*reach.Aircraft) float64) string {
+	var parts []string
+	for _, n := range reach.BuiltinNames() {
+		if ac, err := reach.Builtin(n); err == nil {
+			parts = append(parts, fmt.Sprintf("%s %.0f m", n, f(ac)))
+		}
+	}
+	return strings.Join(parts, ", ")
 }
 
 // glideSetup is the resolved form of glideFlags.
@@ -75,6 +106,31 @@ type glideSetup struct {
 	Reserve   float64
 	Clearance float64
 	WindText  string
+	// Warnings are the settings below common practice (see warnReserve);
+	// each is printed on stderr and listed first in the assumptions.
+	Warnings []string
+}
+
+// warn records a warning and prints it on stderr (w) at once.
+func (s *glideSetup) warn(w io.Writer, format string, args ...any) {
+	msg := fmt.Sprintf(format, args...)
+	s.Warnings = append(s.Warnings, msg)
+	fmt.Fprintln(w, "glidereach: WARNING:", msg)
+}
+
+// printWarnings prints the warnings resolve found on stderr (w).
+func (s *glideSetup) printWarnings(w io.Writer) {
+	for _, m := range s.Warnings {
+		fmt.Fprintln(w, "glidereach: WARNING:", m)
+	}
+}
+
+// checkStartClearance warns when the start is less than the clearance
+// above the ground under it (the command refuses a start at or below it).
+func (s *glideSetup) checkStartClearance(w io.Writer, startAlt, groundElev float64) {
+	if h := startAlt - groundElev; h > 0 && h < s.Clearance {
+		s.warn(w, "the start is only %.0f m above the terrain under it, less than the %.0f m clearance: the first part of every glide is already below it", h, s.Clearance)
+	}
 }
 
 func (g *glideFlags) resolve() (*glideSetup, error) {
@@ -117,24 +173,26 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 		s.Atm.Temp = func(h float64) (float64, bool) { return w.Temperature(h, dev) }
 	}
 	s.Reserve, s.Clearance = defaultReserve, defaultClearance
-	if ac.Reserve > 0 {
-		s.Reserve = ac.Reserve
+	resFrom, clrFrom := "the default", "the default"
+	if ac.HasReserve || ac.Reserve > 0 {
+		s.Reserve, resFrom = ac.Reserve, "the aircraft profile"
 	}
-	if ac.Clearance > 0 {
-		s.Clearance = ac.Clearance
+	if ac.HasClearance || ac.Clearance > 0 {
+		s.Clearance, clrFrom = ac.Clearance, "the aircraft profile"
 	}
 	if g.reserve.Given {
-		s.Reserve = g.reserve.Value
+		s.Reserve, resFrom = g.reserve.Value, "--reserve"
 	}
 	if g.clearance.Given {
-		s.Clearance = g.clearance.Value
+		s.Clearance, clrFrom = g.clearance.Value, "--clearance"
 	}
-	if s.Reserve < 0 || s.Reserve > 3000 {
+	if !(s.Reserve >= 0 && s.Reserve <= 3000) {
 		return nil, input.Usagef("--reserve", "%v m is outside 0..3000 m", s.Reserve)
 	}
-	if s.Clearance < 0 || s.Clearance > 3000 {
+	if !(s.Clearance >= 0 && s.Clearance <= 3000) {
 		return nil, input.Usagef("--clearance", "%v m is outside 0..3000 m", s.Clearance)
 	}
+	s.checkSettings(resFrom, clrFrom)
 	s.WindText = windText(w)
 	s.Winds = []*wind.Profile{w}
 	if g.windError != "" {
@@ -148,6 +206,30 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 		}
 	}
 	return s, nil
+}
+
+// checkSettings records a warning for every setting below common practice
+// (see warnReserve); resFrom and clrFrom say where the reserve and the
+// clearance came from.
+func (s *glideSetup) checkSettings(resFrom, clrFrom string) {
+	add := func(format string, args ...any) { s.Warnings = append(s.Warnings, fmt.Sprintf(format, args...)) }
+	switch {
+	case s.Reserve == 0:
+		add("RESERVE 0 m (from %s): figures and rings reach the field at ground level with NO height for a circuit, an approach or a misjudgement; plan with a reserve of at least %.0f m (common practice, no source)", resFrom, warnReserve)
+	case s.Reserve < warnReserve:
+		add("reserve %.0f m (from %s) is below the %.0f m (about 500 ft) that common practice keeps for a circuit (no source)", s.Reserve, resFrom, warnReserve)
+	}
+	switch {
+	case s.Clearance == 0:
+		add("CLEARANCE 0 m (from %s): glide lines may graze the terrain model with NO margin for sinking air, turbulence, trees, masts or DEM error; keep at least %.0f m (common practice, no source)", clrFrom, warnClearance)
+	case s.Clearance < warnClearance:
+		add("clearance %.0f m (from %s) is below the %.0f m above terrain that common practice keeps en route (no source)", s.Clearance, clrFrom, warnClearance)
+	}
+	ac := s.Aircraft
+	if ac.MinIAS > 0 && ac.MinIAS < warnMinSpeed*ac.StallIAS {
+		add("the profile's min_speed %.0f kt is only %.2f × its stall speed %.0f kt, below the %.1f × stall that common practice keeps as a margin (no source); the speed to fly may be held that close to the stall",
+			ac.MinIAS/input.Knot, ac.MinIAS/ac.StallIAS, ac.StallIAS/input.Knot, warnMinSpeed)
+	}
 }
 
 // table builds the speed-to-fly table for altitudes lo..hi (m MSL).
@@ -167,11 +249,15 @@ func (s *glideSetup) tableFor(w *wind.Profile, lo, hi float64) (*reach.Table, er
 
 // assumptions lists the inputs a result rests on, for every output.
 func (s *glideSetup) assumptions() []string {
-	a := []string{
-		"aircraft: " + s.Aircraft.Name,
-		"wind: " + s.WindText,
-		fmt.Sprintf("reserve %.0f m above the field on arrival, clearance %.0f m above terrain en route", s.Reserve, s.Clearance),
+	a := make([]string, 0, len(s.Warnings)+8)
+	for _, w := range s.Warnings {
+		a = append(a, "WARNING: "+w)
 	}
+	a = append(a,
+		"aircraft: "+s.Aircraft.Name,
+		"wind: "+s.WindText,
+		fmt.Sprintf("reserve %.0f m above the field on arrival, clearance %.0f m above terrain en route", s.Reserve, s.Clearance),
+	)
 	if s.Cond.Mass > 0 {
 		a = append(a, fmt.Sprintf("mass %.0f kg", s.Cond.Mass))
 	}

@@ -145,6 +145,7 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 	if err != nil {
 		return err
 	}
+	setup.printWarnings(stderr)
 	src, err := o.terr.open()
 	if err != nil {
 		return err
