@@ -232,10 +232,13 @@ func runFinal(ctx context.Context, o *finalOptions, stdout, stderr io.Writer) er
 	}
 	run.startElev = elev
 	startAlt := math.NaN()
-	if o.pos.alt.Given || o.pos.agl.Given {
+	if o.pos.alt.Given || o.pos.agl.Given || o.pos.altInd.Given {
 		a, err := o.pos.startAlt(elev)
 		if err != nil {
 			return err
+		}
+		if o.pos.note != "" {
+			setup.Notes = append(setup.Notes, o.pos.note)
 		}
 		if a <= elev {
 			return input.Usagef("--alt", "%.0f m MSL is not above the terrain at the start (%.0f m)", a, elev)

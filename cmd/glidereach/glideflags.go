@@ -109,6 +109,9 @@ type glideSetup struct {
 	// Warnings are the settings below common practice (see warnReserve);
 	// each is printed on stderr and listed first in the assumptions.
 	Warnings []string
+	// Notes are further assumptions of the run (how the start altitude
+	// was obtained), listed after the standard ones.
+	Notes []string
 }
 
 // warn records a warning and prints it on stderr (w) at once.
@@ -274,7 +277,7 @@ func (s *glideSetup) assumptions() []string {
 		a = append(a, fmt.Sprintf("ISA %+.0f K", s.Atm.ISADev))
 	}
 	a = append(a, "no thrust, speed to fly for best range in the wind at each altitude, stall margin applied")
-	return a
+	return append(a, s.Notes...)
 }
 
 // terrainFlags choose the ground: a DEM (files or a directory) or a flat
@@ -333,35 +336,96 @@ type positionFlags struct {
 	from *input.LatLon
 	alt  *input.Quantity
 	agl  *input.Quantity
+	// The altimeter reading and the altimeter setting source it is
+	// corrected with (ICAO cold-temperature correction).
+	altInd      *input.Quantity
+	stationElev *input.Quantity
+	stationTemp string
+	// note says how the start altitude was obtained, for the assumptions.
+	note string
 }
 
 func newPositionFlags() *positionFlags {
-	return &positionFlags{from: &input.LatLon{}, alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0)}
+	return &positionFlags{from: &input.LatLon{}, alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0),
+		altInd: input.NewQuantity(input.Length, 0), stationElev: input.NewQuantity(input.Length, 0)}
 }
 
 func (p *positionFlags) register(fs *pflag.FlagSet) {
 	fs.Var(p.from, "from", "start position LAT,LON (decimal degrees)")
-	fs.Var(p.alt, "alt", "start altitude MSL (m, ft)")
+	fs.Var(p.alt, "alt", "start altitude: TRUE altitude above mean sea level (m, ft), not the altimeter reading; on a cold day give --alt-indicated instead")
 	fs.Var(p.agl, "agl", "start height above the ground there (m, ft), instead of --alt")
+	fs.Var(p.altInd, "alt-indicated", "start altitude as the altimeter reads it, set to the local QNH (m, ft); needs --station-elev and --station-temp, corrected for cold air by the ICAO rule (Doc 8168)")
+	fs.Var(p.stationElev, "station-elev", "with --alt-indicated: elevation of the altimeter setting source, normally the aerodrome whose QNH is set (m, ft)")
+	fs.StringVar(&p.stationTemp, "station-temp", "", "with --alt-indicated: air temperature reported at the altimeter setting source (e.g. -15C, 258K)")
 }
 
-// startAlt returns the start altitude MSL given the ground elevation there.
+// startAlt returns the start altitude MSL (true altitude) given the ground
+// elevation there, and sets p.note to how it was obtained.
 func (p *positionFlags) startAlt(groundElev float64) (float64, error) {
+	n := 0
+	for _, q := range []*input.Quantity{p.alt, p.agl, p.altInd} {
+		if q.Given {
+			n++
+		}
+	}
+	if n > 1 {
+		return 0, input.Usagef("--alt", "give one of --alt, --agl or --alt-indicated")
+	}
+	if !p.altInd.Given && (p.stationElev.Given || p.stationTemp != "") {
+		return 0, input.Usagef("--station-elev", "--station-elev and --station-temp go with --alt-indicated")
+	}
 	switch {
-	case p.alt.Given && p.agl.Given:
-		return 0, input.Usagef("--alt", "give --alt or --agl, not both")
 	case p.alt.Given:
 		if p.alt.Value > 19000 || p.alt.Value < -400 {
 			return 0, input.Usagef("--alt", "%v m is outside -400..19000 m", p.alt.Value)
 		}
+		p.note = "start altitude --alt taken as true altitude MSL (no altimeter temperature correction)"
 		return p.alt.Value, nil
 	case p.agl.Given:
 		if p.agl.Value <= 0 {
 			return 0, input.Usagef("--agl", "%v m is not above the ground", p.agl.Value)
 		}
+		p.note = "start altitude --agl taken as true height above the terrain at the start"
 		return groundElev + p.agl.Value, nil
+	case p.altInd.Given:
+		return p.indicated()
 	}
-	return 0, input.Usagef("--alt", "a start altitude is required (--alt MSL or --agl above the ground)")
+	return 0, input.Usagef("--alt", "a start altitude is required (--alt true MSL, --agl above the ground, or --alt-indicated)")
+}
+
+// indicated turns --alt-indicated into a true altitude with the ICAO
+// cold-temperature correction (reach.ColdCorrection).
+func (p *positionFlags) indicated() (float64, error) {
+	ind := p.altInd.Value
+	if ind > 19000 || ind < -400 {
+		return 0, input.Usagef("--alt-indicated", "%v m is outside -400..19000 m", ind)
+	}
+	if !p.stationElev.Given || p.stationTemp == "" {
+		return 0, input.Usagef("--alt-indicated", "needs --station-elev and --station-temp (the altimeter setting source's elevation and temperature) for the cold-temperature correction")
+	}
+	if !(p.stationElev.Value >= -500 && p.stationElev.Value <= 9000) {
+		return 0, input.Usagef("--station-elev", "%v m is outside -500..9000 m", p.stationElev.Value)
+	}
+	tk, err := input.ParseTemperature(p.stationTemp)
+	if err != nil {
+		return 0, input.FlagError("--station-temp", p.stationTemp, err)
+	}
+	if !(tk >= 183 && tk <= 333) {
+		return 0, input.Usagef("--station-temp", "%q is %.1f K, outside -90..+60 °C (give a unit: -15C or 258K)", p.stationTemp, tk)
+	}
+	corr, err := reach.ColdCorrection(ind, p.stationElev.Value, tk)
+	if err != nil {
+		return 0, &input.UsageError{Where: "--alt-indicated", Err: err}
+	}
+	isa := 15 - reach.ColdLapseRate*p.stationElev.Value
+	if corr > 0 {
+		p.note = fmt.Sprintf("start altitude: altimeter reads %.0f m (QNH of a source at %.0f m, %.1f °C, %.1f K below ISA there); true altitude %.0f m, %.0f m lower, by the ICAO cold-temperature correction (Doc 8168 PANS-OPS Vol I: H·(15−t0)/(273+t0−½·L0·(H+Hss)))",
+			ind, p.stationElev.Value, tk-273.15, isa-(tk-273.15), ind-corr, corr)
+	} else {
+		p.note = fmt.Sprintf("start altitude: altimeter reads %.0f m (QNH of a source at %.0f m, %.1f °C); not colder than ISA or not above the source, so no correction (warmer air would put the aircraft higher; not credited)",
+			ind, p.stationElev.Value, tk-273.15)
+	}
+	return ind - corr, nil
 }
 
 // windText describes a wind profile for people: each layer as

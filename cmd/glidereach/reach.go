@@ -203,6 +203,9 @@ func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positi
 	if err != nil {
 		return nil, err
 	}
+	if pos.note != "" {
+		setup.Notes = append(setup.Notes, pos.note)
+	}
 	if alt <= elev {
 		return nil, input.Usagef("--alt", "%.0f m MSL is not above the terrain at the start (%.0f m)", alt, elev)
 	}

@@ -1,0 +1,79 @@
+package main
+
+import (
+	"encoding/json"
+	"math"
+	"strings"
+	"testing"
+)
+
+func TestAltIndicatedColdCorrection(t *testing.T) {
+	// Altimeter 3000 m on the QNH of a source at 300 m reporting -20 °C:
+	// ICAO Doc 8168 (PANS-OPS) Vol I cold-temperature correction,
+	// H = 2700 m, t0 = -20 + 0.0065·300 = -18.05 °C,
+	// 2700·33.05/(273 − 18.05 − 0.5·0.0065·3000) = 363.9 m low, so the
+	// glide starts at 2636.1 m true (hand computation of the published
+	// formula).
+	for _, cmd := range []string{"final", "reach"} {
+		args := []string{cmd, "--from", "-0.5,-24.5", "--ground", "100m", "--alt-indicated", "3000m",
+			"--station-elev", "300m", "--station-temp", "-20C", "--format", "json"}
+		if cmd == "final" {
+			args = append(args, "--to", "-0.45,-24.45")
+		}
+		code, out, errs := cliWithStderr(t, args...)
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", cmd, code, errs)
+		}
+		var doc struct {
+			StartMSL float64 `json:"start_msl_m"`
+			Start    struct {
+				AltMSL float64 `json:"alt_msl_m"`
+			} `json:"start"`
+			Assumptions []string `json:"assumptions"`
+		}
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(doc.Start.AltMSL-2636.1) > 0.15 {
+			t.Errorf("%s: start %.2f m MSL, want 2636.1 m true", cmd, doc.Start.AltMSL)
+		}
+		all := strings.Join(doc.Assumptions, "|")
+		if !strings.Contains(all, "Doc 8168") || !strings.Contains(all, "altimeter reads 3000 m") || !strings.Contains(all, "364 m lower") {
+			t.Errorf("%s: assumptions do not say which correction was used: %q", cmd, doc.Assumptions)
+		}
+	}
+	// --alt says it is the true altitude, in the assumptions.
+	a, _ := finalAssumptionsOf(t, "--alt", "1500m")
+	if !strings.Contains(strings.Join(a, "|"), "--alt taken as true altitude MSL") {
+		t.Errorf("--alt assumptions: %q", a)
+	}
+	// Warmer than ISA: the reading is kept (the extra height is not credited).
+	code, out, _ := cliWithStderr(t, "final", "--from", "-0.5,-24.5", "--to", "-0.45,-24.45", "--ground", "100m",
+		"--alt-indicated", "2000m", "--station-elev", "0m", "--station-temp", "30C", "--format", "json")
+	var warm struct {
+		Start float64 `json:"start_msl_m"`
+	}
+	if json.Unmarshal([]byte(out), &warm); code != 0 || warm.Start != 2000 {
+		t.Errorf("warm day: exit %d, start %v, want 2000", code, warm.Start)
+	}
+}
+
+func TestAltIndicatedBadInput(t *testing.T) {
+	base := []string{"final", "--from", "-0.5,-24.5", "--to", "-0.45,-24.45"}
+	for _, c := range []struct {
+		args []string
+		flag string
+	}{
+		{[]string{"--alt-indicated", "2000m"}, "--alt-indicated"},
+		{[]string{"--alt-indicated", "2000m", "--station-elev", "0m"}, "--alt-indicated"},
+		{[]string{"--alt-indicated", "2000m", "--alt", "2000m", "--station-elev", "0m", "--station-temp", "-5C"}, "--alt"},
+		{[]string{"--alt-indicated", "2000m", "--station-elev", "0m", "--station-temp", "-200C"}, "--station-temp"},
+		{[]string{"--alt-indicated", "2000m", "--station-elev", "0m", "--station-temp", "cold"}, "--station-temp"},
+		{[]string{"--alt", "2000m", "--station-temp", "-5C"}, "--station-elev"},
+	} {
+		code, _, errs := cliWithStderr(t, append(base, c.args...)...)
+		if code != 2 || !strings.Contains(errs, c.flag) {
+			t.Errorf("%v: exit %d, %q (want 2 naming %s)", c.args, code, errs, c.flag)
+		}
+	}
+}
