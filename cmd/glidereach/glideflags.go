@@ -277,6 +277,9 @@ func (s *glideSetup) assumptions() []string {
 		a = append(a, fmt.Sprintf("ISA %+.0f K", s.Atm.ISADev))
 	}
 	a = append(a, "no thrust, speed to fly for best range in the wind at each altitude, stall margin applied")
+	if len(s.Winds) > 1 {
+		a = append(a, fmt.Sprintf("wind uncertainty: every figure holds in each of the %d winds of the set; a point counts as covered only when the SAME field is in reach in all of them", len(s.Winds)))
+	}
 	return append(a, s.Notes...)
 }
 

@@ -313,14 +313,23 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 	if lo >= run.ceiling {
 		return input.Usagef("--alt", "the planned altitude is below the lowest ground or field (%.0f m)", lo)
 	}
-	// With --wind-error every wind of the set is flown and each cell keeps
-	// the highest least altitude (conservative: from there some field is in
-	// reach whichever wind of the set blows).
+	// With --wind-error every wind of the set is flown and a cell counts
+	// only from the least altitude at which ONE field is in reach in every
+	// wind of the set — the rule coverage uses (see DEVELOPERS.md, "Wind
+	// uncertainty"): per field the highest least altitude over the winds,
+	// then the lowest over the fields (reach.Coverage with Also).
 	winds := run.setup.Winds
 	if len(winds) == 0 {
 		winds = []*wind.Profile{run.setup.Wind}
 	}
 	var res *reach.RequiredResult
+	if len(winds) > 1 {
+		var err error
+		if res, err = sameFieldRequired(ctx, run, l, lo, winds, progress); err != nil {
+			return err
+		}
+		winds = nil
+	}
 	for k, w := range winds {
 		tab, err := run.setup.tableFor(w, lo-60, run.ceiling+60)
 		if err != nil {
@@ -368,6 +377,34 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 		}
 	}
 	return nil
+}
+
+// sameFieldRequired is the least altitude per cell from which one field is
+// in reach with its reserve in every wind of winds (nil when no field lies
+// on the window): reach.Coverage's Least with the other winds as Also,
+// searched up to run.ceiling.
+func sameFieldRequired(ctx context.Context, run *routeRun, l *terrain.Local, lo float64, winds []*wind.Profile, progress func(float64)) (*reach.RequiredResult, error) {
+	models := make([]reach.LossModel, 0, len(winds))
+	for _, w := range winds {
+		tab, err := run.setup.tableFor(w, lo-60, run.ceiling+60)
+		if err != nil {
+			return nil, &input.UsageError{Where: "--aircraft", Err: err}
+		}
+		models = append(models, tab)
+	}
+	const margin = 300.0
+	opts := reach.CoverageOptions{Alt: run.ceiling - margin, Margin: margin, Clearance: run.setup.Clearance, Also: models[1:]}
+	if progress != nil {
+		opts.Progress = progress
+	}
+	cov, err := reach.Coverage(ctx, l, run.targets, models[0], opts)
+	switch {
+	case errors.Is(err, reach.ErrNoTargets):
+		return nil, nil
+	case err != nil:
+		return nil, err
+	}
+	return &reach.RequiredResult{Ground: l, Targets: run.targets, Required: cov.Least, Best: cov.Best}, nil
 }
 
 // worstRequired folds b into a (nil on the first wind): each cell keeps the
