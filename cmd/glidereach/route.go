@@ -358,6 +358,12 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 		res.Elevation = grid.Elevation // report the DEM's own ground, not the obstacle surface
 	}
 	run.res = res
+	if run.step > 2.5*l.Cell && run.step > 250 {
+		// The headline (covered fraction, gaps) is judged at the samples
+		// only: say so when they are much sparser than the solver grid.
+		run.notes = append(run.notes, fmt.Sprintf("WARNING: the route is judged every %.0f m on a %.0f m solver grid: a gap shorter than the step can fall between two samples and be missed (the covered fraction may then be too high); use --step %.0f m or less",
+			run.step, l.Cell, math.Max(250, math.Floor(2.5*l.Cell))))
+	}
 	prof, err := res.Route(pts, run.ceiling)
 	if err != nil {
 		return err

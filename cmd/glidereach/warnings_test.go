@@ -145,3 +145,28 @@ func TestReserveHelpTellsTheDefault(t *testing.T) {
 		t.Errorf("sailplane assumptions: %q", a)
 	}
 }
+
+func TestRouteCoarseStepWarns(t *testing.T) {
+	// A 5 km step on a ~100 m solver grid can step over a short gap: the
+	// route's notes say so; the default 250 m step does not warn.
+	route := filepath.Join("..", "..", "testdata", "routes", "demo-route.gpx")
+	fields := filepath.Join("..", "..", "testdata", "fields", "demo-fields.geojson")
+	for _, c := range []struct {
+		step string
+		warn bool
+	}{{"5km", true}, {"250m", false}} {
+		code, out, errs := cliWithStderr(t, "route", "--route", route, "--fields", fields, "--alt", "2000m", "--step", c.step, "--format", "json")
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, errs)
+		}
+		var doc struct {
+			Notes []string `json:"notes"`
+		}
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatal(err)
+		}
+		if got := hasWarning(doc.Notes, "can fall between two samples"); got != c.warn {
+			t.Errorf("--step %s: warning %v, want %v (%q)", c.step, got, c.warn, doc.Notes)
+		}
+	}
+}
