@@ -228,11 +228,19 @@ func (s *glideSetup) checkSettings(resFrom, clrFrom string) {
 	case s.Clearance < warnClearance:
 		add("clearance %.0f m (from %s) is below the %.0f m above terrain that common practice keeps en route (no source)", s.Clearance, clrFrom, warnClearance)
 	}
-	ac := s.Aircraft
+	if w := minSpeedWarning(s.Aircraft); w != "" {
+		add("%s", w)
+	}
+}
+
+// minSpeedWarning is the warning for a profile min_speed under
+// warnMinSpeed × the stall speed, or "".
+func minSpeedWarning(ac *reach.Aircraft) string {
 	if ac.MinIAS > 0 && ac.MinIAS < warnMinSpeed*ac.StallIAS {
-		add("the profile's min_speed %.0f kt is only %.2f × its stall speed %.0f kt, below the %.1f × stall that common practice keeps as a margin (no source); the speed to fly may be held that close to the stall",
+		return fmt.Sprintf("the profile's min_speed %.0f kt is only %.2f × its stall speed %.0f kt, below the %.1f × stall that common practice keeps as a margin (no source); the speed to fly may be held that close to the stall",
 			ac.MinIAS/input.Knot, ac.MinIAS/ac.StallIAS, ac.StallIAS/input.Knot, warnMinSpeed)
 	}
+	return ""
 }
 
 // table builds the speed-to-fly table for altitudes lo..hi (m MSL).

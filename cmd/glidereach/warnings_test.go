@@ -107,6 +107,9 @@ func TestMinSpeedNearStallWarns(t *testing.T) {
 	if !hasWarning(a, "min_speed 48 kt is only 1.01 × its stall speed") || !strings.Contains(errs, "WARNING: the profile's min_speed") {
 		t.Errorf("min_speed 1.01 × stall: %q %q", a, errs)
 	}
+	if _, _, errs := cliWithStderr(t, "polar", "--aircraft", writeProfile(t, "min_speed: 48.5kt\n")); !strings.Contains(errs, "WARNING: the profile's min_speed") {
+		t.Errorf("polar with min_speed 1.01 × stall: stderr %q", errs)
+	}
 	if a, _ := finalAssumptionsOf(t, "--aircraft", writeProfile(t, "min_speed: 63kt\n"), "--alt", "1500m"); hasWarning(a, "min_speed") {
 		t.Errorf("min_speed 1.31 × stall warns: %q", a)
 	}
