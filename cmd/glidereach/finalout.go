@@ -284,27 +284,27 @@ func latLonJSON(p geodesy.LatLon) map[string]any {
 // finalLegJSON is one leg in the JSON and GeoJSON outputs.
 func finalLegJSON(run *finalRun, i int, l reach.FinalLeg) map[string]any {
 	return map[string]any{
-		"leg":                i + 1,
-		"to":                 finalPointName(run, i+1),
-		"from_point":         latLonJSON(l.From),
-		"to_point":           latLonJSON(l.To),
-		"distance_m":         num(l.Distance),
-		"track_deg":          num(l.TrackDeg),
-		"mean_track_deg":     num(l.MeanTrackDeg),
-		"start_msl_m":        num(l.StartAlt),
-		"end_msl_m":          num(l.EndAlt),
-		"mean_msl_m":         num(l.MeanAlt),
-		"least_start_msl_m":  num(l.LeastStartAlt),
-		"tailwind_m_s":       num(l.Tailwind),
-		"crosswind_m_s":      num(l.Crosswind),
-		"ias_m_s":            num(l.IAS),
-		"tas_m_s":            num(l.TAS),
-		"speed_clamp":        l.Clamp.String(),
-		"ground_speed_m_s":   num(l.GroundSpeed),
-		"ground_glide_ratio": num(l.GroundRatio),
-		"height_lost_m":      num(l.HeightLost),
-		"time_s":             num(l.Time),
-		"no_headway":         l.NoHeadway,
+		"leg":                               i + 1,
+		"to":                                finalPointName(run, i+1),
+		"from_point":                        latLonJSON(l.From),
+		"to_point":                          latLonJSON(l.To),
+		"distance_m":                        num(l.Distance),
+		"track_deg":                         num(l.TrackDeg),
+		"mean_track_deg":                    num(l.MeanTrackDeg),
+		"start_msl_m":                       num(l.StartAlt),
+		"end_msl_m":                         num(l.EndAlt),
+		"mean_msl_m":                        num(l.MeanAlt),
+		"least_start_without_terrain_msl_m": num(l.LeastStartAlt),
+		"tailwind_m_s":                      num(l.Tailwind),
+		"crosswind_m_s":                     num(l.Crosswind),
+		"ias_m_s":                           num(l.IAS),
+		"tas_m_s":                           num(l.TAS),
+		"speed_clamp":                       l.Clamp.String(),
+		"ground_speed_m_s":                  num(l.GroundSpeed),
+		"ground_glide_ratio":                num(l.GroundRatio),
+		"height_lost_m":                     num(l.HeightLost),
+		"time_s":                            num(l.Time),
+		"no_headway":                        l.NoHeadway,
 	}
 }
 
@@ -423,7 +423,7 @@ func finalGeoJSON(run *finalRun) ([]byte, error) {
 	fc := geojson.NewFeatureCollection()
 	idx := finalIndices(r)
 	line := make(orb.LineString, 0, len(idx))
-	var dist, alt, least, terr, clear []any
+	var dist, alt, least, terr, clear, fromReq []any
 	for _, k := range idx {
 		p := r.Profile[k]
 		line = append(line, orb.Point{round6(p.Lon), round6(p.Lat)})
@@ -432,13 +432,15 @@ func finalGeoJSON(run *finalRun) ([]byte, error) {
 		least = append(least, num(p.Least))
 		terr = append(terr, num(p.Terrain))
 		clear = append(clear, num(p.Clearance))
+		fromReq = append(fromReq, num(p.Clear))
 	}
 	lf := geojson.NewFeature(line)
 	lf.Properties = finalSummary(run)
 	lf.Properties["kind"] = "glide_line"
 	lf.Properties["profile_distance_m"] = dist
 	lf.Properties["profile_alt_msl_m"] = alt
-	lf.Properties["profile_least_msl_m"] = least
+	lf.Properties["profile_least_without_terrain_msl_m"] = least
+	lf.Properties["profile_from_required_msl_m"] = fromReq
 	lf.Properties["profile_terrain_m"] = terr
 	lf.Properties["profile_clearance_m"] = clear
 	fc.Append(lf)
@@ -450,7 +452,7 @@ func finalGeoJSON(run *finalRun) ([]byte, error) {
 	for i := 1; i < len(r.Route)-1; i++ {
 		f := geojson.NewFeature(orb.Point{round6(r.Route[i].Lon), round6(r.Route[i].Lat)})
 		f.Properties = map[string]any{"kind": "turn_point", "name": finalPointName(run, i), "alt_msl_m": num(r.Legs[i].StartAlt),
-			"least_msl_m": num(r.Legs[i].LeastStartAlt), "distance_m": num(sumDist(r.Legs[:i]))}
+			"least_without_terrain_msl_m": num(r.Legs[i].LeastStartAlt), "distance_m": num(sumDist(r.Legs[:i]))}
 		fc.Append(f)
 	}
 	g := r.Route[len(r.Route)-1]
