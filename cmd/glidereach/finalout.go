@@ -138,6 +138,9 @@ func writeFinalText(w io.Writer, run *finalRun) {
 			fmtKt(l.IAS), fmtKt(l.TAS), fmtKt(l.GroundSpeed), fmtRatio(l.GroundRatio), fmtM(l.HeightLost), fmtDuration(l.Time), note)
 	}
 	tw.Flush()
+	if math.IsNaN(r.ArrivalAGL) && r.Status != reach.FinalNoHeadway {
+		fmt.Fprintf(w, "(legs of the line from %.0f m, which does not get there; see below)\n", r.StartAlt)
+	}
 	fmt.Fprintln(w)
 	if r.Status == reach.FinalNoHeadway {
 		fmt.Fprintln(w, "Required at the start: none (no headway)")
