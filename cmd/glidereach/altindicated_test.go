@@ -3,6 +3,8 @@ package main
 import (
 	"encoding/json"
 	"math"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 )
@@ -74,6 +76,49 @@ func TestAltIndicatedBadInput(t *testing.T) {
 		code, _, errs := cliWithStderr(t, append(base, c.args...)...)
 		if code != 2 || !strings.Contains(errs, c.flag) {
 			t.Errorf("%v: exit %d, %q (want 2 naming %s)", c.args, code, errs, c.flag)
+		}
+	}
+}
+
+func TestAltIndicatedRouteAndCoverage(t *testing.T) {
+	// The same reading on route and coverage: 1500 m on the QNH of a
+	// sea-level source at -25 °C is 1500·40/(273 − 25 − 0.5·0.0065·1500)
+	// = 246.8 m low (ICAO Doc 8168 formula, hand computation): both fly
+	// 1253.2 m true, and give the same answer as --alt 1253.2m.
+	dir := t.TempDir()
+	fields := writeTestFields(t, -0.5, -24.5, []float64{9000}, []float64{90})
+	route := filepath.Join(dir, "r.geojson")
+	if err := os.WriteFile(route, []byte(`{"type":"Feature","properties":{},"geometry":{"type":"LineString","coordinates":[[-24.5,-0.505],[-24.5,-0.495]]}}`), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	cold := []string{"--alt-indicated", "1500m", "--station-elev", "0m", "--station-temp", "-25C"}
+	for _, cmd := range [][]string{
+		{"route", "--route", route, "--fields", fields},
+		{"coverage", "--area", "-24.5005,-0.505,-24.4995,-0.495", "--fields", fields},
+	} {
+		code, out, errs := cliWithStderr(t, append(append(cmd, cold...), "--format", "json")...)
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", cmd[0], code, errs)
+		}
+		var doc struct {
+			Covered     float64  `json:"covered_fraction"`
+			Assumptions []string `json:"assumptions"`
+		}
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatal(err)
+		}
+		if !strings.Contains(strings.Join(doc.Assumptions, "|"), "true altitude 1253 m, 247 m lower") {
+			t.Errorf("%s: assumptions %q", cmd[0], doc.Assumptions)
+		}
+		want := coveredFraction(t, append(cmd, "--alt", "1253.2m")...)
+		if doc.Covered != want {
+			t.Errorf("%s: covered %.3f from the reading, %.3f from --alt 1253.2m", cmd[0], doc.Covered, want)
+		}
+		// The field 9 km away is in reach from 1500 m true (trainer, 9:1,
+		// 300 m reserve: 10.8 km) but not from 1253 m (8.6 km): taking the
+		// reading as true altitude would be optimistic.
+		if uncorrected := coveredFraction(t, append(cmd, "--alt", "1500m")...); !(uncorrected == 1 && doc.Covered == 0) {
+			t.Errorf("%s: covered %.2f at the reading taken as true, %.2f corrected; want 1 and 0", cmd[0], uncorrected, doc.Covered)
 		}
 	}
 }

@@ -232,7 +232,7 @@ func runFinal(ctx context.Context, o *finalOptions, stdout, stderr io.Writer) er
 	}
 	run.startElev = elev
 	startAlt := math.NaN()
-	if o.pos.alt.Given || o.pos.agl.Given || o.pos.altInd.Given {
+	if o.pos.given() {
 		a, err := o.pos.startAlt(elev)
 		if err != nil {
 			return err

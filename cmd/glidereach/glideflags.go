@@ -347,50 +347,42 @@ type positionFlags struct {
 	from *input.LatLon
 	alt  *input.Quantity
 	agl  *input.Quantity
-	// The altimeter reading and the altimeter setting source it is
-	// corrected with (ICAO cold-temperature correction).
-	altInd      *input.Quantity
-	stationElev *input.Quantity
-	stationTemp string
+	ind  *indicatedFlags
 	// note says how the start altitude was obtained, for the assumptions.
 	note string
 }
 
 func newPositionFlags() *positionFlags {
 	return &positionFlags{from: &input.LatLon{}, alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0),
-		altInd: input.NewQuantity(input.Length, 0), stationElev: input.NewQuantity(input.Length, 0)}
+		ind: newIndicatedFlags()}
 }
 
 func (p *positionFlags) register(fs *pflag.FlagSet) {
 	fs.Var(p.from, "from", "start position LAT,LON (decimal degrees)")
 	fs.Var(p.alt, "alt", "start altitude: TRUE altitude above mean sea level (m, ft), not the altimeter reading; on a cold day give --alt-indicated instead")
 	fs.Var(p.agl, "agl", "start height above the ground there (m, ft), instead of --alt")
-	fs.Var(p.altInd, "alt-indicated", "start altitude as the altimeter reads it, set to the local QNH (m, ft); needs --station-elev and --station-temp, corrected for cold air by the ICAO rule (Doc 8168)")
-	fs.Var(p.stationElev, "station-elev", "with --alt-indicated: elevation of the altimeter setting source, normally the aerodrome whose QNH is set (m, ft)")
-	fs.StringVar(&p.stationTemp, "station-temp", "", "with --alt-indicated: air temperature reported at the altimeter setting source (e.g. -15C, 258K)")
+	p.ind.register(fs, "start altitude")
 }
 
 // startAlt returns the start altitude MSL (true altitude) given the ground
 // elevation there, and sets p.note to how it was obtained.
 func (p *positionFlags) startAlt(groundElev float64) (float64, error) {
-	n := 0
-	for _, q := range []*input.Quantity{p.alt, p.agl, p.altInd} {
-		if q.Given {
-			n++
-		}
-	}
-	if n > 1 {
+	if p.alt.Given && p.agl.Given || p.agl.Given && p.ind.altInd.Given {
 		return 0, input.Usagef("--alt", "give one of --alt, --agl or --alt-indicated")
 	}
-	if !p.altInd.Given && (p.stationElev.Given || p.stationTemp != "") {
-		return 0, input.Usagef("--station-elev", "--station-elev and --station-temp go with --alt-indicated")
+	note, err := p.ind.apply(p.alt)
+	if err != nil {
+		return 0, err
 	}
 	switch {
 	case p.alt.Given:
 		if p.alt.Value > 19000 || p.alt.Value < -400 {
 			return 0, input.Usagef("--alt", "%v m is outside -400..19000 m", p.alt.Value)
 		}
-		p.note = "start altitude --alt taken as true altitude MSL (no altimeter temperature correction)"
+		p.note = note
+		if p.note == "" {
+			p.note = "start altitude --alt taken as true altitude MSL (no altimeter temperature correction)"
+		}
 		return p.alt.Value, nil
 	case p.agl.Given:
 		if p.agl.Value <= 0 {
@@ -398,45 +390,93 @@ func (p *positionFlags) startAlt(groundElev float64) (float64, error) {
 		}
 		p.note = "start altitude --agl taken as true height above the terrain at the start"
 		return groundElev + p.agl.Value, nil
-	case p.altInd.Given:
-		return p.indicated()
 	}
 	return 0, input.Usagef("--alt", "a start altitude is required (--alt true MSL, --agl above the ground, or --alt-indicated)")
 }
 
-// indicated turns --alt-indicated into a true altitude with the ICAO
-// cold-temperature correction (reach.ColdCorrection).
-func (p *positionFlags) indicated() (float64, error) {
-	ind := p.altInd.Value
+// given reports whether a start altitude was given in any form.
+func (p *positionFlags) given() bool { return p.alt.Given || p.agl.Given || p.ind.altInd.Given }
+
+// indicatedFlags take an altitude as the altimeter reads it, with the
+// altimeter setting source it is corrected with (ICAO cold-temperature
+// correction): --alt-indicated, --station-elev, --station-temp.
+type indicatedFlags struct {
+	altInd      *input.Quantity
+	stationElev *input.Quantity
+	stationTemp string
+	done        bool   // apply has run (it sets the altitude once)
+	note        string // what apply returned
+}
+
+func newIndicatedFlags() *indicatedFlags {
+	return &indicatedFlags{altInd: input.NewQuantity(input.Length, 0), stationElev: input.NewQuantity(input.Length, 0)}
+}
+
+// register adds the three flags; what names the altitude ("start
+// altitude", "planned altitude").
+func (f *indicatedFlags) register(fs *pflag.FlagSet, what string) {
+	fs.Var(f.altInd, "alt-indicated", what+" as the altimeter reads it, set to the local QNH (m, ft); needs --station-elev and --station-temp, corrected for cold air by the ICAO rule (Doc 8168), instead of --alt")
+	fs.Var(f.stationElev, "station-elev", "with --alt-indicated: elevation of the altimeter setting source, normally the aerodrome whose QNH is set (m, ft)")
+	fs.StringVar(&f.stationTemp, "station-temp", "", "with --alt-indicated: air temperature reported at the altimeter setting source (e.g. -15C, 258K)")
+	// No "(default 0m)": an unset reading is not 0 m.
+	fs.Lookup("alt-indicated").DefValue = ""
+	fs.Lookup("station-elev").DefValue = ""
+}
+
+// apply turns --alt-indicated into the true altitude in alt (marking it
+// given) with the ICAO cold-temperature correction (reach.ColdCorrection)
+// and returns the assumption that says so; "" and alt untouched when no
+// reading was given.
+func (f *indicatedFlags) apply(alt *input.Quantity) (string, error) {
+	if f.done {
+		return f.note, nil
+	}
+	note, err := f.convert(alt)
+	if err == nil {
+		f.done, f.note = true, note
+	}
+	return note, err
+}
+
+func (f *indicatedFlags) convert(alt *input.Quantity) (string, error) {
+	if !f.altInd.Given {
+		if f.stationElev.Given || f.stationTemp != "" {
+			return "", input.Usagef("--station-elev", "--station-elev and --station-temp go with --alt-indicated")
+		}
+		return "", nil
+	}
+	if alt.Given {
+		return "", input.Usagef("--alt", "give --alt (true altitude) or --alt-indicated (the altimeter reading), not both")
+	}
+	ind := f.altInd.Value
 	if ind > 19000 || ind < -400 {
-		return 0, input.Usagef("--alt-indicated", "%v m is outside -400..19000 m", ind)
+		return "", input.Usagef("--alt-indicated", "%v m is outside -400..19000 m", ind)
 	}
-	if !p.stationElev.Given || p.stationTemp == "" {
-		return 0, input.Usagef("--alt-indicated", "needs --station-elev and --station-temp (the altimeter setting source's elevation and temperature) for the cold-temperature correction")
+	if !f.stationElev.Given || f.stationTemp == "" {
+		return "", input.Usagef("--alt-indicated", "needs --station-elev and --station-temp (the altimeter setting source's elevation and temperature) for the cold-temperature correction")
 	}
-	if !(p.stationElev.Value >= -500 && p.stationElev.Value <= 9000) {
-		return 0, input.Usagef("--station-elev", "%v m is outside -500..9000 m", p.stationElev.Value)
+	if !(f.stationElev.Value >= -500 && f.stationElev.Value <= 9000) {
+		return "", input.Usagef("--station-elev", "%v m is outside -500..9000 m", f.stationElev.Value)
 	}
-	tk, err := input.ParseTemperature(p.stationTemp)
+	tk, err := input.ParseTemperature(f.stationTemp)
 	if err != nil {
-		return 0, input.FlagError("--station-temp", p.stationTemp, err)
+		return "", input.FlagError("--station-temp", f.stationTemp, err)
 	}
 	if !(tk >= 183 && tk <= 333) {
-		return 0, input.Usagef("--station-temp", "%q is %.1f K, outside -90..+60 °C (give a unit: -15C or 258K)", p.stationTemp, tk)
+		return "", input.Usagef("--station-temp", "%q is %.1f K, outside -90..+60 °C (give a unit: -15C or 258K)", f.stationTemp, tk)
 	}
-	corr, err := reach.ColdCorrection(ind, p.stationElev.Value, tk)
+	corr, err := reach.ColdCorrection(ind, f.stationElev.Value, tk)
 	if err != nil {
-		return 0, &input.UsageError{Where: "--alt-indicated", Err: err}
+		return "", &input.UsageError{Where: "--alt-indicated", Err: err}
 	}
-	isa := 15 - reach.ColdLapseRate*p.stationElev.Value
+	alt.Value, alt.Given = ind-corr, true
+	isa := 15 - reach.ColdLapseRate*f.stationElev.Value
 	if corr > 0 {
-		p.note = fmt.Sprintf("start altitude: altimeter reads %.0f m (QNH of a source at %.0f m, %.1f °C, %.1f K below ISA there); true altitude %.0f m, %.0f m lower, by the ICAO cold-temperature correction (Doc 8168 PANS-OPS Vol I: H·(15−t0)/(273+t0−½·L0·(H+Hss)))",
-			ind, p.stationElev.Value, tk-273.15, isa-(tk-273.15), ind-corr, corr)
-	} else {
-		p.note = fmt.Sprintf("start altitude: altimeter reads %.0f m (QNH of a source at %.0f m, %.1f °C); not colder than ISA or not above the source, so no correction (warmer air would put the aircraft higher; not credited)",
-			ind, p.stationElev.Value, tk-273.15)
+		return fmt.Sprintf("altitude: altimeter reads %.0f m (QNH of a source at %.0f m, %.1f °C, %.1f K below ISA there); true altitude %.0f m, %.0f m lower, by the ICAO cold-temperature correction (Doc 8168 PANS-OPS Vol I: H·(15−t0)/(273+t0−½·L0·(H+Hss)))",
+			ind, f.stationElev.Value, tk-273.15, isa-(tk-273.15), ind-corr, corr), nil
 	}
-	return ind - corr, nil
+	return fmt.Sprintf("altitude: altimeter reads %.0f m (QNH of a source at %.0f m, %.1f °C); not colder than ISA or not above the source, so no correction (warmer air would put the aircraft higher; not credited)",
+		ind, f.stationElev.Value, tk-273.15), nil
 }
 
 // windText describes a wind profile for people: each layer as

@@ -44,6 +44,7 @@ type routeOptions struct {
 	fields    string
 	alt       *input.Quantity
 	agl       *input.Quantity
+	ind       *indicatedFlags
 	step      *input.Quantity
 	format    string
 	out       string
@@ -53,7 +54,7 @@ type routeOptions struct {
 
 func newRouteCmd() *cobra.Command {
 	o := &routeOptions{glide: newGlideFlags(), terr: newTerrainFlags(),
-		alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0), step: input.NewQuantity(input.Length, 250)}
+		alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), step: input.NewQuantity(input.Length, 250)}
 	cmd := &cobra.Command{
 		Use:   "route --route FILE --fields FILE [--alt ALT|--agl HEIGHT]",
 		Short: "Forced-landing options along a planned route: gaps and the altitude that closes them",
@@ -86,7 +87,8 @@ reserve; a margin of +200 m arrives with about reserve + 200 m.
 	fs.StringVar(&o.route, "route", "", "planned route: GPX 1.1 (track or route) or GeoJSON LineString file")
 	fs.StringVar(&o.routeName, "route-name", "", "which route or track of the file, when it holds several")
 	fs.StringVar(&o.fields, "fields", "", "landing fields: GeoJSON points or polygons with a name property")
-	fs.Var(o.alt, "alt", "planned altitude MSL along the whole route (m, ft)")
+	fs.Var(o.alt, "alt", "planned altitude along the whole route: TRUE altitude MSL (m, ft), not the altimeter reading (see --alt-indicated)")
+	o.ind.register(fs, "planned altitude")
 	fs.Var(o.agl, "agl", "planned height above the terrain under each point (m, ft), instead of --alt")
 	fs.Var(o.step, "step", "sampling step along the route (m, ft, km, nm)")
 	fs.StringVar(&o.format, "format", "text", "output format: text, json, geojson or csv (stdout, or --out)")
@@ -146,6 +148,19 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 		return err
 	}
 	setup.printWarnings(stderr)
+	if o.agl.Given && o.ind.altInd.Given {
+		return input.Usagef("--agl", "give --agl or --alt-indicated, not both")
+	}
+	note, err := o.ind.apply(o.alt)
+	if err != nil {
+		return err
+	}
+	if note == "" && o.alt.Given {
+		note = "altitude --alt taken as true altitude MSL (no altimeter temperature correction)"
+	}
+	if note != "" {
+		setup.Notes = append(setup.Notes, note)
+	}
 	src, err := o.terr.open()
 	if err != nil {
 		return err
@@ -233,6 +248,9 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 			return input.Usagef("--alt", "%v m is outside -400..19000 m", v)
 		}
 		run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) along the whole route (--alt)", o.alt.Value, o.alt.Value/0.3048)
+		if o.ind.altInd.Given {
+			run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) true along the whole route (--alt-indicated %.0f m, corrected for the temperature)", o.alt.Value, o.alt.Value/0.3048, o.ind.altInd.Value)
+		}
 	case o.agl.Given:
 		if v := o.agl.Value; !(v > 0 && v <= 10000) {
 			return input.Usagef("--agl", "%v m is outside 0..10000 m above the terrain", v)
