@@ -448,7 +448,7 @@ func demoCoverage(ctx context.Context, d *demoRun) error {
 	if err != nil {
 		return err
 	}
-	o := &coverageOptions{alt: input.NewQuantity(input.Length, demoCoverageAlt), agl: input.NewQuantity(input.Length, 0), pick: 2, area: "demo-area.geojson"}
+	o := &coverageOptions{alt: input.NewQuantity(input.Length, demoCoverageAlt), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), pick: 2, area: "demo-area.geojson"}
 	o.alt.Given = true
 	run := &coverageRun{setup: setup, ground: ground{src: sc.src}, zone: reg, zoneText: "area demo-area.geojson (invented)"}
 	if err := computeCoverage(ctx, run, o, sc.fields, demoCandidates, func(float64) {}); err != nil {

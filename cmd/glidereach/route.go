@@ -545,7 +545,7 @@ func demoRoute(ctx context.Context, d *demoRun) error {
 	if err != nil {
 		return err
 	}
-	o := &routeOptions{alt: input.NewQuantity(input.Length, demoRouteAlt), agl: input.NewQuantity(input.Length, 0), step: input.NewQuantity(input.Length, 250)}
+	o := &routeOptions{alt: input.NewQuantity(input.Length, demoRouteAlt), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), step: input.NewQuantity(input.Length, 250)}
 	o.alt.Given = true
 	run := &routeRun{setup: setup, ground: ground{src: sc.src}, file: "demo-route.gpx", name: rt.Name, step: o.step.Value}
 	if err := computeRoute(ctx, run, rt, sc.fields, o, nil); err != nil {
