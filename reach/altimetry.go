@@ -47,3 +47,31 @@ func ColdCorrection(indicated, stationElev, stationTemp float64) (float64, error
 	}
 	return h * (15 - t0) / (273 + t0 - 0.5*ColdLapseRate*(h+stationElev)), nil
 }
+
+// IndicatedFor is the inverse of the cold-temperature correction: the
+// altimeter reading (m, on the QNH of a source at stationElev m MSL
+// reporting stationTemp K) at which the aircraft is at true altitude
+// trueAlt (m MSL), so that
+//
+//	indicated − ColdCorrection(indicated, stationElev, stationTemp) = trueAlt.
+//
+// The correction grows with the indicated height more slowly than one for
+// one (by about (15 − t0)/(273 + t0) per metre), so the fixed-point
+// iteration indicated ← trueAlt + ColdCorrection(indicated, …) converges;
+// it stops at 1 mm. In air warmer than ISA it returns trueAlt (the
+// correction is 0). Errors are those of ColdCorrection.
+func IndicatedFor(trueAlt, stationElev, stationTemp float64) (float64, error) {
+	ind := trueAlt
+	for i := 0; i < 100; i++ {
+		c, err := ColdCorrection(ind, stationElev, stationTemp)
+		if err != nil {
+			return 0, err
+		}
+		next := trueAlt + c
+		if math.Abs(next-ind) < 1e-3 {
+			return next, nil
+		}
+		ind = next
+	}
+	return ind, nil
+}

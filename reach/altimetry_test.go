@@ -59,3 +59,19 @@ func TestColdCorrectionRules(t *testing.T) {
 		t.Error("20 K accepted as a station temperature")
 	}
 }
+
+func TestIndicatedForInvertsTheCorrection(t *testing.T) {
+	// Round trip of the ICAO Doc 8168 formula: the reading IndicatedFor
+	// returns, corrected, gives back the true altitude within 1 cm, and is
+	// above it in cold air (the altimeter over-reads).
+	for _, c := range [][3]float64{{2445, 300, 273.15 - 20}, {800, 0, 273.15 - 45}, {3000, 1200, 273.15 + 5}, {1500, 0, 273.15 + 30}} {
+		ind, err := IndicatedFor(c[0], c[1], c[2])
+		if err != nil {
+			t.Fatal(err)
+		}
+		corr, _ := ColdCorrection(ind, c[1], c[2])
+		if math.Abs(ind-corr-c[0]) > 0.01 || ind < c[0] {
+			t.Errorf("IndicatedFor%v = %.2f m, corrected back %.2f m", c, ind, ind-corr)
+		}
+	}
+}

@@ -7,6 +7,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"glidereach/reach"
 )
 
 func TestAltIndicatedColdCorrection(t *testing.T) {
@@ -120,5 +122,27 @@ func TestAltIndicatedRouteAndCoverage(t *testing.T) {
 		if uncorrected := coveredFraction(t, append(cmd, "--alt", "1500m")...); !(uncorrected == 1 && doc.Covered == 0) {
 			t.Errorf("%s: covered %.2f at the reading taken as true, %.2f corrected; want 1 and 0", cmd[0], uncorrected, doc.Covered)
 		}
+	}
+}
+
+func TestFinalRequiredAsAltimeterReading(t *testing.T) {
+	// With --alt-indicated the required altitude is also given as the
+	// reading on the same source: corrected by the ICAO Doc 8168 formula it
+	// gives back required_msl_m (within 0.1 m, the output's rounding), and
+	// it is above it on a cold day.
+	doc := finalDoc(t, "--from", "0,-25.04", "--alt-indicated", "2600m", "--station-elev", "300m", "--station-temp", "-20C",
+		"--to", "-0.03,-24.96", "--terrain", "../../testdata/geotiff/geo_int16_strip_none.tif")
+	req, ind := numField(t, doc, "required_msl_m"), numField(t, doc, "required_indicated_m")
+	corr, err := reach.ColdCorrection(ind, 300, 253.15)
+	if err != nil || math.Abs(ind-corr-req) > 0.1 || !(ind > req+100) {
+		t.Errorf("required %.1f m true, reading %.1f m, corrected back %.1f m", req, ind, ind-corr)
+	}
+	// 2600 m on the altimeter is about 2292 m true there: blocked, though
+	// the reading alone would look clear of the 2445 m needed.
+	if doc["status"] != "blocked" {
+		t.Errorf("status %v, want blocked", doc["status"])
+	}
+	if plain := finalDoc(t, "--from", "0,-25.04", "--alt", "1500m", "--to", "-0.03,-24.96"); plain["required_indicated_m"] != nil {
+		t.Error("required_indicated_m without --alt-indicated")
 	}
 }

@@ -127,7 +127,10 @@ type finalRun struct {
 	goalFrom  string // where the goal elevation came from
 	worstWind string // with --wind-error: the wind the figures are for
 	goalNote  string // a warning about the goal elevation, if any
-	res       *reach.FinalGlideResult
+	// ind, when the start was given as an altimeter reading, turns true
+	// altitudes back into readings on the same source.
+	ind *indicatedFlags
+	res *reach.FinalGlideResult
 }
 
 func runFinal(ctx context.Context, o *finalOptions, stdout, stderr io.Writer) error {
@@ -244,6 +247,9 @@ func runFinal(ctx context.Context, o *finalOptions, stdout, stderr io.Writer) er
 			return input.Usagef("--alt", "%.0f m MSL is not above the terrain at the start (%.0f m)", a, elev)
 		}
 		startAlt, run.altGiven = a, true
+		if o.pos.ind.altInd.Given {
+			run.ind = o.pos.ind
+		}
 		setup.checkStartClearance(stderr, a, elev)
 	}
 	if !goal.HasElev {

@@ -154,6 +154,10 @@ func writeFinalText(w io.Writer, run *finalRun) {
 			fmt.Fprintf(w, "Required at the start: %.0f m MSL (%.0f ft): goal %.0f m + reserve %.0f m + %.0f m lost on the way\n",
 				r.Required, r.Required/input.Foot, r.GoalElev, r.Reserve, r.Required-r.GoalElev-r.Reserve)
 		}
+		if v, ok := run.ind.reading(r.Required); ok {
+			fmt.Fprintf(w, "  on the altimeter (QNH of the %.0f m source at %.1f °C) that is a reading of at least %.0f m\n",
+				run.ind.stationElev.Value, run.ind.tempK-273.15, math.Ceil(v))
+		}
 		if math.IsNaN(r.ArrivalAGL) {
 			fmt.Fprintf(w, "Arrival: NONE from %.0f m: the glide line meets the terrain before the goal; start margin %s m\n",
 				r.StartAlt, fmtSigned(math.Floor(r.Margin)))
@@ -361,6 +365,9 @@ func finalSummary(run *finalRun) map[string]any {
 	}
 	if run.worstWind != "" {
 		out["worst_wind"] = run.worstWind
+	}
+	if v, ok := run.ind.reading(r.Required); ok {
+		out["required_indicated_m"] = num(v)
 	}
 	if run.goalNote != "" {
 		out["goal_note"] = run.goalNote

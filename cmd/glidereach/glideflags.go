@@ -404,8 +404,20 @@ type indicatedFlags struct {
 	altInd      *input.Quantity
 	stationElev *input.Quantity
 	stationTemp string
-	done        bool   // apply has run (it sets the altitude once)
-	note        string // what apply returned
+	done        bool    // apply has run (it sets the altitude once)
+	note        string  // what apply returned
+	tempK       float64 // the parsed --station-temp, once applied
+}
+
+// reading returns the altimeter reading at which the aircraft is at true
+// altitude alt (m MSL), for the source of --alt-indicated; ok is false when
+// no reading was given.
+func (f *indicatedFlags) reading(alt float64) (float64, bool) {
+	if f == nil || !f.done || !f.altInd.Given || math.IsNaN(alt) || math.IsInf(alt, 0) {
+		return 0, false
+	}
+	v, err := reach.IndicatedFor(alt, f.stationElev.Value, f.tempK)
+	return v, err == nil
 }
 
 func newIndicatedFlags() *indicatedFlags {
@@ -470,6 +482,7 @@ func (f *indicatedFlags) convert(alt *input.Quantity) (string, error) {
 		return "", &input.UsageError{Where: "--alt-indicated", Err: err}
 	}
 	alt.Value, alt.Given = ind-corr, true
+	f.tempK = tk
 	isa := 15 - reach.ColdLapseRate*f.stationElev.Value
 	if corr > 0 {
 		return fmt.Sprintf("altitude: altimeter reads %.0f m (QNH of a source at %.0f m, %.1f °C, %.1f K below ISA there); true altitude %.0f m, %.0f m lower, by the ICAO cold-temperature correction (Doc 8168 PANS-OPS Vol I: H·(15−t0)/(273+t0−½·L0·(H+Hss)))",
