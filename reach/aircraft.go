@@ -34,8 +34,13 @@ type Aircraft struct {
 
 	// Reserve and Clearance are the profile's defaults for the commands (m):
 	// the height above a field to arrive with, and the least height above
-	// terrain en route. 0 means the command's own default.
+	// terrain en route. 0 means the command's own default unless
+	// HasReserve / HasClearance says the profile set 0 on purpose.
 	Reserve, Clearance float64
+	// HasReserve and HasClearance say that the profile gave Reserve and
+	// Clearance, so a 0 is a setting (a "touch the ground" planning ring)
+	// and not "unset".
+	HasReserve, HasClearance bool
 }
 
 // Conditions are the flight conditions a performance figure is computed for.

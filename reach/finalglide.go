@@ -163,6 +163,10 @@ type GlidePoint struct {
 	// glide from the start altitude: Terrain + min(Clearance option,
 	// Alt − GoalElev) (see floorAt); NaN without terrain.
 	Floor float64
+	// Clear is the altitude (m MSL) here on the glide from Required, the
+	// least start altitude that keeps the floor and arrives with the
+	// reserve; equal to Alt when StartAlt = Required. NaN on no headway.
+	Clear float64
 }
 
 // FinalTerrain is the terrain check along the line (nil when no terrain was
@@ -198,9 +202,10 @@ type FinalTerrain struct {
 type FinalMacCready struct {
 	Setting float64 // m/s, the setting the glide was computed with
 	// Affordable is the highest setting (m/s) with which the glide from
-	// the start altitude still arrives with the reserve, found by bisection
-	// so that its arrival is within 1 m above the reserve; NaN when even
-	// setting 0 arrives below it. AtLimit says the search bound was reached
+	// the start altitude still arrives with the reserve and, with a terrain
+	// check, keeps the floor above the terrain everywhere (a setting whose
+	// line cuts a ridge is not affordable), found by bisection so that its
+	// tighter constraint is met within 1 m; NaN when even setting 0 fails. AtLimit says the search bound was reached
 	// (the speed to fly is then mostly held at the maximum speed).
 	Affordable float64
 	AtLimit    bool
@@ -218,15 +223,31 @@ type FinalGlideResult struct {
 	StartAlt float64          // m MSL the glide starts from
 	GoalElev float64          // m MSL
 	Reserve  float64          // m
-	// Required is the least start altitude (m MSL) that arrives at
-	// GoalElev + Reserve, integrated backward from the goal through the
-	// wind and density layers; +Inf on no headway.
+	// Required is the headline: the least start altitude (m MSL) that
+	// arrives at GoalElev + Reserve and, with a terrain check, keeps the
+	// demanded floor above the terrain everywhere (Terrain.LeastClearAlt).
+	// It is the higher of RequiredStraight and Terrain.LeastClearAlt;
+	// +Inf on no headway.
 	Required float64
+	// RequiredStraight is the least start altitude (m MSL) that arrives at
+	// GoalElev + Reserve along the line with the terrain NOT considered,
+	// integrated backward from the goal through the wind and density
+	// layers; +Inf on no headway. It equals Required when the terrain does
+	// not set the altitude.
+	RequiredStraight float64
 	// Arrival is the altitude at the goal (m MSL) on the glide from
 	// StartAlt; ArrivalAGL = Arrival − GoalElev; AboveReserve =
-	// ArrivalAGL − Reserve. NaN on no headway.
+	// ArrivalAGL − Reserve. They are NaN when the glide from StartAlt does
+	// not get to the goal: no headway, blocked by the terrain (Status
+	// FinalBlocked) or passing below the terrain surface.
 	Arrival, ArrivalAGL, AboveReserve float64
-	// Margin is StartAlt − Required (m): the height to spare at the start.
+	// LineArrival is the altitude (m MSL) at which the glide line from
+	// StartAlt reaches the goal when the terrain is ignored: Arrival when
+	// the line gets there, otherwise what it would be without the terrain
+	// in the way (never a headline figure). NaN on no headway.
+	LineArrival float64
+	// Margin is StartAlt − Required (m): the height to spare at the start
+	// (negative: the height missing).
 	Margin float64
 	// Distance (m) along the route and Time (s) of the glide.
 	Distance, Time float64
@@ -391,6 +412,7 @@ func FinalGlide(ctx context.Context, route []geodesy.LatLon, startAlt float64, p
 			break
 		}
 		res.Required = least[0]
+		res.RequiredStraight = least[0]
 		if res.Required <= g.hi-50 {
 			break
 		}
@@ -402,7 +424,8 @@ func FinalGlide(ctx context.Context, route []geodesy.LatLon, startAlt float64, p
 	if res.Status == FinalNoHeadway {
 		return g.noHeadway(res, startAlt), nil
 	}
-	if math.IsNaN(startAlt) {
+	startGiven := !math.IsNaN(startAlt)
+	if !startGiven {
 		startAlt = res.Required
 	}
 	res.StartAlt = startAlt
@@ -419,6 +442,7 @@ func FinalGlide(ctx context.Context, route []geodesy.LatLon, startAlt float64, p
 		return g.noHeadway(res, startAlt), nil
 	}
 	res.Arrival = alt[n-1]
+	res.LineArrival = alt[n-1]
 	res.ArrivalAGL = res.Arrival - opts.GoalElev
 	res.AboveReserve = res.ArrivalAGL - opts.Reserve
 	times := g.times(g.tab, alt)
@@ -454,6 +478,58 @@ func FinalGlide(ctx context.Context, route []geodesy.LatLon, startAlt float64, p
 		res.Status = FinalTerrainUnknown
 	default:
 		res.Status = FinalOK
+	}
+	return g.headline(ctx, res, route, startGiven)
+}
+
+// headline makes every headline figure of res satisfy the terrain check
+// too: Required becomes the least start altitude that also clears the
+// terrain, the margin is taken against it, the arrival is withdrawn when
+// the glide from the start does not get to the goal, and the Clear
+// profile is the glide from Required. Without a start altitude the glide
+// is recomputed from the clearing one.
+func (g *finalGlide) headline(ctx context.Context, res *FinalGlideResult, route []geodesy.LatLon, startGiven bool) (*FinalGlideResult, error) {
+	tr := res.Terrain
+	for k := range res.Profile {
+		res.Profile[k].Clear = res.Profile[k].Alt
+	}
+	if tr == nil || !(tr.LeastClearAlt > res.RequiredStraight) {
+		return res, nil
+	}
+	if !startGiven && tr.LeastClearAlt > res.StartAlt+0.01 {
+		// Start at the clearing altitude; keep this run's straight figure.
+		r2, err := FinalGlide(ctx, route, tr.LeastClearAlt, g.perf, g.opts)
+		if err != nil {
+			return nil, err
+		}
+		r2.Required = math.Max(r2.Required, tr.LeastClearAlt)
+		r2.Margin = r2.StartAlt - r2.Required
+		return r2, nil
+	}
+	res.Required = tr.LeastClearAlt
+	res.Margin = res.StartAlt - res.Required
+	through := false // the line from the start passes below the surface
+	for _, p := range res.Profile {
+		if p.Clearance < 0 {
+			through = true
+			break
+		}
+	}
+	if res.Status == FinalBlocked || through {
+		nan := math.NaN()
+		res.Arrival, res.ArrivalAGL, res.AboveReserve = nan, nan, nan
+	}
+	alt := make([]float64, len(res.Profile))
+	if err := g.ensureTop(res.Required); err != nil {
+		return nil, err
+	}
+	if g.forward(g.tab, res.Required, alt) >= 0 {
+		for k := range alt {
+			alt[k] = math.NaN()
+		}
+	}
+	for k := range res.Profile {
+		res.Profile[k].Clear = alt[k]
 	}
 	return res, nil
 }
@@ -687,11 +763,11 @@ func (g *finalGlide) noHeadway(res *FinalGlideResult, startAlt float64) *FinalGl
 	nan := math.NaN()
 	res.StartAlt = startAlt
 	res.Arrival, res.ArrivalAGL, res.AboveReserve, res.Margin, res.Time = nan, nan, nan, nan, nan
-	res.Required = math.Inf(1)
+	res.Required, res.RequiredStraight, res.LineArrival = math.Inf(1), math.Inf(1), nan
 	res.MacCready = FinalMacCready{Setting: g.perf.Cond.MacCready, Affordable: nan, ArrivalAGL: nan, Time0: nan, TimeAffordable: nan, Saved: nan}
 	for k := range res.Profile {
 		p := &res.Profile[k]
-		p.Alt, p.Least, p.Clearance = nan, nan, nan
+		p.Alt, p.Least, p.Clearance, p.Clear = nan, nan, nan, nan
 	}
 	for i := range res.Legs {
 		l := &res.Legs[i]
@@ -893,6 +969,13 @@ func (g *finalGlide) macCready(ctx context.Context, res *FinalGlideResult, mcMax
 		tables[m] = t
 		return t, nil
 	}
+	// With a terrain check a setting is affordable only when its glide
+	// also keeps the floor: the terrain plus min(clearance, least − goal)
+	// with the least altitude of that setting.
+	var alt, least []float64
+	if res.Terrain != nil {
+		alt, least = make([]float64, len(res.Profile)), make([]float64, len(res.Profile))
+	}
 	surplus := func(m float64) (float64, error) {
 		t, err := tableAt(m)
 		if err != nil {
@@ -902,7 +985,26 @@ func (g *finalGlide) macCready(ctx context.Context, res *FinalGlideResult, mcMax
 		if math.IsNaN(a) {
 			return math.Inf(-1), nil
 		}
-		return a - g.goalTop, nil
+		f := a - g.goalTop
+		if res.Terrain == nil {
+			return f, nil
+		}
+		if g.forward(t, h0, alt) >= 0 || g.backward(t, least) >= 0 {
+			return math.Inf(-1), nil
+		}
+		for k, p := range res.Profile {
+			if math.IsNaN(p.Terrain) {
+				continue
+			}
+			fl := p.Terrain + math.Min(g.opts.Clearance, least[k]-g.opts.GoalElev)
+			if d := alt[k] - fl; !(d >= f) {
+				f = d
+			}
+		}
+		if math.IsNaN(f) {
+			f = math.Inf(-1)
+		}
+		return f, nil
 	}
 	f0, err := surplus(0)
 	if err != nil {
@@ -939,6 +1041,14 @@ func (g *finalGlide) macCready(ctx context.Context, res *FinalGlideResult, mcMax
 	}
 	mc.Affordable = a
 	mc.ArrivalAGL = fa + g.opts.Reserve
+	if res.Terrain != nil {
+		// fa may be a floor margin; the arrival is the glide's own.
+		t, err := tableAt(a)
+		if err != nil {
+			return err
+		}
+		mc.ArrivalAGL = g.arrivalAt(t, h0) - g.opts.GoalElev
+	}
 	for _, m := range []float64{0, a} {
 		t, err := tableAt(m)
 		if err != nil {

@@ -349,8 +349,8 @@ func TestFinalGlideShortOverFlatIsNotBlocked(t *testing.T) {
 	frame := terrain.NewFrame(start.Lat, start.Lon)
 	l := ridgeLocal(frame, 50, 8000, 600, 100, 1400)
 	opts.Terrain = func(lat, lon float64) (float64, bool) { return l.Sample(frame.Forward(lat, lon)) }
-	if r := mustFinal(t, route, 400, Performance{Aircraft: ac}, opts); r.Status != FinalBlocked || !(r.Terrain.LeastClearAlt > r.Required+100) {
-		t.Errorf("short and behind a ridge: status %v, least clearing %.0f m, required %.0f m", r.Status, r.Terrain.LeastClearAlt, r.Required)
+	if r := mustFinal(t, route, 400, Performance{Aircraft: ac}, opts); r.Status != FinalBlocked || !(r.Terrain.LeastClearAlt > r.RequiredStraight+100) {
+		t.Errorf("short and behind a ridge: status %v, least clearing %.0f m, required without the terrain %.0f m", r.Status, r.Terrain.LeastClearAlt, r.RequiredStraight)
 	}
 }
 

@@ -31,6 +31,7 @@ type coverageOptions struct {
 	corridor   string
 	alt        *input.Quantity
 	agl        *input.Quantity
+	ind        *indicatedFlags
 	candidates string
 	pick       int
 	raster     string
@@ -41,7 +42,7 @@ type coverageOptions struct {
 }
 
 func newCoverageCmd() *cobra.Command {
-	o := &coverageOptions{glide: newGlideFlags(), terr: newTerrainFlags(), alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0), pick: 3}
+	o := &coverageOptions{glide: newGlideFlags(), terr: newTerrainFlags(), alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), pick: 3}
 	cmd := &cobra.Command{
 		Use:   "coverage --fields FILE (--area BOX|FILE | --corridor ROUTE,WIDTH) (--alt ALT|--agl HEIGHT)",
 		Short: "How much of an area or corridor has a landing field in reach, and which new field helps most",
@@ -72,7 +73,8 @@ by one, each choice taking the one that adds most to what is covered.
 	fs.StringVar(&o.fields, "fields", "", "existing landing fields: GeoJSON points or polygons with a name property")
 	fs.StringVar(&o.area, "area", "", "area to analyse: minlon,minlat,maxlon,maxlat or a GeoJSON Polygon/MultiPolygon file")
 	fs.StringVar(&o.corridor, "corridor", "", "corridor to analyse: ROUTE,WIDTH (GPX/GeoJSON route and full width, e.g. plan.gpx,10km)")
-	fs.Var(o.alt, "alt", "altitude flown over the area, MSL (m, ft)")
+	fs.Var(o.alt, "alt", "altitude flown over the area: TRUE altitude MSL (m, ft), not the altimeter reading (see --alt-indicated)")
+	o.ind.register(fs, "altitude flown")
 	fs.Var(o.agl, "agl", "height flown above the terrain at each cell (m, ft), instead of --alt")
 	fs.StringVar(&o.candidates, "candidates", "", "candidate fields (GeoJSON, like --fields) to rank by the area each would add")
 	fs.IntVar(&o.pick, "pick", 3, "with --candidates: how many to choose one by one (greedy)")
@@ -116,8 +118,18 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 	if o.area == "" && o.corridor == "" {
 		return input.Usagef("--area", "give the area to analyse: --area BOX|FILE or --corridor ROUTE,WIDTH")
 	}
+	if o.agl.Given && o.ind.altInd.Given {
+		return input.Usagef("--agl", "give --agl or --alt-indicated, not both")
+	}
+	note, err := o.ind.apply(o.alt)
+	if err != nil {
+		return err
+	}
+	if note == "" && o.alt.Given {
+		note = "altitude --alt taken as true altitude MSL (no altimeter temperature correction)"
+	}
 	if !o.alt.Given && !o.agl.Given {
-		return input.Usagef("--alt", "give the altitude flown: --alt (MSL) or --agl (above the terrain)")
+		return input.Usagef("--alt", "give the altitude flown: --alt (true MSL), --agl (above the terrain) or --alt-indicated")
 	}
 	if o.alt.Given && (o.alt.Value < -400 || o.alt.Value > 19000) {
 		return input.Usagef("--alt", "%v m is outside -400..19000 m", o.alt.Value)
@@ -134,6 +146,10 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 	setup, err := o.glide.resolve()
 	if err != nil {
 		return err
+	}
+	setup.printWarnings(stderr)
+	if note != "" {
+		setup.Notes = append(setup.Notes, note)
 	}
 	src, err := o.terr.open()
 	if err != nil {
@@ -222,6 +238,9 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 		run.altMode = fmt.Sprintf("%.0f m (%.0f ft) above the terrain at each cell (--agl)", o.agl.Value, o.agl.Value/0.3048)
 	} else {
 		run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) everywhere (--alt)", o.alt.Value, o.alt.Value/0.3048)
+		if o.ind.altInd.Given {
+			run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) true everywhere (--alt-indicated %.0f m, corrected for the temperature)", o.alt.Value, o.alt.Value/0.3048, o.ind.altInd.Value)
+		}
 	}
 	const margin = 300.0 // the least altitudes are computed this far above the highest altitude flown
 	ceiling := math.Min(top+margin, 19500)
@@ -429,7 +448,7 @@ func demoCoverage(ctx context.Context, d *demoRun) error {
 	if err != nil {
 		return err
 	}
-	o := &coverageOptions{alt: input.NewQuantity(input.Length, demoCoverageAlt), agl: input.NewQuantity(input.Length, 0), pick: 2, area: "demo-area.geojson"}
+	o := &coverageOptions{alt: input.NewQuantity(input.Length, demoCoverageAlt), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), pick: 2, area: "demo-area.geojson"}
 	o.alt.Given = true
 	run := &coverageRun{setup: setup, ground: ground{src: sc.src}, zone: reg, zoneText: "area demo-area.geojson (invented)"}
 	if err := computeCoverage(ctx, run, o, sc.fields, demoCandidates, func(float64) {}); err != nil {

@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -68,7 +67,7 @@ turn point. Without --alt or --agl the glide starts at the required altitude.
       --terrain testdata/geotiff/geo_int16_strip_none.tif --map final.png --report final.html`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runFinal(cmd.Context(), o, cmd.OutOrStdout())
+			return runFinal(cmd.Context(), o, cmd.OutOrStdout(), cmd.ErrOrStderr())
 		},
 	}
 	fs := cmd.Flags()
@@ -128,10 +127,13 @@ type finalRun struct {
 	goalFrom  string // where the goal elevation came from
 	worstWind string // with --wind-error: the wind the figures are for
 	goalNote  string // a warning about the goal elevation, if any
-	res       *reach.FinalGlideResult
+	// ind, when the start was given as an altimeter reading, turns true
+	// altitudes back into readings on the same source.
+	ind *indicatedFlags
+	res *reach.FinalGlideResult
 }
 
-func runFinal(ctx context.Context, o *finalOptions, stdout io.Writer) error {
+func runFinal(ctx context.Context, o *finalOptions, stdout, stderr io.Writer) error {
 	switch o.format {
 	case "text", "json", "geojson":
 	default:
@@ -217,11 +219,12 @@ func runFinal(ctx context.Context, o *finalOptions, stdout io.Writer) error {
 	if err != nil {
 		return err
 	}
+	setup.printWarnings(stderr)
 	src, err := o.terr.open()
 	if err != nil {
 		return err
 	}
-	run.setup, run.ground = setup, ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(os.Stderr)}
+	run.setup, run.ground = setup, ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}
 	run.startLat, run.startLon = o.pos.from.Lat, o.pos.from.Lon
 	elev, ok, err := run.ground.elevationAt(run.startLat, run.startLon)
 	if err != nil {
@@ -232,15 +235,22 @@ func runFinal(ctx context.Context, o *finalOptions, stdout io.Writer) error {
 	}
 	run.startElev = elev
 	startAlt := math.NaN()
-	if o.pos.alt.Given || o.pos.agl.Given {
+	if o.pos.given() {
 		a, err := o.pos.startAlt(elev)
 		if err != nil {
 			return err
+		}
+		if o.pos.note != "" {
+			setup.Notes = append(setup.Notes, o.pos.note)
 		}
 		if a <= elev {
 			return input.Usagef("--alt", "%.0f m MSL is not above the terrain at the start (%.0f m)", a, elev)
 		}
 		startAlt, run.altGiven = a, true
+		if o.pos.ind.altInd.Given {
+			run.ind = o.pos.ind
+		}
+		setup.checkStartClearance(stderr, a, elev)
 	}
 	if !goal.HasElev {
 		flag := "--to"

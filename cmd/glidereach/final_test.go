@@ -233,7 +233,7 @@ func TestFinalGeoJSONContract(t *testing.T) {
 	if c := geom.Coordinates[0]; c[0] != -24.5 || c[1] != -0.5 {
 		t.Errorf("first position %v, want [lon, lat] = [-24.5, -0.5]", c)
 	}
-	for _, k := range []string{"profile_distance_m", "profile_alt_msl_m", "profile_least_msl_m", "profile_terrain_m", "profile_clearance_m"} {
+	for _, k := range []string{"profile_distance_m", "profile_alt_msl_m", "profile_least_without_terrain_msl_m", "profile_from_required_msl_m", "profile_terrain_m", "profile_clearance_m"} {
 		arr, ok := line.Properties[k].([]any)
 		if !ok || len(arr) != len(geom.Coordinates) {
 			t.Errorf("%s: %d values for %d positions", k, len(arr), len(geom.Coordinates))

@@ -138,15 +138,37 @@ func writeFinalText(w io.Writer, run *finalRun) {
 			fmtKt(l.IAS), fmtKt(l.TAS), fmtKt(l.GroundSpeed), fmtRatio(l.GroundRatio), fmtM(l.HeightLost), fmtDuration(l.Time), note)
 	}
 	tw.Flush()
+	if math.IsNaN(r.ArrivalAGL) && r.Status != reach.FinalNoHeadway {
+		fmt.Fprintf(w, "(legs of the line from %.0f m, which does not get there; see below)\n", r.StartAlt)
+	}
 	fmt.Fprintln(w)
 	if r.Status == reach.FinalNoHeadway {
 		fmt.Fprintln(w, "Required at the start: none (no headway)")
 	} else {
-		fmt.Fprintf(w, "Required at the start: %.0f m MSL (%.0f ft): goal %.0f m + reserve %.0f m + %.0f m lost on the way\n",
-			r.Required, r.Required/input.Foot, r.GoalElev, r.Reserve, r.Required-r.GoalElev-r.Reserve)
-		fmt.Fprintf(w, "Arrival: %.0f m above the goal, %s m against the reserve; start margin %s m\n",
-			r.ArrivalAGL, fmtSigned(r.AboveReserve), fmtSigned(r.Margin))
-		fmt.Fprintf(w, "Time: %s\n", fmtDuration(r.Time))
+		if terrainSetsAltitude(r) {
+			fmt.Fprintf(w, "Required at the start: %.0f m MSL (%.0f ft), set by the terrain: the least start that keeps the %.0f m clearance and arrives with the reserve\n",
+				math.Ceil(r.Required), math.Ceil(r.Required)/input.Foot, run.setup.Clearance)
+			fmt.Fprintf(w, "  (the straight line without the terrain would need %.0f m: goal %.0f m + reserve %.0f m + %.0f m lost on the way)\n",
+				r.RequiredStraight, r.GoalElev, r.Reserve, r.RequiredStraight-r.GoalElev-r.Reserve)
+		} else {
+			fmt.Fprintf(w, "Required at the start: %.0f m MSL (%.0f ft): goal %.0f m + reserve %.0f m + %.0f m lost on the way\n",
+				r.Required, r.Required/input.Foot, r.GoalElev, r.Reserve, r.Required-r.GoalElev-r.Reserve)
+		}
+		if v, ok := run.ind.reading(r.Required); ok {
+			fmt.Fprintf(w, "  on the altimeter (QNH of the %.0f m source at %.1f °C) that is a reading of at least %.0f m\n",
+				run.ind.stationElev.Value, run.ind.tempK-273.15, math.Ceil(v))
+		}
+		if math.IsNaN(r.ArrivalAGL) {
+			fmt.Fprintf(w, "Arrival: NONE from %.0f m: the glide line meets the terrain before the goal; start margin %s m\n",
+				r.StartAlt, fmtSigned(math.Floor(r.Margin)))
+			if c, ok := clearArrivalAGL(r); ok {
+				fmt.Fprintf(w, "  from the required %.0f m it arrives %.0f m above the goal\n", math.Ceil(r.Required), c)
+			}
+		} else {
+			fmt.Fprintf(w, "Arrival: %.0f m above the goal, %s m against the reserve; start margin %s m\n",
+				r.ArrivalAGL, fmtSigned(math.Floor(r.AboveReserve)), fmtSigned(math.Floor(r.Margin)))
+			fmt.Fprintf(w, "Time: %s\n", fmtDuration(r.Time))
+		}
 	}
 	if t := r.Terrain; t != nil && r.Status != reach.FinalNoHeadway {
 		if !math.IsNaN(t.LowestClearance) {
@@ -167,12 +189,11 @@ func writeFinalText(w io.Writer, run *finalRun) {
 			fmt.Fprintf(w, "%s %.1f km (%.5f, %.5f): %s; +%.0f m at the start clears it (%s)\n",
 				label, t.BlockDist/1000, t.BlockLat, t.BlockLon, aboveTerrain(t.BlockClearance), math.Ceil(t.Extra), v)
 		}
-		if t.LeastClearAlt > r.Required+0.5 {
-			fmt.Fprintf(w, "Least start altitude that also clears the terrain: %.0f m MSL\n", math.Ceil(t.LeastClearAlt))
-		}
 	}
 	if mc := r.MacCready; r.Status != reach.FinalNoHeadway {
 		switch {
+		case math.IsNaN(mc.Affordable) && r.Terrain != nil:
+			fmt.Fprintln(w, "MacCready: no setting affordable (even setting 0 does not both clear the terrain and arrive with the reserve)")
 		case math.IsNaN(mc.Affordable):
 			fmt.Fprintln(w, "MacCready: no setting affordable (even setting 0 arrives below the reserve)")
 		default:
@@ -180,8 +201,8 @@ func writeFinalText(w io.Writer, run *finalRun) {
 			if mc.AtLimit {
 				lim = " (search limit; speeds held at the maximum)"
 			}
-			if r.Terrain != nil && r.Terrain.Blocked {
-				lim += " (reserve only: the line is blocked)"
+			if r.Terrain != nil {
+				lim += " (keeps the clearance above the terrain)"
 			}
 			fmt.Fprintf(w, "MacCready: highest affordable %.1f m/s%s, arrives %.0f m above the goal in %s, %s sooner than at setting 0\n",
 				math.Floor(mc.Affordable*10)/10, lim, mc.ArrivalAGL, fmtDuration(mc.TimeAffordable), fmtDuration(mc.Saved))
@@ -193,6 +214,19 @@ func writeFinalText(w io.Writer, run *finalRun) {
 		fmt.Fprintln(w, "  -", a)
 	}
 	fmt.Fprintln(w, "\nCAUTION:", reach.Caution)
+}
+
+// terrainSetsAltitude reports whether the terrain, not the reserve, sets
+// the required altitude (so the headline differs from the straight line's).
+func terrainSetsAltitude(r *reach.FinalGlideResult) bool {
+	return r.Terrain != nil && r.Required > r.RequiredStraight+0.5
+}
+
+// clearArrivalAGL is the arrival height above the goal on the glide from
+// the required (terrain-clearing) altitude.
+func clearArrivalAGL(r *reach.FinalGlideResult) (float64, bool) {
+	c := r.Profile[len(r.Profile)-1].Clear - r.GoalElev
+	return c, !math.IsNaN(c)
 }
 
 // finalAssumptions adds the final glide's own assumptions to the setup's.
@@ -207,6 +241,18 @@ func finalAssumptions(run *finalRun) []string {
 		a = append(a, "no start altitude given: the glide starts at the required altitude")
 	}
 	return a
+}
+
+// requiredSetBy names what sets the required altitude: "terrain",
+// "reserve", or "none" (no headway).
+func requiredSetBy(r *reach.FinalGlideResult) string {
+	switch {
+	case math.IsInf(r.Required, 1):
+		return "none"
+	case terrainSetsAltitude(r):
+		return "terrain"
+	}
+	return "reserve"
 }
 
 // finalIndices picks at most finalProfileMax samples of the profile, evenly,
@@ -245,27 +291,27 @@ func latLonJSON(p geodesy.LatLon) map[string]any {
 // finalLegJSON is one leg in the JSON and GeoJSON outputs.
 func finalLegJSON(run *finalRun, i int, l reach.FinalLeg) map[string]any {
 	return map[string]any{
-		"leg":                i + 1,
-		"to":                 finalPointName(run, i+1),
-		"from_point":         latLonJSON(l.From),
-		"to_point":           latLonJSON(l.To),
-		"distance_m":         num(l.Distance),
-		"track_deg":          num(l.TrackDeg),
-		"mean_track_deg":     num(l.MeanTrackDeg),
-		"start_msl_m":        num(l.StartAlt),
-		"end_msl_m":          num(l.EndAlt),
-		"mean_msl_m":         num(l.MeanAlt),
-		"least_start_msl_m":  num(l.LeastStartAlt),
-		"tailwind_m_s":       num(l.Tailwind),
-		"crosswind_m_s":      num(l.Crosswind),
-		"ias_m_s":            num(l.IAS),
-		"tas_m_s":            num(l.TAS),
-		"speed_clamp":        l.Clamp.String(),
-		"ground_speed_m_s":   num(l.GroundSpeed),
-		"ground_glide_ratio": num(l.GroundRatio),
-		"height_lost_m":      num(l.HeightLost),
-		"time_s":             num(l.Time),
-		"no_headway":         l.NoHeadway,
+		"leg":                               i + 1,
+		"to":                                finalPointName(run, i+1),
+		"from_point":                        latLonJSON(l.From),
+		"to_point":                          latLonJSON(l.To),
+		"distance_m":                        num(l.Distance),
+		"track_deg":                         num(l.TrackDeg),
+		"mean_track_deg":                    num(l.MeanTrackDeg),
+		"start_msl_m":                       num(l.StartAlt),
+		"end_msl_m":                         num(l.EndAlt),
+		"mean_msl_m":                        num(l.MeanAlt),
+		"least_start_without_terrain_msl_m": num(l.LeastStartAlt),
+		"tailwind_m_s":                      num(l.Tailwind),
+		"crosswind_m_s":                     num(l.Crosswind),
+		"ias_m_s":                           num(l.IAS),
+		"tas_m_s":                           num(l.TAS),
+		"speed_clamp":                       l.Clamp.String(),
+		"ground_speed_m_s":                  num(l.GroundSpeed),
+		"ground_glide_ratio":                num(l.GroundRatio),
+		"height_lost_m":                     num(l.HeightLost),
+		"time_s":                            num(l.Time),
+		"no_headway":                        l.NoHeadway,
 	}
 }
 
@@ -284,38 +330,44 @@ func finalSummary(run *finalRun) map[string]any {
 	}
 	mc := r.MacCready
 	out := map[string]any{
-		"caution":                   reach.Caution,
-		"status":                    r.Status.String(),
-		"status_text":               finalStatusText(run),
-		"required_msl_m":            num(r.Required),
-		"arrival_agl_m":             num(r.ArrivalAGL),
-		"arrival_msl_m":             num(r.Arrival),
-		"arrival_above_reserve_m":   num(r.AboveReserve),
-		"margin_m":                  num(r.Margin),
-		"start_msl_m":               num(r.StartAlt),
-		"start_given":               run.altGiven,
-		"goal_elevation_m":          num(r.GoalElev),
-		"goal_elevation_from":       run.goalFrom,
-		"reserve_m":                 s.Reserve,
-		"clearance_m":               s.Clearance,
-		"distance_m":                num(r.Distance),
-		"time_s":                    num(r.Time),
-		"mac_cready_m_s":            s.Cond.MacCready,
-		"affordable_mac_cready_m_s": num4(mc.Affordable),
-		"affordable_at_limit":       mc.AtLimit,
-		"affordable_arrival_agl_m":  num(mc.ArrivalAGL),
-		"time_mc0_s":                num(mc.Time0),
-		"time_affordable_s":         num(mc.TimeAffordable),
-		"time_saved_s":              num(mc.Saved),
-		"no_headway_leg":            noHeadway,
-		"legs":                      legs,
-		"aircraft":                  s.Aircraft.Name,
-		"wind":                      s.WindText,
-		"terrain":                   run.ground.describe(),
-		"assumptions":               finalAssumptions(run),
+		"caution":                        reach.Caution,
+		"status":                         r.Status.String(),
+		"status_text":                    finalStatusText(run),
+		"required_msl_m":                 num(r.Required),
+		"required_set_by":                requiredSetBy(r),
+		"required_without_terrain_msl_m": num(r.RequiredStraight),
+		"arrival_without_terrain_agl_m":  num(r.LineArrival - r.GoalElev),
+		"arrival_agl_m":                  num(r.ArrivalAGL),
+		"arrival_msl_m":                  num(r.Arrival),
+		"arrival_above_reserve_m":        num(r.AboveReserve),
+		"margin_m":                       num(r.Margin),
+		"start_msl_m":                    num(r.StartAlt),
+		"start_given":                    run.altGiven,
+		"goal_elevation_m":               num(r.GoalElev),
+		"goal_elevation_from":            run.goalFrom,
+		"reserve_m":                      s.Reserve,
+		"clearance_m":                    s.Clearance,
+		"distance_m":                     num(r.Distance),
+		"time_s":                         num(r.Time),
+		"mac_cready_m_s":                 s.Cond.MacCready,
+		"affordable_mac_cready_m_s":      num4(mc.Affordable),
+		"affordable_at_limit":            mc.AtLimit,
+		"affordable_arrival_agl_m":       num(mc.ArrivalAGL),
+		"time_mc0_s":                     num(mc.Time0),
+		"time_affordable_s":              num(mc.TimeAffordable),
+		"time_saved_s":                   num(mc.Saved),
+		"no_headway_leg":                 noHeadway,
+		"legs":                           legs,
+		"aircraft":                       s.Aircraft.Name,
+		"wind":                           s.WindText,
+		"terrain":                        run.ground.describe(),
+		"assumptions":                    finalAssumptions(run),
 	}
 	if run.worstWind != "" {
 		out["worst_wind"] = run.worstWind
+	}
+	if v, ok := run.ind.reading(r.Required); ok {
+		out["required_indicated_m"] = num(v)
 	}
 	if run.goalNote != "" {
 		out["goal_note"] = run.goalNote
@@ -381,7 +433,7 @@ func finalGeoJSON(run *finalRun) ([]byte, error) {
 	fc := geojson.NewFeatureCollection()
 	idx := finalIndices(r)
 	line := make(orb.LineString, 0, len(idx))
-	var dist, alt, least, terr, clear []any
+	var dist, alt, least, terr, clear, fromReq []any
 	for _, k := range idx {
 		p := r.Profile[k]
 		line = append(line, orb.Point{round6(p.Lon), round6(p.Lat)})
@@ -390,13 +442,15 @@ func finalGeoJSON(run *finalRun) ([]byte, error) {
 		least = append(least, num(p.Least))
 		terr = append(terr, num(p.Terrain))
 		clear = append(clear, num(p.Clearance))
+		fromReq = append(fromReq, num(p.Clear))
 	}
 	lf := geojson.NewFeature(line)
 	lf.Properties = finalSummary(run)
 	lf.Properties["kind"] = "glide_line"
 	lf.Properties["profile_distance_m"] = dist
 	lf.Properties["profile_alt_msl_m"] = alt
-	lf.Properties["profile_least_msl_m"] = least
+	lf.Properties["profile_least_without_terrain_msl_m"] = least
+	lf.Properties["profile_from_required_msl_m"] = fromReq
 	lf.Properties["profile_terrain_m"] = terr
 	lf.Properties["profile_clearance_m"] = clear
 	fc.Append(lf)
@@ -408,7 +462,7 @@ func finalGeoJSON(run *finalRun) ([]byte, error) {
 	for i := 1; i < len(r.Route)-1; i++ {
 		f := geojson.NewFeature(orb.Point{round6(r.Route[i].Lon), round6(r.Route[i].Lat)})
 		f.Properties = map[string]any{"kind": "turn_point", "name": finalPointName(run, i), "alt_msl_m": num(r.Legs[i].StartAlt),
-			"least_msl_m": num(r.Legs[i].LeastStartAlt), "distance_m": num(sumDist(r.Legs[:i]))}
+			"least_without_terrain_msl_m": num(r.Legs[i].LeastStartAlt), "distance_m": num(sumDist(r.Legs[:i]))}
 		fc.Append(f)
 	}
 	g := r.Route[len(r.Route)-1]
@@ -494,7 +548,7 @@ func finalScene(run *finalRun) (*render.Scene, error) {
 	case reach.FinalShort:
 		goal.Note = fmt.Sprintf("below the %.0f m reserve", run.setup.Reserve)
 	case reach.FinalBlocked:
-		goal.Note = "line blocked by terrain"
+		goal.Note = fmt.Sprintf("blocked by terrain: needs %.0f m", math.Ceil(r.Required))
 	case reach.FinalNoHeadway:
 		goal.Note = "no headway against the wind"
 	}
@@ -504,7 +558,7 @@ func finalScene(run *finalRun) (*render.Scene, error) {
 	}
 	s.Inputs = []string{
 		"Aircraft: " + run.setup.Aircraft.Name,
-		fmt.Sprintf("Start: %.0f m MSL, required %s m", r.StartAlt, fmtM(r.Required)),
+		fmt.Sprintf("Start: %.0f m MSL, required %s m", r.StartAlt, fmtM(math.Ceil(r.Required))),
 		"Wind: " + run.setup.WindText,
 		fmt.Sprintf("MacCready %.1f m/s", run.setup.Cond.MacCready),
 		fmt.Sprintf("Reserve: %.0f m, clearance %.0f m", run.setup.Reserve, run.setup.Clearance),
@@ -530,14 +584,36 @@ func finalProfile(run *finalRun) *render.Profile {
 	if r.Terrain != nil {
 		p.Series = append(p.Series, mk("terrain", render.SeriesTerrain, func(g reach.GlidePoint) float64 { return g.Terrain }))
 	}
-	p.Series = append(p.Series,
-		mk(fmt.Sprintf("glide from %.0f m", r.StartAlt), render.SeriesGlide, func(g reach.GlidePoint) float64 { return g.Alt }),
-		mk("least altitude (arrive with reserve)", render.SeriesLeast, func(g reach.GlidePoint) float64 { return g.Least }))
+	last := r.Profile[len(r.Profile)-1]
+	least := "least altitude (arrive with reserve)"
+	if r.Terrain != nil {
+		least = "least altitude, terrain ignored (arrive with reserve)"
+	}
+	if math.IsNaN(r.ArrivalAGL) {
+		// The glide from the start does not get there: draw the one from
+		// the required altitude as the line to fly, and the start's only
+		// up to where it meets the terrain.
+		blocked := false
+		p.Series = append(p.Series,
+			mk(fmt.Sprintf("glide from %.0f m (least that clears the terrain)", math.Ceil(r.Required)), render.SeriesGlide, func(g reach.GlidePoint) float64 { return g.Clear }),
+			mk(fmt.Sprintf("glide from %.0f m: blocked", r.StartAlt), render.SeriesBlocked, func(g reach.GlidePoint) float64 {
+				if blocked || g.Clearance < 0 {
+					blocked = true
+					return math.NaN()
+				}
+				return g.Alt
+			}))
+		if c, ok := clearArrivalAGL(r); ok {
+			p.Marks = append(p.Marks, render.ProfileMark{DistM: last.Dist, AltMSL: last.Clear, Label: fmt.Sprintf("%s: arrive %s m AGL from %.0f m", run.goalName, fmtM(c), math.Ceil(r.Required))})
+		}
+	} else {
+		p.Series = append(p.Series, mk(fmt.Sprintf("glide from %.0f m", r.StartAlt), render.SeriesGlide, func(g reach.GlidePoint) float64 { return g.Alt }))
+		p.Marks = append(p.Marks, render.ProfileMark{DistM: last.Dist, AltMSL: last.Alt, Label: fmt.Sprintf("%s: arrive %s m AGL", run.goalName, fmtM(r.ArrivalAGL))})
+	}
+	p.Series = append(p.Series, mk(least, render.SeriesLeast, func(g reach.GlidePoint) float64 { return g.Least }))
 	if r.Terrain != nil {
 		p.Series = append(p.Series, mk("terrain + clearance / reserve", render.SeriesReserve, func(g reach.GlidePoint) float64 { return g.Floor }))
 	}
-	last := r.Profile[len(r.Profile)-1]
-	p.Marks = append(p.Marks, render.ProfileMark{DistM: last.Dist, AltMSL: last.Alt, Label: fmt.Sprintf("%s: arrive %s m AGL", run.goalName, fmtM(r.ArrivalAGL))})
 	for i := 1; i < len(r.Route)-1; i++ {
 		p.Marks = append(p.Marks, render.ProfileMark{DistM: sumDist(r.Legs[:i]), AltMSL: r.Legs[i].StartAlt, Label: finalPointName(run, i)})
 	}
@@ -584,9 +660,16 @@ func drawFinal(run *finalRun, mapPath, reportPath string) error {
 		Summary:  []string{finalStatusText(run)},
 	}
 	if r.Status != reach.FinalNoHeadway {
-		rep.Summary = append(rep.Summary,
-			fmt.Sprintf("Required at the start: %.0f m MSL (goal %.0f m + reserve %.0f m + losses)", r.Required, r.GoalElev, r.Reserve),
-			fmt.Sprintf("Arrival: %.0f m above the goal (%s m against the reserve), time %s", r.ArrivalAGL, fmtSigned(r.AboveReserve), fmtDuration(r.Time)))
+		if terrainSetsAltitude(r) {
+			rep.Summary = append(rep.Summary, fmt.Sprintf("Required at the start: %.0f m MSL, set by the terrain (the straight line without the terrain would need %.0f m)", math.Ceil(r.Required), r.RequiredStraight))
+		} else {
+			rep.Summary = append(rep.Summary, fmt.Sprintf("Required at the start: %.0f m MSL (goal %.0f m + reserve %.0f m + losses)", r.Required, r.GoalElev, r.Reserve))
+		}
+		if math.IsNaN(r.ArrivalAGL) {
+			rep.Summary = append(rep.Summary, fmt.Sprintf("Arrival: none from %.0f m: the glide line meets the terrain; start margin %s m", r.StartAlt, fmtSigned(math.Floor(r.Margin))))
+		} else {
+			rep.Summary = append(rep.Summary, fmt.Sprintf("Arrival: %.0f m above the goal (%s m against the reserve), time %s", r.ArrivalAGL, fmtSigned(math.Floor(r.AboveReserve)), fmtDuration(r.Time)))
+		}
 		rep.Profile = finalProfile(run)
 	}
 	if mc := r.MacCready; !math.IsNaN(mc.Affordable) {

@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"io"
 	"math"
 	"strings"
 
@@ -19,6 +20,22 @@ import (
 const (
 	defaultReserve   = 300.0
 	defaultClearance = 100.0
+)
+
+// Settings below these draw a warning on stderr and in every output's
+// assumptions (common practice, no source): a reserve under about 150 m
+// (500 ft) leaves no room for a circuit or even a straight-in approach
+// with a turn; an en-route clearance under about 50 m leaves nothing for
+// sinking air, turbulence near a ridge or a DEM that misses trees and
+// masts; a lowest speed under 1.3 × the stall speed (the usual approach
+// speed margin, the same factor as reach.StallMargin) leaves no margin for
+// gusts, turns or a heavier aircraft. A reserve or clearance of 0 is
+// allowed (a planner's "touch the ground" ring) but warned about loudly;
+// negative values and a lowest speed at or below the stall are refused.
+const (
+	warnReserve   = 150.0
+	warnClearance = 50.0
+	warnMinSpeed  = 1.3
 )
 
 // glideFlags are the flags every glide computation takes: the aircraft and
@@ -59,8 +76,22 @@ func (g *glideFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&g.wind, "wind", "", "wind: calm, DIR/SPEED (270/20kt), layers (0m:240/10kt,1500m:270/20kt), or a YAML/JSON/CSV file")
 	fs.StringVar(&g.windAloft, "wind-aloft", "", "coded winds-aloft groups with levels in ft, e.g. \"3000:2714 6000:2725+05\", or a bulletin file")
 	fs.StringVar(&g.windError, "wind-error", "", "wind uncertainty DIR,SPEED (e.g. 20deg,5kt): the result holds for every wind within it (conservative)")
-	fs.Var(g.reserve, "reserve", "height above a field to arrive with (m, ft); default 300 m or the profile's. It may be below the clearance: the glide then tapers from the clearance to the reserve over ground no higher than the field")
-	fs.Var(g.clearance, "clearance", "least height above terrain on the way (m, ft); default 100 m or the profile's. Kept over all ground higher than the field, tapering to the reserve over lower ground near it (reach, final, route and coverage alike)")
+	fs.Var(g.reserve, "reserve", "height above a field to arrive with (m, ft); default: the aircraft profile's ("+builtinDefaults(func(a *reach.Aircraft) float64 { return a.Reserve })+"), else 300 m; below 150 m warns, 0 warns loudly. It may be below the clearance: the glide then tapers from the clearance to the reserve over ground no higher than the field")
+	fs.Var(g.clearance, "clearance", "least height above terrain on the way (m, ft); default: the aircraft profile's ("+builtinDefaults(func(a *reach.Aircraft) float64 { return a.Clearance })+"), else 100 m; below 50 m warns, 0 warns loudly. Kept over all ground higher than the field, tapering to the reserve over lower ground near it (reach, final, route and coverage alike)")
+	// The default depends on the profile, so no single "(default …)".
+	fs.Lookup("reserve").DefValue = ""
+	fs.Lookup("clearance").DefValue = ""
+}
+
+// builtinDefaults lists a built-in profile setting, "trainer 300 m, …".
+func builtinDefaults(f func(*reach.Aircraft) float64) string {
+	var parts []string
+	for _, n := range reach.BuiltinNames() {
+		if ac, err := reach.Builtin(n); err == nil {
+			parts = append(parts, fmt.Sprintf("%s %.0f m", n, f(ac)))
+		}
+	}
+	return strings.Join(parts, ", ")
 }
 
 // glideSetup is the resolved form of glideFlags.
@@ -75,6 +106,34 @@ type glideSetup struct {
 	Reserve   float64
 	Clearance float64
 	WindText  string
+	// Warnings are the settings below common practice (see warnReserve);
+	// each is printed on stderr and listed first in the assumptions.
+	Warnings []string
+	// Notes are further assumptions of the run (how the start altitude
+	// was obtained), listed after the standard ones.
+	Notes []string
+}
+
+// warn records a warning and prints it on stderr (w) at once.
+func (s *glideSetup) warn(w io.Writer, format string, args ...any) {
+	msg := fmt.Sprintf(format, args...)
+	s.Warnings = append(s.Warnings, msg)
+	fmt.Fprintln(w, "glidereach: WARNING:", msg)
+}
+
+// printWarnings prints the warnings resolve found on stderr (w).
+func (s *glideSetup) printWarnings(w io.Writer) {
+	for _, m := range s.Warnings {
+		fmt.Fprintln(w, "glidereach: WARNING:", m)
+	}
+}
+
+// checkStartClearance warns when the start is less than the clearance
+// above the ground under it (the command refuses a start at or below it).
+func (s *glideSetup) checkStartClearance(w io.Writer, startAlt, groundElev float64) {
+	if h := startAlt - groundElev; h > 0 && h < s.Clearance {
+		s.warn(w, "the start is only %.0f m above the terrain under it, less than the %.0f m clearance: the first part of every glide is already below it", h, s.Clearance)
+	}
 }
 
 func (g *glideFlags) resolve() (*glideSetup, error) {
@@ -117,24 +176,26 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 		s.Atm.Temp = func(h float64) (float64, bool) { return w.Temperature(h, dev) }
 	}
 	s.Reserve, s.Clearance = defaultReserve, defaultClearance
-	if ac.Reserve > 0 {
-		s.Reserve = ac.Reserve
+	resFrom, clrFrom := "the default", "the default"
+	if ac.HasReserve || ac.Reserve > 0 {
+		s.Reserve, resFrom = ac.Reserve, "the aircraft profile"
 	}
-	if ac.Clearance > 0 {
-		s.Clearance = ac.Clearance
+	if ac.HasClearance || ac.Clearance > 0 {
+		s.Clearance, clrFrom = ac.Clearance, "the aircraft profile"
 	}
 	if g.reserve.Given {
-		s.Reserve = g.reserve.Value
+		s.Reserve, resFrom = g.reserve.Value, "--reserve"
 	}
 	if g.clearance.Given {
-		s.Clearance = g.clearance.Value
+		s.Clearance, clrFrom = g.clearance.Value, "--clearance"
 	}
-	if s.Reserve < 0 || s.Reserve > 3000 {
+	if !(s.Reserve >= 0 && s.Reserve <= 3000) {
 		return nil, input.Usagef("--reserve", "%v m is outside 0..3000 m", s.Reserve)
 	}
-	if s.Clearance < 0 || s.Clearance > 3000 {
+	if !(s.Clearance >= 0 && s.Clearance <= 3000) {
 		return nil, input.Usagef("--clearance", "%v m is outside 0..3000 m", s.Clearance)
 	}
+	s.checkSettings(resFrom, clrFrom)
 	s.WindText = windText(w)
 	s.Winds = []*wind.Profile{w}
 	if g.windError != "" {
@@ -148,6 +209,38 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 		}
 	}
 	return s, nil
+}
+
+// checkSettings records a warning for every setting below common practice
+// (see warnReserve); resFrom and clrFrom say where the reserve and the
+// clearance came from.
+func (s *glideSetup) checkSettings(resFrom, clrFrom string) {
+	add := func(format string, args ...any) { s.Warnings = append(s.Warnings, fmt.Sprintf(format, args...)) }
+	switch {
+	case s.Reserve == 0:
+		add("RESERVE 0 m (from %s): figures and rings reach the field at ground level with NO height for a circuit, an approach or a misjudgement; plan with a reserve of at least %.0f m (common practice, no source)", resFrom, warnReserve)
+	case s.Reserve < warnReserve:
+		add("reserve %.0f m (from %s) is below the %.0f m (about 500 ft) that common practice keeps for a circuit (no source)", s.Reserve, resFrom, warnReserve)
+	}
+	switch {
+	case s.Clearance == 0:
+		add("CLEARANCE 0 m (from %s): glide lines may graze the terrain model with NO margin for sinking air, turbulence, trees, masts or DEM error; keep at least %.0f m (common practice, no source)", clrFrom, warnClearance)
+	case s.Clearance < warnClearance:
+		add("clearance %.0f m (from %s) is below the %.0f m above terrain that common practice keeps en route (no source)", s.Clearance, clrFrom, warnClearance)
+	}
+	if w := minSpeedWarning(s.Aircraft); w != "" {
+		add("%s", w)
+	}
+}
+
+// minSpeedWarning is the warning for a profile min_speed under
+// warnMinSpeed × the stall speed, or "".
+func minSpeedWarning(ac *reach.Aircraft) string {
+	if ac.MinIAS > 0 && ac.MinIAS < warnMinSpeed*ac.StallIAS {
+		return fmt.Sprintf("the profile's min_speed %.0f kt is only %.2f × its stall speed %.0f kt, below the %.1f × stall that common practice keeps as a margin (no source); the speed to fly may be held that close to the stall",
+			ac.MinIAS/input.Knot, ac.MinIAS/ac.StallIAS, ac.StallIAS/input.Knot, warnMinSpeed)
+	}
+	return ""
 }
 
 // table builds the speed-to-fly table for altitudes lo..hi (m MSL).
@@ -167,11 +260,15 @@ func (s *glideSetup) tableFor(w *wind.Profile, lo, hi float64) (*reach.Table, er
 
 // assumptions lists the inputs a result rests on, for every output.
 func (s *glideSetup) assumptions() []string {
-	a := []string{
-		"aircraft: " + s.Aircraft.Name,
-		"wind: " + s.WindText,
-		fmt.Sprintf("reserve %.0f m above the field on arrival, clearance %.0f m above terrain en route", s.Reserve, s.Clearance),
+	a := make([]string, 0, len(s.Warnings)+8)
+	for _, w := range s.Warnings {
+		a = append(a, "WARNING: "+w)
 	}
+	a = append(a,
+		"aircraft: "+s.Aircraft.Name,
+		"wind: "+s.WindText,
+		fmt.Sprintf("reserve %.0f m above the field on arrival, clearance %.0f m above terrain en route", s.Reserve, s.Clearance),
+	)
 	if s.Cond.Mass > 0 {
 		a = append(a, fmt.Sprintf("mass %.0f kg", s.Cond.Mass))
 	}
@@ -188,7 +285,10 @@ func (s *glideSetup) assumptions() []string {
 		a = append(a, fmt.Sprintf("ISA %+.0f K", s.Atm.ISADev))
 	}
 	a = append(a, "no thrust, speed to fly for best range in the wind at each altitude, stall margin applied")
-	return a
+	if len(s.Winds) > 1 {
+		a = append(a, fmt.Sprintf("wind uncertainty: every figure holds in each of the %d winds of the set; a point counts as covered only when the SAME field is in reach in all of them", len(s.Winds)))
+	}
+	return append(a, s.Notes...)
 }
 
 // terrainFlags choose the ground: a DEM (files or a directory) or a flat
@@ -247,35 +347,149 @@ type positionFlags struct {
 	from *input.LatLon
 	alt  *input.Quantity
 	agl  *input.Quantity
+	ind  *indicatedFlags
+	// note says how the start altitude was obtained, for the assumptions.
+	note string
 }
 
 func newPositionFlags() *positionFlags {
-	return &positionFlags{from: &input.LatLon{}, alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0)}
+	return &positionFlags{from: &input.LatLon{}, alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0),
+		ind: newIndicatedFlags()}
 }
 
 func (p *positionFlags) register(fs *pflag.FlagSet) {
 	fs.Var(p.from, "from", "start position LAT,LON (decimal degrees)")
-	fs.Var(p.alt, "alt", "start altitude MSL (m, ft)")
+	fs.Var(p.alt, "alt", "start altitude: TRUE altitude above mean sea level (m, ft), not the altimeter reading; on a cold day give --alt-indicated instead")
 	fs.Var(p.agl, "agl", "start height above the ground there (m, ft), instead of --alt")
+	p.ind.register(fs, "start altitude")
 }
 
-// startAlt returns the start altitude MSL given the ground elevation there.
+// startAlt returns the start altitude MSL (true altitude) given the ground
+// elevation there, and sets p.note to how it was obtained.
 func (p *positionFlags) startAlt(groundElev float64) (float64, error) {
+	if p.alt.Given && p.agl.Given || p.agl.Given && p.ind.altInd.Given {
+		return 0, input.Usagef("--alt", "give one of --alt, --agl or --alt-indicated")
+	}
+	note, err := p.ind.apply(p.alt)
+	if err != nil {
+		return 0, err
+	}
 	switch {
-	case p.alt.Given && p.agl.Given:
-		return 0, input.Usagef("--alt", "give --alt or --agl, not both")
 	case p.alt.Given:
 		if p.alt.Value > 19000 || p.alt.Value < -400 {
 			return 0, input.Usagef("--alt", "%v m is outside -400..19000 m", p.alt.Value)
+		}
+		p.note = note
+		if p.note == "" {
+			p.note = "start altitude --alt taken as true altitude MSL (no altimeter temperature correction)"
 		}
 		return p.alt.Value, nil
 	case p.agl.Given:
 		if p.agl.Value <= 0 {
 			return 0, input.Usagef("--agl", "%v m is not above the ground", p.agl.Value)
 		}
+		p.note = "start altitude --agl taken as true height above the terrain at the start"
 		return groundElev + p.agl.Value, nil
 	}
-	return 0, input.Usagef("--alt", "a start altitude is required (--alt MSL or --agl above the ground)")
+	return 0, input.Usagef("--alt", "a start altitude is required (--alt true MSL, --agl above the ground, or --alt-indicated)")
+}
+
+// given reports whether a start altitude was given in any form.
+func (p *positionFlags) given() bool { return p.alt.Given || p.agl.Given || p.ind.altInd.Given }
+
+// indicatedFlags take an altitude as the altimeter reads it, with the
+// altimeter setting source it is corrected with (ICAO cold-temperature
+// correction): --alt-indicated, --station-elev, --station-temp.
+type indicatedFlags struct {
+	altInd      *input.Quantity
+	stationElev *input.Quantity
+	stationTemp string
+	done        bool    // apply has run (it sets the altitude once)
+	note        string  // what apply returned
+	tempK       float64 // the parsed --station-temp, once applied
+}
+
+// reading returns the altimeter reading at which the aircraft is at true
+// altitude alt (m MSL), for the source of --alt-indicated; ok is false when
+// no reading was given.
+func (f *indicatedFlags) reading(alt float64) (float64, bool) {
+	if f == nil || !f.done || !f.altInd.Given || math.IsNaN(alt) || math.IsInf(alt, 0) {
+		return 0, false
+	}
+	v, err := reach.IndicatedFor(alt, f.stationElev.Value, f.tempK)
+	return v, err == nil
+}
+
+func newIndicatedFlags() *indicatedFlags {
+	return &indicatedFlags{altInd: input.NewQuantity(input.Length, 0), stationElev: input.NewQuantity(input.Length, 0)}
+}
+
+// register adds the three flags; what names the altitude ("start
+// altitude", "planned altitude").
+func (f *indicatedFlags) register(fs *pflag.FlagSet, what string) {
+	fs.Var(f.altInd, "alt-indicated", what+" as the altimeter reads it, set to the local QNH (m, ft); needs --station-elev and --station-temp, corrected for cold air by the ICAO rule (Doc 8168), instead of --alt")
+	fs.Var(f.stationElev, "station-elev", "with --alt-indicated: elevation of the altimeter setting source, normally the aerodrome whose QNH is set (m, ft)")
+	fs.StringVar(&f.stationTemp, "station-temp", "", "with --alt-indicated: air temperature reported at the altimeter setting source (e.g. -15C, 258K)")
+	// No "(default 0m)": an unset reading is not 0 m.
+	fs.Lookup("alt-indicated").DefValue = ""
+	fs.Lookup("station-elev").DefValue = ""
+}
+
+// apply turns --alt-indicated into the true altitude in alt (marking it
+// given) with the ICAO cold-temperature correction (reach.ColdCorrection)
+// and returns the assumption that says so; "" and alt untouched when no
+// reading was given.
+func (f *indicatedFlags) apply(alt *input.Quantity) (string, error) {
+	if f.done {
+		return f.note, nil
+	}
+	note, err := f.convert(alt)
+	if err == nil {
+		f.done, f.note = true, note
+	}
+	return note, err
+}
+
+func (f *indicatedFlags) convert(alt *input.Quantity) (string, error) {
+	if !f.altInd.Given {
+		if f.stationElev.Given || f.stationTemp != "" {
+			return "", input.Usagef("--station-elev", "--station-elev and --station-temp go with --alt-indicated")
+		}
+		return "", nil
+	}
+	if alt.Given {
+		return "", input.Usagef("--alt", "give --alt (true altitude) or --alt-indicated (the altimeter reading), not both")
+	}
+	ind := f.altInd.Value
+	if ind > 19000 || ind < -400 {
+		return "", input.Usagef("--alt-indicated", "%v m is outside -400..19000 m", ind)
+	}
+	if !f.stationElev.Given || f.stationTemp == "" {
+		return "", input.Usagef("--alt-indicated", "needs --station-elev and --station-temp (the altimeter setting source's elevation and temperature) for the cold-temperature correction")
+	}
+	if !(f.stationElev.Value >= -500 && f.stationElev.Value <= 9000) {
+		return "", input.Usagef("--station-elev", "%v m is outside -500..9000 m", f.stationElev.Value)
+	}
+	tk, err := input.ParseTemperature(f.stationTemp)
+	if err != nil {
+		return "", input.FlagError("--station-temp", f.stationTemp, err)
+	}
+	if !(tk >= 183 && tk <= 333) {
+		return "", input.Usagef("--station-temp", "%q is %.1f K, outside -90..+60 °C (give a unit: -15C or 258K)", f.stationTemp, tk)
+	}
+	corr, err := reach.ColdCorrection(ind, f.stationElev.Value, tk)
+	if err != nil {
+		return "", &input.UsageError{Where: "--alt-indicated", Err: err}
+	}
+	alt.Value, alt.Given = ind-corr, true
+	f.tempK = tk
+	isa := 15 - reach.ColdLapseRate*f.stationElev.Value
+	if corr > 0 {
+		return fmt.Sprintf("altitude: altimeter reads %.0f m (QNH of a source at %.0f m, %.1f °C, %.1f K below ISA there); true altitude %.0f m, %.0f m lower, by the ICAO cold-temperature correction (Doc 8168 PANS-OPS Vol I: H·(15−t0)/(273+t0−½·L0·(H+Hss)))",
+			ind, f.stationElev.Value, tk-273.15, isa-(tk-273.15), ind-corr, corr), nil
+	}
+	return fmt.Sprintf("altitude: altimeter reads %.0f m (QNH of a source at %.0f m, %.1f °C); not colder than ISA or not above the source, so no correction (warmer air would put the aircraft higher; not credited)",
+		ind, f.stationElev.Value, tk-273.15), nil
 }
 
 // windText describes a wind profile for people: each layer as

@@ -78,6 +78,9 @@ Built-in profiles: ` + strings.Join(reach.BuiltinNames(), ", ") + ` (generic, in
 			if err != nil {
 				return err
 			}
+			if w := minSpeedWarning(ac); w != "" {
+				fmt.Fprintln(cmd.ErrOrStderr(), "glidereach: WARNING:", w)
+			}
 			if _, ok := speedUnits[unit]; !ok {
 				return input.Usagef("--units", "%q: want kt, km/h or mph", unit)
 			}

@@ -162,6 +162,7 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 	if err != nil {
 		return err
 	}
+	setup.printWarnings(stderr)
 	src, err := o.terr.open()
 	if err != nil {
 		return err
@@ -205,10 +206,14 @@ func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positi
 	if err != nil {
 		return nil, err
 	}
+	if pos.note != "" {
+		setup.Notes = append(setup.Notes, pos.note)
+	}
 	if alt <= elev {
 		return nil, input.Usagef("--alt", "%.0f m MSL is not above the terrain at the start (%.0f m)", alt, elev)
 	}
 	run := &reachRun{setup: setup, ground: gr, startLat: lat, startLon: lon, startAlt: alt, startElev: elev}
+	setup.checkStartClearance(stderr, alt, elev)
 
 	// Size the window from the best downwind glide down to the lowest ground
 	// it meets (a first guess below the start's ground, then corrected).

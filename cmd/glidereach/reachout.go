@@ -72,7 +72,10 @@ func reachGeoJSON(run *reachRun) ([]byte, error) {
 		f.Properties["kind"] = "footprint"
 		f.Properties["arrival_agl_m"] = lv.ArrivalAGL
 		f.Properties["area_m2"] = math.Round(lv.Area)
+		below, meaning := levelMeaning(lv.ArrivalAGL, run.setup.Reserve)
 		f.Properties["is_reserve"] = lv.ArrivalAGL == run.setup.Reserve
+		f.Properties["below_reserve"] = below
+		f.Properties["meaning"] = meaning
 		fc.Append(f)
 	}
 	st := geojson.NewFeature(orb.Point{round6(run.startLon), round6(run.startLat)})
@@ -87,6 +90,19 @@ func reachGeoJSON(run *reachRun) ([]byte, error) {
 }
 
 func round6(v float64) float64 { return math.Round(v*1e6) / 1e6 }
+
+// levelMeaning says what a footprint level at arrival height a (m AGL)
+// means against the reserve: below the reserve it is a warning, never a
+// landing option.
+func levelMeaning(a, reserve float64) (below bool, meaning string) {
+	switch {
+	case a < reserve:
+		return true, fmt.Sprintf("BELOW THE RESERVE: ground reached with at least %.0f m but less than the %.0f m reserve above it - not a safe landing margin", a, reserve)
+	case a == reserve:
+		return false, fmt.Sprintf("the reserve ring: ground reached with at least the %.0f m reserve above it", reserve)
+	}
+	return false, fmt.Sprintf("ground reached with at least %.0f m above it, more than the %.0f m reserve", a, reserve)
+}
 
 func startProps(run *reachRun) map[string]any {
 	return map[string]any{
@@ -115,13 +131,17 @@ func startProps(run *reachRun) map[string]any {
 // reachJSON is the machine-readable summary.
 func reachJSON(run *reachRun) ([]byte, error) {
 	type level struct {
-		ArrivalAGL float64 `json:"arrival_agl_m"`
-		Area       float64 `json:"area_m2"`
-		Polygons   int     `json:"polygons"`
+		ArrivalAGL   float64 `json:"arrival_agl_m"`
+		Area         float64 `json:"area_m2"`
+		Polygons     int     `json:"polygons"`
+		IsReserve    bool    `json:"is_reserve"`
+		BelowReserve bool    `json:"below_reserve"`
+		Meaning      string  `json:"meaning"`
 	}
 	var lv []level
 	for _, l := range run.levels {
-		lv = append(lv, level{l.ArrivalAGL, math.Round(l.Area), len(l.Polygons)})
+		below, meaning := levelMeaning(l.ArrivalAGL, run.setup.Reserve)
+		lv = append(lv, level{l.ArrivalAGL, math.Round(l.Area), len(l.Polygons), l.ArrivalAGL == run.setup.Reserve, below, meaning})
 	}
 	fields := make([]map[string]any, 0, len(run.fields))
 	for _, f := range run.fields {
@@ -178,8 +198,11 @@ func writeReachText(w io.Writer, run *reachRun) {
 	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.describe())
 	for _, lv := range run.levels {
 		tag := ""
-		if lv.ArrivalAGL == run.setup.Reserve {
+		switch {
+		case lv.ArrivalAGL == run.setup.Reserve:
 			tag = " (reserve)"
+		case lv.ArrivalAGL < run.setup.Reserve:
+			tag = " (BELOW THE RESERVE: not a safe landing margin)"
 		}
 		fmt.Fprintf(w, "Arrive with >= %4.0f m above ground%s: %8.1f km², %d area(s)\n", lv.ArrivalAGL, tag, lv.Area/1e6, len(lv.Polygons))
 	}
@@ -259,7 +282,8 @@ func reachScene(run *reachRun) *render.Scene {
 		Caution:    reach.Caution,
 	}
 	for _, lv := range run.levels {
-		s.Levels = append(s.Levels, render.Level{ArrivalAGL: lv.ArrivalAGL, Polygons: lv.Polygons})
+		s.Levels = append(s.Levels, render.Level{ArrivalAGL: lv.ArrivalAGL, Polygons: lv.Polygons,
+			IsReserve: lv.ArrivalAGL == run.setup.Reserve, BelowReserve: lv.ArrivalAGL < run.setup.Reserve})
 	}
 	s.Bounds = mapBounds(run.res.Ground, run.ground)
 	m := render.NewMarker(orb.Point{run.startLon, run.startLat}, "Start")
@@ -298,7 +322,8 @@ func drawReach(run *reachRun, mapPath, reportPath string) error {
 			Caution:  reach.Caution,
 		}
 		for _, lv := range run.levels {
-			rep.Summary = append(rep.Summary, fmt.Sprintf("Arrive with at least %.0f m above ground: %.1f km²", lv.ArrivalAGL, lv.Area/1e6))
+			_, meaning := levelMeaning(lv.ArrivalAGL, run.setup.Reserve)
+			rep.Summary = append(rep.Summary, fmt.Sprintf("%.0f m level, %.1f km²: %s", lv.ArrivalAGL, lv.Area/1e6, meaning))
 		}
 		if run.farthest > 0 {
 			rep.Summary = append(rep.Summary, fmt.Sprintf("Farthest reach with the reserve: %.1f km (%.1f nm) toward %03.0f°", run.farthest/1000, run.farthest/1852, run.farBearing))

@@ -44,6 +44,7 @@ type routeOptions struct {
 	fields    string
 	alt       *input.Quantity
 	agl       *input.Quantity
+	ind       *indicatedFlags
 	step      *input.Quantity
 	format    string
 	out       string
@@ -53,7 +54,7 @@ type routeOptions struct {
 
 func newRouteCmd() *cobra.Command {
 	o := &routeOptions{glide: newGlideFlags(), terr: newTerrainFlags(),
-		alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0), step: input.NewQuantity(input.Length, 250)}
+		alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), step: input.NewQuantity(input.Length, 250)}
 	cmd := &cobra.Command{
 		Use:   "route --route FILE --fields FILE [--alt ALT|--agl HEIGHT]",
 		Short: "Forced-landing options along a planned route: gaps and the altitude that closes them",
@@ -86,7 +87,8 @@ reserve; a margin of +200 m arrives with about reserve + 200 m.
 	fs.StringVar(&o.route, "route", "", "planned route: GPX 1.1 (track or route) or GeoJSON LineString file")
 	fs.StringVar(&o.routeName, "route-name", "", "which route or track of the file, when it holds several")
 	fs.StringVar(&o.fields, "fields", "", "landing fields: GeoJSON points or polygons with a name property")
-	fs.Var(o.alt, "alt", "planned altitude MSL along the whole route (m, ft)")
+	fs.Var(o.alt, "alt", "planned altitude along the whole route: TRUE altitude MSL (m, ft), not the altimeter reading (see --alt-indicated)")
+	o.ind.register(fs, "planned altitude")
 	fs.Var(o.agl, "agl", "planned height above the terrain under each point (m, ft), instead of --alt")
 	fs.Var(o.step, "step", "sampling step along the route (m, ft, km, nm)")
 	fs.StringVar(&o.format, "format", "text", "output format: text, json, geojson or csv (stdout, or --out)")
@@ -144,6 +146,20 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 	setup, err := o.glide.resolve()
 	if err != nil {
 		return err
+	}
+	setup.printWarnings(stderr)
+	if o.agl.Given && o.ind.altInd.Given {
+		return input.Usagef("--agl", "give --agl or --alt-indicated, not both")
+	}
+	note, err := o.ind.apply(o.alt)
+	if err != nil {
+		return err
+	}
+	if note == "" && o.alt.Given {
+		note = "altitude --alt taken as true altitude MSL (no altimeter temperature correction)"
+	}
+	if note != "" {
+		setup.Notes = append(setup.Notes, note)
 	}
 	src, err := o.terr.open()
 	if err != nil {
@@ -232,6 +248,9 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 			return input.Usagef("--alt", "%v m is outside -400..19000 m", v)
 		}
 		run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) along the whole route (--alt)", o.alt.Value, o.alt.Value/0.3048)
+		if o.ind.altInd.Given {
+			run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) true along the whole route (--alt-indicated %.0f m, corrected for the temperature)", o.alt.Value, o.alt.Value/0.3048, o.ind.altInd.Value)
+		}
 	case o.agl.Given:
 		if v := o.agl.Value; !(v > 0 && v <= 10000) {
 			return input.Usagef("--agl", "%v m is outside 0..10000 m above the terrain", v)
@@ -312,14 +331,23 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 	if lo >= run.ceiling {
 		return input.Usagef("--alt", "the planned altitude is below the lowest ground or field (%.0f m)", lo)
 	}
-	// With --wind-error every wind of the set is flown and each cell keeps
-	// the highest least altitude (conservative: from there some field is in
-	// reach whichever wind of the set blows).
+	// With --wind-error every wind of the set is flown and a cell counts
+	// only from the least altitude at which ONE field is in reach in every
+	// wind of the set — the rule coverage uses (see DEVELOPERS.md, "Wind
+	// uncertainty"): per field the highest least altitude over the winds,
+	// then the lowest over the fields (reach.Coverage with Also).
 	winds := run.setup.Winds
 	if len(winds) == 0 {
 		winds = []*wind.Profile{run.setup.Wind}
 	}
 	var res *reach.RequiredResult
+	if len(winds) > 1 {
+		var err error
+		if res, err = sameFieldRequired(ctx, run, l, lo, winds, progress); err != nil {
+			return err
+		}
+		winds = nil
+	}
 	for k, w := range winds {
 		tab, err := run.setup.tableFor(w, lo-60, run.ceiling+60)
 		if err != nil {
@@ -348,6 +376,12 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 		res.Elevation = grid.Elevation // report the DEM's own ground, not the obstacle surface
 	}
 	run.res = res
+	if run.step > 2.5*l.Cell && run.step > 250 {
+		// The headline (covered fraction, gaps) is judged at the samples
+		// only: say so when they are much sparser than the solver grid.
+		run.notes = append(run.notes, fmt.Sprintf("WARNING: the route is judged every %.0f m on a %.0f m solver grid: a gap shorter than the step can fall between two samples and be missed (the covered fraction may then be too high); use --step %.0f m or less",
+			run.step, l.Cell, math.Max(250, math.Floor(2.5*l.Cell))))
+	}
 	prof, err := res.Route(pts, run.ceiling)
 	if err != nil {
 		return err
@@ -367,6 +401,34 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 		}
 	}
 	return nil
+}
+
+// sameFieldRequired is the least altitude per cell from which one field is
+// in reach with its reserve in every wind of winds (nil when no field lies
+// on the window): reach.Coverage's Least with the other winds as Also,
+// searched up to run.ceiling.
+func sameFieldRequired(ctx context.Context, run *routeRun, l *terrain.Local, lo float64, winds []*wind.Profile, progress func(float64)) (*reach.RequiredResult, error) {
+	models := make([]reach.LossModel, 0, len(winds))
+	for _, w := range winds {
+		tab, err := run.setup.tableFor(w, lo-60, run.ceiling+60)
+		if err != nil {
+			return nil, &input.UsageError{Where: "--aircraft", Err: err}
+		}
+		models = append(models, tab)
+	}
+	const margin = 300.0
+	opts := reach.CoverageOptions{Alt: run.ceiling - margin, Margin: margin, Clearance: run.setup.Clearance, Also: models[1:]}
+	if progress != nil {
+		opts.Progress = progress
+	}
+	cov, err := reach.Coverage(ctx, l, run.targets, models[0], opts)
+	switch {
+	case errors.Is(err, reach.ErrNoTargets):
+		return nil, nil
+	case err != nil:
+		return nil, err
+	}
+	return &reach.RequiredResult{Ground: l, Targets: run.targets, Required: cov.Least, Best: cov.Best}, nil
 }
 
 // worstRequired folds b into a (nil on the first wind): each cell keeps the
@@ -483,7 +545,7 @@ func demoRoute(ctx context.Context, d *demoRun) error {
 	if err != nil {
 		return err
 	}
-	o := &routeOptions{alt: input.NewQuantity(input.Length, demoRouteAlt), agl: input.NewQuantity(input.Length, 0), step: input.NewQuantity(input.Length, 250)}
+	o := &routeOptions{alt: input.NewQuantity(input.Length, demoRouteAlt), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), step: input.NewQuantity(input.Length, 250)}
 	o.alt.Given = true
 	run := &routeRun{setup: setup, ground: ground{src: sc.src}, file: "demo-route.gpx", name: rt.Name, step: o.step.Value}
 	if err := computeRoute(ctx, run, rt, sc.fields, o, nil); err != nil {

@@ -488,11 +488,13 @@ func nearGapEnd(dist float64, d routeDoc) bool {
 
 func TestRouteWindError(t *testing.T) {
 	// --wind-error 30deg,10kt on a uniform 270/20kt: the least altitude at
-	// every sample is the highest of the nine winds 240°, 270°, 300° ×
-	// 10, 20, 30 kt (wind.Perturb) each flown alone — the result holds
-	// whichever of them blows (conservative by construction, common
-	// practice, no source) — so the route is never more covered than in the
-	// nominal wind.
+	// every sample is that from which ONE field is in reach in every one of
+	// the nine winds 240°, 270°, 300° × 10, 20, 30 kt (wind.Perturb), the
+	// rule coverage uses too (DEVELOPERS.md, "Wind uncertainty"). It is
+	// never below the highest of the nine winds each flown alone (some
+	// field in each wind, maybe a different one), and the route is never
+	// more covered than in the nominal wind (conservative by construction,
+	// common practice, no source).
 	route := filepath.Join("..", "..", "testdata", "routes", "demo-route.gpx")
 	fields := filepath.Join("..", "..", "testdata", "fields", "demo-fields.geojson")
 	base := []string{"--route", route, "--fields", fields, "--alt", "2000m", "--step", "1km"}
@@ -524,9 +526,11 @@ func TestRouteWindError(t *testing.T) {
 			got = *s.Least
 		}
 		// 0.2 %: each wind flown alone gets its own solver window (sized by
-		// its own glide range), so the grids differ slightly.
-		if math.IsNaN(got) != math.IsNaN(want[i]) || math.Abs(got-want[i]) > 0.002*want[i]+0.11 {
-			t.Errorf("%.0f m: least %.1f m with --wind-error, highest of the nine winds %.1f m", s.Dist, got, want[i])
+		// its own glide range), so the grids differ slightly. NaN (no one
+		// field below the ceiling in every wind) is allowed where a single
+		// wind has a value; never the other way.
+		if math.IsNaN(want[i]) && !math.IsNaN(got) || got < want[i]-0.002*want[i]-0.11 {
+			t.Errorf("%.0f m: least %.1f m with --wind-error, below the highest of the nine winds %.1f m", s.Dist, got, want[i])
 		}
 	}
 	if !(worst.CoveredFraction < nominal.CoveredFraction) {

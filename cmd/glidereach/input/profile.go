@@ -288,8 +288,22 @@ func (p *profileParser) aircraft(root *yaml.Node) (*reach.Aircraft, error) {
 		if err != nil {
 			return nil, err
 		}
-		if !(v > 0) {
-			return nil, p.errAt(n, "%s: %s must be positive", f.key, n.Value)
+		switch f.key {
+		case "reserve", "clearance":
+			// 0 is allowed (with a loud warning from the commands), the
+			// same as --reserve 0m / --clearance 0m on the command line.
+			if !(v >= 0) {
+				return nil, p.errAt(n, "%s: %s must not be negative", f.key, n.Value)
+			}
+			if f.key == "reserve" {
+				ac.HasReserve = true
+			} else {
+				ac.HasClearance = true
+			}
+		default:
+			if !(v > 0) {
+				return nil, p.errAt(n, "%s: %s must be positive", f.key, n.Value)
+			}
 		}
 		*f.dst = v
 	}

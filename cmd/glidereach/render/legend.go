@@ -29,12 +29,14 @@ const (
 	lgOffMap
 	lgProposed
 	lgTurn
+	lgBelowReserve
 )
 
 type legendItem struct {
-	kind  legendKind
-	text  string
-	level int // nesting depth for lgReach swatches
+	kind    legendKind
+	text    string
+	level   int  // nesting depth for lgReach swatches
+	reserve bool // lgReach: the reserve ring (heaviest outline)
 }
 
 // legendItems lists the entries for what the scene contains, in a fixed
@@ -44,12 +46,33 @@ func (r *renderer) legendItems() []legendItem {
 	var it []legendItem
 	levels := append([]Level(nil), s.Levels...)
 	sort.SliceStable(levels, func(i, j int) bool { return levels[i].ArrivalAGL < levels[j].ArrivalAGL })
+	reserve := ""
+	for _, l := range levels {
+		if l.IsReserve {
+			reserve = s.height(l.ArrivalAGL) + " "
+		}
+	}
+	belowDone := false
 	for i, l := range levels {
 		t := l.Label
-		if t == "" {
+		switch {
+		case l.BelowReserve:
+			// One entry for all below-reserve bands: they share the hatch.
+			if belowDone {
+				continue
+			}
+			belowDone = true
+			if t == "" {
+				t = "Below the " + reserve + "reserve: NOT a safe landing margin"
+			}
+			it = append(it, legendItem{kind: lgBelowReserve, text: t})
+			continue
+		case t == "" && l.IsReserve:
+			t = "Reserve ring: arrive \u2265 " + s.height(l.ArrivalAGL) + " AGL"
+		case t == "":
 			t = "In glide reach, arrive \u2265 " + s.height(l.ArrivalAGL) + " AGL"
 		}
-		it = append(it, legendItem{kind: lgReach, text: t, level: i})
+		it = append(it, legendItem{kind: lgReach, text: t, level: i, reserve: l.IsReserve})
 	}
 	if m := s.Start; m != nil {
 		if math.IsNaN(m.HeadingDeg) {
@@ -167,10 +190,18 @@ func (r *renderer) legendSymbol(it legendItem, x, y, sw float64) {
 			c.fillRect(x, y-h/2, x+sw, y+h/2, withAlpha(colReachFill, 0.24))
 		}
 		w := px(2.4)
-		if it.level == 0 {
-			w = px(3.2)
+		if it.reserve {
+			w = px(3.6)
 		}
 		c.stroke(rect(x, y-h/2, x+sw, y+h/2), w, true, colReachLine)
+	case lgBelowReserve:
+		box := [][][]pt{{rect(x, y-h/2, x+sw, y+h/2)}}
+		c.fillPolys(box, withAlpha(colBelowReserve, 0.10))
+		c.hatchPolys(box, withAlpha(colBelowReserve, 0.70), px(9), px(1.8))
+		for _, d := range dashes(append(rect(x, y-h/2, x+sw, y+h/2), pt{x, y - h/2}), px(10), px(6)) {
+			c.addStroke(d, px(2.4), false)
+		}
+		c.paint(colBelowReserve)
 	case lgStart:
 		r.startSymbol(mid, 90-r.lo.northDeg)
 	case lgStartNoHeading:

@@ -218,6 +218,16 @@ func fillSolid(img *image.RGBA, rc image.Rectangle, col color.RGBA) {
 	}
 }
 
+// hasReserveLevel reports whether one of levels is marked as the reserve.
+func hasReserveLevel(levels []Level) bool {
+	for _, l := range levels {
+		if l.IsReserve {
+			return true
+		}
+	}
+	return false
+}
+
 // drawOverlays draws everything on the map above the terrain.
 func (r *renderer) drawOverlays() {
 	s, lo, c, px := r.s, r.lo, r.c, r.px
@@ -231,13 +241,36 @@ func (r *renderer) drawOverlays() {
 	// Footprint levels, largest (lowest arrival height) first.
 	levels := append([]Level(nil), s.Levels...)
 	sort.SliceStable(levels, func(i, j int) bool { return levels[i].ArrivalAGL < levels[j].ArrivalAGL })
+	// Below-reserve ground: a warning hatch over the band outside the
+	// lowest level at or above the reserve, never the reach fill.
+	var below, safe *Level
+	for i := range levels {
+		if levels[i].BelowReserve {
+			if below == nil {
+				below = &levels[i]
+			}
+		} else if safe == nil {
+			safe = &levels[i]
+		}
+	}
+	if below != nil {
+		var minus [][][]pt
+		if safe != nil {
+			minus = lo.polys(safe.Polygons)
+		}
+		bp := lo.polys(below.Polygons)
+		c.fillPolys(bp, withAlpha(colBelowReserve, 0.10))
+		c.hatchPolysMinus(bp, minus, withAlpha(colBelowReserve, 0.70), px(9), px(1.8))
+	}
 	for _, l := range levels {
-		c.fillPolys(lo.polys(l.Polygons), withAlpha(colReachFill, 0.24))
+		if !l.BelowReserve {
+			c.fillPolys(lo.polys(l.Polygons), withAlpha(colReachFill, 0.24))
+		}
 	}
 	for i, l := range levels {
 		w := px(2.4)
-		if i == 0 {
-			w = px(3.2)
+		if l.IsReserve || (i == 0 && !hasReserveLevel(levels)) {
+			w = px(3.6)
 		}
 		for _, p := range lo.polys(l.Polygons) {
 			for _, rg := range p {
@@ -245,6 +278,20 @@ func (r *renderer) drawOverlays() {
 			}
 		}
 		c.paint(withAlpha(colHalo, 0.65))
+		if l.BelowReserve {
+			for _, p := range lo.polys(l.Polygons) {
+				for _, rg := range p {
+					if len(rg) == 0 {
+						continue
+					}
+					for _, d := range dashes(append(rg, rg[0]), px(10), px(6)) {
+						c.addStroke(d, w, false)
+					}
+				}
+			}
+			c.paint(colBelowReserve)
+			continue
+		}
 		for _, p := range lo.polys(l.Polygons) {
 			for _, rg := range p {
 				c.addStroke(rg, w, true)
@@ -419,8 +466,15 @@ func (r *renderer) drawOverlays() {
 	}
 	for _, l := range levels {
 		if p, ok := topVertex(lo.polys(l.Polygons)); ok {
-			labels = append(labels, label{lines: []string{s.height(l.ArrivalAGL) + " AGL"}, anchor: p, gap: px(3),
-				priority: 5, col: colReachLine})
+			text, col := s.height(l.ArrivalAGL)+" AGL", colReachLine
+			switch {
+			case l.BelowReserve:
+				text, col = s.height(l.ArrivalAGL)+" AGL: below reserve", colBelowReserve
+			case l.IsReserve:
+				text += " (reserve)"
+			}
+			labels = append(labels, label{lines: []string{text}, anchor: p, gap: px(3),
+				priority: 5, col: col})
 		}
 	}
 	sb := r.drawScaleBar()

@@ -26,6 +26,7 @@ var (
 var (
 	colReachFill     = okSkyBlue     // footprint fill, translucent
 	colReachLine     = okBlue        // footprint outline
+	colBelowReserve  = okVermillion  // below-reserve levels: hatch, dashed outline
 	colReachable     = okBluishGreen // field in reach: filled circle
 	colUnreachable   = okVermillion  // field out of reach: cross
 	colProposed      = okBlue        // proposed field: open ring with a plus

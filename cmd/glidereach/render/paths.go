@@ -220,16 +220,28 @@ func (c *canvas) box(r image.Rectangle, fill, border color.RGBA, bw float64) {
 // hatchPolys fills polys with diagonal stripes of col, spacing gap pixels
 // and width w: drawn through an alpha mask of the polygons.
 func (c *canvas) hatchPolys(polys [][][]pt, col color.RGBA, gap, w float64) {
+	c.hatchPolysMinus(polys, nil, col, gap, w)
+}
+
+// hatchPolysMinus hatches polys except where minus covers them (minus lies
+// inside polys, e.g. a nested footprint level: its rings are added with the
+// opposite sign so the winding cancels there).
+func (c *canvas) hatchPolysMinus(polys, minus [][][]pt, col color.RGBA, gap, w float64) {
 	mask := image.NewAlpha(c.img.Bounds())
 	saved := c.img
 	// Rasterize the polygons into the mask with the same ring logic.
-	for _, p := range polys {
-		for i, r := range p {
-			sign := 1.0
-			if i > 0 {
-				sign = -1
+	for k, set := range [][][][]pt{polys, minus} {
+		for _, p := range set {
+			for i, r := range p {
+				sign := 1.0
+				if i > 0 {
+					sign = -1
+				}
+				if k == 1 {
+					sign = -sign
+				}
+				c.addRing(r, sign)
 			}
-			c.addRing(r, sign)
 		}
 	}
 	if len(c.rings) == 0 {

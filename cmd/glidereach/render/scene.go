@@ -90,6 +90,14 @@ type Level struct {
 	Polygons orb.MultiPolygon
 	// Label overrides the legend text ("arrive ≥ 300 m AGL" by default).
 	Label string
+	// IsReserve marks the reserve ring: the level a landing plan should
+	// use. It is drawn with the heaviest outline and named in the legend.
+	IsReserve bool
+	// BelowReserve marks a level under the reserve (a "touch the ground"
+	// or 150 m ring): ground reached only with less height than the
+	// reserve. It is drawn as a warning, hatched in vermillion with a
+	// dashed outline and no reach fill, so it never reads as reachable.
+	BelowReserve bool
 }
 
 // Marker is the start position.

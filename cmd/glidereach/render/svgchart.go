@@ -48,6 +48,10 @@ const (
 	// SeriesReserve is the reserve height above the ground or the goal:
 	// dash-dotted reddish purple.
 	SeriesReserve
+	// SeriesBlocked is a glide line that does not get there (it runs into
+	// the terrain), drawn up to where it is blocked: thin dotted black, so
+	// it never reads as the line to fly.
+	SeriesBlocked
 )
 
 // Series is one curve of a Profile. DistM (metres from the start,
@@ -79,6 +83,8 @@ func styleOf(k SeriesKind) seriesStyle {
 		return seriesStyle{stroke: hex(okBlue), width: 3}
 	case SeriesLeast:
 		return seriesStyle{stroke: hex(okVermillion), dash: "9 5", width: 2.5}
+	case SeriesBlocked:
+		return seriesStyle{stroke: hex(okBlack), dash: "2 4", width: 1.5}
 	default:
 		return seriesStyle{stroke: hex(okReddishPurpl), dash: "10 4 2 4", width: 2}
 	}
