@@ -69,8 +69,20 @@ func Required(ctx context.Context, ground *terrain.Local, targets []Target, mode
 }
 
 // required is Required with a hook that may adjust each propagation before
-// it runs.
-func required(ctx context.Context, ground *terrain.Local, targets []Target, model LossModel, opts RequiredOptions, hook func(*propagation)) (*RequiredResult, error) {
+// it runs; c0, r0 are the cell offset of the propagation's window in ground.
+//
+// The work is proportional to what is asked: one descent table for the
+// model, shared by every run; the targets are grouped into sets whose reach
+// discs from the ceiling overlap (a glide from the ceiling down to a target
+// covers at most GlideRangeBound of ground, whatever its tracks), and each
+// set is one multi-source propagation on the part of the window its discs
+// cover. Sets whose discs are apart share no cell below the ceiling, so
+// their runs are independent: they are shared among opts.Workers
+// goroutines, and the result is the same whatever the number of workers
+// (each set's run is the one the whole window would have made: the same
+// table, the same queue bounds, the same cells). No two workers sweep the
+// same cells.
+func required(ctx context.Context, ground *terrain.Local, targets []Target, model LossModel, opts RequiredOptions, hook func(p *propagation, c0, r0 int)) (*RequiredResult, error) {
 	if ground == nil || ground.Cols < 2 || ground.Rows < 2 {
 		return nil, errors.New("reach: backward reach needs a terrain window of at least 2×2 cells")
 	}
@@ -112,80 +124,187 @@ func required(ctx context.Context, ground *terrain.Local, targets []Target, mode
 	if err != nil {
 		return nil, err
 	}
+	sets := sourceSets(ground, d, srcs, ceiling)
 	workers := opts.Workers
 	if workers <= 0 {
 		workers = 2
 	}
-	if workers > len(srcs) {
-		workers = len(srcs)
-	}
-	groups := make([][]source, workers)
-	for i, s := range srcs {
-		groups[i%workers] = append(groups[i%workers], s)
-	}
 	n := ground.Cols * ground.Rows
-	results := make([]*propagation, workers)
-	errs := make([]error, workers)
-	var wg sync.WaitGroup
+	results := make([]*propagation, len(sets))
 	var mu sync.Mutex
-	done := make([]int, workers)
-	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func(w int) {
-			defer wg.Done()
-			p := newPropagation(ground, d, true)
-			p.clearance = float32(opts.Clearance)
-			p.ceiling = ceiling
-			p.fieldElev = fieldElev
-			p.srcs = groups[w]
-			p.initQueue(lo-20, ceiling+20, bucketWidth(ground.Cell, d))
-			for k := range p.srcs {
-				p.seed(k)
-			}
-			if hook != nil {
-				hook(p)
-			}
-			var prog func(int)
-			if opts.Progress != nil {
-				prog = func(c int) {
-					mu.Lock()
-					done[w] = c
-					t := 0
-					for _, x := range done {
-						t += x
-					}
-					mu.Unlock()
-					opts.Progress(math.Min(1, float64(t)/float64(n*workers)))
+	closed := make([]int, len(sets))
+	work := 0
+	for _, st := range sets {
+		work += st.cells()
+	}
+	err = forTargets(ctx, len(sets), workers, func(k int) error {
+		st := sets[k]
+		sub := ground
+		if st.c0 != 0 || st.r0 != 0 || st.c1 != ground.Cols-1 || st.r1 != ground.Rows-1 {
+			sub = ground.CropCells(st.c0, st.r0, st.c1, st.r1)
+		}
+		p := newPropagation(sub, d, true)
+		p.clearance = float32(opts.Clearance)
+		p.ceiling = ceiling
+		p.fieldElev = fieldElev
+		p.srcs = make([]source, len(st.srcs))
+		for j, s := range st.srcs {
+			s.X -= float64(st.c0)
+			s.Y -= float64(st.r0)
+			p.srcs[j] = s
+		}
+		// The queue's bounds are the whole window's, so the run is the one
+		// the whole window would have made.
+		p.initQueue(lo-20, ceiling+20, bucketWidth(ground.Cell, d))
+		for j := range p.srcs {
+			p.seed(j)
+		}
+		if hook != nil {
+			hook(p, st.c0, st.r0)
+		}
+		var prog func(int)
+		if opts.Progress != nil {
+			prog = func(c int) {
+				mu.Lock()
+				closed[k] = c
+				t := 0
+				for _, x := range closed {
+					t += x
 				}
+				mu.Unlock()
+				opts.Progress(math.Min(1, float64(t)/float64(work)))
 			}
-			errs[w] = p.run(ctx, prog)
-			// Keep only what the merge needs.
-			p.obs, p.par, p.queue = nil, nil, nil
-			results[w] = p
-		}(w)
-	}
-	wg.Wait()
-	for _, e := range errs {
-		if e != nil {
-			return nil, e
 		}
-	}
-	res := &RequiredResult{Ground: ground, Targets: targets, Required: results[0].val, Best: make([]int16, n)}
-	for i := range res.Best {
-		res.Best[i] = -1
-		if res.Required[i] == res.Required[i] {
-			res.Best[i] = int16(results[0].src[i])
+		if err := p.run(ctx, prog); err != nil {
+			return err
 		}
+		// Keep only what the merge needs.
+		p.obs, p.par, p.queue, p.state = nil, nil, nil, nil
+		results[k] = p
+		return nil
+	})
+	if err != nil {
+		return nil, err
 	}
-	for _, p := range results[1:] {
-		for i, v := range p.val {
-			if v == v && (res.Required[i] != res.Required[i] || v < res.Required[i]) {
-				res.Required[i] = v
-				res.Best[i] = int16(p.src[i])
+	res := &RequiredResult{Ground: ground, Targets: targets, Best: make([]int16, n)}
+	if len(sets) == 1 && results[0].l == ground {
+		res.Required = results[0].val
+		for i, v := range res.Required {
+			res.Best[i] = -1
+			if v == v {
+				res.Best[i] = int16(results[0].src[i])
+			}
+		}
+		return res, nil
+	}
+	res.Required = make([]float32, n)
+	nan := float32(math.NaN())
+	for i := range res.Required {
+		res.Required[i], res.Best[i] = nan, -1
+	}
+	// Sets reach disjoint cells below the ceiling; where their boxes
+	// overlap, the lower value wins (the earlier set on a tie), so the
+	// merge does not depend on the order the runs finished in.
+	for k, st := range sets {
+		p := results[k]
+		cols := st.c1 - st.c0 + 1
+		for r := st.r0; r <= st.r1; r++ {
+			row := p.val[(r-st.r0)*cols : (r-st.r0+1)*cols]
+			for j, v := range row {
+				if v != v {
+					continue
+				}
+				i := r*ground.Cols + st.c0 + j
+				if cv := res.Required[i]; cv != cv || v < cv {
+					res.Required[i] = v
+					res.Best[i] = int16(p.src[(r-st.r0)*cols+j])
+				}
 			}
 		}
 	}
 	return res, nil
+}
+
+// sourceSet is a group of sources whose reach discs overlap, and the box of
+// cells (inclusive) their discs cover.
+type sourceSet struct {
+	srcs           []source
+	c0, r0, c1, r1 int
+}
+
+func (s *sourceSet) cells() int { return (s.c1 - s.c0 + 1) * (s.r1 - s.r0 + 1) }
+
+// sourceSets groups srcs (positions in cells of ground) into sets whose
+// discs — the ground a glide from the ceiling down to the source's altitude
+// can cover at most (GlideRangeBound of d), plus a margin of three cells for
+// the cells beside a line of sight — overlap, directly or through other
+// sources. The sets are in the order of their first source, the sources in
+// each in their given order.
+func sourceSets(ground *terrain.Local, d *descent, srcs []source, ceiling float64) []*sourceSet {
+	const margin = 3
+	rad := make([]float64, len(srcs))
+	for i, s := range srcs {
+		rad[i] = d.rangeBound(ceiling, s.Alt)/ground.Cell + margin
+	}
+	// Union-find over the pairs of overlapping discs.
+	parent := make([]int, len(srcs))
+	for i := range parent {
+		parent[i] = i
+	}
+	var find func(int) int
+	find = func(i int) int {
+		for parent[i] != i {
+			parent[i] = parent[parent[i]]
+			i = parent[i]
+		}
+		return i
+	}
+	for i := range srcs {
+		for j := i + 1; j < len(srcs); j++ {
+			if math.Hypot(srcs[i].X-srcs[j].X, srcs[i].Y-srcs[j].Y) <= rad[i]+rad[j] {
+				a, b := find(i), find(j)
+				if a != b {
+					parent[max(a, b)] = min(a, b)
+				}
+			}
+		}
+	}
+	var sets []*sourceSet
+	at := map[int]*sourceSet{}
+	for i, s := range srcs {
+		root := find(i)
+		st := at[root]
+		c0 := max(0, int(math.Floor(s.X-rad[i])))
+		r0 := max(0, int(math.Floor(s.Y-rad[i])))
+		c1 := min(ground.Cols-1, int(math.Ceil(s.X+rad[i])))
+		r1 := min(ground.Rows-1, int(math.Ceil(s.Y+rad[i])))
+		if st == nil {
+			st = &sourceSet{c0: c0, r0: r0, c1: c1, r1: r1}
+			at[root] = st
+			sets = append(sets, st)
+		}
+		st.srcs = append(st.srcs, s)
+		st.c0, st.r0 = min(st.c0, c0), min(st.r0, r0)
+		st.c1, st.r1 = max(st.c1, c1), max(st.r1, r1)
+	}
+	for _, st := range sets {
+		// A window needs at least 2×2 cells.
+		if st.c1 == st.c0 {
+			if st.c1 < ground.Cols-1 {
+				st.c1++
+			} else {
+				st.c0--
+			}
+		}
+		if st.r1 == st.r0 {
+			if st.r1 < ground.Rows-1 {
+				st.r1++
+			} else {
+				st.r0--
+			}
+		}
+	}
+	return sets
 }
 
 // RequiredAt returns the least altitude (m MSL) at a point (degrees), by
@@ -243,10 +362,24 @@ func RequiredFrom(ctx context.Context, ground *terrain.Local, target Target, mod
 	c0, r0 := min(int(fx), g.Cols-2), min(int(fy), g.Rows-2)
 	need := []int{r0*g.Cols + c0, r0*g.Cols + c0 + 1, (r0+1)*g.Cols + c0, (r0+1)*g.Cols + c0 + 1}
 	opts.Workers = 1
-	res, err := required(ctx, ground, []Target{target}, model, opts, func(p *propagation) {
+	res, err := required(ctx, ground, []Target{target}, model, opts, func(p *propagation, wc0, wr0 int) {
+		// The point's cells in the run's window; those outside it are
+		// beyond reach from the ceiling and never close.
+		var in []int
+		for _, q := range need {
+			c, r := q%g.Cols-wc0, q/g.Cols-wr0
+			if c >= 0 && r >= 0 && c < p.cols && r < p.rows {
+				in = append(in, r*p.cols+c)
+			} else if g.Elev[q] == g.Elev[q] {
+				// Beyond any glide from the ceiling: the point is out of
+				// reach, which the run would find only at its end.
+				p.stop = func(int) bool { return true }
+				return
+			}
+		}
 		p.stop = func(_ int) bool {
-			for _, q := range need {
-				if p.state[q] != cellClosed && g.Elev[q] == g.Elev[q] {
+			for _, q := range in {
+				if p.state[q] != cellClosed && p.l.Elev[q] == p.l.Elev[q] {
 					return false
 				}
 			}

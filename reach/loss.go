@@ -55,6 +55,10 @@ type descent struct {
 	dist           []float64 // dist[d*nh+i] = D_d(h_i); non-increasing in i
 	isotropic      bool      // every direction has the same column: one lookup suffices
 	maxRatio       float64   // largest ground distance per metre of height in the table
+	// env[i] is the envelope Σ_{k ≥ i} max_d (D_d(h_k) − D_d(h_k+1)): the
+	// most ground any glide can cover descending from hTop to h_i, whatever
+	// track it holds at each altitude (see rangeBound).
+	env []float64
 }
 
 // errNoGlide reports a model that gives no finite ground distance anywhere.
@@ -108,6 +112,14 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 			t.maxRatio = math.Max(t.maxRatio, (t.dist[k]-t.dist[k+1])/dh)
 		}
 	}
+	t.env = make([]float64, nh)
+	for i := nh - 2; i >= 0; i-- {
+		inc := 0.0
+		for d := 0; d < nDir; d++ {
+			inc = math.Max(inc, t.dist[d*nh+i]-t.dist[d*nh+i+1])
+		}
+		t.env[i] = t.env[i+1] + inc
+	}
 	t.isotropic = true
 	for d := 1; d < nDir && t.isotropic; d++ {
 		for i := 0; i < nh; i++ {
@@ -118,6 +130,56 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 		}
 	}
 	return t, nil
+}
+
+// rangeBound returns an upper bound (m) on the ground length of any glide
+// of the table's solver from altitude top down to bottom (m MSL), whatever
+// tracks it holds and wherever it bends: over each altitude row the length
+// flown is at most the longest of the directions' (a blend of two
+// directions, as the solver makes, lies between them), so the length is at
+// most the envelope env. Beyond the table's ends it continues at maxRatio.
+// The straight-line distance from the start of such a glide to its end is
+// no more than its length, so cells farther than this from a field cannot
+// reach it from the ceiling.
+func (t *descent) rangeBound(top, bottom float64) float64 {
+	if !(top > bottom) {
+		return 0
+	}
+	return t.envAt(bottom) - t.envAt(top)
+}
+
+// envAt is env at altitude h (m), linear within a row, extended at
+// maxRatio beyond the ends.
+func (t *descent) envAt(h float64) float64 {
+	f := (h - t.hBot) / t.dh
+	if f <= 0 {
+		return t.env[0] + (t.hBot-h)*t.maxRatio
+	}
+	if f >= float64(t.nh-1) {
+		return t.env[t.nh-1] - (h-t.hTop)*t.maxRatio
+	}
+	i := int(f)
+	u := f - float64(i)
+	return t.env[i]*(1-u) + t.env[i+1]*u
+}
+
+// GlideRangeBound returns an upper bound (m) on the ground distance a glide
+// in model can cover from altitude top down to bottom (both m MSL), over
+// every combination of tracks: Σ over 10 m altitude rows of the longest
+// distance any of 360 track directions covers in that row (trapezoidal rule
+// in 1/λ, as the solvers integrate). A point farther than this from a field
+// (plus a cell or two for the grid) cannot reach it from top; the commands
+// use it to decide fields beyond any possible reach without a solver run.
+// It is 0 when top ≤ bottom.
+func GlideRangeBound(model LossModel, top, bottom float64) (float64, error) {
+	if !(top > bottom) {
+		return 0, nil
+	}
+	d, err := newDescentFor(model, bottom, top)
+	if err != nil {
+		return 0, err
+	}
+	return d.rangeBound(top, bottom), nil
 }
 
 // dirIndex splits a bearing (radians) into the tabulated direction below it

@@ -3,6 +3,7 @@ package reach
 import (
 	"context"
 	"math"
+	"runtime"
 	"testing"
 
 	"glidereach/terrain"
@@ -53,8 +54,12 @@ func benchSetup(b *testing.B, n int) (*terrain.Local, *Table) {
 func benchmarkFootprint(b *testing.B, n int) {
 	l, tab := benchSetup(b, n)
 	start := Start{Lat: terrain.SyntheticLat, Lon: terrain.SyntheticLon, Alt: 1800}
+	runtime.GC()
+	var m0, m1 runtime.MemStats
+	runtime.ReadMemStats(&m0)
 	b.ReportAllocs()
 	b.ResetTimer()
+	stop := cpuMeter(b)
 	reached := 0
 	for i := 0; i < b.N; i++ {
 		f, err := Footprint(context.Background(), l, start, tab, FootprintOptions{Reserve: 300, Clearance: 100, Levels: []float64{0, 150}})
@@ -72,8 +77,13 @@ func benchmarkFootprint(b *testing.B, n int) {
 			}
 		}
 	}
+	b.StopTimer()
+	stop()
+	runtime.ReadMemStats(&m1)
 	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(n*n), "ns/cell")
+	b.ReportMetric(float64(m1.TotalAlloc-m0.TotalAlloc)/float64(b.N)/float64(n*n), "B/cell")
 	b.ReportMetric(float64(reached)/float64(n*n), "reached")
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(max(reached, 1)), "ns/reached")
 }
 
 // BenchmarkFootprint: forward solver plus three contour levels on the
@@ -81,3 +91,8 @@ func benchmarkFootprint(b *testing.B, n int) {
 // and ≤ 40 B/cell on one core.
 func BenchmarkFootprint500(b *testing.B)  { benchmarkFootprint(b, 500) }
 func BenchmarkFootprint2000(b *testing.B) { benchmarkFootprint(b, 2000) }
+
+// BenchmarkFootprint6000 is the same at 36 M cells (about 1.5 GB; a
+// benchmark only, never part of a plain go test), for the growth of the
+// per-cell cost with the grid.
+func BenchmarkFootprint6000(b *testing.B) { benchmarkFootprint(b, 6000) }
