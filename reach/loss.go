@@ -182,6 +182,29 @@ func GlideRangeBound(model LossModel, top, bottom float64) (float64, error) {
 	return d.rangeBound(top, bottom), nil
 }
 
+// RangeBound answers GlideRangeBound for many altitude pairs from one
+// table: build it once over the altitudes the questions span.
+type RangeBound struct{ d *descent }
+
+// NewRangeBound tabulates model between bottom and top (m MSL) as
+// GlideRangeBound does.
+func NewRangeBound(model LossModel, bottom, top float64) (*RangeBound, error) {
+	if !(top > bottom) {
+		return nil, fmt.Errorf("reach: bad range %g..%g m", bottom, top)
+	}
+	d, err := newDescentFor(model, bottom, top)
+	if err != nil {
+		return nil, err
+	}
+	return &RangeBound{d: d}, nil
+}
+
+// Bound is GlideRangeBound(model, top, bottom) (m). Beyond the tabulated
+// altitudes it continues at the flattest glide of the table, which is an
+// upper bound only where the model is no flatter there: tabulate what you
+// ask.
+func (r *RangeBound) Bound(top, bottom float64) float64 { return r.d.rangeBound(top, bottom) }
+
 // dirIndex splits a bearing (radians) into the tabulated direction below it
 // and the blend weight toward the next one.
 func (t *descent) dirIndex(bearing float64) (d0, d1 int, w float64) {

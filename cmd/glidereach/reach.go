@@ -107,32 +107,6 @@ type reachRun struct {
 	farPoint   orb.Point     // the reserve ring's vertex farthest from the start (lon, lat)
 	grid       *terrain.Grid // DEM window, nil on flat ground
 
-	tablesMu sync.Mutex
-	tables   map[int]*reach.Table // per wind of setup.Winds, for judging fields
-}
-
-// fieldTable returns the speed-to-fly table of wind k covering lo..hi (m MSL),
-// shared by the fields' backward runs: a table is built once and rebuilt
-// wider only when a field needs more.
-func (run *reachRun) fieldTable(k int, lo, hi float64) (*reach.Table, error) {
-	run.tablesMu.Lock()
-	defer run.tablesMu.Unlock()
-	if t := run.tables[k]; t != nil {
-		tlo, thi := t.Range()
-		if tlo <= lo && thi >= hi {
-			return t, nil
-		}
-		lo, hi = math.Min(lo, tlo), math.Max(hi, thi)
-	}
-	t, err := run.setup.tableFor(run.setup.Winds[k], lo, hi)
-	if err != nil {
-		return nil, err
-	}
-	if run.tables == nil {
-		run.tables = map[int]*reach.Table{}
-	}
-	run.tables[k] = t
-	return t, nil
 }
 
 func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) error {
@@ -253,27 +227,44 @@ func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positi
 		minLevel = math.Min(minLevel, v)
 	}
 	prog := newProgress(stderr, "reach")
-	var members []*reach.FootprintResult
-	for k, w := range setup.Winds {
-		tab, err := setup.tableFor(w, lo+math.Min(minLevel, 0)-260, alt+60)
+	// The winds of --wind-error are independent runs: two at a time (each
+	// run is the same whatever runs beside it, and the members keep the
+	// winds' order, so the result does not depend on the cores).
+	members := make([]*reach.FootprintResult, len(setup.Winds))
+	shares := make([]float64, len(setup.Winds))
+	var shareMu sync.Mutex
+	err = forEach(ctx, len(setup.Winds), 2, func(k int) error {
+		tab, err := setup.tableFor(setup.Winds[k], lo+math.Min(minLevel, 0)-260, alt+60)
 		if err != nil {
-			return nil, &input.UsageError{Where: "--aircraft", Err: err}
+			return &input.UsageError{Where: "--aircraft", Err: err}
 		}
 		n := float64(len(setup.Winds))
 		res, err := reach.Footprint(ctx, l, reach.Start{Lat: lat, Lon: lon, Alt: alt}, tab, reach.FootprintOptions{
 			Reserve: setup.Reserve, Clearance: setup.Clearance, Levels: extraLevels,
-			Progress: func(d float64) { prog.set((float64(k) + d) / n) }})
+			Progress: func(d float64) {
+				shareMu.Lock()
+				shares[k] = d
+				t := 0.0
+				for _, x := range shares {
+					t += x
+				}
+				shareMu.Unlock()
+				prog.set(t / n)
+			}})
 		if err != nil {
-			prog.done()
 			switch {
 			case errors.Is(err, reach.ErrStartBelowGround), errors.Is(err, reach.ErrStartOffGround):
-				return nil, &input.UsageError{Where: "--from", Err: err}
+				return &input.UsageError{Where: "--from", Err: err}
 			}
-			return nil, err
+			return err
 		}
-		members = append(members, res)
-	}
+		members[k] = res
+		return nil
+	})
 	prog.done()
+	if err != nil {
+		return nil, err
+	}
 	res, err := reach.Intersect(members)
 	if err != nil {
 		return nil, err
@@ -294,24 +285,55 @@ func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positi
 		}
 	}
 
-	// Fields, two at a time (each judgement is one backward propagation).
+	// Fields: each is judged in every wind by its own backward run; the
+	// (field, wind) runs are independent and shared between two workers.
 	run.fields = make([]fieldResult, len(fields))
-	errs := make([]error, len(fields))
-	sem := make(chan struct{}, 2)
-	var wg sync.WaitGroup
+	jobs := make([]*fieldJob, len(fields))
 	for i, f := range fields {
-		wg.Add(1)
-		sem <- struct{}{}
-		go func(i int, f input.Field) {
-			defer wg.Done()
-			defer func() { <-sem }()
-			run.fields[i], errs[i] = judgeField(ctx, run, f, l)
-		}(i, f)
-	}
-	wg.Wait()
-	for _, err := range errs {
+		fr, job, err := prepareField(run, f, l)
 		if err != nil {
 			return nil, err
+		}
+		run.fields[i], jobs[i] = fr, job
+	}
+	// One table per wind for every field: from the lowest ground of the
+	// window or field to the highest ceiling.
+	flo, fhi := lowest(l), math.Inf(-1)
+	for _, j := range jobs {
+		if j != nil {
+			flo, fhi = math.Min(flo, j.target.Elev), math.Max(fhi, j.ceiling)
+		}
+	}
+	if !math.IsInf(fhi, -1) {
+		tabs, err := fieldTables(ctx, run, flo-60, fhi+60)
+		if err != nil {
+			return nil, err
+		}
+		bounds := make([]*reach.RangeBound, len(tabs))
+		for k, t := range tabs {
+			if bounds[k], err = reach.NewRangeBound(t, flo-50, fhi+50); err != nil {
+				return nil, &input.UsageError{Where: "--aircraft", Err: err}
+			}
+		}
+		for i, j := range jobs {
+			if j == nil {
+				continue
+			}
+			need, err := placeField(run, l, &run.fields[i], j, bounds)
+			if err != nil {
+				return nil, err
+			}
+			if !need {
+				jobs[i] = nil
+			}
+		}
+		if err := judgeFields(ctx, run, l, jobs, tabs); err != nil {
+			return nil, err
+		}
+	}
+	for i, job := range jobs {
+		if job != nil {
+			run.fields[i] = job.finish(run.fields[i])
 		}
 	}
 	sort.SliceStable(run.fields, func(i, j int) bool {
@@ -349,10 +371,42 @@ func dedupe(v []float64) []float64 {
 	return out
 }
 
-// judgeField decides whether a field is reachable from the start, with what
-// arrival height, and which start altitude would just reach it with the
-// reserve (by a backward propagation from the field, not by subtracting).
-func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Local) (fieldResult, error) {
+// fieldJob is what the backward runs of one field need and produce.
+type fieldJob struct {
+	onWindow bool
+	dist     float64        // m from the start (geodesic), NaN if unknown
+	win      *terrain.Local // the window the runs search
+	target   reach.Target
+	ceiling  float64 // m MSL
+	lo       float64 // lowest ground of win or the field, m MSL
+	req      []float64
+	ok       []bool
+}
+
+// finish folds the runs of every wind into the field's figure: the
+// highest required altitude (it must hold in every wind), none when any
+// wind has none.
+func (j *fieldJob) finish(fr fieldResult) fieldResult {
+	req, ok := math.Inf(-1), true
+	for k := range j.req {
+		if !j.ok[k] {
+			ok = false
+			break
+		}
+		req = math.Max(req, j.req[k])
+	}
+	if ok {
+		fr.RequiredMSL = req
+	} else if fr.Note == "" {
+		fr.Note = fmt.Sprintf("not reachable from below %.0f m MSL", j.ceiling)
+	}
+	return fr
+}
+
+// prepareField judges a field from the footprint (reachable or not, arrival
+// height) and sets up the search for the start altitude that would just
+// reach it with the reserve; job is nil when no search is needed.
+func prepareField(run *reachRun, f input.Field, l *terrain.Local) (fieldResult, *fieldJob, error) {
 	fr := fieldResult{Name: f.Name, Lat: f.Lat, Lon: f.Lon, LengthM: f.Length, Surface: f.Surface,
 		ArrivalAGLM: math.NaN(), RequiredMSL: math.NaN(), MarginM: math.NaN()}
 	s, az, _, err := geodesy.Inverse(geodesy.LatLon{Lat: run.startLat, Lon: run.startLon}, geodesy.LatLon{Lat: f.Lat, Lon: f.Lon})
@@ -368,11 +422,11 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 	default:
 		e, ok, err := run.ground.elevationAt(f.Lat, f.Lon)
 		if err != nil {
-			return fr, &input.UsageError{Where: "--terrain", Err: err}
+			return fr, nil, &input.UsageError{Where: "--terrain", Err: err}
 		}
 		if !ok {
 			fr.Note = "off the terrain data: elevation unknown"
-			return fr, nil
+			return fr, nil, nil
 		}
 		fr.ElevationM = e
 	}
@@ -386,55 +440,155 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 	} else {
 		fr.Note = "beyond the computed window: out of reach"
 	}
+	ceiling := math.Max(run.startAlt, fr.ElevationM+reserve) + 4000
+	nw := len(run.setup.Winds)
+	return fr, &fieldJob{ceiling: ceiling, onWindow: onWindow, dist: s,
+		target: reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: fr.ElevationM, Reserve: reserve},
+		req:    make([]float64, nw), ok: make([]bool, nw)}, nil
+}
+
+// placeField decides a field beyond any possible reach without a solver
+// run, and otherwise chooses the window its searches cover; it returns
+// false when no search is needed (the note says why). bounds are the
+// winds' range bounds, covering the field's altitudes up to its ceiling.
+func placeField(run *reachRun, l *terrain.Local, fr *fieldResult, j *fieldJob, bounds []*reach.RangeBound) (bool, error) {
+	// A field farther than any glide from the ceiling can cover, whatever
+	// its tracks (reach.GlideRangeBound; the longest over the winds), with
+	// 5 % and 2 km to spare for the grid and the local frame, is out of
+	// reach.
+	if !math.IsNaN(j.dist) {
+		bound := 0.0
+		for _, rb := range bounds {
+			bound = math.Max(bound, rb.Bound(j.ceiling, j.target.Elev+j.target.Reserve))
+		}
+		if j.dist > 1.05*bound+2000 {
+			if fr.Note == "" {
+				fr.Note = fmt.Sprintf("not reachable from below %.0f m MSL", j.ceiling)
+			}
+			return false, nil
+		}
+	}
 	// The least start altitude: backward from the field over the whole
 	// forward window (RequiredFrom stops as soon as the start's cells are
 	// final, so only ground needing less altitude than the start's figure is
 	// searched). A box around start and field missed the way around a
 	// ridge with open ends and contradicted the forward figures.
-	win := l
-	if !onWindow {
-		midLat, midLon := (run.startLat+f.Lat)/2, (run.startLon+f.Lon)/2
-		w, _, err := run.ground.window(midLat, midLon, s/2*1.3+2000)
+	j.win = l
+	if !j.onWindow {
+		midLat, midLon := (run.startLat+j.target.Lat)/2, (run.startLon+j.target.Lon)/2
+		w, _, err := run.ground.window(midLat, midLon, j.dist/2*1.3+2000)
 		if err != nil {
 			fr.Note = "required altitude not computed: " + err.Error()
-			return fr, nil
+			return false, nil
 		}
-		win = w
+		j.win = w
 	}
-	ceiling := math.Max(run.startAlt, fr.ElevationM+reserve) + 4000
-	target := reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: fr.ElevationM, Reserve: reserve}
-	req, ok := math.Inf(-1), true
-	for k := range run.setup.Winds {
-		tab, err := run.fieldTable(k, math.Min(lowest(win), fr.ElevationM)-60, ceiling+60)
-		if err != nil {
-			return fr, &input.UsageError{Where: "--aircraft", Err: err}
+	j.lo = math.Min(lowest(j.win), j.target.Elev)
+	return true, nil
+}
+
+// judgeFields runs the backward searches of every field in every wind, two
+// at a time. The speed-to-fly table of each wind is built once, over the
+// range every field needs, and shared (a table built per field, or widened
+// when a later field needed more, made a field's figure depend on the
+// order the fields were judged in).
+func judgeFields(ctx context.Context, run *reachRun, l *terrain.Local, jobs []*fieldJob, tabs []*reach.Table) error {
+	lo, hi := math.Inf(1), math.Inf(-1)
+	type pair struct{ f, k int }
+	var work []pair
+	for i, j := range jobs {
+		if j == nil {
+			continue
 		}
-		r, rok, err := reach.RequiredFrom(ctx, win, target, tab,
-			reach.RequiredOptions{Clearance: run.setup.Clearance, Ceiling: ceiling}, run.startLat, run.startLon)
+		lo, hi = math.Min(lo, j.lo), math.Max(hi, j.ceiling)
+		for k := range run.setup.Winds {
+			work = append(work, pair{i, k})
+		}
+	}
+	if len(work) == 0 {
+		return nil
+	}
+	if tlo, thi := tabs[0].Range(); tlo > lo-60 || thi < hi+60 {
+		var err error
+		if tabs, err = fieldTables(ctx, run, lo-60, hi+60); err != nil {
+			return err
+		}
+	}
+	return forEach(ctx, len(work), 2, func(w int) error {
+		j, k := jobs[work[w].f], work[w].k
+		tab := tabs[k]
+		r, rok, err := reach.RequiredFrom(ctx, j.win, j.target, tab,
+			reach.RequiredOptions{Clearance: run.setup.Clearance, Ceiling: j.ceiling}, run.startLat, run.startLon)
 		if err != nil {
 			if !errors.Is(err, reach.ErrNoTargets) && !errors.Is(err, reach.ErrStartOffGround) {
-				return fr, err
+				return err
 			}
 			rok = false
 		}
-		if onWindow {
-			r, rok, err = run.reconcile(ctx, k, l, target, tab, r, rok, ceiling)
+		if j.win == l {
+			r, rok, err = run.reconcile(ctx, k, l, j.target, tab, r, rok, j.ceiling)
 			if err != nil {
-				return fr, err
+				return err
 			}
 		}
-		if !rok {
-			ok = false
-			break
+		j.req[k], j.ok[k] = r, rok
+		return nil
+	})
+}
+
+// fieldTables builds the speed-to-fly table of every wind over lo..hi (m
+// MSL), two at a time.
+func fieldTables(ctx context.Context, run *reachRun, lo, hi float64) ([]*reach.Table, error) {
+	tabs := make([]*reach.Table, len(run.setup.Winds))
+	err := forEach(ctx, len(tabs), 2, func(k int) error {
+		t, err := run.setup.tableFor(run.setup.Winds[k], lo, hi)
+		if err != nil {
+			return &input.UsageError{Where: "--aircraft", Err: err}
 		}
-		req = math.Max(req, r) // the highest: it must hold in every wind
+		tabs[k] = t
+		return nil
+	})
+	return tabs, err
+}
+
+// forEach runs fn(k) for k in 0..n−1 on at most w goroutines and returns
+// the first error (by index, so the same error whatever the timing); it
+// stops handing out work after an error or when ctx is done.
+func forEach(ctx context.Context, n, w int, fn func(k int) error) error {
+	errs := make([]error, n)
+	next := make(chan int)
+	var wg sync.WaitGroup
+	var failed sync.Once
+	stop := make(chan struct{})
+	for g := 0; g < min(w, n); g++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for k := range next {
+				if errs[k] = fn(k); errs[k] != nil {
+					failed.Do(func() { close(stop) })
+				}
+			}
+		}()
 	}
-	if ok {
-		fr.RequiredMSL = req
-	} else if fr.Note == "" {
-		fr.Note = fmt.Sprintf("not reachable from below %.0f m MSL", ceiling)
+loop:
+	for k := 0; k < n; k++ {
+		select {
+		case next <- k:
+		case <-stop:
+			break loop
+		case <-ctx.Done():
+			break loop
+		}
 	}
-	return fr, nil
+	close(next)
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return err
+		}
+	}
+	return ctx.Err()
 }
 
 // reconcile makes the required altitude r of wind k agree with the forward
