@@ -58,7 +58,7 @@ func benchmarkRequired(b *testing.B, n, k int) {
 	runtime.ReadMemStats(&m0)
 	b.ReportAllocs()
 	b.ResetTimer()
-	stop := cpuMeter(b)
+	stop := cpuMeter(b, n*n)
 	for i := 0; i < b.N; i++ {
 		if _, err := Required(context.Background(), l, ts, tab, RequiredOptions{Clearance: 100, Ceiling: 6000}); err != nil {
 			b.Fatal(err)
@@ -113,7 +113,7 @@ func benchmarkCoverage(b *testing.B, n int) {
 	runtime.ReadMemStats(&m0)
 	b.ReportAllocs()
 	b.ResetTimer()
-	stop := cpuMeter(b)
+	stop := cpuMeter(b, n*n)
 	for i := 0; i < b.N; i++ {
 		if _, err := Coverage(context.Background(), l, ts, tab, CoverageOptions{Alt: 1500, Clearance: 100}); err != nil {
 			b.Fatal(err)

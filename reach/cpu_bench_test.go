@@ -1,6 +1,8 @@
 package reach
 
 import (
+	"runtime/metrics"
+	"sync"
 	"syscall"
 	"testing"
 	"time"
@@ -15,12 +17,48 @@ func cpuTime() time.Duration {
 	return time.Duration(ru.Utime.Nano() + ru.Stime.Nano())
 }
 
+// heapLive returns the bytes of live and not yet swept heap objects.
+func heapLive() uint64 {
+	s := []metrics.Sample{{Name: "/memory/classes/heap/objects:bytes"}}
+	metrics.Read(s)
+	return s[0].Value.Uint64()
+}
+
 // cpuMeter reports the CPU time per op of a benchmark beside its wall time
 // (the machine is shared: CPU seconds say what the code costs, wall seconds
-// what the load let it have). Start it after the setup; call stop at the end.
-func cpuMeter(b *testing.B) (stop func()) {
+// what the load let it have), and, when cells > 0, the peak heap in use
+// above the level at the start per cell (sampled every 5 ms, so a lower
+// bound of the true peak, and including garbage not yet collected). Start
+// it after the setup; call stop at the end.
+func cpuMeter(b *testing.B, cells int) (stop func()) {
+	base := heapLive()
+	var peak uint64
+	done := make(chan struct{})
+	var wg sync.WaitGroup
+	wg.Add(1)
+	go func() {
+		defer wg.Done()
+		t := time.NewTicker(5 * time.Millisecond)
+		defer t.Stop()
+		for {
+			if h := heapLive(); h > peak {
+				peak = h
+			}
+			select {
+			case <-done:
+				return
+			case <-t.C:
+			}
+		}
+	}()
 	t0 := cpuTime()
 	return func() {
-		b.ReportMetric(float64(cpuTime()-t0)/1e9/float64(b.N), "cpu-s/op")
+		cpu := cpuTime() - t0
+		close(done)
+		wg.Wait()
+		b.ReportMetric(cpu.Seconds()/float64(b.N), "cpu-s/op")
+		if cells > 0 && peak > base {
+			b.ReportMetric(float64(peak-base)/float64(cells), "peak-B/cell")
+		}
 	}
 }

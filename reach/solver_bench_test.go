@@ -59,7 +59,7 @@ func benchmarkFootprint(b *testing.B, n int) {
 	runtime.ReadMemStats(&m0)
 	b.ReportAllocs()
 	b.ResetTimer()
-	stop := cpuMeter(b)
+	stop := cpuMeter(b, n*n)
 	reached := 0
 	for i := 0; i < b.N; i++ {
 		f, err := Footprint(context.Background(), l, start, tab, FootprintOptions{Reserve: 300, Clearance: 100, Levels: []float64{0, 150}})

@@ -306,14 +306,11 @@ func finalOutput(run *finalRun, format string) ([]byte, error) {
 func computeFinal(ctx context.Context, run *finalRun, route []geodesy.LatLon, startAlt, goalElev float64, step *input.Quantity) (*reach.FinalGlideResult, error) {
 	s := run.setup
 	opts := reach.FinalGlideOptions{GoalElev: goalElev, Reserve: s.Reserve, Clearance: s.Clearance}
-	var lt *lineTerrain
 	if run.ground.src == nil {
 		flat := run.ground.flat
 		opts.Terrain = func(lat, lon float64) (float64, bool) { return flat, true }
 		opts.Step = reach.DefaultFinalStep
 	} else {
-		lt = &lineTerrain{src: run.ground.src}
-		opts.Terrain = lt.sample
 		cell := run.ground.src.Resolution()
 		if !(cell > 0) || math.IsInf(cell, 0) {
 			cell = 30
@@ -333,23 +330,40 @@ func computeFinal(ctx context.Context, run *finalRun, route []geodesy.LatLon, st
 	if len(winds) == 0 {
 		winds = []*wind.Profile{s.Wind}
 	}
-	var worst *reach.FinalGlideResult
-	for i, w := range winds {
-		perf := reach.Performance{Aircraft: s.Aircraft, Atm: s.Atm, Wind: w, Cond: s.Cond}
-		res, err := reach.FinalGlide(ctx, route, startAlt, perf, opts)
+	// The winds are independent glides: two at a time, each with its own
+	// terrain reader (lineTerrain keeps its current window), then judged in
+	// the winds' order, so the result does not depend on the cores.
+	results := make([]*reach.FinalGlideResult, len(winds))
+	err := forEach(ctx, len(winds), 2, func(i int) error {
+		o := opts
+		var lt *lineTerrain
+		if run.ground.src != nil {
+			lt = &lineTerrain{src: run.ground.src}
+			o.Terrain = lt.sample
+		}
+		perf := reach.Performance{Aircraft: s.Aircraft, Atm: s.Atm, Wind: winds[i], Cond: s.Cond}
+		res, err := reach.FinalGlide(ctx, route, startAlt, perf, o)
 		if lt != nil && lt.err != nil {
-			return nil, &input.UsageError{Where: "--terrain", Err: lt.err}
+			return &input.UsageError{Where: "--terrain", Err: lt.err}
 		}
 		switch {
 		case errors.Is(err, reach.ErrFinalTooHigh):
-			return nil, &input.UsageError{Where: "--to", Err: fmt.Errorf("the goal is far out of reach: %w", err)}
+			return &input.UsageError{Where: "--to", Err: fmt.Errorf("the goal is far out of reach: %w", err)}
 		case err != nil:
-			return nil, err
+			return err
 		}
+		results[i] = res
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	var worst *reach.FinalGlideResult
+	for i, res := range results {
 		if worst == nil || finalWorse(res, worst) {
 			worst = res
 			if len(winds) > 1 {
-				run.worstWind = windText(w)
+				run.worstWind = windText(winds[i])
 				if i == 0 {
 					run.worstWind += " (the nominal wind)"
 				}
