@@ -186,7 +186,7 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 	if err != nil {
 		return err
 	}
-	return deliver(stdout, results{out: o.out, format: o.format, raster: o.raster, mapPNG: o.mapPNG, report: o.report,
+	return deliver(ctx, stdout, results{out: o.out, format: o.format, raster: o.raster, mapPNG: o.mapPNG, report: o.report,
 		document:    func(format string) ([]byte, error) { return coverageOutput(run, format) },
 		writeRaster: func(path string) error { return writeLeastRaster(path, run) },
 		draw:        func(m, r string) error { return drawCoverage(run, m, r) },

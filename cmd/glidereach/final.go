@@ -286,7 +286,7 @@ func runFinal(ctx context.Context, o *finalOptions, stdout, stderr io.Writer) er
 
 	// Files first, so that a failure leaves nothing half-written and stdout
 	// shows the summary only for a complete run.
-	return deliver(stdout, results{out: o.out, format: o.format, mapPNG: o.mapPNG, report: o.report,
+	return deliver(ctx, stdout, results{out: o.out, format: o.format, mapPNG: o.mapPNG, report: o.report,
 		document: func(format string) ([]byte, error) { return finalOutput(run, format) },
 		draw:     func(m, r string) error { return drawFinal(run, m, r) },
 		text:     func(w io.Writer) { writeFinalText(w, run) }})

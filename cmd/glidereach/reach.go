@@ -177,7 +177,7 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 	}
 	run.heading = o.heading
 
-	return deliver(stdout, results{out: o.out, format: o.format, raster: o.raster, mapPNG: o.mapPNG, report: o.report,
+	return deliver(ctx, stdout, results{out: o.out, format: o.format, raster: o.raster, mapPNG: o.mapPNG, report: o.report,
 		document: func(format string) ([]byte, error) {
 			if format == "json" {
 				return reachJSON(run)

@@ -180,7 +180,7 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 	if err != nil {
 		return err
 	}
-	return deliver(stdout, results{out: o.out, format: o.format, mapPNG: o.mapPNG, report: o.report,
+	return deliver(ctx, stdout, results{out: o.out, format: o.format, mapPNG: o.mapPNG, report: o.report,
 		document: func(format string) ([]byte, error) { return routeOutput(run, format) },
 		draw:     func(m, r string) error { return drawRoute(run, m, r) },
 		text:     func(w io.Writer) { writeRouteText(w, run) }})
