@@ -3,8 +3,8 @@ package terrain
 import (
 	"errors"
 	"fmt"
-	"math"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
 	"sort"
