@@ -54,7 +54,7 @@ type routeOptions struct {
 
 func newRouteCmd() *cobra.Command {
 	o := &routeOptions{glide: newGlideFlags(), terr: newTerrainFlags(),
-		alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), step: input.NewQuantity(input.Length, 250)}
+		alt: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), agl: input.NewQuantity(input.Length, 0).Within(0, maxAGL), ind: newIndicatedFlags(), step: input.NewQuantity(input.Length, 250).Within(10, 10000)}
 	cmd := &cobra.Command{
 		Use:   "route --route FILE --fields FILE [--alt ALT|--agl HEIGHT]",
 		Short: "Forced-landing options along a planned route: gaps and the altitude that closes them",
@@ -87,10 +87,10 @@ reserve; a margin of +200 m arrives with about reserve + 200 m.
 	fs.StringVar(&o.route, "route", "", "planned route: GPX 1.1 (track or route) or GeoJSON LineString file")
 	fs.StringVar(&o.routeName, "route-name", "", "which route or track of the file, when it holds several")
 	fs.StringVar(&o.fields, "fields", "", "landing fields: GeoJSON points or polygons with a name property")
-	fs.Var(o.alt, "alt", "planned altitude along the whole route: TRUE altitude MSL (m, ft), not the altimeter reading (see --alt-indicated)")
+	fs.Var(o.alt, "alt", o.alt.Help("planned altitude along the whole route: TRUE altitude MSL (m, ft), not the altimeter reading (see --alt-indicated)"))
 	o.ind.register(fs, "planned altitude")
-	fs.Var(o.agl, "agl", "planned height above the terrain under each point (m, ft), instead of --alt")
-	fs.Var(o.step, "step", "sampling step along the route (m, ft, km, nm)")
+	fs.Var(o.agl, "agl", o.agl.Help("planned height above the terrain under each point (m, ft), instead of --alt"))
+	fs.Var(o.step, "step", o.step.Help("sampling step along the route (m, ft, km, nm)"))
 	fs.StringVar(&o.format, "format", "text", "output format: text, json, geojson or csv (stdout, or --out)")
 	fs.StringVar(&o.out, "out", "", "write the result to this file in --format (text summary still printed)")
 	fs.StringVar(&o.mapPNG, "map", "", "draw a map of the route and its gaps to this PNG file")

@@ -50,6 +50,9 @@ func (g ground) elevationAt(lat, lon float64) (float64, bool, error) {
 		return math.NaN(), false, err
 	}
 	v, ok := grid.Elevation(lat, lon)
+	if ok && !(v >= minGround && v <= maxGround) {
+		return math.NaN(), false, fmt.Errorf("%s: elevation %.0f m at %.5f,%.5f is outside %.0f..%.0f m (an undeclared no-data value, or not metres?)", g.src.Describe(), v, lat, lon, minGround, maxGround)
+	}
 	return v, ok, nil
 }
 
