@@ -191,7 +191,7 @@ func terrainSummary(opts terrain.OpenOptions, fill int, paths []string, at *inpu
 	}
 	rep.Voids = g.Voids()
 	rep.Warnings = []string{}
-	if lo, hi, ok := g.ElevationRange(); ok {
+	if lo, hi, ok := g.ElevationRange(); ok && !math.IsInf(lo, 0) && !math.IsInf(hi, 0) {
 		rep.MinM, rep.MaxM = &lo, &hi
 		if w := implausibleElevations(lo, hi); w != "" {
 			rep.Warnings = append(rep.Warnings, w)

@@ -64,6 +64,13 @@ func parseWindInline(spec string) (*wind.Profile, error) {
 	if len(parts) == 0 {
 		return nil, fmt.Errorf("%q has no layers", s)
 	}
+	// An empty layer (a trailing, leading or doubled comma) is a typing
+	// error: a layer may have been lost.
+	for _, part := range strings.Split(strings.ReplaceAll(s, ";", ","), ",") {
+		if strings.TrimSpace(part) == "" {
+			return nil, fmt.Errorf("%q has an empty layer (a trailing, leading or doubled comma?)", s)
+		}
+	}
 	if len(parts) > maxWindLayers {
 		return nil, fmt.Errorf("%d layers: at most %d", len(parts), maxWindLayers)
 	}

@@ -1,0 +1,80 @@
+package terrain
+
+import (
+	"bytes"
+	"errors"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// A float GeoTIFF sample of ±Inf is no elevation: it reads as no data, so
+// the grid's elevation range stays finite (terrain --format json failed with
+// "json: unsupported value: +Inf").
+func TestGeoTIFFInfIsNoData(t *testing.T) {
+	g := &Grid{CRS: CRS{EPSG: 4326}, Cols: 4, Rows: 2, X0: 10, Y0: 20, DX: 0.01, DY: 0.01,
+		Elev: []float32{1, 2, float32(math.Inf(1)), 4, 5, float32(math.Inf(-1)), 7, 8}}
+	var buf bytes.Buffer
+	if err := (GeoTIFFWriter{}).Write(&buf, g); err != nil {
+		t.Fatal(err)
+	}
+	r := bytes.NewReader(buf.Bytes())
+	got, err := ReadGeoTIFFWindow(r, int64(buf.Len()), 9, 19, 11, 21)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !math.IsNaN(float64(got.Elev[2])) || !math.IsNaN(float64(got.Elev[5])) {
+		t.Errorf("±Inf samples read as %v, %v; want NaN (no data)", got.Elev[2], got.Elev[5])
+	}
+	lo, hi, ok := got.ElevationRange()
+	if !ok || lo != 1 || hi != 8 {
+		t.Errorf("range %v..%v (%v), want 1..8", lo, hi, ok)
+	}
+}
+
+// ASCII-grid samples that are not finite elevations are refused: a token
+// longer than the 1 KiB the README promises (5000 digits were read as
+// +Inf), "nan", "inf", and a number beyond float32.
+func TestASCRefusesNonFiniteSamples(t *testing.T) {
+	head := "ncols 2\nnrows 2\nxllcorner 0\nyllcorner 0\ncellsize 0.01\n"
+	for _, c := range []struct{ body, want string }{
+		{strings.Repeat("1", 5000) + " 2\n3 4\n", "longer than 1024"},
+		{"1 2\n3 " + strings.Repeat("7", 2000) + "\n", "longer than 1024"},
+		{"nan 2\n3 4\n", "not a finite"},
+		{"1 inf\n3 4\n", "not a finite"},
+		{"1 2\n-Infinity 4\n", "not a finite"},
+		{"1 2\n3 1e39\n", "not a finite"},
+		{"1 2\n3 1e400\n", "not a number"},
+	} {
+		_, err := ReadASC(strings.NewReader(head+c.body), CRS{EPSG: 4326})
+		var pe *ParseError
+		if !errors.As(err, &pe) || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%.30q: %v, want a ParseError with %q", c.body, err, c.want)
+		}
+	}
+	// An underflow is zero, not an error (it is a number).
+	g, err := ReadASC(strings.NewReader(head+"1e-400 2\n3 4\n"), CRS{EPSG: 4326})
+	if err != nil || g.Elev[0] != 0 {
+		t.Errorf("underflow: %v %v", err, g)
+	}
+}
+
+// A .prj that is a link to an endless stream is read only up to its limit
+// (it was read whole, 4 GB, before the size check).
+func TestPRJSidecarReadWithLimit(t *testing.T) {
+	if _, err := os.Stat("/dev/zero"); err != nil {
+		t.Skip("no /dev/zero")
+	}
+	dir := t.TempDir()
+	asc := filepath.Join(dir, "g.asc")
+	os.WriteFile(asc, []byte("ncols 2\nnrows 2\nxllcorner 0\nyllcorner 0\ncellsize 0.01\n1 2\n3 4\n"), 0o644)
+	if err := os.Symlink("/dev/zero", filepath.Join(dir, "g.prj")); err != nil {
+		t.Fatal(err)
+	}
+	_, err := Open(asc)
+	if err == nil || !strings.Contains(err.Error(), "too large for a .prj") {
+		t.Errorf("got %v, want too large", err)
+	}
+}
