@@ -63,14 +63,24 @@ const (
 // contract: 0 success, 130 interrupted by a signal, 1 a failed write, 2 a
 // usage or input error, 1 anything else. It prints the error on stderr.
 func exitCode(err error) int {
+	code := exitStatus(err)
+	switch {
+	case code == exitInterrupted:
+		fmt.Fprintln(os.Stderr, "glidereach: interrupted")
+	case err != nil:
+		fmt.Fprintln(os.Stderr, "glidereach:", err)
+	}
+	return code
+}
+
+// exitStatus is the exit status of err, without printing it.
+func exitStatus(err error) int {
 	if err == nil {
 		return exitOK
 	}
 	if errors.Is(err, context.Canceled) {
-		fmt.Fprintln(os.Stderr, "glidereach: interrupted")
 		return exitInterrupted
 	}
-	fmt.Fprintln(os.Stderr, "glidereach:", err)
 	var wf *writeFailure
 	if errors.As(err, &wf) {
 		return exitFailure

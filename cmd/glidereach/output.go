@@ -386,20 +386,22 @@ func checkOutputs(out, raster, mapPNG, report string) error {
 			return err
 		}
 		key := sameFileKey(f.path)
-		if prev, ok := seenTarget[key]; ok {
+		if prev, ok := seenTarget[key]; ok && key != "" {
 			return input.Usagef(f.flag, "%q is the same file as %s; give each output its own file", f.path, prev)
 		}
 		seenTarget[key] = f.flag
 	}
-	if mapPNG != "" && !strings.EqualFold(filepath.Ext(mapPNG), ".png") {
+	// A device or FIFO (/dev/null) takes any output whatever its name.
+	direct := func(p string) bool { t, err := resolveOutput(p); return err == nil && t.direct }
+	if mapPNG != "" && !direct(mapPNG) && !strings.EqualFold(filepath.Ext(mapPNG), ".png") {
 		return input.Usagef("--map", "%q: want a .png file name", mapPNG)
 	}
-	if report != "" {
+	if report != "" && !direct(report) {
 		if ext := strings.ToLower(filepath.Ext(report)); ext != ".html" && ext != ".htm" {
 			return input.Usagef("--report", "%q: want an .html file name", report)
 		}
 	}
-	if raster != "" {
+	if raster != "" && !direct(raster) {
 		ext := strings.ToLower(filepath.Ext(raster))
 		if ext != ".tif" && ext != ".tiff" && ext != ".asc" {
 			return input.Usagef("--raster", "%q: want a .tif or .asc file name", raster)
@@ -417,7 +419,7 @@ func sameFileKey(path string) string {
 		return path
 	}
 	if t.direct {
-		return "\x00direct:" + path // never a duplicate
+		return "" // a device or FIFO may be named by several outputs
 	}
 	dir, err := filepath.EvalSymlinks(filepath.Dir(t.path))
 	if err != nil {

@@ -81,6 +81,11 @@ Built-in profiles: ` + strings.Join(reach.BuiltinNames(), ", ") + ` (generic, in
 			if w := minSpeedWarning(ac); w != "" {
 				fmt.Fprintln(cmd.ErrOrStderr(), "glidereach: WARNING:", w)
 			}
+			if out != "" {
+				if err := checkOutputs(out, "", "", ""); err != nil {
+					return err
+				}
+			}
 			if _, ok := speedUnits[unit]; !ok {
 				return input.Usagef("--units", "%q: want kt, km/h or mph", unit)
 			}
