@@ -78,3 +78,49 @@ func TestPRJSidecarReadWithLimit(t *testing.T) {
 		t.Errorf("got %v, want too large", err)
 	}
 }
+
+// Frame.Inverse undoes Forward everywhere, the poles included (the Newton
+// iteration it replaced gave longitudes of ±766° from 89.9° N and ±1.7e9
+// from 90° N), and keeps longitudes within 180° of the origin's.
+func TestFrameInverseRoundTrip(t *testing.T) {
+	for _, o := range [][2]float64{{0, 0}, {45, 10}, {-33, 151}, {89.9, 0}, {90, 0}, {-90, 45}, {0, 180}, {10, -180}, {89.999, 179.9}} {
+		f := NewFrame(o[0], o[1])
+		for _, d := range [][2]float64{{0, 0}, {0.05, 0.05}, {-0.08, 0.1}, {0.09, -0.2}, {0.01, 1.5}} {
+			lat, lon := o[0]+d[0], o[1]+d[1]
+			if lat > 90 || lat < -90 {
+				continue
+			}
+			x, y := f.Forward(lat, lon)
+			gl, gn := f.Inverse(x, y)
+			if math.Abs(gl-lat) > 1e-9 {
+				t.Errorf("origin %v: lat %v → %v", o, lat, gl)
+			}
+			if math.Abs(lat) < 90-1e-9 {
+				if dl := math.Remainder(gn-lon, 360); math.Abs(dl)*math.Cos(lat*math.Pi/180) > 1e-9 {
+					t.Errorf("origin %v: lon %v → %v", o, lon, gn)
+				}
+			}
+			if math.Abs(gn-o[1]) > 180 {
+				t.Errorf("origin %v: lon %v more than 180° from the origin's", o, gn)
+			}
+		}
+	}
+	// Near the pole, within a 20 km window, every longitude stays sane.
+	f := NewFrame(89.9, 0)
+	for x := -20000.0; x <= 20000; x += 1000 {
+		for y := -20000.0; y <= 20000; y += 1000 {
+			lat, lon := f.Inverse(x, y)
+			if !(lat >= -90 && lat <= 90 && lon >= -180 && lon <= 180) {
+				t.Fatalf("Inverse(%v, %v) = %v, %v", x, y, lat, lon)
+			}
+		}
+	}
+}
+
+func TestNormLon(t *testing.T) {
+	for _, c := range [][2]float64{{0, 0}, {180, -180}, {180.097, -179.903}, {-180, -180}, {-180.5, 179.5}, {540, -180}, {766, 46}, {-766, -46}} {
+		if got := NormLon(c[0]); math.Abs(got-c[1]) > 1e-9 {
+			t.Errorf("NormLon(%v) = %v, want %v", c[0], got, c[1])
+		}
+	}
+}

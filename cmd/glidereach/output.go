@@ -11,6 +11,8 @@ import (
 	"strings"
 	"syscall"
 
+	"github.com/paulmach/orb/geojson"
+
 	"glidereach/cmd/glidereach/input"
 )
 
@@ -454,8 +456,12 @@ func checkOutputPath(flag, path string) error {
 }
 
 // jsonDoc marshals an output document, indented by indent, with a final
-// newline.
+// newline. A GeoJSON FeatureCollection is first made valid under RFC 7946
+// §3.1.9 (splitAntimeridian).
 func jsonDoc(v any, indent string) ([]byte, error) {
+	if fc, ok := v.(*geojson.FeatureCollection); ok {
+		splitAntimeridian(fc)
+	}
 	data, err := json.MarshalIndent(v, "", indent)
 	if err != nil {
 		return nil, err

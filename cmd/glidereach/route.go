@@ -485,6 +485,9 @@ func areaWindow(g ground, minLat, minLon, maxLat, maxLon, margin float64, flag s
 		y0, y1 = math.Min(y0, y), math.Max(y1, y)
 	}
 	x0, y0, x1, y1 = x0-margin, y0-margin, x1+margin, y1+margin
+	if err := checkPlane(flag, f, x0, y0, x1, y1); err != nil {
+		return nil, nil, err
+	}
 	w, h := x1-x0, y1-y0
 	cell, capCells := minFlatCell, float64(flatAreaCells)
 	if g.src != nil {

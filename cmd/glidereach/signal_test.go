@@ -36,16 +36,18 @@ func TestSignalStopsRun(t *testing.T) {
 			if i > 0 {
 				b.WriteString(",")
 			}
-			fmt.Fprintf(&b, `{"type":"Feature","properties":{"name":"F%d"},"geometry":{"type":"Point","coordinates":[%g,%g]}}`, i, -27+float64(i%20)*0.3, -4+float64(i/20)*0.3)
+			fmt.Fprintf(&b, `{"type":"Feature","properties":{"name":"F%d"},"geometry":{"type":"Point","coordinates":[%g,%g]}}`, i, -26+float64(i%20)*0.2, -3+float64(i/20)*0.2)
 		}
 		b.WriteString("]}")
 		fields := filepath.Join(dir, "fields.geojson")
 		os.WriteFile(fields, []byte(b.String()), 0o644)
+		area := filepath.Join(dir, "area.geojson")
+		os.WriteFile(area, []byte(`{"type":"Polygon","coordinates":[[[-26,-3],[-22,-3],[-22,1],[-26,1],[-26,-3]]]}`), 0o644)
 		outs := []string{"c.geojson", "c.png", "c.html", "c.tif"}
 		for _, n := range outs {
 			os.WriteFile(filepath.Join(dir, n), []byte("old"), 0o644)
 		}
-		cmd := exec.Command(os.Args[0], "coverage", "--fields", fields, "--area", "-27,-4,-21,2", "--alt", "3000m",
+		cmd := exec.Command(os.Args[0], "coverage", "--fields", fields, "--area", area, "--alt", "3000m",
 			"--out", filepath.Join(dir, "c.geojson"), "--map", filepath.Join(dir, "c.png"),
 			"--report", filepath.Join(dir, "c.html"), "--raster", filepath.Join(dir, "c.tif"))
 		cmd.Env = append(os.Environ(), "GLIDEREACH_TEST_MAIN=1")

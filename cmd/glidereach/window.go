@@ -65,6 +65,9 @@ func (g ground) window(lat0, lon0, radius float64) (*terrain.Local, *terrain.Gri
 		radius = 500
 	}
 	if g.src == nil {
+		if err := checkPlane("--from", f, -radius, -radius, radius, radius); err != nil {
+			return nil, nil, err
+		}
 		n := flatWindowSide
 		cell := 2 * radius / float64(n-1)
 		half := float64(n-1) / 2 * cell
@@ -75,6 +78,9 @@ func (g ground) window(lat0, lon0, radius float64) (*terrain.Local, *terrain.Gri
 	cell := g.src.Resolution()
 	if cell <= 0 || math.IsNaN(cell) {
 		cell = 30
+	}
+	if err := checkPlane("--from", f, -radius, -radius, radius, radius); err != nil {
+		return nil, nil, err
 	}
 	n := int(math.Ceil(2*radius/cell)) + 1
 	if n > maxWindowSide {
@@ -98,6 +104,37 @@ func (g ground) window(lat0, lon0, radius float64) (*terrain.Local, *terrain.Gri
 		g.warn(w)
 	}
 	return l, grid, nil
+}
+
+// maxPlaneRadius bounds how far a solver window may reach from its frame's
+// origin (m). The solvers work on the plane tangent at the origin; at a
+// distance d a distance across the radial direction shrinks by cos(d/R), so
+// 500 km keeps that error below 0.31 % (R = 6371 km), within the 0.5 %
+// accuracy bar. Larger areas must be split.
+const maxPlaneRadius = 500e3
+
+// checkPlane refuses, naming flag, a solver window x0..x1, y0..y1 (m, in
+// frame f) that one local plane cannot represent: one that holds a pole
+// (lon/lat outputs cannot draw a polar cap, and longitudes are undefined
+// there) or one reaching more than maxPlaneRadius from the origin.
+func checkPlane(flag string, f terrain.Frame, x0, y0, x1, y1 float64) error {
+	for _, pole := range []float64{90, -90} {
+		if pole*f.Lat0 < 0 {
+			continue // the far pole is beyond the plane's horizon
+		}
+		px, py := f.Forward(pole, f.Lon0)
+		if px >= x0 && px <= x1 && py >= y0 && py <= y1 {
+			name := "North"
+			if pole < 0 {
+				name = "South"
+			}
+			return input.Usagef(flag, "the computed window (%.0f × %.0f km) holds the %s Pole: one local plane with lon/lat outputs cannot represent a polar cap; keep the area and its glides %.0f km or more from the pole", (x1-x0)/1000, (y1-y0)/1000, name, math.Max(x1-x0, y1-y0)/1000)
+		}
+	}
+	if r := math.Hypot(math.Max(-x0, x1), math.Max(-y0, y1)); !(r <= maxPlaneRadius) {
+		return input.Usagef(flag, "the computed window reaches %.0f km from its centre, more than the %.0f km one local plane represents within 0.31 %%; split the area (or lower the altitude)", r/1000, maxPlaneRadius/1000)
+	}
+	return nil
 }
 
 // terrainWarning returns a warning when the window's elevations are not
