@@ -124,3 +124,20 @@ func TestNormLon(t *testing.T) {
 		}
 	}
 }
+
+// Two small files in different CRSs some 600 km apart: reading the whole
+// mosaic is refused at once (it took 90 s and 600 MB for 21 600 cells of
+// data), while a window over one of them still reads.
+func TestMosaicFarApartRefused(t *testing.T) {
+	src, err := Open("../testdata/geotiff/utm32626_int16_tiled_deflate.tif", "../testdata/geotiff/geo_int16_strip_none.tif")
+	if err != nil {
+		t.Fatal(err)
+	}
+	w, s, e, n := src.Extent()
+	if _, err := src.Window(w, s, e, n); err == nil || !strings.Contains(err.Error(), "far apart") {
+		t.Errorf("whole mosaic: %v, want refused as far apart", err)
+	}
+	if g, err := src.Window(-25.01, -0.01, -24.99, 0.01); err != nil || g.Cols == 0 {
+		t.Errorf("window over one file: %v", err)
+	}
+}
