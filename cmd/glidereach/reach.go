@@ -74,6 +74,26 @@ just reach them with the reserve.
 	return cmd
 }
 
+// parseLevels parses --levels: at most maxLevels arrival heights above
+// the ground, each 0..5000 m. Errors are usage errors naming the flag.
+func parseLevels(levels []string) ([]float64, error) {
+	if len(levels) > maxLevels {
+		return nil, input.Usagef("--levels", "%d levels given; at most %d", len(levels), maxLevels)
+	}
+	var extra []float64
+	for _, s := range levels {
+		v, err := input.ParseQuantity(s, input.Length)
+		if err != nil {
+			return nil, input.FlagError("--levels", s, err)
+		}
+		if v < 0 || v > 5000 {
+			return nil, input.Usagef("--levels", "%q is outside 0..5000 m", s)
+		}
+		extra = append(extra, v)
+	}
+	return extra, nil
+}
+
 // maxLevels bounds --levels: each level is one more contouring of the
 // footprint, and a map cannot show more than a handful apart.
 const maxLevels = 20
@@ -151,19 +171,9 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 	if o.headingGiven && !(o.heading >= 0 && o.heading <= 360) {
 		return input.Usagef("--heading", "%v is outside 0..360 degrees true", o.heading)
 	}
-	if len(o.levels) > maxLevels {
-		return input.Usagef("--levels", "%d levels given; at most %d", len(o.levels), maxLevels)
-	}
-	var extra []float64
-	for _, s := range o.levels {
-		v, err := input.ParseQuantity(s, input.Length)
-		if err != nil {
-			return input.FlagError("--levels", s, err)
-		}
-		if v < 0 || v > 5000 {
-			return input.Usagef("--levels", "%q is outside 0..5000 m", s)
-		}
-		extra = append(extra, v)
+	extra, err := parseLevels(o.levels)
+	if err != nil {
+		return err
 	}
 	if err := checkOutputs(o.out, o.raster, o.mapPNG, o.report); err != nil {
 		return err

@@ -134,7 +134,10 @@ func NewCorridor(route *Route, width float64) (*Corridor, error) {
 		}
 	}
 	line := route.Line()
-	simple := simplifyLine(line, corridorTolerance)
+	simple := line
+	if width/2 >= 100*corridorTolerance { // narrower corridors keep every point
+		simple = simplifyLine(line, corridorTolerance)
+	}
 	sp, err := geodesy.Sample(simple, pieceLen)
 	if err != nil {
 		return nil, fmt.Errorf("corridor: %w", err)
