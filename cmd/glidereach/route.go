@@ -479,7 +479,15 @@ func boundsOfSamples(s []input.RouteSample) [4]float64 {
 func areaWindow(g ground, minLat, minLon, maxLat, maxLon, margin float64, flag string) (*terrain.Local, *terrain.Grid, error) {
 	f := terrain.NewFrame((minLat+maxLat)/2, (minLon+maxLon)/2)
 	x0, y0, x1, y1 := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
-	for _, ll := range [][2]float64{{minLat, minLon}, {minLat, maxLon}, {maxLat, minLon}, {maxLat, maxLon}, {minLat, (minLon + maxLon) / 2}, {maxLat, (minLon + maxLon) / 2}} {
+	corners := [][2]float64{{minLat, minLon}, {minLat, maxLon}, {maxLat, minLon}, {maxLat, maxLon}, {minLat, (minLon + maxLon) / 2}, {maxLat, (minLon + maxLon) / 2}}
+	// Far corners would fold back onto the plane (orthographic): measure
+	// them on the sphere first.
+	for _, ll := range corners {
+		if d := arcDistance(f.Lat0, f.Lon0, ll[0], ll[1]); d > maxPlaneRadius {
+			return nil, nil, input.Usagef(flag, "the %s spans %.0f km from its centre, more than the %.0f km one local plane represents within 0.31 %%; split the area (an area across the antimeridian cannot be analysed in one piece)", flag[2:], d/1000, maxPlaneRadius/1000)
+		}
+	}
+	for _, ll := range corners {
 		x, y := f.Forward(ll[0], ll[1])
 		x0, x1 = math.Min(x0, x), math.Max(x1, x)
 		y0, y1 = math.Min(y0, y), math.Max(y1, y)

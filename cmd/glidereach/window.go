@@ -137,6 +137,16 @@ func checkPlane(flag string, f terrain.Frame, x0, y0, x1, y1 float64) error {
 	return nil
 }
 
+// arcDistance is the great-circle distance (m) between two points on the
+// sphere of the authalic radius, 6371007 m: enough to size a window.
+func arcDistance(lat1, lon1, lat2, lon2 float64) float64 {
+	const r = 6371007.0
+	p1, p2 := lat1*math.Pi/180, lat2*math.Pi/180
+	dp, dl := p2-p1, (lon2-lon1)*math.Pi/180
+	h := math.Sin(dp/2)*math.Sin(dp/2) + math.Cos(p1)*math.Cos(p2)*math.Sin(dl/2)*math.Sin(dl/2)
+	return 2 * r * math.Asin(math.Min(1, math.Sqrt(h)))
+}
+
 // terrainWarning returns a warning when the window's elevations are not
 // those of land (an undeclared no-data value taken as ground, or a misread
 // file), else "".
