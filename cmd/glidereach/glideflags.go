@@ -457,14 +457,14 @@ func (f *indicatedFlags) reading(alt float64) (float64, bool) {
 }
 
 func newIndicatedFlags() *indicatedFlags {
-	return &indicatedFlags{altInd: input.NewQuantity(input.Length, 0), stationElev: input.NewQuantity(input.Length, 0)}
+	return &indicatedFlags{altInd: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), stationElev: input.NewQuantity(input.Length, 0).Within(minGround, maxGround)}
 }
 
 // register adds the three flags; what names the altitude ("start
 // altitude", "planned altitude").
 func (f *indicatedFlags) register(fs *pflag.FlagSet, what string) {
-	fs.Var(f.altInd, "alt-indicated", what+" as the altimeter reads it, set to the local QNH (m, ft); needs --station-elev and --station-temp, corrected for cold air by the ICAO rule (Doc 8168), instead of --alt")
-	fs.Var(f.stationElev, "station-elev", "with --alt-indicated: elevation of the altimeter setting source, normally the aerodrome whose QNH is set (m, ft)")
+	fs.Var(f.altInd, "alt-indicated", f.altInd.Help(what+" as the altimeter reads it, set to the local QNH (m, ft); needs --station-elev and --station-temp, corrected for cold air by the ICAO rule (Doc 8168), instead of --alt"))
+	fs.Var(f.stationElev, "station-elev", f.stationElev.Help("with --alt-indicated: elevation of the altimeter setting source, normally the aerodrome whose QNH is set (m, ft)"))
 	fs.StringVar(&f.stationTemp, "station-temp", "", "with --alt-indicated: air temperature reported at the altimeter setting source (e.g. -15C, 258K)")
 	// No "(default 0m)": an unset reading is not 0 m.
 	fs.Lookup("alt-indicated").DefValue = ""
