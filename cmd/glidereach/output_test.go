@@ -3,13 +3,17 @@ package main
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"errors"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
 	"syscall"
 	"testing"
+
+	"glidereach/terrain"
 )
 
 // reachArgs is a quick reach run on flat ground (well under a second).
@@ -272,4 +276,32 @@ func TestDeliverCommitsAll(t *testing.T) {
 		t.Errorf("map mode %v, want 0600", st.Mode().Perm())
 	}
 	assertNoTemp(t, dir)
+}
+
+// terrain --format json on a float GeoTIFF holding ±Inf samples exits 0
+// with finite numbers (it exited 1 with "json: unsupported value: +Inf"):
+// the infinite samples are read as voids.
+func TestTerrainJSONNonFinite(t *testing.T) {
+	g := &terrain.Grid{CRS: terrain.CRS{EPSG: 4326}, Cols: 3, Rows: 2, X0: -24.5, Y0: -0.5, DX: 0.01, DY: 0.01,
+		Elev: []float32{10, float32(math.Inf(1)), 30, float32(math.Inf(-1)), 50, 60}}
+	p := filepath.Join(t.TempDir(), "inf.tif")
+	f, err := os.Create(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := (terrain.GeoTIFFWriter{}).Write(f, g); err != nil {
+		t.Fatal(err)
+	}
+	f.Close()
+	code, out, _ := runCLI(t, "terrain", p, "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d", code)
+	}
+	var raw map[string]any
+	if err := json.Unmarshal([]byte(out), &raw); err != nil {
+		t.Fatal(err)
+	}
+	if raw["elevation_min_m"] != 10.0 || raw["elevation_max_m"] != 60.0 || raw["voids"] != 2.0 {
+		t.Errorf("min %v max %v voids %v, want 10, 60, 2", raw["elevation_min_m"], raw["elevation_max_m"], raw["voids"])
+	}
 }
