@@ -113,9 +113,12 @@ func TestCLIErrorCorpus(t *testing.T) {
 	}
 	for _, e := range es {
 		tmp := t.TempDir()
-		fixtures := map[string]bool{"zero.asc": true, "zero.prj": true, "adir.geojson": true}
+		fixtures := map[string]bool{"zero.asc": true, "adir.geojson": true}
 		os.WriteFile(filepath.Join(tmp, "zero.asc"), []byte("ncols 2\nnrows 2\nxllcorner -25\nyllcorner -1\ncellsize 1\n1 2\n3 4\n"), 0o644)
-		os.Symlink("/dev/zero", filepath.Join(tmp, "zero.prj"))
+		for _, n := range []string{"zero.prj", "zero.yaml", "zero.geojson", "zero.tif"} {
+			os.Symlink("/dev/zero", filepath.Join(tmp, n))
+			fixtures[n] = true
+		}
 		os.Mkdir(filepath.Join(tmp, "adir.geojson"), 0o755)
 		args := make([]string, len(e.args))
 		r := strings.NewReplacer("{td}", td, "{fx}", filepath.Join(td, "cli-errors"), "{tmp}", tmp)

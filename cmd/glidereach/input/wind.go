@@ -42,10 +42,14 @@ var windFileExts = map[string]bool{".yaml": true, ".yml": true, ".json": true, "
 // with Where set to the file, line and column.
 func ParseWind(spec string) (*wind.Profile, error) {
 	s := strings.TrimSpace(spec)
-	if st, err := os.Stat(s); err == nil && st.Mode().IsRegular() {
+	st, err := os.Stat(s)
+	if err == nil && st.Mode().IsRegular() {
 		return ParseWindFile(s)
 	}
 	if windFileExts[strings.ToLower(filepath.Ext(s))] {
+		if err == nil {
+			return nil, &UsageError{Where: s, Err: errors.New("not a regular file (a wind file must be one)")}
+		}
 		return nil, &UsageError{Where: s, Err: errors.New("wind file not found")}
 	}
 	return parseWindInline(s)
