@@ -65,7 +65,7 @@ func (g ground) window(lat0, lon0, radius float64) (*terrain.Local, *terrain.Gri
 		radius = 500
 	}
 	if g.src == nil {
-		if err := checkPlane("--from", f, -radius, -radius, radius, radius); err != nil {
+		if err := checkRound("--from", lat0, lon0, radius); err != nil {
 			return nil, nil, err
 		}
 		n := flatWindowSide
@@ -79,7 +79,7 @@ func (g ground) window(lat0, lon0, radius float64) (*terrain.Local, *terrain.Gri
 	if cell <= 0 || math.IsNaN(cell) {
 		cell = 30
 	}
-	if err := checkPlane("--from", f, -radius, -radius, radius, radius); err != nil {
+	if err := checkRound("--from", lat0, lon0, radius); err != nil {
 		return nil, nil, err
 	}
 	n := int(math.Ceil(2*radius/cell)) + 1
@@ -133,6 +133,26 @@ func checkPlane(flag string, f terrain.Frame, x0, y0, x1, y1 float64) error {
 	}
 	if r := math.Hypot(math.Max(-x0, x1), math.Max(-y0, y1)); !(r <= maxPlaneRadius) {
 		return input.Usagef(flag, "the computed window reaches %.0f km from its centre, more than the %.0f km one local plane represents within 0.31 %%; split the area (or lower the altitude)", r/1000, maxPlaneRadius/1000)
+	}
+	return nil
+}
+
+// checkRound is checkPlane for a window around a start whose glides reach
+// at most radius (m): what counts is the circle the glides can reach, not
+// the corners of the square window beyond it. A pole within it, or a radius
+// beyond maxPlaneRadius, is refused naming flag.
+func checkRound(flag string, lat0, lon0, radius float64) error {
+	for _, pole := range []float64{90, -90} {
+		if d := arcDistance(lat0, lon0, pole, lon0); d <= radius {
+			name := "North"
+			if pole < 0 {
+				name = "South"
+			}
+			return input.Usagef(flag, "the glides could reach %.0f km, and the %s Pole is %.0f km away: one local plane with lon/lat outputs cannot represent a polar cap; start farther from the pole or lower", radius/1000, name, d/1000)
+		}
+	}
+	if !(radius <= maxPlaneRadius) {
+		return input.Usagef(flag, "the glides could reach %.0f km, more than the %.0f km one local plane represents within 0.31 %%; start lower", radius/1000, maxPlaneRadius/1000)
 	}
 	return nil
 }
