@@ -6,6 +6,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -141,3 +142,33 @@ func TestMosaicFarApartRefused(t *testing.T) {
 		t.Errorf("window over one file: %v", err)
 	}
 }
+
+// A geographic grid may overhang ±180° and ±90° by half a cell (edge cells
+// centred on the meridian, as SRTM tiles are), not more: one reaching
+// 180.25° E was accepted (the tolerance was half a degree whatever the cell).
+func TestGeographicExtentOnTheGlobe(t *testing.T) {
+	head := func(xll, yll, cell float64, corner bool) string {
+		k := "xllcenter"
+		if corner {
+			k = "xllcorner"
+		}
+		return "ncols 3\nnrows 3\n" + k + " " + ftoa(xll) + "\nyllcorner " + ftoa(yll) + "\ncellsize " + ftoa(cell) + "\n1 2 3\n4 5 6\n7 8 9\n"
+	}
+	for _, c := range []struct {
+		name string
+		text string
+		ok   bool
+	}{
+		{"reaches 180.25 E", head(179.95, 0, 0.1, true), false},
+		{"ends at 180 E", head(179.7, 0, 0.1, true), true},
+		{"centres up to 180 E (half a cell over)", head(179.8, 0, 0.1, false), true},
+		{"a cell over -180", head(-180.2, 0, 0.1, false), false},
+	} {
+		_, err := ReadASC(strings.NewReader(c.text), CRS{EPSG: 4326})
+		if (err == nil) != c.ok {
+			t.Errorf("%s: err %v, want ok=%v", c.name, err, c.ok)
+		}
+	}
+}
+
+func ftoa(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
