@@ -9,7 +9,6 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
-	"syscall"
 
 	"github.com/paulmach/orb/geojson"
 
@@ -449,9 +448,14 @@ func checkOutputPath(flag, path string) error {
 	if st, err := os.Stat(dir); err != nil || !st.IsDir() {
 		return input.Usagef(flag, "%q: directory %s does not exist", path, dir)
 	}
-	if err := syscall.Access(dir, 2 /* W_OK */); err != nil {
-		return input.Usagef(flag, "%q: directory %s is not writable (%v)", path, dir, err)
+	// Create (and remove) a file there: the temporary file of the output
+	// will need the same, and this also catches a read-only file system.
+	probe, err := os.CreateTemp(dir, ".glidereach-check-*")
+	if err != nil {
+		return input.Usagef(flag, "%q: cannot create files in %s (%v)", path, dir, err)
 	}
+	probe.Close()
+	os.Remove(probe.Name())
 	return nil
 }
 
