@@ -76,6 +76,17 @@ func (c Conditions) Validate() error {
 // fitting error, not an aircraft. The best_glide form has the same bound.
 const MaxGlideRatio = 100.0
 
+// Bounds of a profile that Validate enforces: light aircraft and gliders
+// weigh well under 10 t and fly below 300 kt (common practice, no source;
+// the largest light aircraft certified under CS-23/FAR 23 normal category
+// stay below 5.7 t, from memory), and the margins are those of the command
+// line's --reserve and --clearance.
+const (
+	MaxProfileMass   = 10000.0    // kg, reference_mass and mass
+	MaxProfileSpeed  = 300 * knot // m/s, max_speed (IAS)
+	MaxProfileMargin = 3000.0     // m, reserve and clearance
+)
+
 // ProfileError is the error of Aircraft.Validate: Field names the profile
 // key at fault as written in profile files ("reference_mass", "mass",
 // "stall_speed", "min_speed", "max_speed", "reserve", "clearance" or
@@ -126,12 +137,25 @@ func (ac *Aircraft) Validate() error {
 		return fail("min_speed", "minimum speed %s is not above the stall speed %s", kt(ac.MinIAS), kt(ac.StallIAS))
 	case ac.baseMinIAS() >= ac.MaxIAS:
 		return fail(minField, "lowest usable speed %s (%s) is not below the maximum speed %s", kt(ac.baseMinIAS()), ac.minSource(), kt(ac.MaxIAS))
+	case ac.RefMass > MaxProfileMass:
+		return fail("reference_mass", "reference mass %.0f kg is more than %.0f kg: not a light aircraft or glider", ac.RefMass, MaxProfileMass)
+	case ac.Mass > MaxProfileMass:
+		return fail("mass", "mass %.0f kg is more than %.0f kg: not a light aircraft or glider", ac.Mass, MaxProfileMass)
+	case ac.MaxIAS > MaxProfileSpeed:
+		return fail("max_speed", "maximum speed %s is more than %s: not a light aircraft or glider (a typing or unit error?)", kt(ac.MaxIAS), kt(MaxProfileSpeed))
 	case ac.Polar == nil:
 		return fail("polar", "no polar")
 	case !(ac.Reserve >= 0) || math.IsInf(ac.Reserve, 0):
 		return fail("reserve", "reserve %v m is negative", ac.Reserve)
+	case ac.Reserve > MaxProfileMargin:
+		return fail("reserve", "reserve %.0f m is more than %.0f m", ac.Reserve, MaxProfileMargin)
 	case !(ac.Clearance >= 0) || math.IsInf(ac.Clearance, 0):
 		return fail("clearance", "clearance %v m is negative", ac.Clearance)
+	case ac.Clearance > MaxProfileMargin:
+		return fail("clearance", "clearance %.0f m is more than %.0f m", ac.Clearance, MaxProfileMargin)
+	}
+	if bg, ok := ac.Polar.(*BestGlidePolar); ok && !(bg.Speed > ac.StallIAS && bg.Speed <= ac.MaxIAS) {
+		return fail("polar", "best_glide_speed %s is not between the stall speed %s and the maximum speed %s", kt(bg.Speed), kt(ac.StallIAS), kt(ac.MaxIAS))
 	}
 	if err := ac.checkSink(ac.baseMinIAS(), ac.MaxIAS); err != nil {
 		return fail("polar", "%v", err)

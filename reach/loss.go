@@ -64,15 +64,31 @@ type descent struct {
 // errNoGlide reports a model that gives no finite ground distance anywhere.
 var errNoGlide = errors.New("reach: the aircraft makes no headway in any direction")
 
+// Bounds of a descent table: the height span of NewTable's range, and at
+// most 2²⁶ entries (512 MiB of float64) whatever the step.
+const (
+	maxDescentSpan  = 25000.0
+	maxDescentCells = 1 << 26
+)
+
 // newDescent tabulates m between hBot and hTop (metres MSL) every dh metres
 // over nDir directions.
 func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error) {
 	if !(hTop > hBot) || dh <= 0 || nDir < 4 {
 		return nil, fmt.Errorf("reach: bad descent table range %g..%g m step %g m, %d directions", hBot, hTop, dh, nDir)
 	}
+	// Bound the table before allocating it: heights span at most the
+	// atmosphere a table may cover (NewTable's -5000..20000 m), so a range
+	// beyond that is a caller's error, not a 288 GB allocation.
+	if hTop-hBot > maxDescentSpan || math.IsInf(hTop, 0) || math.IsInf(hBot, 0) || nDir > 1<<16 {
+		return nil, fmt.Errorf("reach: descent table range %g..%g m (%d directions) is beyond the %g m an atmosphere table spans", hBot, hTop, nDir, maxDescentSpan)
+	}
 	nh := int(math.Ceil((hTop-hBot)/dh)) + 1
 	if nh < 2 {
 		nh = 2
+	}
+	if int64(nh)*int64(nDir) > maxDescentCells {
+		return nil, fmt.Errorf("reach: descent table of %d heights × %d directions exceeds %d entries; use a coarser height step", nh, nDir, int64(maxDescentCells))
 	}
 	dh = (hTop - hBot) / float64(nh-1)
 	t := &descent{hBot: hBot, hTop: hTop, dh: dh, nh: nh, nDir: nDir, dirStep: 2 * math.Pi / float64(nDir), invStep: float64(nDir) / (2 * math.Pi)}

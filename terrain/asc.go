@@ -96,6 +96,10 @@ token:
 		for i < s.end {
 			c := s.buf[i]
 			if c == ' ' || c == '\n' || c == '\t' || c == '\r' || c == '\f' || c == '\v' {
+				if i-s.pos > ascMaxToken {
+					s.err = &ParseError{Line: line, Err: fmt.Errorf("token longer than %d bytes", ascMaxToken)}
+					return nil, line, false
+				}
 				tok = s.buf[s.pos:i]
 				s.pos = i
 				return tok, line, true
@@ -107,6 +111,10 @@ token:
 			return nil, line, false
 		}
 		if s.eof {
+			if i-s.pos > ascMaxToken {
+				s.err = &ParseError{Line: line, Err: fmt.Errorf("token longer than %d bytes", ascMaxToken)}
+				return nil, line, false
+			}
 			tok = s.buf[s.pos:i]
 			s.pos = i
 			return tok, line, len(tok) > 0
@@ -159,8 +167,10 @@ func parseNumber(b []byte) (float64, bool) {
 		return v, true
 	}
 slow:
+	// Out of range is not a number here: strconv returns ±Inf for an
+	// overflow (a 5000-digit token), and 0 for an underflow, which is kept.
 	v, err := strconv.ParseFloat(string(b), 64)
-	if err != nil && !errors.Is(err, strconv.ErrRange) {
+	if err != nil && !(errors.Is(err, strconv.ErrRange) && v == 0) {
 		return 0, false
 	}
 	return v, true
@@ -357,7 +367,12 @@ func readASCCells(s *ascScanner, h *ascHeader, c0, r0, c1, r1 int, whole bool) (
 			return nil, &ParseError{Line: line, Err: fmt.Errorf("sample %d (row %d, column %d) %.40q is not a number", k+1, r+1, c+1, tok)}
 		}
 		f := float32(v)
-		if f == nodata || math.IsNaN(v) {
+		if math.IsNaN(v) || math.IsInf(float64(f), 0) {
+			// A void is NODATA_value; "nan" or "inf" or a value beyond
+			// float32 is a broken file, not ground.
+			return nil, &ParseError{Line: line, Err: fmt.Errorf("sample %d (row %d, column %d) %.40q is not a finite elevation (voids are NODATA_value)", k+1, r+1, c+1, tok)}
+		}
+		if f == nodata {
 			f = nan
 		}
 		g.Elev = append(g.Elev, f)

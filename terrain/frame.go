@@ -55,34 +55,47 @@ func (f Frame) Forward(lat, lon float64) (x, y float64) {
 	return x, y
 }
 
-// Inverse maps local x, y (metres) back to lat, lon (degrees) by Newton
-// iteration on Forward; it converges to below 1 mm in three steps within
-// 200 km of the origin.
+// Inverse maps local x, y (metres) back to lat, lon (degrees), exactly:
+// the ellipsoid point P whose orthogonal projection onto the tangent plane
+// is (x, y) is O + x·ê + y·n̂ + t·û, with t the larger root of the quadratic
+// that puts P on the ellipsoid (the near side), and P's geodetic latitude
+// on the surface is atan2(z, (1 − e²)·√(x² + y²)) in earth-centred
+// coordinates. It holds at the poles, where the former Newton iteration
+// in longitude diverged (longitudes of ±766° at 89.9° N).
+//
+// The longitude is the one closest to the frame's Lon0 (within ±180° of
+// it), so a window across the antimeridian keeps continuous longitudes
+// (e.g. 180.05); callers that write lon/lat normalise (NormLon). A point
+// beyond the plane's horizon (more than an earth radius away) maps to the
+// horizon.
 func (f Frame) Inverse(x, y float64) (lat, lon float64) {
-	cl := f.cosLat
-	if cl < 1e-9 {
-		cl = 1e-9
+	// Basis of the frame in earth-centred coordinates.
+	ex, ey := -f.sinLon, f.cosLon
+	nx, ny, nz := -f.sinLat*f.cosLon, -f.sinLat*f.sinLon, f.cosLat
+	ux, uy, uz := f.cosLat*f.cosLon, f.cosLat*f.sinLon, f.sinLat
+	qx, qy, qz := f.x0+x*ex+y*nx, f.y0+x*ey+y*ny, f.z0+y*nz
+	const a2 = WGS84A * WGS84A
+	b2 := a2 * (1 - wgs84E2)
+	A := (ux*ux+uy*uy)/a2 + uz*uz/b2
+	B := 2 * ((qx*ux+qy*uy)/a2 + qz*uz/b2)
+	C := (qx*qx+qy*qy)/a2 + qz*qz/b2 - 1
+	d := B*B - 4*A*C
+	if d < 0 {
+		d = 0
 	}
-	lat = f.Lat0 + y/f.m0*180/math.Pi
-	lon = f.Lon0 + x/(f.n0*cl)*180/math.Pi
-	for i := 0; i < 6; i++ {
-		fx, fy := f.Forward(lat, lon)
-		ex, ey := x-fx, y-fy
-		if math.Abs(ex) < 1e-4 && math.Abs(ey) < 1e-4 {
-			break
-		}
-		// The Jacobian of Forward at (lat, lon) is close to diagonal with
-		// the local radii of curvature; that is enough for convergence.
-		phi := lat * math.Pi / 180
-		sp, cp := math.Sincos(phi)
-		w := 1 - wgs84E2*sp*sp
-		n := WGS84A / math.Sqrt(w)
-		m := WGS84A * (1 - wgs84E2) / (w * math.Sqrt(w))
-		if cp < 1e-9 {
-			cp = 1e-9
-		}
-		lat += ey / m * 180 / math.Pi
-		lon += ex / (n * cp) * 180 / math.Pi
-	}
+	t := (-B + math.Sqrt(d)) / (2 * A)
+	px, py, pz := qx+t*ux, qy+t*uy, qz+t*uz
+	lat = math.Atan2(pz, (1-wgs84E2)*math.Hypot(px, py)) * 180 / math.Pi
+	lon = math.Atan2(py, px) * 180 / math.Pi
+	lon = f.Lon0 + math.Remainder(lon-f.Lon0, 360)
 	return lat, lon
+}
+
+// NormLon returns lon (degrees) in [-180, 180).
+func NormLon(lon float64) float64 {
+	l := math.Mod(lon+180, 360)
+	if l < 0 {
+		l += 360
+	}
+	return l - 180
 }

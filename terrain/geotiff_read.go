@@ -441,8 +441,21 @@ func (d *geotiffDecoder) undoPredictor(row []byte) error {
 }
 
 // convert turns len(dst) samples from src (file byte order) into float32
-// metres, NaN for no data.
+// metres, NaN for no data. A floating-point sample of ±Inf (or a float64
+// beyond float32) is no elevation either and is read as no data.
 func (d *geotiffDecoder) convert(dst []float32, src []byte) {
+	d.convertRaw(dst, src)
+	if s := d.info.Sample; s == SampleFloat32 || s == SampleFloat64 {
+		nan := float32(math.NaN())
+		for i, v := range dst {
+			if math.IsInf(float64(v), 0) {
+				dst[i] = nan
+			}
+		}
+	}
+}
+
+func (d *geotiffDecoder) convertRaw(dst []float32, src []byte) {
 	info := d.info
 	o := info.order
 	nan := float32(math.NaN())

@@ -3,6 +3,7 @@ package terrain
 import (
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -183,13 +184,28 @@ func openFile(path string, opts OpenOptions) (*fileSource, error) {
 	return s, nil
 }
 
+// maxPRJ is the largest .prj sidecar read (bytes); a WKT CRS is a few KiB.
+const maxPRJ = 64 << 10
+
+// readLimited reads at most limit+1 bytes of the file at path, so a file
+// larger than limit (or an endless stream such as a link to /dev/zero) is
+// seen as too large without being read whole.
+func readLimited(path string, limit int64) ([]byte, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	return io.ReadAll(io.LimitReader(f, limit+1))
+}
+
 // prjSidecar reads the CRS from the .prj file beside an ASCII grid.
 func prjSidecar(path string) (CRS, error) {
 	base := strings.TrimSuffix(path, filepath.Ext(path))
 	for _, ext := range []string{".prj", ".PRJ", ".Prj"} {
-		b, err := os.ReadFile(base + ext)
+		b, err := readLimited(base+ext, maxPRJ)
 		if err == nil {
-			if len(b) > 64<<10 {
+			if len(b) > maxPRJ {
 				return CRS{}, fmt.Errorf("terrain: %s is too large for a .prj", filepath.Base(base+ext))
 			}
 			crs, err := ParsePRJ(string(b))

@@ -336,9 +336,13 @@ func checkHeader(g *Grid) error {
 		return err
 	}
 	if g.CRS.EPSG == 4326 {
+		// Cell edges may overhang ±180° and ±90° by half a cell (grids whose
+		// edge cells are centred on the meridian, as SRTM tiles are), not
+		// more: a grid reaching 180.1° E is a wrong header.
 		w, s, e, n := g.Extent()
-		if w < -180.5 || e > 180.5 || s < -90.5 || n > 90.5 {
-			return fmt.Errorf("terrain: geographic extent %.6g..%.6g E, %.6g..%.6g N is outside the globe", w, e, s, n)
+		tx, ty := g.DX/2+1e-9, g.DY/2+1e-9
+		if w < -180-tx || e > 180+tx || s < -90-ty || n > 90+ty {
+			return fmt.Errorf("terrain: geographic extent %.6f..%.6f E, %.6f..%.6f N is outside the globe (-180..180 E, -90..90 N, half a cell of overhang allowed)", w, e, s, n)
 		}
 	}
 	return nil

@@ -42,7 +42,7 @@ type coverageOptions struct {
 }
 
 func newCoverageCmd() *cobra.Command {
-	o := &coverageOptions{glide: newGlideFlags(), terr: newTerrainFlags(), alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), pick: 3}
+	o := &coverageOptions{glide: newGlideFlags(), terr: newTerrainFlags(), alt: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), agl: input.NewQuantity(input.Length, 0).Within(0, maxAGL), ind: newIndicatedFlags(), pick: 3}
 	cmd := &cobra.Command{
 		Use:   "coverage --fields FILE (--area BOX|FILE | --corridor ROUTE,WIDTH) (--alt ALT|--agl HEIGHT)",
 		Short: "How much of an area or corridor has a landing field in reach, and which new field helps most",
@@ -73,9 +73,9 @@ by one, each choice taking the one that adds most to what is covered.
 	fs.StringVar(&o.fields, "fields", "", "existing landing fields: GeoJSON points or polygons with a name property")
 	fs.StringVar(&o.area, "area", "", "area to analyse: minlon,minlat,maxlon,maxlat or a GeoJSON Polygon/MultiPolygon file")
 	fs.StringVar(&o.corridor, "corridor", "", "corridor to analyse: ROUTE,WIDTH (GPX/GeoJSON route and full width, e.g. plan.gpx,10km)")
-	fs.Var(o.alt, "alt", "altitude flown over the area: TRUE altitude MSL (m, ft), not the altimeter reading (see --alt-indicated)")
+	fs.Var(o.alt, "alt", o.alt.Help("altitude flown over the area: TRUE altitude MSL (m, ft), not the altimeter reading (see --alt-indicated)"))
 	o.ind.register(fs, "altitude flown")
-	fs.Var(o.agl, "agl", "height flown above the terrain at each cell (m, ft), instead of --alt")
+	fs.Var(o.agl, "agl", o.agl.Help("height flown above the terrain at each cell (m, ft), instead of --alt"))
 	fs.StringVar(&o.candidates, "candidates", "", "candidate fields (GeoJSON, like --fields) to rank by the area each would add")
 	fs.IntVar(&o.pick, "pick", 3, "with --candidates: how many to choose one by one (greedy)")
 	fs.StringVar(&o.raster, "raster", "", "write the least altitude (m MSL) to reach a field as a raster (.tif GeoTIFF or .asc)")
@@ -186,7 +186,7 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 	if err != nil {
 		return err
 	}
-	return deliver(stdout, results{out: o.out, format: o.format, raster: o.raster, mapPNG: o.mapPNG, report: o.report,
+	return deliver(ctx, stdout, results{out: o.out, format: o.format, raster: o.raster, mapPNG: o.mapPNG, report: o.report,
 		document:    func(format string) ([]byte, error) { return coverageOutput(run, format) },
 		writeRaster: func(path string) error { return writeLeastRaster(path, run) },
 		draw:        func(m, r string) error { return drawCoverage(run, m, r) },

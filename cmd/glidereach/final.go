@@ -38,7 +38,7 @@ type finalOptions struct {
 }
 
 func newFinalCmd() *cobra.Command {
-	o := &finalOptions{pos: newPositionFlags(), glide: newGlideFlags(), terr: newTerrainFlags(), step: input.NewQuantity(input.Length, 0)}
+	o := &finalOptions{pos: newPositionFlags(), glide: newGlideFlags(), terr: newTerrainFlags(), step: input.NewQuantity(input.Length, 0).Within(1, 5000)}
 	cmd := &cobra.Command{
 		Use:   "final",
 		Short: "Final glide to a goal, directly or through turn points: required altitude, arrival, terrain clearance",
@@ -77,7 +77,7 @@ turn point. Without --alt or --agl the glide starts at the required altitude.
 	fs.StringArrayVar(&o.to, "to", nil, "turn point or goal LAT,LON[@ELEV] (repeat; the last is the goal)")
 	fs.StringVar(&o.fields, "fields", "", "landing fields file (GeoJSON) to take the goal from with --field")
 	fs.StringVar(&o.field, "field", "", "name of the goal field in --fields")
-	fs.Var(o.step, "step", "sample spacing along the line (m, ft); default and maximum the DEM's cell size (100 m on flat ground)")
+	fs.Var(o.step, "step", o.step.Help("sample spacing along the line (m, ft); default and maximum the DEM's cell size (100 m on flat ground)"))
 	fs.StringVar(&o.out, "out", "", "write the result to this file (GeoJSON; JSON with --format json)")
 	fs.StringVar(&o.format, "format", "text", "output format: text, json or geojson (stdout, or --out)")
 	fs.StringVar(&o.mapPNG, "map", "", "draw a map of the glide line to this PNG file")
@@ -286,7 +286,7 @@ func runFinal(ctx context.Context, o *finalOptions, stdout, stderr io.Writer) er
 
 	// Files first, so that a failure leaves nothing half-written and stdout
 	// shows the summary only for a complete run.
-	return deliver(stdout, results{out: o.out, format: o.format, mapPNG: o.mapPNG, report: o.report,
+	return deliver(ctx, stdout, results{out: o.out, format: o.format, mapPNG: o.mapPNG, report: o.report,
 		document: func(format string) ([]byte, error) { return finalOutput(run, format) },
 		draw:     func(m, r string) error { return drawFinal(run, m, r) },
 		text:     func(w io.Writer) { writeFinalText(w, run) }})

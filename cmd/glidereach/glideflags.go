@@ -54,30 +54,47 @@ type glideFlags struct {
 	clearance *input.Quantity
 }
 
+// Physical ranges of the flags (SI units), refused outside with exit
+// status 2 naming the flag, and stated in --help and README "Ranges". They
+// span what light aircraft and gliders fly and where (common practice, no
+// source: the lowest dry land is about 430 m below sea level and the
+// highest summit 8849 m; light-aircraft and glider flight stays below
+// 19 km), so a value outside is a typing or unit error.
+const (
+	minAltMSL, maxAltMSL = -400.0, 19000.0 // --alt, m MSL
+	maxAGL               = 10000.0         // --agl, m above the ground
+	minGround, maxGround = -500.0, 9000.0  // --ground and DEM samples at the start, m MSL
+	maxMargin            = 3000.0          // --reserve, --clearance, m
+	maxMass              = 10000.0         // --mass, kg (0 = the profile's)
+	maxVSpeed            = 10.0            // --mc, --air-sink, m/s
+	maxISADev            = 60.0            // --isa-dev, K either side of ISA
+	maxBugs              = 2.0             // --bugs, sink factor 1 + f
+)
+
 func newGlideFlags() *glideFlags {
 	return &glideFlags{
-		mass:      input.NewQuantity(input.Mass, 0),
-		bugs:      input.NewQuantity(input.Fraction, 0),
-		mc:        input.NewQuantity(input.VerticalSpeed, 0),
-		airSink:   input.NewQuantity(input.VerticalSpeed, 0),
-		isaDev:    input.NewQuantity(input.TempDelta, 0),
-		reserve:   input.NewQuantity(input.Length, defaultReserve),
-		clearance: input.NewQuantity(input.Length, defaultClearance),
+		mass:      input.NewQuantity(input.Mass, 0).Within(0, maxMass),
+		bugs:      input.NewQuantity(input.Fraction, 0).Within(0, maxBugs),
+		mc:        input.NewQuantity(input.VerticalSpeed, 0).Within(0, maxVSpeed),
+		airSink:   input.NewQuantity(input.VerticalSpeed, 0).Within(0, maxVSpeed),
+		isaDev:    input.NewQuantity(input.TempDelta, 0).Within(-maxISADev, maxISADev),
+		reserve:   input.NewQuantity(input.Length, defaultReserve).Within(0, maxMargin),
+		clearance: input.NewQuantity(input.Length, defaultClearance).Within(0, maxMargin),
 	}
 }
 
 func (g *glideFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&g.aircraft, "aircraft", "trainer", "aircraft profile: built-in name ("+strings.Join(reach.BuiltinNames(), ", ")+") or a YAML/JSON profile file")
-	fs.Var(g.mass, "mass", "actual mass (kg, lb); 0 = the profile's mass")
-	fs.Var(g.bugs, "bugs", "contamination: sink × (1 + f), e.g. 0.1 or 10%")
-	fs.Var(g.mc, "mc", "MacCready setting (m/s, fpm, kt); 0 flies for best range")
-	fs.Var(g.airSink, "air-sink", "allowance for sinking air along the glide (m/s, fpm, kt)")
-	fs.Var(g.isaDev, "isa-dev", "temperature deviation from ISA (K or C difference) where the wind gives no temperature")
+	fs.Var(g.mass, "mass", g.mass.Help("actual mass (kg, lb); 0 = the profile's mass"))
+	fs.Var(g.bugs, "bugs", g.bugs.Help("contamination: sink × (1 + f), e.g. 0.1 or 10%"))
+	fs.Var(g.mc, "mc", g.mc.Help("MacCready setting (m/s, fpm, kt); 0 flies for best range"))
+	fs.Var(g.airSink, "air-sink", g.airSink.Help("allowance for sinking air along the glide (m/s, fpm, kt)"))
+	fs.Var(g.isaDev, "isa-dev", g.isaDev.Help("temperature deviation from ISA (K or C difference) where the wind gives no temperature"))
 	fs.StringVar(&g.wind, "wind", "", "wind: calm, DIR/SPEED (270/20kt), layers (0m:240/10kt,1500m:270/20kt), or a YAML/JSON/CSV file")
 	fs.StringVar(&g.windAloft, "wind-aloft", "", "coded winds-aloft groups with levels in ft, e.g. \"3000:2714 6000:2725+05\", or a bulletin file")
 	fs.StringVar(&g.windError, "wind-error", "", "wind uncertainty DIR,SPEED (e.g. 20deg,5kt): the result holds for every wind within it (conservative)")
-	fs.Var(g.reserve, "reserve", "height above a field to arrive with (m, ft); default: the aircraft profile's ("+builtinDefaults(func(a *reach.Aircraft) float64 { return a.Reserve })+"), else 300 m; below 150 m warns, 0 warns loudly. It may be below the clearance: the glide then tapers from the clearance to the reserve over ground no higher than the field")
-	fs.Var(g.clearance, "clearance", "least height above terrain on the way (m, ft); default: the aircraft profile's ("+builtinDefaults(func(a *reach.Aircraft) float64 { return a.Clearance })+"), else 100 m; below 50 m warns, 0 warns loudly. Kept over all ground higher than the field, tapering to the reserve over lower ground near it (reach, final, route and coverage alike)")
+	fs.Var(g.reserve, "reserve", g.reserve.Help("height above a field to arrive with (m, ft); default: the aircraft profile's ("+builtinDefaults(func(a *reach.Aircraft) float64 { return a.Reserve })+"), else 300 m; below 150 m warns, 0 warns loudly. It may be below the clearance: the glide then tapers from the clearance to the reserve over ground no higher than the field"))
+	fs.Var(g.clearance, "clearance", g.clearance.Help("least height above terrain on the way (m, ft); default: the aircraft profile's ("+builtinDefaults(func(a *reach.Aircraft) float64 { return a.Clearance })+"), else 100 m; below 50 m warns, 0 warns loudly. Kept over all ground higher than the field, tapering to the reserve over lower ground near it (reach, final, route and coverage alike)"))
 	// The default depends on the profile, so no single "(default …)".
 	fs.Lookup("reserve").DefValue = ""
 	fs.Lookup("clearance").DefValue = ""
@@ -92,6 +109,14 @@ func builtinDefaults(f func(*reach.Aircraft) float64) string {
 		}
 	}
 	return strings.Join(parts, ", ")
+}
+
+// flagGiven reports whether the margin flag was given on the command line.
+func (g *glideFlags) flagGiven(flag string) bool {
+	if flag == "--reserve" {
+		return g.reserve.Given
+	}
+	return g.clearance.Given
 }
 
 // glideSetup is the resolved form of glideFlags.
@@ -168,7 +193,7 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 		return nil, &input.UsageError{Where: "--mass", Err: err}
 	}
 	dev := g.isaDev.Value
-	if math.Abs(dev) > 60 {
+	if math.Abs(dev) > maxISADev {
 		return nil, input.Usagef("--isa-dev", "%v K is not a plausible deviation from ISA (-60..60)", dev)
 	}
 	s.Atm = reach.Atmosphere{ISADev: dev}
@@ -189,11 +214,19 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 	if g.clearance.Given {
 		s.Clearance, clrFrom = g.clearance.Value, "--clearance"
 	}
-	if !(s.Reserve >= 0 && s.Reserve <= 3000) {
-		return nil, input.Usagef("--reserve", "%v m is outside 0..3000 m", s.Reserve)
-	}
-	if !(s.Clearance >= 0 && s.Clearance <= 3000) {
-		return nil, input.Usagef("--clearance", "%v m is outside 0..3000 m", s.Clearance)
+	// The flags were range-checked when parsed; a profile's own margins
+	// blame the profile file.
+	for _, m := range []struct {
+		flag, key string
+		v         float64
+	}{{"--reserve", "reserve", s.Reserve}, {"--clearance", "clearance", s.Clearance}} {
+		if !(m.v >= 0 && m.v <= maxMargin) {
+			where := m.flag
+			if !g.flagGiven(m.flag) {
+				where = g.aircraft + " (" + m.key + ")"
+			}
+			return nil, input.Usagef(where, "%v m is outside 0..%v m", m.v, maxMargin)
+		}
 	}
 	s.checkSettings(resFrom, clrFrom)
 	s.WindText = windText(w)
@@ -301,12 +334,12 @@ type terrainFlags struct {
 }
 
 func newTerrainFlags() *terrainFlags {
-	return &terrainFlags{ground: input.NewQuantity(input.Length, 0)}
+	return &terrainFlags{ground: input.NewQuantity(input.Length, 0).Within(minGround, maxGround)}
 }
 
 func (t *terrainFlags) register(fs *pflag.FlagSet) {
 	fs.StringSliceVar(&t.paths, "terrain", nil, "elevation data: GeoTIFF, SRTM .hgt or ESRI ASCII grid files, or a directory (comma-separated or repeated)")
-	fs.Var(t.ground, "ground", "elevation of flat ground when no --terrain is given (m, ft MSL)")
+	fs.Var(t.ground, "ground", t.ground.Help("elevation of flat ground when no --terrain is given (m, ft MSL)"))
 	fs.StringVar(&t.crs, "crs", "", "CRS of ESRI ASCII grids without a .prj sidecar, e.g. EPSG:4326 or EPSG:32633")
 	fs.StringVar(&t.voids, "voids", "obstacle", "what to do with voids (no-data cells): obstacle or fill (fills small voids by interpolation)")
 }
@@ -353,14 +386,14 @@ type positionFlags struct {
 }
 
 func newPositionFlags() *positionFlags {
-	return &positionFlags{from: &input.LatLon{}, alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0),
+	return &positionFlags{from: &input.LatLon{}, alt: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), agl: input.NewQuantity(input.Length, 0).Within(0, maxAGL),
 		ind: newIndicatedFlags()}
 }
 
 func (p *positionFlags) register(fs *pflag.FlagSet) {
 	fs.Var(p.from, "from", "start position LAT,LON (decimal degrees)")
-	fs.Var(p.alt, "alt", "start altitude: TRUE altitude above mean sea level (m, ft), not the altimeter reading; on a cold day give --alt-indicated instead")
-	fs.Var(p.agl, "agl", "start height above the ground there (m, ft), instead of --alt")
+	fs.Var(p.alt, "alt", p.alt.Help("start altitude: TRUE altitude above mean sea level (m, ft), not the altimeter reading; on a cold day give --alt-indicated instead"))
+	fs.Var(p.agl, "agl", p.agl.Help("start height above the ground there (m, ft), instead of --alt"))
 	p.ind.register(fs, "start altitude")
 }
 
@@ -387,6 +420,9 @@ func (p *positionFlags) startAlt(groundElev float64) (float64, error) {
 	case p.agl.Given:
 		if p.agl.Value <= 0 {
 			return 0, input.Usagef("--agl", "%v m is not above the ground", p.agl.Value)
+		}
+		if a := groundElev + p.agl.Value; a > maxAltMSL {
+			return 0, input.Usagef("--agl", "%v m above the ground at %.0f m puts the start at %.0f m MSL, above the %.0f m limit", p.agl.Value, groundElev, a, maxAltMSL)
 		}
 		p.note = "start altitude --agl taken as true height above the terrain at the start"
 		return groundElev + p.agl.Value, nil
@@ -421,14 +457,14 @@ func (f *indicatedFlags) reading(alt float64) (float64, bool) {
 }
 
 func newIndicatedFlags() *indicatedFlags {
-	return &indicatedFlags{altInd: input.NewQuantity(input.Length, 0), stationElev: input.NewQuantity(input.Length, 0)}
+	return &indicatedFlags{altInd: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), stationElev: input.NewQuantity(input.Length, 0).Within(minGround, maxGround)}
 }
 
 // register adds the three flags; what names the altitude ("start
 // altitude", "planned altitude").
 func (f *indicatedFlags) register(fs *pflag.FlagSet, what string) {
-	fs.Var(f.altInd, "alt-indicated", what+" as the altimeter reads it, set to the local QNH (m, ft); needs --station-elev and --station-temp, corrected for cold air by the ICAO rule (Doc 8168), instead of --alt")
-	fs.Var(f.stationElev, "station-elev", "with --alt-indicated: elevation of the altimeter setting source, normally the aerodrome whose QNH is set (m, ft)")
+	fs.Var(f.altInd, "alt-indicated", f.altInd.Help(what+" as the altimeter reads it, set to the local QNH (m, ft); needs --station-elev and --station-temp, corrected for cold air by the ICAO rule (Doc 8168), instead of --alt"))
+	fs.Var(f.stationElev, "station-elev", f.stationElev.Help("with --alt-indicated: elevation of the altimeter setting source, normally the aerodrome whose QNH is set (m, ft)"))
 	fs.StringVar(&f.stationTemp, "station-temp", "", "with --alt-indicated: air temperature reported at the altimeter setting source (e.g. -15C, 258K)")
 	// No "(default 0m)": an unset reading is not 0 m.
 	fs.Lookup("alt-indicated").DefValue = ""

@@ -46,13 +46,13 @@ type polarOptions struct {
 func newPolarCmd() *cobra.Command {
 	var (
 		aircraft, windSpec, aloftSpec, format, unit, out string
-		alt                                              = input.NewQuantity(input.Length, 0)
-		mass                                             = input.NewQuantity(input.Mass, 0)
-		bugs                                             = input.NewQuantity(input.Fraction, 0)
-		isaDev                                           = input.NewQuantity(input.TempDelta, 0)
-		track                                            = input.NewQuantity(input.Angle, 0)
-		mc                                               = input.NewQuantity(input.VerticalSpeed, 0)
-		airSink                                          = input.NewQuantity(input.VerticalSpeed, 0)
+		alt                                              = input.NewQuantity(input.Length, 0).Within(-1000, 20000)
+		mass                                             = input.NewQuantity(input.Mass, 0).Within(0, maxMass)
+		bugs                                             = input.NewQuantity(input.Fraction, 0).Within(0, maxBugs)
+		isaDev                                           = input.NewQuantity(input.TempDelta, 0).Within(-maxISADev, maxISADev)
+		track                                            = input.NewQuantity(input.Angle, 0).Within(0, 360)
+		mc                                               = input.NewQuantity(input.VerticalSpeed, 0).Within(0, maxVSpeed)
+		airSink                                          = input.NewQuantity(input.VerticalSpeed, 0).Within(0, maxVSpeed)
 	)
 	cmd := &cobra.Command{
 		Use:   "polar --aircraft NAME|FILE [flags]",
@@ -80,6 +80,11 @@ Built-in profiles: ` + strings.Join(reach.BuiltinNames(), ", ") + ` (generic, in
 			}
 			if w := minSpeedWarning(ac); w != "" {
 				fmt.Fprintln(cmd.ErrOrStderr(), "glidereach: WARNING:", w)
+			}
+			if out != "" {
+				if err := checkOutputs(out, "", "", ""); err != nil {
+					return err
+				}
 			}
 			if _, ok := speedUnits[unit]; !ok {
 				return input.Usagef("--units", "%q: want kt, km/h or mph", unit)
@@ -121,15 +126,15 @@ Built-in profiles: ` + strings.Join(reach.BuiltinNames(), ", ") + ` (generic, in
 	}
 	f := cmd.Flags()
 	f.StringVar(&aircraft, "aircraft", "", "built-in profile name ("+strings.Join(reach.BuiltinNames(), ", ")+") or a YAML/JSON profile file")
-	f.Var(alt, "alt", "altitude MSL ("+input.UnitNames(input.Length)+"; bare number is m)")
-	f.Var(mass, "mass", "flying mass ("+input.UnitNames(input.Mass)+"); 0 = the profile's mass")
-	f.Var(bugs, "bugs", "contamination: sink x (1 + f), e.g. 0.1 or 10%")
-	f.Var(isaDev, "isa-dev", "temperature deviation from ISA ("+input.UnitNames(input.TempDelta)+")")
+	f.Var(alt, "alt", alt.Help("altitude MSL ("+input.UnitNames(input.Length)+"; bare number is m)"))
+	f.Var(mass, "mass", mass.Help("flying mass ("+input.UnitNames(input.Mass)+"); 0 = the profile's mass"))
+	f.Var(bugs, "bugs", bugs.Help("contamination: sink x (1 + f), e.g. 0.1 or 10%"))
+	f.Var(isaDev, "isa-dev", isaDev.Help("temperature deviation from ISA ("+input.UnitNames(input.TempDelta)+")"))
 	f.StringVar(&windSpec, "wind", "", "wind: DIR/SPEED (270/20kt), layers (0m:240/10kt,1500m:270/20kt) or a file")
 	f.StringVar(&aloftSpec, "wind-aloft", "", "coded winds-aloft forecast groups, e.g. \"3000:2714 6000:2725+05\"")
-	f.Var(track, "track", "track to hold in degrees true (needed with --wind)")
-	f.Var(mc, "mc", "MacCready setting ("+input.UnitNames(input.VerticalSpeed)+"); 0 flies for best range")
-	f.Var(airSink, "air-sink", "sinking-air allowance ("+input.UnitNames(input.VerticalSpeed)+")")
+	f.Var(track, "track", track.Help("track to hold in degrees true (needed with --wind)"))
+	f.Var(mc, "mc", mc.Help("MacCready setting ("+input.UnitNames(input.VerticalSpeed)+"); 0 flies for best range"))
+	f.Var(airSink, "air-sink", airSink.Help("sinking-air allowance ("+input.UnitNames(input.VerticalSpeed)+")"))
 	f.StringVar(&unit, "units", "kt", "speed units of the text table: kt, km/h or mph")
 	f.StringVar(&format, "format", "text", "output format: text or json")
 	f.StringVar(&out, "out", "", "write to FILE instead of standard output")

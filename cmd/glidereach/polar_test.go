@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"math"
 	"os"
@@ -17,7 +18,6 @@ func runCLI(t *testing.T, args ...string) (code int, stdout, stderr string) {
 	var out, errb bytes.Buffer
 	root := newRootCmd()
 	root.SetArgs(args)
-	root.SetOut(&out)
 	root.SetErr(&errb)
 	func() {
 		defer func() {
@@ -25,7 +25,7 @@ func runCLI(t *testing.T, args ...string) (code int, stdout, stderr string) {
 				t.Fatalf("glidereach %s panicked: %v", strings.Join(args, " "), r)
 			}
 		}()
-		code = exitCode(root.Execute())
+		code = exitCode(execute(context.Background(), root, &out))
 	}()
 	return code, out.String(), errb.String()
 }

@@ -33,6 +33,8 @@ type reachOptions struct {
 	mapPNG  string
 	report  string
 	heading float64
+	// headingGiven: --heading was given (NaN given is refused, not "none").
+	headingGiven bool
 }
 
 func newReachCmd() *cobra.Command {
@@ -54,6 +56,7 @@ just reach them with the reserve.
   glidereach reach --from -0.5,-24.5 --alt 1200m --format json`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
+			o.headingGiven = cmd.Flags().Changed("heading")
 			return runReach(cmd.Context(), o, cmd.OutOrStdout(), cmd.ErrOrStderr())
 		},
 	}
@@ -62,15 +65,39 @@ just reach them with the reserve.
 	o.glide.register(fs)
 	o.terr.register(fs)
 	fs.StringVar(&o.fields, "fields", "", "landing fields: GeoJSON points or polygons with a name property")
-	fs.StringSliceVar(&o.levels, "levels", nil, "further arrival heights above ground to contour, e.g. 0m,150m")
+	fs.StringSliceVar(&o.levels, "levels", nil, fmt.Sprintf("further arrival heights above ground to contour, e.g. 0m,150m; at most %d, each 0..5000 m", maxLevels))
 	fs.StringVar(&o.out, "out", "", "write the result to this file (GeoJSON FeatureCollection; JSON with --format json)")
 	fs.StringVar(&o.format, "format", "text", "output format: text, json or geojson (stdout, or --out)")
 	fs.StringVar(&o.raster, "raster", "", "write the arrival height above ground as a raster (.tif GeoTIFF or .asc ESRI ASCII grid)")
 	fs.StringVar(&o.mapPNG, "map", "", "draw a map of the result to this PNG file")
 	fs.StringVar(&o.report, "report", "", "write a self-contained HTML report to this file")
-	fs.Float64Var(&o.heading, "heading", math.NaN(), "aircraft heading at the start (degrees true), drawn on the map")
+	fs.Float64Var(&o.heading, "heading", math.NaN(), "aircraft heading at the start (degrees true), drawn on the map; range 0..360")
 	return cmd
 }
+
+// parseLevels parses --levels: at most maxLevels arrival heights above
+// the ground, each 0..5000 m. Errors are usage errors naming the flag.
+func parseLevels(levels []string) ([]float64, error) {
+	if len(levels) > maxLevels {
+		return nil, input.Usagef("--levels", "%d levels given; at most %d", len(levels), maxLevels)
+	}
+	var extra []float64
+	for _, s := range levels {
+		v, err := input.ParseQuantity(s, input.Length)
+		if err != nil {
+			return nil, input.FlagError("--levels", s, err)
+		}
+		if v < 0 || v > 5000 {
+			return nil, input.Usagef("--levels", "%q is outside 0..5000 m", s)
+		}
+		extra = append(extra, v)
+	}
+	return extra, nil
+}
+
+// maxLevels bounds --levels: each level is one more contouring of the
+// footprint, and a map cannot show more than a handful apart.
+const maxLevels = 20
 
 // fieldResult is one landing field judged from the start.
 type fieldResult struct {
@@ -118,16 +145,12 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 	if !o.pos.from.Given {
 		return input.Usagef("--from", "the start position is required (LAT,LON)")
 	}
-	var extra []float64
-	for _, s := range o.levels {
-		v, err := input.ParseQuantity(s, input.Length)
-		if err != nil {
-			return input.FlagError("--levels", s, err)
-		}
-		if v < 0 || v > 5000 {
-			return input.Usagef("--levels", "%q is outside 0..5000 m", s)
-		}
-		extra = append(extra, v)
+	if o.headingGiven && !(o.heading >= 0 && o.heading <= 360) {
+		return input.Usagef("--heading", "%v is outside 0..360 degrees true", o.heading)
+	}
+	extra, err := parseLevels(o.levels)
+	if err != nil {
+		return err
 	}
 	if err := checkOutputs(o.out, o.raster, o.mapPNG, o.report); err != nil {
 		return err
@@ -154,7 +177,7 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 	}
 	run.heading = o.heading
 
-	return deliver(stdout, results{out: o.out, format: o.format, raster: o.raster, mapPNG: o.mapPNG, report: o.report,
+	return deliver(ctx, stdout, results{out: o.out, format: o.format, raster: o.raster, mapPNG: o.mapPNG, report: o.report,
 		document: func(format string) ([]byte, error) {
 			if format == "json" {
 				return reachJSON(run)

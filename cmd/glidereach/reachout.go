@@ -395,8 +395,3 @@ func drawMap(scene *render.Scene, mapPath string) ([]byte, error) {
 	}
 	return data, nil
 }
-
-// writeBytesAtomic writes data to path atomically.
-func writeBytesAtomic(path string, data []byte) error {
-	return writeFileAtomic(path, func(f *os.File) error { _, err := f.Write(data); return err })
-}

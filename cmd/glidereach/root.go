@@ -58,6 +58,17 @@ terrain into the ground that can still be reached with a reserve height.
 		case "help":
 			c.Example = `  glidereach help reach
   glidereach help final`
+			// cobra's help prints "Unknown help topic" and succeeds; an
+			// unknown topic is a usage error like an unknown command.
+			c.RunE = func(c *cobra.Command, args []string) error {
+				target, rest, err := c.Root().Find(args)
+				if err != nil || target == nil || len(rest) > 0 || (len(args) > 0 && target == c.Root()) {
+					return input.Usagef("help", "unknown help topic %q (see glidereach --help)", strings.Join(args, " "))
+				}
+				target.InitDefaultHelpFlag()
+				return target.Help()
+			}
+			c.Run = nil
 		}
 	}
 	return root

@@ -54,7 +54,7 @@ type routeOptions struct {
 
 func newRouteCmd() *cobra.Command {
 	o := &routeOptions{glide: newGlideFlags(), terr: newTerrainFlags(),
-		alt: input.NewQuantity(input.Length, 0), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), step: input.NewQuantity(input.Length, 250)}
+		alt: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), agl: input.NewQuantity(input.Length, 0).Within(0, maxAGL), ind: newIndicatedFlags(), step: input.NewQuantity(input.Length, 250).Within(10, 10000)}
 	cmd := &cobra.Command{
 		Use:   "route --route FILE --fields FILE [--alt ALT|--agl HEIGHT]",
 		Short: "Forced-landing options along a planned route: gaps and the altitude that closes them",
@@ -87,10 +87,10 @@ reserve; a margin of +200 m arrives with about reserve + 200 m.
 	fs.StringVar(&o.route, "route", "", "planned route: GPX 1.1 (track or route) or GeoJSON LineString file")
 	fs.StringVar(&o.routeName, "route-name", "", "which route or track of the file, when it holds several")
 	fs.StringVar(&o.fields, "fields", "", "landing fields: GeoJSON points or polygons with a name property")
-	fs.Var(o.alt, "alt", "planned altitude along the whole route: TRUE altitude MSL (m, ft), not the altimeter reading (see --alt-indicated)")
+	fs.Var(o.alt, "alt", o.alt.Help("planned altitude along the whole route: TRUE altitude MSL (m, ft), not the altimeter reading (see --alt-indicated)"))
 	o.ind.register(fs, "planned altitude")
-	fs.Var(o.agl, "agl", "planned height above the terrain under each point (m, ft), instead of --alt")
-	fs.Var(o.step, "step", "sampling step along the route (m, ft, km, nm)")
+	fs.Var(o.agl, "agl", o.agl.Help("planned height above the terrain under each point (m, ft), instead of --alt"))
+	fs.Var(o.step, "step", o.step.Help("sampling step along the route (m, ft, km, nm)"))
 	fs.StringVar(&o.format, "format", "text", "output format: text, json, geojson or csv (stdout, or --out)")
 	fs.StringVar(&o.out, "out", "", "write the result to this file in --format (text summary still printed)")
 	fs.StringVar(&o.mapPNG, "map", "", "draw a map of the route and its gaps to this PNG file")
@@ -180,7 +180,7 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 	if err != nil {
 		return err
 	}
-	return deliver(stdout, results{out: o.out, format: o.format, mapPNG: o.mapPNG, report: o.report,
+	return deliver(ctx, stdout, results{out: o.out, format: o.format, mapPNG: o.mapPNG, report: o.report,
 		document: func(format string) ([]byte, error) { return routeOutput(run, format) },
 		draw:     func(m, r string) error { return drawRoute(run, m, r) },
 		text:     func(w io.Writer) { writeRouteText(w, run) }})
@@ -479,12 +479,23 @@ func boundsOfSamples(s []input.RouteSample) [4]float64 {
 func areaWindow(g ground, minLat, minLon, maxLat, maxLon, margin float64, flag string) (*terrain.Local, *terrain.Grid, error) {
 	f := terrain.NewFrame((minLat+maxLat)/2, (minLon+maxLon)/2)
 	x0, y0, x1, y1 := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
-	for _, ll := range [][2]float64{{minLat, minLon}, {minLat, maxLon}, {maxLat, minLon}, {maxLat, maxLon}, {minLat, (minLon + maxLon) / 2}, {maxLat, (minLon + maxLon) / 2}} {
+	corners := [][2]float64{{minLat, minLon}, {minLat, maxLon}, {maxLat, minLon}, {maxLat, maxLon}, {minLat, (minLon + maxLon) / 2}, {maxLat, (minLon + maxLon) / 2}}
+	// Far corners would fold back onto the plane (orthographic): measure
+	// them on the sphere first.
+	for _, ll := range corners {
+		if d := arcDistance(f.Lat0, f.Lon0, ll[0], ll[1]); d > maxPlaneRadius {
+			return nil, nil, input.Usagef(flag, "the %s spans %.0f km from its centre, more than the %.0f km one local plane represents within 0.31 %%; split the area (an area across the antimeridian cannot be analysed in one piece)", flag[2:], d/1000, maxPlaneRadius/1000)
+		}
+	}
+	for _, ll := range corners {
 		x, y := f.Forward(ll[0], ll[1])
 		x0, x1 = math.Min(x0, x), math.Max(x1, x)
 		y0, y1 = math.Min(y0, y), math.Max(y1, y)
 	}
 	x0, y0, x1, y1 = x0-margin, y0-margin, x1+margin, y1+margin
+	if err := checkPlane(flag, f, x0, y0, x1, y1); err != nil {
+		return nil, nil, err
+	}
 	w, h := x1-x0, y1-y0
 	cell, capCells := minFlatCell, float64(flatAreaCells)
 	if g.src != nil {

@@ -103,8 +103,8 @@ tool does not guess from the numbers.
 			switch voids {
 			case "obstacle":
 			case "fill":
-				if fillMax < 1 {
-					return input.Usagef("--fill-max", "%d: want at least 1 cell", fillMax)
+				if fillMax < 1 || fillMax > maxFillCells {
+					return input.Usagef("--fill-max", "%d is outside 1..%d cells", fillMax, maxFillCells)
 				}
 				fill = fillMax
 			default:
@@ -122,11 +122,16 @@ tool does not guess from the numbers.
 	f.StringVar(&format, "format", "text", "output format: text or json")
 	f.StringVar(&crsText, "crs", "", "CRS of ESRI ASCII grids, e.g. EPSG:4326 or EPSG:32633 (overrides a .prj)")
 	f.StringVar(&voids, "voids", "obstacle", "voids (no-data cells): obstacle, or fill small ones by interpolation")
-	f.IntVar(&fillMax, "fill-max", 64, "with --voids fill: largest void filled, in cells")
+	f.IntVar(&fillMax, "fill-max", 64, fmt.Sprintf("with --voids fill: largest void filled, in cells; range 1..%d", maxFillCells))
 	_ = cmd.RegisterFlagCompletionFunc("format", cobra.FixedCompletions([]string{"text", "json"}, cobra.ShellCompDirectiveNoFileComp))
 	_ = cmd.RegisterFlagCompletionFunc("voids", cobra.FixedCompletions([]string{"obstacle", "fill"}, cobra.ShellCompDirectiveNoFileComp))
 	return cmd
 }
+
+// maxFillCells bounds --fill-max: interpolating across a larger void would
+// invent ground over a sizeable area (a 4096-cell void is 1.8 km across at
+// 30 m cells), where an obstacle is the conservative reading.
+const maxFillCells = 4096
 
 // parseEPSG parses "EPSG:n" (or a bare n) and checks that the terrain
 // package handles the CRS.
@@ -191,7 +196,7 @@ func terrainSummary(opts terrain.OpenOptions, fill int, paths []string, at *inpu
 	}
 	rep.Voids = g.Voids()
 	rep.Warnings = []string{}
-	if lo, hi, ok := g.ElevationRange(); ok {
+	if lo, hi, ok := g.ElevationRange(); ok && !math.IsInf(lo, 0) && !math.IsInf(hi, 0) {
 		rep.MinM, rep.MaxM = &lo, &hi
 		if w := implausibleElevations(lo, hi); w != "" {
 			rep.Warnings = append(rep.Warnings, w)

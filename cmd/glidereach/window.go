@@ -50,6 +50,9 @@ func (g ground) elevationAt(lat, lon float64) (float64, bool, error) {
 		return math.NaN(), false, err
 	}
 	v, ok := grid.Elevation(lat, lon)
+	if ok && !(v >= minGround && v <= maxGround) {
+		return math.NaN(), false, fmt.Errorf("%s: elevation %.0f m at %.5f,%.5f is outside %.0f..%.0f m (an undeclared no-data value, or not metres?)", g.src.Describe(), v, lat, lon, minGround, maxGround)
+	}
 	return v, ok, nil
 }
 
@@ -62,6 +65,9 @@ func (g ground) window(lat0, lon0, radius float64) (*terrain.Local, *terrain.Gri
 		radius = 500
 	}
 	if g.src == nil {
+		if err := checkRound("--from", lat0, lon0, radius); err != nil {
+			return nil, nil, err
+		}
 		n := flatWindowSide
 		cell := 2 * radius / float64(n-1)
 		half := float64(n-1) / 2 * cell
@@ -72,6 +78,9 @@ func (g ground) window(lat0, lon0, radius float64) (*terrain.Local, *terrain.Gri
 	cell := g.src.Resolution()
 	if cell <= 0 || math.IsNaN(cell) {
 		cell = 30
+	}
+	if err := checkRound("--from", lat0, lon0, radius); err != nil {
+		return nil, nil, err
 	}
 	n := int(math.Ceil(2*radius/cell)) + 1
 	if n > maxWindowSide {
@@ -95,6 +104,67 @@ func (g ground) window(lat0, lon0, radius float64) (*terrain.Local, *terrain.Gri
 		g.warn(w)
 	}
 	return l, grid, nil
+}
+
+// maxPlaneRadius bounds how far a solver window may reach from its frame's
+// origin (m). The solvers work on the plane tangent at the origin; at a
+// distance d a distance across the radial direction shrinks by cos(d/R), so
+// 500 km keeps that error below 0.31 % (R = 6371 km), within the 0.5 %
+// accuracy bar. Larger areas must be split.
+const maxPlaneRadius = 500e3
+
+// checkPlane refuses, naming flag, a solver window x0..x1, y0..y1 (m, in
+// frame f) that one local plane cannot represent: one that holds a pole
+// (lon/lat outputs cannot draw a polar cap, and longitudes are undefined
+// there) or one reaching more than maxPlaneRadius from the origin.
+func checkPlane(flag string, f terrain.Frame, x0, y0, x1, y1 float64) error {
+	for _, pole := range []float64{90, -90} {
+		if pole*f.Lat0 < 0 {
+			continue // the far pole is beyond the plane's horizon
+		}
+		px, py := f.Forward(pole, f.Lon0)
+		if px >= x0 && px <= x1 && py >= y0 && py <= y1 {
+			name := "North"
+			if pole < 0 {
+				name = "South"
+			}
+			return input.Usagef(flag, "the computed window (%.0f × %.0f km) holds the %s Pole: one local plane with lon/lat outputs cannot represent a polar cap; keep the area and its glides %.0f km or more from the pole", (x1-x0)/1000, (y1-y0)/1000, name, math.Max(x1-x0, y1-y0)/1000)
+		}
+	}
+	if r := math.Hypot(math.Max(-x0, x1), math.Max(-y0, y1)); !(r <= maxPlaneRadius) {
+		return input.Usagef(flag, "the computed window reaches %.0f km from its centre, more than the %.0f km one local plane represents within 0.31 %%; split the area (or lower the altitude)", r/1000, maxPlaneRadius/1000)
+	}
+	return nil
+}
+
+// checkRound is checkPlane for a window around a start whose glides reach
+// at most radius (m): what counts is the circle the glides can reach, not
+// the corners of the square window beyond it. A pole within it, or a radius
+// beyond maxPlaneRadius, is refused naming flag.
+func checkRound(flag string, lat0, lon0, radius float64) error {
+	for _, pole := range []float64{90, -90} {
+		if d := arcDistance(lat0, lon0, pole, lon0); d <= radius {
+			name := "North"
+			if pole < 0 {
+				name = "South"
+			}
+			return input.Usagef(flag, "the glides could reach %.0f km, and the %s Pole is %.0f km away: one local plane with lon/lat outputs cannot represent a polar cap; start farther from the pole or lower", radius/1000, name, d/1000)
+		}
+	}
+	if !(radius <= maxPlaneRadius) {
+		return input.Usagef(flag, "the glides could reach %.0f km, more than the %.0f km one local plane represents within 0.31 %%; start lower", radius/1000, maxPlaneRadius/1000)
+	}
+	return nil
+}
+
+// arcDistance is the great-circle distance (m) between two points on the
+// sphere of the authalic radius, 6371007 m: enough to size a window.
+func arcDistance(lat1, lon1, lat2, lon2 float64) float64 {
+	const r = 6371007.0
+	p1, p2 := lat1*math.Pi/180, lat2*math.Pi/180
+	dp, dl := p2-p1, (lon2-lon1)*math.Pi/180
+	h := math.Sin(dp/2)*math.Sin(dp/2) + math.Cos(p1)*math.Cos(p2)*math.Sin(dl/2)*math.Sin(dl/2)
+	return 2 * r * math.Asin(math.Min(1, math.Sqrt(h)))
 }
 
 // terrainWarning returns a warning when the window's elevations are not

@@ -33,6 +33,7 @@ type Corridor struct {
 	Width float64 // full width, m; the corridor extends Width/2 either side of the route
 
 	half   float64
+	limit  float64 // Contains tests distance ≤ limit: half less the simplification tolerance
 	bound  orb.Bound
 	pieces []piece
 	cell   float64            // bucket size, degrees
@@ -59,6 +60,55 @@ func newPiece(lat0, lon0, lat1, lon1 float64) piece {
 	return p
 }
 
+// corridorTolerance is the Douglas–Peucker tolerance (m) a route is
+// simplified with before the corridor is built: a recorded track has a
+// point every few metres, and the cost of each test grew with them (10⁵
+// points took 33 s); straight runs of points collapse to one piece.
+const corridorTolerance = 1.0
+
+// simplifyLine returns the points of line kept by Douglas–Peucker with
+// tolerance tol (m): every dropped point lies within tol of the chord
+// between the kept points around it, measured in the plane of the chord's
+// mid-latitude (equirectangular, radii of curvature there), which is
+// accurate far below tol for chords of a few hundred km. The first and last
+// points are kept. Iterative, so a line of 10⁶ points needs no deep stack.
+func simplifyLine(line []geodesy.LatLon, tol float64) []geodesy.LatLon {
+	n := len(line)
+	if n < 3 {
+		return line
+	}
+	keep := make([]bool, n)
+	keep[0], keep[n-1] = true, true
+	stack := [][2]int{{0, n - 1}}
+	for len(stack) > 0 {
+		ij := stack[len(stack)-1]
+		stack = stack[:len(stack)-1]
+		i, j := ij[0], ij[1]
+		if j-i < 2 {
+			continue
+		}
+		a, b := line[i], line[j]
+		p := newPiece(a.Lat, a.Lon, b.Lat, b.Lon)
+		worst, at := -1.0, -1
+		for k := i + 1; k < j; k++ {
+			if d := pieceDistance(&p, line[k].Lat, line[k].Lon); d > worst {
+				worst, at = d, k
+			}
+		}
+		if worst > tol {
+			keep[at] = true
+			stack = append(stack, [2]int{i, at}, [2]int{at, j})
+		}
+	}
+	out := make([]geodesy.LatLon, 0, n)
+	for k, ok := range keep {
+		if ok {
+			out = append(out, line[k])
+		}
+	}
+	return out
+}
+
 // pieceLen is the longest straight piece a route is cut into, m.
 const pieceLen = 2000.0
 
@@ -83,11 +133,23 @@ func NewCorridor(route *Route, width float64) (*Corridor, error) {
 			return nil, fmt.Errorf("route crosses the antimeridian at point %d; corridors across it are not supported", i)
 		}
 	}
-	sp, err := geodesy.Sample(route.Line(), pieceLen)
+	line := route.Line()
+	simple := line
+	if width/2 >= 100*corridorTolerance { // narrower corridors keep every point
+		simple = simplifyLine(line, corridorTolerance)
+	}
+	sp, err := geodesy.Sample(simple, pieceLen)
 	if err != nil {
 		return nil, fmt.Errorf("corridor: %w", err)
 	}
-	c := &Corridor{Route: route, Width: width, half: width / 2}
+	c := &Corridor{Route: route, Width: width, half: width / 2, limit: width / 2}
+	if len(simple) < len(line) {
+		// Every point of the route lies within corridorTolerance of the
+		// simplified line, so a point within half − tolerance of it is
+		// within half of the route: the zone never takes in ground outside
+		// the corridor.
+		c.limit = c.half - corridorTolerance
+	}
 	b := orb.Bound{Min: orb.Point{sp[0].Lon, sp[0].Lat}, Max: orb.Point{sp[0].Lon, sp[0].Lat}}
 	for i := 1; i < len(sp); i++ {
 		c.pieces = append(c.pieces, newPiece(sp[i-1].Lat, sp[i-1].Lon, sp[i].Lat, sp[i].Lon))
@@ -126,12 +188,20 @@ func (c *Corridor) key(v float64) int { return int(math.Floor(v / c.cell)) }
 // Bounds returns the lon/lat box of the corridor.
 func (c *Corridor) Bounds() orb.Bound { return c.bound }
 
-// Contains reports whether lat, lon (degrees) lie within Width/2 of the route.
+// Contains reports whether lat, lon (degrees) lie within Width/2 of the
+// route (of its simplified line, less the simplification tolerance, for a
+// route dense enough to be simplified; see NewCorridor). It stops at the
+// first piece close enough.
 func (c *Corridor) Contains(lat, lon float64) bool {
 	if !(lon >= c.bound.Min[0] && lon <= c.bound.Max[0] && lat >= c.bound.Min[1] && lat <= c.bound.Max[1]) {
 		return false
 	}
-	return c.Distance(lat, lon) <= c.half
+	for _, i := range c.bucket[[2]int{c.key(lon), c.key(lat)}] {
+		if pieceDistance(&c.pieces[i], lat, lon) <= c.limit {
+			return true
+		}
+	}
+	return false
 }
 
 // Distance returns the distance (m) from lat, lon to the nearest point of

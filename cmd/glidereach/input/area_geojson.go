@@ -357,6 +357,17 @@ func polygon(p *geometry.Poly) (orb.Polygon, error) {
 		if len(pts) < 4 || pts[0] != pts[len(pts)-1] {
 			return nil, fmt.Errorf("ring %d is not closed with at least 4 positions (RFC 7946 §3.1.6)", i)
 		}
+		// RFC 7946 §3.1.9: a ring across the antimeridian must be cut
+		// there. An unsplit one (an edge spanning more than 180° of
+		// longitude) has two readings, the long way round or across ±180°;
+		// neither is guessed. An edge ending on ±180° itself (a band all
+		// round, -180..180) is not a crossing.
+		for k := 1; k < len(pts); k++ {
+			a, b := pts[k-1][0], pts[k][0]
+			if d := math.Abs(b - a); d > 180 && math.Abs(a) != 180 && math.Abs(b) != 180 {
+				return nil, fmt.Errorf("ring %d: the edge from position %d to %d spans %.1f° of longitude: a ring across the antimeridian must be split at ±180° (RFC 7946 §3.1.9)", i, k-1, k, d)
+			}
+		}
 		ring := orb.Ring(pts)
 		a := ringArea(ring)
 		if a == 0 || math.IsNaN(a) {

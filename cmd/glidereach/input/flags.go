@@ -12,6 +12,41 @@ type Quantity struct {
 	Value float64 // SI
 	Given bool
 	text  string
+	// min and max (SI) bound what Set accepts when ranged.
+	min, max float64
+	ranged   bool
+}
+
+// Within makes Set refuse values outside the physical range min..max (SI,
+// inclusive), naming the value and the range, and returns q.
+func (q *Quantity) Within(min, max float64) *Quantity {
+	q.min, q.max, q.ranged = min, max, true
+	return q
+}
+
+// Range returns the range given to Within; ok is false when there is none.
+func (q *Quantity) Range() (min, max float64, ok bool) { return q.min, q.max, q.ranged }
+
+// RangeText describes the range for help and error texts, e.g.
+// "-500..9000 m"; "" without a range.
+func (q *Quantity) RangeText() string {
+	if !q.ranged {
+		return ""
+	}
+	t := strconv.FormatFloat(q.min, 'g', -1, 64) + ".." + strconv.FormatFloat(q.max, 'g', -1, 64)
+	if u := siUnit[q.Kind]; u != "" {
+		t += " " + u
+	}
+	return t
+}
+
+// Help returns usage followed by the range, for flag registration:
+// "usage; range -500..9000 m".
+func (q *Quantity) Help(usage string) string {
+	if !q.ranged {
+		return usage
+	}
+	return usage + "; range " + q.RangeText()
 }
 
 // NewQuantity returns a Quantity flag value of kind k with default def (SI).
@@ -33,6 +68,9 @@ func (q *Quantity) Set(s string) error {
 	v, err := ParseQuantity(s, q.Kind)
 	if err != nil {
 		return err
+	}
+	if q.ranged && !(v >= q.min && v <= q.max) {
+		return fmt.Errorf("%s is outside the range %s", s, q.RangeText())
 	}
 	q.Value, q.Given, q.text = v, true, s
 	return nil

@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -94,8 +95,18 @@ func ParseAircraft(file string, data []byte) (*reach.Aircraft, error) {
 		data = bytes.ReplaceAll(data, []byte("\t"), []byte(" "))
 	}
 	var doc yaml.Node
-	if err := yaml.Unmarshal(data, &doc); err != nil {
+	dec := yaml.NewDecoder(bytes.NewReader(data))
+	if err := dec.Decode(&doc); err != nil && err != io.EOF {
 		return nil, &UsageError{Where: file, Err: fmt.Errorf("not valid YAML or JSON: %w", err)}
+	}
+	// One profile per file: a second document would be silently ignored.
+	var next yaml.Node
+	if err := dec.Decode(&next); err != io.EOF {
+		line := next.Line
+		if err != nil || line == 0 {
+			return nil, Usagef(file, "more than one YAML document (a line \"---\"); a profile file holds one")
+		}
+		return nil, Usagef(file+":"+strconv.Itoa(line), "a second YAML document; a profile file holds one")
 	}
 	if doc.Kind != yaml.DocumentNode || len(doc.Content) != 1 {
 		return nil, Usagef(file, "empty aircraft profile")

@@ -42,10 +42,14 @@ var windFileExts = map[string]bool{".yaml": true, ".yml": true, ".json": true, "
 // with Where set to the file, line and column.
 func ParseWind(spec string) (*wind.Profile, error) {
 	s := strings.TrimSpace(spec)
-	if st, err := os.Stat(s); err == nil && st.Mode().IsRegular() {
+	st, err := os.Stat(s)
+	if err == nil && st.Mode().IsRegular() {
 		return ParseWindFile(s)
 	}
 	if windFileExts[strings.ToLower(filepath.Ext(s))] {
+		if err == nil {
+			return nil, &UsageError{Where: s, Err: errors.New("not a regular file (a wind file must be one)")}
+		}
 		return nil, &UsageError{Where: s, Err: errors.New("wind file not found")}
 	}
 	return parseWindInline(s)
@@ -63,6 +67,13 @@ func parseWindInline(spec string) (*wind.Profile, error) {
 	parts := strings.FieldsFunc(s, func(r rune) bool { return r == ',' || r == ';' })
 	if len(parts) == 0 {
 		return nil, fmt.Errorf("%q has no layers", s)
+	}
+	// An empty layer (a trailing, leading or doubled comma) is a typing
+	// error: a layer may have been lost.
+	for _, part := range strings.Split(strings.ReplaceAll(s, ";", ","), ",") {
+		if strings.TrimSpace(part) == "" {
+			return nil, fmt.Errorf("%q has an empty layer (a trailing, leading or doubled comma?)", s)
+		}
 	}
 	if len(parts) > maxWindLayers {
 		return nil, fmt.Errorf("%d layers: at most %d", len(parts), maxWindLayers)

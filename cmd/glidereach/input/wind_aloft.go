@@ -82,18 +82,25 @@ func ParseWindAloft(line string) (*wind.Profile, error) {
 // parseLevelFeet parses a forecast level: a bare number of feet or a length
 // with a unit; the result is in feet.
 func parseLevelFeet(s string) (float64, error) {
-	if v, err := strconv.ParseFloat(s, 64); err == nil {
-		if v != v || v > 1e6 || v < -1e6 {
-			return 0, fmt.Errorf("level %q out of range", s)
-		}
-		return v, nil
-	}
-	m, err := ParseQuantity(s, Length)
+	ft, err := strconv.ParseFloat(s, 64)
 	if err != nil {
-		return 0, fmt.Errorf("level: %w", err)
+		m, qerr := ParseQuantity(s, Length)
+		if qerr != nil {
+			return 0, fmt.Errorf("level: %w", qerr)
+		}
+		ft = m / Foot
 	}
-	return m / Foot, nil
+	// Forecast levels are heights above sea level, from the lowest level
+	// forecast (3000 ft in the bulletin) up to the flight levels.
+	if !(ft > 0 && ft <= maxAloftLevelFt) {
+		return 0, fmt.Errorf("level %q is outside 0..%.0f ft (forecast levels are above sea level)", s, float64(maxAloftLevelFt))
+	}
+	return ft, nil
 }
+
+// maxAloftLevelFt is the highest forecast level accepted (ft): above the
+// highest level of the published bulletins (53 000 ft, from memory).
+const maxAloftLevelFt = 60000
 
 // DecodeWindAloftGroup decodes one coded group at a level of levelFt feet
 // MSL into a layer (SI), following the rules above.
@@ -236,7 +243,7 @@ func parseWindAloftText(path string, data []byte, station string) (*wind.Profile
 			headerNo = no
 			for j, t := range toks[1:] {
 				v, err := strconv.Atoi(t)
-				if err != nil || v <= 0 || v > 100000 {
+				if err != nil || v <= 0 || v > maxAloftLevelFt {
 					return nil, &UsageError{Where: filePos(path, no, cols[j+1]), Err: fmt.Errorf("level %q is not a whole number of feet", t)}
 				}
 				if j > 0 && float64(v) <= levels[j-1] {
