@@ -1,8 +1,10 @@
 package main
 
 import (
+	"bytes"
 	"context"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -99,16 +101,8 @@ Everything in it is made up for demonstration.
 			d := &demoRun{out: cmd.OutOrStdout(), dir: dir}
 			steps := append([]demoStep(nil), demoSteps...)
 			sort.SliceStable(steps, func(i, j int) bool { return steps[i].order < steps[j].order })
-			for i, s := range steps {
-				if err := cmd.Context().Err(); err != nil {
-					return err
-				}
-				fmt.Fprintf(d.out, "== %d. %s\n\n", i+1, s.name)
-				t0 := time.Now()
-				if err := s.run(cmd.Context(), d); err != nil {
-					return fmt.Errorf("demo step %q: %w", s.name, err)
-				}
-				fmt.Fprintf(d.out, "(step %d took %.1f s)\n\n", i+1, time.Since(t0).Seconds())
+			if err := runDemoSteps(cmd.Context(), d, steps); err != nil {
+				return err
 			}
 			fmt.Fprintf(d.out, "Wrote %d files to %s:\n", len(d.files), dir)
 			for _, f := range d.files {
@@ -121,6 +115,66 @@ Everything in it is made up for demonstration.
 	}
 	cmd.Flags().StringVar(&dir, "out", "glidereach-demo", "directory to write the results into (created if needed)")
 	return cmd
+}
+
+// runDemoSteps runs the steps two at a time (they are independent: each
+// writes its own files and its summary into its own buffer) and prints
+// each summary, with the files it wrote, in the steps' order as soon as it
+// and the ones before it are done, so the output is the same whatever the
+// timing. A failure or an interrupt stops the steps not yet started; the
+// files already written stay.
+func runDemoSteps(ctx context.Context, d *demoRun, steps []demoStep) error {
+	type outcome struct {
+		run  *demoRun
+		took time.Duration
+		err  error
+	}
+	done := make([]chan outcome, len(steps))
+	for i := range done {
+		done[i] = make(chan outcome, 1)
+	}
+	ctx, cancel := context.WithCancel(ctx)
+	defer cancel()
+	sem := make(chan struct{}, 2)
+	go func() {
+		for i, s := range steps {
+			select {
+			case sem <- struct{}{}:
+			case <-ctx.Done():
+				for _, c := range done[i:] {
+					c <- outcome{err: ctx.Err()}
+				}
+				return
+			}
+			go func(i int, s demoStep) {
+				defer func() { <-sem }()
+				sd := &demoRun{out: &bytes.Buffer{}, dir: d.dir}
+				t0 := time.Now()
+				err := ctx.Err()
+				if err == nil {
+					err = s.run(ctx, sd)
+				}
+				done[i] <- outcome{run: sd, took: time.Since(t0), err: err}
+			}(i, s)
+		}
+	}()
+	for i, s := range steps {
+		o := <-done[i]
+		if o.err != nil {
+			cancel()
+			if errors.Is(o.err, context.Canceled) || errors.Is(o.err, context.DeadlineExceeded) {
+				return o.err
+			}
+			return fmt.Errorf("demo step %q: %w", s.name, o.err)
+		}
+		fmt.Fprintf(d.out, "== %d. %s\n\n", i+1, s.name)
+		if _, err := d.out.Write(o.run.out.(*bytes.Buffer).Bytes()); err != nil {
+			return err
+		}
+		fmt.Fprintf(d.out, "(step %d took %.1f s)\n\n", i+1, o.took.Seconds())
+		d.files = append(d.files, o.run.files...)
+	}
+	return nil
 }
 
 // demoAltitudes are the altitudes (m MSL) of the demo's performance tables.
