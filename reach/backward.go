@@ -32,8 +32,10 @@ type RequiredOptions struct {
 	// Ceiling (m MSL) bounds the altitudes computed: cells that would need
 	// more are left without a value (NaN). Zero means 6000 m.
 	Ceiling float64
-	// Workers is the number of goroutines the fields are shared among
-	// (each runs its own propagation and the results are merged); 0 means 2.
+	// Workers is the number of goroutines the independent runs are shared
+	// among: fields whose reach from the ceiling overlaps are one run, and
+	// runs apart from each other go to different workers (see required).
+	// The result does not depend on it; 0 means 2.
 	Workers int
 	// Progress, if not nil, is called now and then with the share done.
 	Progress func(done float64)
