@@ -26,6 +26,11 @@ type Failure struct {
 	// Deceleration (m/s², > 0) while changing speed; 0 means
 	// DefaultDeceleration.
 	Deceleration float64
+	// Delay (s, ≥ 0) is further straight flight on the heading at the glide
+	// speed after the speed change, before the turn: how long the pilot
+	// waits before turning. 0 for the plan; the approach planner varies it
+	// to find the last moment a plan still holds.
+	Delay float64
 }
 
 // Validate reports a Failure whose values are out of range, with the reason.
@@ -42,6 +47,8 @@ func (f Failure) Validate() error {
 		return fmt.Errorf("%w: %v (allowed 0..1)", ErrEff, f.Efficiency)
 	case !(f.Bank >= MinBank && f.Bank <= MaxBank):
 		return fmt.Errorf("%w: %v° (allowed %g..%g°)", ErrBank, f.Bank, MinBank, MaxBank)
+	case !(f.Delay >= 0) || math.IsInf(f.Delay, 0):
+		return fmt.Errorf("%w: delay %v s", ErrReaction, f.Delay)
 	case !(f.Deceleration >= 0) || math.IsInf(f.Deceleration, 0):
 		return fmt.Errorf("%w: deceleration %v m/s²", ErrSpeed, f.Deceleration)
 	}
@@ -50,7 +57,7 @@ func (f Failure) Validate() error {
 
 // Stage is one part of the sequence from failure to straight glide.
 type Stage struct {
-	Name        string  // "reaction", "speed change" or "turn"
+	Name        string  // "reaction", "speed change", "delay" or "turn"
 	East, North float64 // m, ground displacement during the stage
 	Height      float64 // m, height lost (negative = gained)
 	Time        float64 // s
@@ -87,7 +94,13 @@ func (f Failure) before(we, wn float64) []Stage {
 	speed := Stage{Name: "speed change", Time: td,
 		East: (vm*se + we) * td, North: (vm*ce + wn) * td,
 		Height: -EnergyCredit(f.FailTAS, f.GlideTAS, f.Efficiency)}
-	return []Stage{react, speed}
+	st := []Stage{react, speed}
+	if f.Delay > 0 {
+		d := f.Delay
+		st = append(st, Stage{Name: "delay", Time: d,
+			East: (f.GlideTAS*se + we) * d, North: (f.GlideTAS*ce + wn) * d, Height: f.GlideSink * d})
+	}
+	return st
 }
 
 // WithTurn returns the sequence with a turn of dpsi radians (+ right) after
