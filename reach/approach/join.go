@@ -52,14 +52,17 @@ func (q *planner) glide(j *joined, x0, y0, h0, x1, y1 float64, record bool) {
 		}
 		return -(s.Sink + c.AirSink) / s.GroundSpeed, s.GroundSpeed, true
 	}
-	n := int(math.Ceil(L / q.step))
+	// RK4 in steps of at most 500 m (the wind and density change slowly
+	// with height); the terrain is checked every q.step in between, at
+	// the altitude interpolated linearly within the step.
+	n := int(math.Ceil(L / 500))
 	if n < 1 {
 		n = 1
 	}
 	ds := L / float64(n)
+	sub := int(math.Ceil(ds / q.step))
 	h := h0
-	check := func(i int, h float64) {
-		fr := float64(i) / float64(n)
+	check := func(fr, h float64) {
 		x, y := x0+fr*(x1-x0), y0+fr*(y1-y0)
 		te, ok := q.ground(x, y)
 		if record {
@@ -93,9 +96,13 @@ func (q *planner) glide(j *joined, x0, y0, h0, x1, y1 float64, record bool) {
 			j.hEnd = math.Inf(-1)
 			return
 		}
-		h += ds / 6 * (k1 + 2*k2 + 2*k3 + k4)
+		hn := h + ds/6*(k1+2*k2+2*k3+k4)
 		j.time += ds * (1/g1 + 1/g4) / 2
-		check(i+1, h)
+		for k := 1; k <= sub; k++ {
+			a := float64(k) / float64(sub)
+			check((float64(i)+a)/float64(n), h+a*(hn-h))
+		}
+		h = hn
 	}
 	s := stf(h)
 	j.stfIAS = s.IAS
@@ -331,34 +338,9 @@ func (q *planner) planDirection(d float64) (*Result, error) {
 	return res, nil
 }
 
-// reason explains an attempt that does not hold. When the failure state
-// has a turn and the same plan holds from the same point pointed at its
-// entry (no turn), the turn is named as what decides it.
+// reason explains an attempt that does not hold.
 func (q *planner) reason(a *attempt) string {
-	s := "no variant of the pattern holds; the closest: " + a.why
-	if a.j == nil || a.j.seq == nil || a.b == nil || a.j.blocked != "" || a.b.terrain != "" || a.j.noHeadway {
-		return s
-	}
-	var turnH float64
-	for _, st := range a.j.seq.Stages {
-		if st.Name == "turn" {
-			turnH = st.Height
-		}
-	}
-	p0 := a.b.pts[0]
-	alt := *q.req.Failure
-	alt.HeadingDeg = bearingDeg(math.Atan2(p0[0]-q.sx, p0[1]-q.sy))
-	q2 := *q
-	q2.req.Failure = &alt
-	j, err := q2.join(p0[0], p0[1], a.b.heading[0], 0, false)
-	if err != nil || j.noHeadway || j.blocked != "" {
-		return s
-	}
-	if j.hEnd-j.turnH >= a.b.startAlt[0] {
-		return fmt.Sprintf("the turn of %.0f° toward the field (%.0f m lost in it, and the ground it takes) decides it: headed for the field it would hold; %s",
-			math.Abs(a.j.seq.TurnAngle)/deg, turnH, a.why)
-	}
-	return s
+	return "no variant of the pattern holds; the closest: " + a.why
 }
 
 // loseExcess turns a height excess at the full pattern's entry into whole

@@ -167,6 +167,10 @@ type Result struct {
 	Params      Params
 	Kind        string
 	Notes       []string
+	// TurnDecides is true when the plan does not hold but would, headed
+	// for the field: the turn from the failure heading is the reason.
+	TurnDecides bool
+	turn, turnH float64 // the failure turn of the closest attempt
 }
 
 // planner holds a resolved request.
@@ -215,6 +219,36 @@ func (q *planner) ground(x, y float64) (float64, bool) {
 // (or the aircraft's and conditions' own errors); an infeasible plan is a
 // Result with Feasible false and a Reason, not an error.
 func Plan(ctx context.Context, req Request) (*Result, error) {
+	res, err := plan(ctx, req)
+	if err != nil || res.Feasible || req.Failure == nil || res.Sequence == nil && res.turn == 0 {
+		return res, err
+	}
+	turn, turnH := res.turn, res.turnH
+	if math.Abs(turn) < 30*deg {
+		return res, nil
+	}
+	// Would it hold headed for the field? Then the turn decides it.
+	alt := *req.Failure
+	q, _, err := newPlanner(req)
+	if err != nil {
+		return nil, err
+	}
+	alt.HeadingDeg = bearingDeg(math.Atan2(-q.sx, -q.sy))
+	r2 := req
+	r2.Failure = &alt
+	cf, err := plan(ctx, r2)
+	if err != nil {
+		return nil, err
+	}
+	if cf.Feasible {
+		res.Reason = fmt.Sprintf("the turn of %.0f° toward the field decides it (%.0f m lost in the turn, and the ground flown away from the field before it): headed for the field on %03.0f° the plan would hold; %s",
+			math.Abs(turn)/deg, turnH, alt.HeadingDeg, res.Reason)
+		res.TurnDecides = true
+	}
+	return res, nil
+}
+
+func plan(ctx context.Context, req Request) (*Result, error) {
 	q, dirs, err := newPlanner(req)
 	if err != nil {
 		return nil, err
@@ -240,10 +274,33 @@ func Plan(ctx context.Context, req Request) (*Result, error) {
 	sort.SliceStable(order, func(a, b int) bool {
 		return dirs[order[a]].Headwind > dirs[order[b]].Headwind+0.05
 	})
+	if _, err := q.approachSpeed(0); err != nil {
+		return nil, err
+	}
+	// Out of reach whatever the direction: even straight at the aim point,
+	// with no pattern, the glide arrives below the field. (Only ever
+	// declares a plan impossible, so it cannot flatter.)
+	if j, err := q.join(0, 0, 0, 0, false); err != nil {
+		return nil, err
+	} else if !j.noHeadway && j.hEnd < q.elev {
+		if j.seq != nil {
+			res.turn, res.turnH = j.seq.TurnAngle, j.seq.Stages[len(j.seq.Stages)-1].Height
+		}
+		res.Reason = fmt.Sprintf("out of reach: even straight at the field, with no pattern, the glide arrives %.0f m below its elevation", q.elev-j.hEnd)
+		if j.seq != nil && math.Abs(j.seq.TurnAngle) > 30*deg {
+			res.Reason += fmt.Sprintf(" (after a turn of %.0f° costing %.0f m)", math.Abs(j.seq.TurnAngle)/deg, j.seq.Stages[len(j.seq.Stages)-1].Height)
+		}
+		return res, nil
+	}
 	var best *Result
+	var chosen *Result
+	chosenIdx, chosenHW := -1, 0.0
 	for _, i := range order {
 		if err := ctx.Err(); err != nil {
 			return nil, err
+		}
+		if chosen != nil && dirs[i].Headwind < chosenHW-0.05 {
+			break
 		}
 		d := &res.Directions[i]
 		d.Tried = true
@@ -254,16 +311,31 @@ func Plan(ctx context.Context, req Request) (*Result, error) {
 		r.Directions, r.Params, r.Kind, r.Side = res.Directions, res.Params, res.Kind, res.Side
 		r.Headwind, r.Crosswind = d.Headwind, d.Crosswind
 		if r.Feasible {
+			// Among directions with the same headwind (calm air, or a
+			// wind across a symmetric set) the one with most height in
+			// hand at the entry.
+			if chosen != nil && !(r.Excess > chosen.Excess) {
+				d.Result = "feasible, less height in hand than the chosen direction"
+				continue
+			}
+			if chosen != nil {
+				res.Directions[chosenIdx].Result = "feasible, less height in hand than the chosen direction"
+			}
 			d.Result = "chosen"
 			r.LandingDir = d.Deg
-			r.Unknown = q.unknown
-			return r, nil
+			chosen, chosenIdx, chosenHW = r, i, d.Headwind
+			continue
 		}
 		d.Result = r.Reason
 		if best == nil || r.Excess > best.Excess || math.IsNaN(best.Excess) {
 			best = r
 			best.LandingDir = d.Deg
 		}
+	}
+	if chosen != nil {
+		chosen.Directions = res.Directions
+		chosen.Unknown = q.unknown
+		return chosen, nil
 	}
 	best.Unknown = q.unknown
 	return best, nil

@@ -201,7 +201,7 @@ func TestTurnDecides(t *testing.T) {
 	if !ahead.Feasible {
 		t.Fatalf("ahead from %.0f m: %s", alt, ahead.Reason)
 	}
-	if behind.Feasible || !strings.Contains(behind.Reason, "turn of") || !strings.Contains(behind.Reason, "decides it") {
+	if behind.Feasible || !behind.TurnDecides || !strings.Contains(behind.Reason, "the turn of") || !strings.Contains(behind.Reason, "decides it") {
 		t.Errorf("behind from %.0f m: feasible %v, %s", alt, behind.Feasible, behind.Reason)
 	}
 	// The energy trade is credited: 100 kt to the speed to fly, η = 0.5
@@ -265,7 +265,7 @@ func TestLowTakesShortenedVariant(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if res.Feasible || !strings.Contains(res.Reason, "short") {
+	if res.Feasible || !strings.Contains(res.Reason, "out of reach") {
 		t.Errorf("from 300 m at 8 km: feasible %v, %s", res.Feasible, res.Reason)
 	}
 }

@@ -29,6 +29,13 @@ func (q *planner) fill(res *Result, a *attempt) error {
 	}
 	res.Variant = b.variant
 	res.Sequence = j.seq
+	if j.seq != nil {
+		for _, st := range j.seq.Stages {
+			if st.Name == "turn" {
+				res.turn, res.turnH = j.seq.TurnAngle, st.Height
+			}
+		}
+	}
 	res.Arrival = j.hEnd
 	res.Required = b.startAlt[0] + j.turnH
 	res.Excess = res.Arrival - res.Required

@@ -1,0 +1,89 @@
+package main
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/spf13/pflag"
+
+	"glidereach/cmd/glidereach/input"
+	"glidereach/reach/transition"
+)
+
+// failureFlags give the aircraft's state at an engine failure: heading,
+// airspeed, and how the first seconds are flown.
+type failureFlags struct {
+	heading    *input.Quantity
+	speed      *input.Quantity
+	reaction   float64
+	efficiency float64
+	bank       *input.Quantity
+}
+
+func newFailureFlags() *failureFlags {
+	return &failureFlags{heading: input.NewQuantity(input.Angle, 0), speed: input.NewQuantity(input.Speed, 0),
+		reaction: transition.DefaultReactionTime, efficiency: transition.DefaultEfficiency,
+		bank: input.NewQuantity(input.Angle, transition.DefaultBank)}
+}
+
+func (f *failureFlags) register(fs *pflag.FlagSet) {
+	fs.Var(f.heading, "heading", "aircraft heading at the engine failure (degrees true): the glide starts with the turn from it")
+	fs.Var(f.speed, "speed", "indicated airspeed at the failure (kt, km/h, m/s): slowing to the glide speed is credited as height; needs --heading")
+	fs.Float64Var(&f.reaction, "reaction-time", transition.DefaultReactionTime, "seconds flown on the heading at the failure speed before the pilot acts (common practice, no source)")
+	fs.Float64Var(&f.efficiency, "energy-efficiency", transition.DefaultEfficiency, "share 0..1 of the speed above the glide speed credited as height (0 = no credit)")
+	fs.Var(f.bank, "bank", fmt.Sprintf("bank angle of the turns (degrees, %g..%g)", transition.MinBank, transition.MaxBank))
+}
+
+// failureState is the resolved state; nil when no --heading was given.
+type failureState struct {
+	HeadingDeg float64
+	IAS        float64 // m/s; 0 = at the speed to fly
+	Reaction   float64 // s
+	Efficiency float64
+	Bank       float64 // degrees
+}
+
+// resolve checks the flags: --speed alone is refused (a speed without a
+// heading says nothing about the turn), ranges are named by flag.
+func (f *failureFlags) resolve() (*failureState, error) {
+	if !(f.reaction >= 0 && f.reaction <= transition.MaxReactionTime) {
+		return nil, input.Usagef("--reaction-time", "%v s is outside 0..%g s", f.reaction, transition.MaxReactionTime)
+	}
+	if !(f.efficiency >= 0 && f.efficiency <= 1) {
+		return nil, input.Usagef("--energy-efficiency", "%v is outside 0..1", f.efficiency)
+	}
+	if b := f.bank.Value; !(b >= transition.MinBank && b <= transition.MaxBank) {
+		return nil, input.Usagef("--bank", "%v° is outside %g..%g°", b, transition.MinBank, transition.MaxBank)
+	}
+	if f.speed.Given && !f.heading.Given {
+		return nil, input.Usagef("--speed", "needs --heading: the airspeed at the failure is used only with the heading it was flown on")
+	}
+	if !f.heading.Given {
+		return nil, nil
+	}
+	h := f.heading.Value
+	if !(h >= 0 && h <= 360) {
+		return nil, input.Usagef("--heading", "%v° is outside 0..360", h)
+	}
+	s := &failureState{HeadingDeg: math.Mod(h, 360), Reaction: f.reaction, Efficiency: f.efficiency, Bank: f.bank.Value}
+	if f.speed.Given {
+		if !(f.speed.Value > 0 && f.speed.Value < 150) {
+			return nil, input.Usagef("--speed", "%v m/s is outside 0..150 m/s", f.speed.Value)
+		}
+		s.IAS = f.speed.Value
+	}
+	return s, nil
+}
+
+// assumption describes the state for the assumptions list.
+func (s *failureState) assumption() string {
+	if s == nil {
+		return "no failure state given (--heading/--speed): the glide starts at the speed to fly, already on its track, with no reaction time, energy credit or turn"
+	}
+	sp := "at the speed to fly (no --speed: no energy credit)"
+	if s.IAS > 0 {
+		sp = fmt.Sprintf("at %.0f kt IAS, %.0f %% of the energy above the glide speed credited", s.IAS/input.Knot, s.Efficiency*100)
+	}
+	return fmt.Sprintf("engine failure on heading %03.0f° %s; %.0f s reaction on the heading; turns at %.0f° bank at the same lift coefficient (speed × √n, sink × n^1.5)",
+		s.HeadingDeg, sp, s.Reaction, s.Bank)
+}
