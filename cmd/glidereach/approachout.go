@@ -205,7 +205,7 @@ func writeApproachText(w io.Writer, run *approachRun) {
 			if mh {
 				line += fmt.Sprintf(" %5s", fmtDeg(run.magnetic(g.Heading)))
 			}
-			line += fmt.Sprintf(" %6.0f° %7.2fkm %7s %9s", g.Drift, g.DistToTouchdown/1000, fmtDuration(g.TimeToTouchdown), fmtTurn(g.TurnDeg))
+			line += fmt.Sprintf(" %7s %7.2fkm %7s %9s", fmtDrift(g.Drift), g.DistToTouchdown/1000, fmtDuration(g.TimeToTouchdown), fmtTurn(g.TurnDeg))
 			fmt.Fprintln(w, line)
 		}
 		fmt.Fprintf(w, "(heights in %s, speeds in %s)\n", u.hUnit, u.vUnit)
@@ -236,7 +236,7 @@ func writeApproachText(w io.Writer, run *approachRun) {
 				fmt.Fprintf(w, "  %s°  headwind %s, crosswind %s: refused: %s\n", fmtDeg(d.Deg), u.v(d.Headwind), u.v(d.Crosswind), d.Refused)
 			}
 		} else {
-			fmt.Fprintf(w, "  %d other directions refused by the crosswind or tailwind limit (listed in --format json)\n", len(refused))
+			fmt.Fprintf(w, "  %d directions refused by the crosswind or tailwind limit (listed in --format json)\n", len(refused))
 		}
 	}
 	fmt.Fprintln(w)
@@ -252,7 +252,11 @@ func fmtDrift(d float64) string {
 	if math.IsNaN(d) {
 		return "-"
 	}
-	return fmt.Sprintf("%+.0f°", d)
+	v := math.Round(d)
+	if v == 0 {
+		return "0°" // no "-0°"
+	}
+	return fmt.Sprintf("%+.0f°", v)
 }
 
 func signedH(u displayUnits, m float64) string {

@@ -468,14 +468,18 @@ func (q *planner) candidates() ([]Direction, error) {
 		}
 		degs = []float64{math.Mod(az1+360, 360), math.Mod(az2+180+360, 360)}
 	default:
-		for d := 0.0; d < 360; d += 10 {
-			degs = append(degs, d)
-		}
-		// Straight into the surface wind, when there is one.
+		// Straight into the surface wind, when there is one, then every
+		// 10° (less the one it repeats).
 		we, wn := q.wind(q.elev)
+		into := math.NaN()
 		if math.Hypot(we, wn) > 0.1 {
-			into := math.Mod(math.Atan2(-we, -wn)*180/math.Pi+360, 360)
-			degs = append([]float64{into}, degs...)
+			into = math.Mod(math.Round(math.Atan2(-we, -wn)*180/math.Pi*1e6)/1e6+360, 360)
+			degs = append(degs, into)
+		}
+		for d := 0.0; d < 360; d += 10 {
+			if !(math.Abs(transition.Wrap((d-into)*deg)) < 0.5*deg) {
+				degs = append(degs, d)
+			}
 		}
 	}
 	we, wn := q.wind(q.elev)
