@@ -219,6 +219,9 @@ func writeApproachText(w io.Writer, run *approachRun) {
 	for _, n := range r.Notes {
 		fmt.Fprintln(w, "Note:", n)
 	}
+	for _, n := range r.Rejected {
+		fmt.Fprintln(w, "Not taken:", n)
+	}
 	if len(r.Directions) > 1 || len(r.Directions) == 1 && r.Directions[0].Refused != "" {
 		fmt.Fprintln(w)
 		fmt.Fprintln(w, "Landing directions considered:")

@@ -265,12 +265,20 @@ func (q *planner) planDirection(d float64) (*Result, error) {
 	res.ApproachIAS, res.ApproachFrom = q.ias, from
 	cr := q.corners(th, 0)
 	var best *attempt
+	var rejected []string
+	seen := map[string]bool{}
 	consider := func(a *attempt) bool {
 		if best == nil || a.why == "" && best.why != "" || (a.why == "") == (best.why == "") && a.excess > best.excess {
 			best = a
 		}
+		if a.why != "" && a.b != nil && !seen[a.b.variant] {
+			// The first reason each variant was given up for.
+			seen[a.b.variant] = true
+			rejected = append(rejected, a.b.variant+": "+a.why)
+		}
 		return a.why == ""
 	}
+	defer func() { res.Rejected = rejected }()
 	// 1. The full pattern.
 	full := chain{variant: "full pattern", pts: [][2]float64{cr.E, cr.B, cr.F, cr.A},
 		names: []string{"entry", "base", "final", "touchdown"}, legs: []string{"downwind", "base", "final"}}

@@ -190,7 +190,10 @@ func (q *planner) checkPattern(b *built) {
 			}
 			clear := alt - te
 			low = math.Min(low, clear)
-			need := math.Min(q.p.Clearance, alt-q.elev)
+			// The least clearance tapers to half the height above the
+			// field: ground may rise under the final to no more than half
+			// the planned height there.
+			need := math.Min(q.p.Clearance, (alt-q.elev)/2)
 			if clear < need-1e-6 && b.terrain == "" {
 				lat, lon := q.latlon(x, y)
 				b.terrain = fmt.Sprintf("terrain under the %s leg at %.5f,%.5f rises to %.0f m, %.0f m below the pattern (%.0f m needed)",

@@ -167,6 +167,9 @@ type Result struct {
 	Params      Params
 	Kind        string
 	Notes       []string
+	// Rejected says, for each variant tried before the one taken (or all,
+	// when none holds), why it was given up: the first attempt's reason.
+	Rejected []string
 	// TurnDecides is true when the plan does not hold but would, headed
 	// for the field: the turn from the failure heading is the reason.
 	TurnDecides bool
