@@ -49,6 +49,10 @@ type FootprintResult struct {
 	StartX, StartY float64
 	// members are the footprints an Intersect combined (nil otherwise).
 	members []*FootprintResult
+	// sectors and sectorMembers are the sector starts and their
+	// footprints of a FootprintFromState result (nil otherwise).
+	sectors       []SectorStart
+	sectorMembers []*FootprintResult
 }
 
 // ErrStartBelowGround is returned when the start altitude is not above the
@@ -176,6 +180,9 @@ func (f *FootprintResult) ArrivalAt(lat, lon float64) (alt float64, ok bool) {
 		}
 		return low, true
 	}
+	if f.sectorMembers != nil {
+		return f.sectorArrivalAt(lat, lon)
+	}
 	x, y := f.Ground.Frame.Forward(lat, lon)
 	gx, gy := (x-f.Ground.X0)/f.Ground.Cell, (y-f.Ground.Y0)/f.Ground.Cell
 	return f.arrivalAtCellXY(gx, gy)
@@ -227,6 +234,9 @@ func (f *FootprintResult) arrivalAtCellXY(gx, gy float64) (float64, bool) {
 func (f *FootprintResult) Path(c, r int) ([][2]float64, bool) {
 	if f.members != nil {
 		return f.members[0].Path(c, r)
+	}
+	if f.sectorMembers != nil {
+		return f.sectorPath(c, r)
 	}
 	p := f.prop
 	q := r*p.cols + c

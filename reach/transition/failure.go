@@ -131,6 +131,12 @@ func (f Failure) WithTurn(dpsi, we, wn float64) (Sequence, error) {
 // track). A point inside the turn circle may not be met exactly. ok is
 // false when the track cannot be made good against the wind.
 func (f Failure) Toward(east, north, we, wn float64) (seq Sequence, track float64, ok bool, err error) {
+	return f.toward(east, north, we, wn, 0)
+}
+
+// toward is Toward with the turn's side forced when side is +1 (right) or
+// −1 (left); 0 takes the shorter way first.
+func (f Failure) toward(east, north, we, wn, force float64) (seq Sequence, track float64, ok bool, err error) {
 	if err := f.Validate(); err != nil {
 		return Sequence{}, 0, false, err
 	}
@@ -148,9 +154,15 @@ func (f Failure) Toward(east, north, we, wn float64) (seq Sequence, track float6
 		dpsi = Wrap(hd - f.Heading)
 		// Keep the turn direction chosen first: near a half turn the
 		// shorter way flips from side to side as the roll-out moves.
-		if it == 0 {
+		switch {
+		case force != 0:
+			side = force
+			if dpsi != 0 && math.Copysign(1, dpsi) != side {
+				dpsi += side * 2 * math.Pi
+			}
+		case it == 0:
 			side = math.Copysign(1, dpsi)
-		} else if math.Copysign(1, dpsi) != side && math.Abs(dpsi) > math.Pi/2 {
+		case math.Copysign(1, dpsi) != side && math.Abs(dpsi) > math.Pi/2:
 			dpsi += side * 2 * math.Pi
 		}
 		seq, err = f.WithTurn(dpsi, we, wn)
@@ -164,4 +176,55 @@ func (f Failure) Toward(east, north, we, wn float64) (seq Sequence, track float6
 		track = nt
 	}
 	return seq, track, ok, nil
+}
+
+// Sector is where the straight glide starts for the tracks of one sector
+// of directions after the failure: the tracks TrackDeg ± HalfDeg (degrees
+// true) are flown from (East, North) m of the failure point with Height m
+// lost (negative = gained) before them.
+type Sector struct {
+	TrackDeg, HalfDeg float64
+	East, North       float64
+	Height            float64
+	TurnDeg           float64 // the turn flown to the sector's centre track (+ right)
+}
+
+// Sectors returns the sectors of centre tracks 360°·k/n (n ≥ 4), each
+// started after the reaction, the speed change and the turn onto its centre
+// track in wind (we, wn). Each track is turned to both ways, right and
+// left, up to 270° (a point straight behind needs more than a half turn
+// either way: the half turn leaves the aircraft two radii to the side), so
+// most tracks have two sectors. Each covers its centre ± one sector
+// spacing, so neighbours overlap (the starts move along the turn circle
+// from sector to sector, and cones of ± half a spacing from different
+// starts would leave gaps). A track anywhere in the sector may need up to
+// one spacing more turn than its centre; that turn's height is added to
+// every sector, which keeps it on the safe side. f must be valid.
+func (f Failure) Sectors(n int, we, wn float64) ([]Sector, error) {
+	if n < 4 {
+		return nil, fmt.Errorf("transition: %d sectors, want at least 4", n)
+	}
+	turn, err := NewTurn(f.Bank, f.GlideTAS, f.GlideSink)
+	if err != nil {
+		return nil, err
+	}
+	half := 2 * math.Pi / float64(n)
+	extra := turn.HeightLost(half)
+	var out []Sector
+	const far = 1e7 // m: the track to a point this far is the sector's track
+	for k := 0; k < n; k++ {
+		th := 2 * math.Pi * float64(k) / float64(n)
+		for _, side := range []float64{1, -1} {
+			seq, _, _, err := f.toward(far*math.Sin(th), far*math.Cos(th), we, wn, side)
+			if err != nil {
+				return nil, err
+			}
+			if math.Abs(seq.TurnAngle) > 1.5*math.Pi || side < 0 && math.Abs(seq.TurnAngle) < 1e-9 {
+				continue
+			}
+			out = append(out, Sector{TrackDeg: th * 180 / math.Pi, HalfDeg: half * 180 / math.Pi, East: seq.East, North: seq.North,
+				Height: seq.Height + extra, TurnDeg: seq.TurnAngle * 180 / math.Pi})
+		}
+	}
+	return out, nil
 }
