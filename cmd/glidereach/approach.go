@@ -278,7 +278,7 @@ func runApproach(ctx context.Context, o *approachOptions, stdout io.Writer) erro
 			return err
 		}
 	}
-	return deliver(stdout, results{out: o.out, format: o.format, mapPNG: o.mapPNG, report: o.report,
+	return deliver(ctx, stdout, results{out: o.out, format: o.format, mapPNG: o.mapPNG, report: o.report,
 		document: func(format string) ([]byte, error) {
 			if format == "json" {
 				return approachJSON(run)

@@ -21,23 +21,21 @@ func init() { register(newReachCmd) }
 
 // reachOptions are the reach command's flags.
 type reachOptions struct {
-	pos     *positionFlags
-	glide   *glideFlags
-	terr    *terrainFlags
-	fields  string
-	levels  []string
-	out     string
-	format  string
-	raster  string
-	mapPNG  string
-	report  string
-	heading float64
-	// headingGiven: --heading was given (NaN given is refused, not "none").
-	headingGiven bool
+	pos    *positionFlags
+	glide  *glideFlags
+	terr   *terrainFlags
+	fields string
+	levels []string
+	out    string
+	format string
+	raster string
+	mapPNG string
+	report string
+	fail   *failureFlags
 }
 
 func newReachCmd() *cobra.Command {
-	o := &reachOptions{pos: newPositionFlags(), glide: newGlideFlags(), terr: newTerrainFlags(), heading: math.NaN()}
+	o := &reachOptions{pos: newPositionFlags(), glide: newGlideFlags(), terr: newTerrainFlags(), fail: newFailureFlags()}
 	cmd := &cobra.Command{
 		Use:   "reach",
 		Short: "Ground reachable without thrust from a position and altitude (footprint)",
@@ -55,7 +53,6 @@ just reach them with the reserve.
   glidereach reach --from -0.5,-24.5 --alt 1200m --format json`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			o.headingGiven = cmd.Flags().Changed("heading")
 			return runReach(cmd.Context(), o, cmd.OutOrStdout(), cmd.ErrOrStderr())
 		},
 	}
@@ -70,7 +67,7 @@ just reach them with the reserve.
 	fs.StringVar(&o.raster, "raster", "", "write the arrival height above ground as a raster (.tif GeoTIFF or .asc ESRI ASCII grid)")
 	fs.StringVar(&o.mapPNG, "map", "", "draw a map of the result to this PNG file")
 	fs.StringVar(&o.report, "report", "", "write a self-contained HTML report to this file")
-	fs.Float64Var(&o.heading, "heading", math.NaN(), "aircraft heading at the start (degrees true), drawn on the map; range 0..360")
+	o.fail.register(fs)
 	return cmd
 }
 
@@ -133,6 +130,9 @@ type reachRun struct {
 
 	tablesMu sync.Mutex
 	tables   map[int]*reach.Table // per wind of setup.Winds, for judging fields
+
+	fail    *failureState       // nil: no failure state (--heading)
+	sectors []reach.SectorStart // the failure's sector starts (nominal wind)
 }
 
 // fieldTable returns the speed-to-fly table of wind k covering lo..hi (m MSL),
@@ -168,9 +168,6 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 	if !o.pos.from.Given {
 		return input.Usagef("--from", "the start position is required (LAT,LON)")
 	}
-	if o.headingGiven && !(o.heading >= 0 && o.heading <= 360) {
-		return input.Usagef("--heading", "%v is outside 0..360 degrees true", o.heading)
-	}
 	extra, err := parseLevels(o.levels)
 	if err != nil {
 		return err
@@ -194,11 +191,14 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 			return err
 		}
 	}
-	run, err := computeReach(ctx, setup, ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}, o.pos, fields, extra, stderr)
+	fstate, err := o.fail.resolve()
 	if err != nil {
 		return err
 	}
-	run.heading = o.heading
+	run, err := computeReachFrom(ctx, setup, ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}, o.pos, fields, extra, stderr, fstate)
+	if err != nil {
+		return err
+	}
 
 	return deliver(ctx, stdout, results{out: o.out, format: o.format, raster: o.raster, mapPNG: o.mapPNG, report: o.report,
 		document: func(format string) ([]byte, error) {
@@ -214,6 +214,12 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 
 // computeReach runs the footprint and judges the fields.
 func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positionFlags, fields []input.Field, extraLevels []float64, stderr io.Writer) (*reachRun, error) {
+	return computeReachFrom(ctx, setup, gr, pos, fields, extraLevels, stderr, nil)
+}
+
+// computeReachFrom is computeReach from an engine failure's state (nil:
+// already gliding at the speed to fly, as computeReach).
+func computeReachFrom(ctx context.Context, setup *glideSetup, gr ground, pos *positionFlags, fields []input.Field, extraLevels []float64, stderr io.Writer, fstate *failureState) (*reachRun, error) {
 	lat, lon := pos.from.Lat, pos.from.Lon
 	elev, ok, err := gr.elevationAt(lat, lon)
 	if err != nil {
@@ -232,8 +238,21 @@ func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positi
 	if alt <= elev {
 		return nil, input.Usagef("--alt", "%.0f m MSL is not above the terrain at the start (%.0f m)", alt, elev)
 	}
-	run := &reachRun{setup: setup, ground: gr, startLat: lat, startLon: lon, startAlt: alt, startElev: elev}
+	run := &reachRun{setup: setup, ground: gr, startLat: lat, startLon: lon, startAlt: alt, startElev: elev, heading: math.NaN(), fail: fstate}
+	if fstate != nil {
+		run.heading = fstate.HeadingDeg
+	}
 	setup.checkStartClearance(stderr, alt, elev)
+	setup.State = fstate.assumption()
+	if fstate != nil {
+		setup.State += "; the footprint is the shape this state gives: the glide toward each direction starts after the turn to it (either way, up to 270°)"
+	}
+	// From a failure state the glides start up to a few km away and may
+	// start higher (the energy credit): widen the window and the tables.
+	pad, topExtra := 0.0, 0.0
+	if fstate != nil {
+		pad, topExtra = 3000, 300
+	}
 
 	// Size the window from the best downwind glide down to the lowest ground
 	// it meets (a first guess below the start's ground, then corrected).
@@ -243,17 +262,17 @@ func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positi
 	for pass := 0; pass < 2; pass++ {
 		radius := 0.0
 		for _, w := range setup.Winds {
-			tab, err := setup.tableFor(w, bottom-50, alt+50)
+			tab, err := setup.tableFor(w, bottom-50, alt+50+topExtra)
 			if err != nil {
 				return nil, &input.UsageError{Where: "--aircraft", Err: err}
 			}
-			r, err := reach.ReachRadius(tab, alt, bottom)
+			r, err := reach.ReachRadius(tab, alt+topExtra, bottom)
 			if err != nil {
 				return nil, &input.UsageError{Err: err}
 			}
 			radius = math.Max(radius, r)
 		}
-		l, grid, err = gr.window(lat, lon, radius*1.02+1000)
+		l, grid, err = gr.window(lat, lon, radius*1.02+1000+pad)
 		if err != nil {
 			return nil, err
 		}
@@ -275,14 +294,27 @@ func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positi
 	prog := newProgress(stderr, "reach")
 	var members []*reach.FootprintResult
 	for k, w := range setup.Winds {
-		tab, err := setup.tableFor(w, lo+math.Min(minLevel, 0)-260, alt+60)
+		tab, err := setup.tableFor(w, lo+math.Min(minLevel, 0)-260, alt+60+topExtra)
 		if err != nil {
 			return nil, &input.UsageError{Where: "--aircraft", Err: err}
 		}
 		n := float64(len(setup.Winds))
-		res, err := reach.Footprint(ctx, l, reach.Start{Lat: lat, Lon: lon, Alt: alt}, tab, reach.FootprintOptions{
+		fopts := reach.FootprintOptions{
 			Reserve: setup.Reserve, Clearance: setup.Clearance, Levels: extraLevels,
-			Progress: func(d float64) { prog.set((float64(k) + d) / n) }})
+			Progress: func(d float64) { prog.set((float64(k) + d) / n) }}
+		var res *reach.FootprintResult
+		if fstate != nil {
+			secs, err := failureSectors(setup, w, l, lat, lon, alt, fstate)
+			if err != nil {
+				return nil, err
+			}
+			if k == 0 {
+				run.sectors = secs
+			}
+			res, err = reach.FootprintFromState(ctx, l, reach.Start{Lat: lat, Lon: lon, Alt: alt}, secs, tab, fopts)
+		} else {
+			res, err = reach.Footprint(ctx, l, reach.Start{Lat: lat, Lon: lon, Alt: alt}, tab, fopts)
+		}
 		if err != nil {
 			prog.done()
 			switch {
@@ -398,13 +430,27 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 		fr.Note = "beyond the computed window: out of reach"
 	}
 	// The least start altitude: backward from the field over a window that
-	// holds both the field and the start.
+	// holds both the field and the start. From a failure state the glide
+	// starts at the sector start that claims the field, and what the
+	// failure costs before it (the start's altitude less the sector's) is
+	// added.
+	fromLat, fromLon, cost := run.startLat, run.startLon, 0.0
+	if run.sectors != nil {
+		sec, ok := sectorFor(l, run.sectors, f.Lat, f.Lon)
+		if !ok {
+			if fr.Note == "" {
+				fr.Note = "inside the turn after the failure: no straight glide from the failure state reaches it"
+			}
+			return fr, nil
+		}
+		fromLat, fromLon, cost = sec.Start.Lat, sec.Start.Lon, run.startAlt-sec.Start.Alt
+	}
 	win := l
 	if onWindow {
 		// The backward propagation needs only the ground between the field
 		// and the start and around them; a path that would leave this box
 		// is not found, which can only raise the figure (conservative).
-		sx, sy := l.Frame.Forward(run.startLat, run.startLon)
+		sx, sy := l.Frame.Forward(fromLat, fromLon)
 		m := 0.5*math.Hypot(x-sx, y-sy) + 3000
 		if c := l.Crop(math.Min(x, sx)-m, math.Min(y, sy)-m, math.Max(x, sx)+m, math.Max(y, sy)+m); c != nil && c.Cols >= 2 && c.Rows >= 2 {
 			win = c
@@ -426,7 +472,7 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 			return fr, &input.UsageError{Where: "--aircraft", Err: err}
 		}
 		r, rok, err := reach.RequiredFrom(ctx, win, reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: fr.ElevationM, Reserve: reserve}, tab,
-			reach.RequiredOptions{Clearance: run.setup.Clearance, Ceiling: ceiling}, run.startLat, run.startLon)
+			reach.RequiredOptions{Clearance: run.setup.Clearance, Ceiling: ceiling}, fromLat, fromLon)
 		if err != nil {
 			if errors.Is(err, reach.ErrNoTargets) || errors.Is(err, reach.ErrStartOffGround) {
 				ok = false
@@ -438,7 +484,7 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 			ok = false
 			break
 		}
-		req = math.Max(req, r) // the highest: it must hold in every wind
+		req = math.Max(req, r+cost) // the highest: it must hold in every wind
 	}
 	if ok {
 		fr.RequiredMSL = req

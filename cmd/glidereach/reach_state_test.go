@@ -1,0 +1,103 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// reachFields runs reach --format json and returns arrival and required
+// altitude per field name, and the assumptions.
+func reachFields(t *testing.T, args ...string) (map[string][2]float64, []string) {
+	t.Helper()
+	code, out, errs := runCLI(t, append([]string{"reach", "--format", "json"}, args...)...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc struct {
+		Fields []struct {
+			Name        string   `json:"name"`
+			ArrivalAGL  *float64 `json:"arrival_agl_m"`
+			RequiredMSL *float64 `json:"required_msl_m"`
+		} `json:"fields"`
+		Assumptions []string `json:"assumptions"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	m := map[string][2]float64{}
+	for _, f := range doc.Fields {
+		v := [2]float64{math.NaN(), math.NaN()}
+		if f.ArrivalAGL != nil {
+			v[0] = *f.ArrivalAGL
+		}
+		if f.RequiredMSL != nil {
+			v[1] = *f.RequiredMSL
+		}
+		m[f.Name] = v
+	}
+	return m, doc.Assumptions
+}
+
+// reach from a failure state: heading north in calm air over flat ground,
+// a field 4 km behind arrives lower and needs more altitude than today, a
+// field 4 km ahead arrives higher (the energy credit and the ground covered
+// before the turn); without --heading the result is today's and the
+// assumptions say so.
+func TestReachFromFailureState(t *testing.T) {
+	dir := t.TempDir()
+	fields := filepath.Join(dir, "f.geojson")
+	// 4 km is 0.03597° of latitude near the equator (1° ≈ 110.57 km on
+	// WGS84 there; REFERENCES.md §5).
+	if err := os.WriteFile(fields, []byte(`{"type":"FeatureCollection","features":[
+	 {"type":"Feature","properties":{"name":"Behind"},"geometry":{"type":"Point","coordinates":[-24.5,-0.53618]}},
+	 {"type":"Feature","properties":{"name":"Ahead"},"geometry":{"type":"Point","coordinates":[-24.5,-0.46382]}}]}`), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	base := []string{"--from", "-0.5,-24.5", "--alt", "1200m", "--fields", fields}
+	today, as := reachFields(t, base...)
+	if !strings.Contains(strings.Join(as, "\n"), "no failure state given") {
+		t.Errorf("assumptions do not say there is no failure state: %v", as)
+	}
+	st, as := reachFields(t, append(base, "--heading", "0", "--speed", "100kt")...)
+	if !strings.Contains(strings.Join(as, "\n"), "engine failure on heading 000°") {
+		t.Errorf("assumptions: %v", as)
+	}
+	b0, b1 := today["Behind"], st["Behind"]
+	a0, a1 := today["Ahead"], st["Ahead"]
+	// The half turn of the trainer costs about 100 m, the ground flown
+	// north first about 1.2 km (≈ 130 m at 1:9): behind loses > 150 m.
+	if !(b1[0] < b0[0]-150) || !(b1[1] > b0[1]+150) {
+		t.Errorf("behind: arrival %.0f → %.0f m, required %.0f → %.0f m", b0[0], b1[0], b0[1], b1[1])
+	}
+	if !(a1[0] > a0[0]) || !(a1[1] < a0[1]) {
+		t.Errorf("ahead: arrival %.0f → %.0f m, required %.0f → %.0f m", a0[0], a1[0], a0[1], a1[1])
+	}
+	// The required altitude from the state agrees with the arrival: the
+	// margin is the start altitude less the required one (within the
+	// solver's 1 % and a cell).
+	for name, v := range st {
+		if margin := 1200 - v[1]; math.Abs((v[0]-300)-margin) > 25 {
+			t.Errorf("%s: arrival %.0f m above the reserve, but 1200 m less the required %.0f m is %.0f m", name, v[0]-300, v[1], margin)
+		}
+	}
+}
+
+// --speed without --heading is refused (exit 2 naming --speed).
+func TestReachSpeedAloneRefused(t *testing.T) {
+	r, w, _ := os.Pipe()
+	saved := os.Stderr
+	os.Stderr = w
+	code, _, _ := runCLI(t, "reach", "--from", "-0.5,-24.5", "--alt", "1200m", "--speed", "100kt")
+	w.Close()
+	os.Stderr = saved
+	var msg bytes.Buffer
+	msg.ReadFrom(r)
+	if code != 2 || !strings.Contains(msg.String(), "--speed") {
+		t.Errorf("exit %d, %q", code, msg.String())
+	}
+}
