@@ -36,6 +36,30 @@ func (f *failureFlags) register(fs *pflag.FlagSet) {
 	fs.Var(f.bank, "bank", fmt.Sprintf("bank angle of the turns (degrees, %g..%g)", transition.MinBank, transition.MaxBank))
 }
 
+// registerSpeedOnly registers the flags of a command whose heading at
+// each point is given by the command itself (route: the route's course).
+func (f *failureFlags) registerSpeedOnly(fs *pflag.FlagSet) {
+	fs.Var(f.speed, "speed", "indicated airspeed at a failure (kt, km/h, m/s), on the route's course at each point: the reaction, energy trade and turn toward the best field count")
+	fs.Float64Var(&f.reaction, "reaction-time", transition.DefaultReactionTime, "seconds flown on the course at the failure speed before the pilot acts (common practice, no source)")
+	fs.Float64Var(&f.efficiency, "energy-efficiency", transition.DefaultEfficiency, "share 0..1 of the speed above the glide speed credited as height (0 = no credit)")
+	fs.Var(f.bank, "bank", fmt.Sprintf("bank angle of the turns (degrees, %g..%g)", transition.MinBank, transition.MaxBank))
+}
+
+// resolveCourse resolves the flags of registerSpeedOnly: nil without
+// --speed; HeadingDeg is NaN (each point's course is used).
+func (f *failureFlags) resolveCourse() (*failureState, error) {
+	if !f.speed.Given {
+		return nil, nil
+	}
+	f.heading.Given, f.heading.Value = true, 0
+	s, err := f.resolve()
+	if err != nil {
+		return nil, err
+	}
+	s.HeadingDeg = math.NaN()
+	return s, nil
+}
+
 // failureState is the resolved state; nil when no --heading was given.
 type failureState struct {
 	HeadingDeg float64
@@ -82,12 +106,16 @@ func (s *failureState) assumption() string {
 	if s == nil {
 		return "no failure state given (--heading/--speed): the glide starts at the speed to fly, already on its track, with no reaction time, energy credit or turn"
 	}
+	hd := fmt.Sprintf("on heading %03.0f°", s.HeadingDeg)
+	if math.IsNaN(s.HeadingDeg) {
+		hd = "on the route's course at each point"
+	}
 	sp := "at the speed to fly (no --speed: no energy credit)"
 	if s.IAS > 0 {
 		sp = fmt.Sprintf("at %.0f kt IAS, %.0f %% of the energy above the glide speed credited", s.IAS/input.Knot, s.Efficiency*100)
 	}
-	return fmt.Sprintf("engine failure on heading %03.0f° %s; %.0f s reaction on the heading; turns at %.0f° bank at the same lift coefficient (speed × √n, sink × n^1.5)",
-		s.HeadingDeg, sp, s.Reaction, s.Bank)
+	return fmt.Sprintf("engine failure %s %s; %.0f s reaction on the heading; turns at %.0f° bank at the same lift coefficient (speed × √n, sink × n^1.5)",
+		hd, sp, s.Reaction, s.Bank)
 }
 
 // failureSectorCount is the number of centre tracks of a footprint from a

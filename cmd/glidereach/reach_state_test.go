@@ -145,3 +145,62 @@ func TestFinalFromFailureStateAgreesWithReach(t *testing.T) {
 		t.Errorf("reach needs %.0f m, final %.0f m", got, fromState)
 	}
 }
+
+// route --speed: on a route flying north, with a field behind the start
+// and one ahead of the end, the least altitude from the failure state is
+// higher than today's at the start (the half turn back) and lower at the
+// end (the field ahead, the energy credit); --heading is not a route flag.
+func TestRouteFromFailureState(t *testing.T) {
+	dir := t.TempDir()
+	fields := filepath.Join(dir, "f.geojson")
+	route := filepath.Join(dir, "r.geojson")
+	if err := os.WriteFile(fields, []byte(`{"type":"FeatureCollection","features":[
+	 {"type":"Feature","properties":{"name":"South","elevation_m":0},"geometry":{"type":"Point","coordinates":[-24.5,-0.53]}},
+	 {"type":"Feature","properties":{"name":"North","elevation_m":0},"geometry":{"type":"Point","coordinates":[-24.5,-0.39]}}]}`), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(route, []byte(`{"type":"Feature","properties":{"name":"north"},"geometry":{"type":"LineString","coordinates":[[-24.5,-0.5],[-24.5,-0.42]]}}`), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	least := func(args ...string) []float64 {
+		code, out, errs := runCLI(t, append([]string{"route", "--route", route, "--fields", fields, "--alt", "1500m", "--format", "json", "--step", "1km"}, args...)...)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, errs)
+		}
+		var doc struct {
+			Samples []struct {
+				Least *float64 `json:"least_msl_m"`
+			} `json:"samples"`
+		}
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatal(err)
+		}
+		var v []float64
+		for _, s := range doc.Samples {
+			if s.Least == nil {
+				v = append(v, math.NaN())
+			} else {
+				v = append(v, *s.Least)
+			}
+		}
+		return v
+	}
+	today, st := least(), least("--speed", "100kt")
+	if len(today) != len(st) || len(today) < 5 {
+		t.Fatalf("%d and %d samples", len(today), len(st))
+	}
+	// At the start the nearest field (3.3 km) is behind: the half turn
+	// costs about 100 m (transition tests).
+	if !(st[0] > today[0]+80) {
+		t.Errorf("start: least %.0f m from the state, %.0f m today", st[0], today[0])
+	}
+	// At the end the field 3.3 km ahead is flown straight at, faster.
+	last := len(st) - 1
+	if !(st[last] < today[last]) {
+		t.Errorf("end: least %.0f m from the state, %.0f m today", st[last], today[last])
+	}
+	code, _, _ := runCLI(t, "route", "--route", route, "--fields", fields, "--alt", "1500m", "--heading", "90")
+	if code != 2 {
+		t.Errorf("route --heading: exit %d, want 2 (unknown flag)", code)
+	}
+}
