@@ -460,6 +460,10 @@ func approachScene(run *approachRun) (*render.Scene, error) {
 	}
 	s.Fields = append(s.Fields, fm)
 	s.Inputs = []string{"wind: " + run.setup.WindText, run.fail.assumption()}
+	if we, wn := run.setup.Wind.At(run.field.Elevation); math.Hypot(we, wn) > 0.05 {
+		from := math.Mod(math.Atan2(-we, -wn)*180/math.Pi+360, 360)
+		s.Wind = &render.WindArrow{FromDeg: from, Label: fmt.Sprintf("wind %s°/%s at the field", fmtDeg(from), run.units.v(math.Hypot(we, wn)))}
+	}
 	return s, nil
 }
 
