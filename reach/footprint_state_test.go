@@ -51,8 +51,8 @@ func TestFootprintFromStateNoLossEqualsFootprint(t *testing.T) {
 		t.Fatal(err)
 	}
 	var secs []SectorStart
-	for k := 0; k < 36; k++ {
-		secs = append(secs, SectorStart{TrackDeg: float64(k) * 10, HalfDeg: 5, Start: st})
+	for k := 0; k < 12; k++ {
+		secs = append(secs, SectorStart{TrackDeg: float64(k) * 30, HalfDeg: 15, Start: st})
 	}
 	got, err := FootprintFromState(context.Background(), l, st, secs, ConstantLoss(9), opts)
 	if err != nil {
@@ -86,13 +86,13 @@ func TestFootprintFromStateNoLossEqualsFootprint(t *testing.T) {
 // each sector start (flat still air, E constant).
 func TestFootprintFromStateHalfTurn(t *testing.T) {
 	const E, alt, reserve = 9.0, 1500.0, 300.0
-	l := flatWindow(0, 0, 561, 50, 0)
+	l := flatWindow(0, 0, 461, 60, 0)
 	st := Start{Lat: 0, Lon: 0, Alt: alt}
 	opts := FootprintOptions{Reserve: reserve}
 	v := 33.4
 	f := transition.Failure{Heading: 0, FailTAS: 50, FailSink: 50 / 6.0, GlideTAS: v, GlideSink: v / E,
 		ReactionTime: 3, Efficiency: 0.5, Bank: 30}
-	ss, err := f.Sectors(36, 0, 0)
+	ss, err := f.Sectors(12, 0, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -147,7 +147,7 @@ func TestTurnBackAfterTakeOff(t *testing.T) {
 	v := 33.4
 	// Climbing out at the glide speed (no energy to trade), 3 s reaction.
 	f := transition.Failure{Heading: 0, FailTAS: v, FailSink: v / E, GlideTAS: v, GlideSink: v / E, ReactionTime: 3, Bank: 30}
-	ss, err := f.Sectors(36, 0, 0)
+	ss, err := f.Sectors(12, 0, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
