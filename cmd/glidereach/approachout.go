@@ -153,8 +153,12 @@ func writeApproachText(w io.Writer, run *approachRun) {
 		if m := run.magnetic(r.LandingDir); !math.IsNaN(m) {
 			mag = fmt.Sprintf(" (%s° magnetic)", fmtDeg(m))
 		}
+		from := r.ApproachFrom
+		if r.ApproachAdd > 0 {
+			from += " + " + u.v(r.ApproachAdd) + " for wind and gust"
+		}
 		fmt.Fprintf(w, "Landing %s° true%s; surface headwind %s, crosswind %s; approach speed %s IAS (%s)\n",
-			fmtDeg(r.LandingDir), mag, u.v(r.Headwind), u.v(r.Crosswind), u.v(r.ApproachIAS), r.ApproachFrom)
+			fmtDeg(r.LandingDir), mag, u.v(r.Headwind), u.v(r.Crosswind), u.v(r.ApproachIAS), from)
 	}
 	if seq := r.Sequence; seq != nil {
 		parts := []string{}

@@ -262,7 +262,7 @@ func (q *planner) planDirection(d float64) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	res.ApproachIAS, res.ApproachFrom = q.ias, from
+	res.ApproachIAS, res.ApproachFrom, res.ApproachAdd = q.ias, from, q.add
 	cr := q.corners(th, 0)
 	var best *attempt
 	var rejected []string

@@ -19,6 +19,10 @@ type Params struct {
 	// FinalHeight is the least height above the field (m) after the turn
 	// onto final.
 	FinalHeight float64
+	// BaseHeight is the least height above the field (m) on arrival at the
+	// base gate, and EntryHeight at the entry of the full pattern (the
+	// shortened variants, flown when low, keep only the final's).
+	BaseHeight, EntryHeight float64
 	// Spacing is the lateral distance (m) of the downwind from the final's
 	// line: the length of the base leg.
 	Spacing float64
@@ -52,6 +56,8 @@ type Params struct {
 //	                sailplane    powered
 //	FinalLength     500 m        800 m
 //	FinalHeight     100 m        150 m
+//	BaseHeight      150 m        200 m
+//	EntryHeight     250 m        300 m
 //	Spacing         400 m        800 m
 //	Margin          0.5          0.3
 //	AimDistance     100 m        150 m
@@ -63,10 +69,10 @@ type Params struct {
 //	MaxExtension    2000 m       3000 m
 func Defaults(kind string) Params {
 	if kind == reach.KindSailplane {
-		return Params{FinalLength: 500, FinalHeight: 100, Spacing: 400, Margin: 0.5, AimDistance: 100,
+		return Params{FinalLength: 500, FinalHeight: 100, BaseHeight: 150, EntryHeight: 250, Spacing: 400, Margin: 0.5, AimDistance: 100,
 			MaxCrosswind: 10 * knot, MaxTailwind: 5 * knot, Clearance: 50, Bank: 30, WindFactor: 0.5, MaxExtension: 2000}
 	}
-	return Params{FinalLength: 800, FinalHeight: 150, Spacing: 800, Margin: 0.3, AimDistance: 150,
+	return Params{FinalLength: 800, FinalHeight: 150, BaseHeight: 200, EntryHeight: 300, Spacing: 800, Margin: 0.3, AimDistance: 150,
 		MaxCrosswind: 15 * knot, MaxTailwind: 5 * knot, Clearance: 50, Bank: 30, WindFactor: 0.5, MaxExtension: 3000}
 }
 
@@ -79,6 +85,8 @@ func (p Params) fill(d Params) Params {
 	}
 	set(&p.FinalLength, d.FinalLength)
 	set(&p.FinalHeight, d.FinalHeight)
+	set(&p.BaseHeight, d.BaseHeight)
+	set(&p.EntryHeight, d.EntryHeight)
 	set(&p.Spacing, d.Spacing)
 	set(&p.Margin, d.Margin)
 	set(&p.AimDistance, d.AimDistance)
@@ -114,6 +122,8 @@ func (p Params) validate() error {
 	for _, c := range []r{
 		{"final_length", p.FinalLength, 100, 10000},
 		{"final_height", p.FinalHeight, 10, 1000},
+		{"base_height", p.BaseHeight, 10, 1500},
+		{"entry_height", p.EntryHeight, 10, 2000},
 		{"spacing", p.Spacing, 100, 5000},
 		{"margin", p.Margin, 0, 2},
 		{"aim_distance", p.AimDistance, 0, 2000},

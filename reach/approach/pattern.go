@@ -34,6 +34,7 @@ type built struct {
 	terrain     string // "" or why the terrain under the pattern refuses it
 	finalRise   float64
 	ext         float64 // m the downwind was lengthened
+	kept        float64 // m added at the base and entry gates for the least pattern heights
 }
 
 // ground speed and figures of the approach on track th at altitude h.
@@ -142,6 +143,21 @@ func (q *planner) build(c chain) (*built, error) {
 			b.gateAlt[k] = h0 + b.turnH[k]
 		} else {
 			b.gateAlt[k] = h0
+		}
+		// The kind's least pattern heights: at the base gate always, at the
+		// entry of the full pattern. What they add over the glide's need is
+		// kept (airbrakes, slip or a wider pattern take it off).
+		least := math.Inf(-1)
+		switch {
+		case c.names[k] == "base":
+			least = q.elev + q.p.BaseHeight
+		case k == 0 && c.variant == "full pattern":
+			least = q.elev + q.p.EntryHeight
+		}
+		if b.gateAlt[k] < least {
+			b.kept += least - b.gateAlt[k]
+			b.startAlt[k] += least - b.gateAlt[k]
+			b.gateAlt[k] = least
 		}
 	}
 	q.checkPattern(b)

@@ -134,9 +134,12 @@ type Result struct {
 	LandingDir float64 // degrees true; NaN when none could be taken
 	Side       string
 	Variant    string // "full pattern", "shorter downwind", "straight to base", "straight in"
-	// ApproachIAS is the approach speed flown (m/s IAS) and how it was set.
+	// ApproachIAS is the approach speed flown (m/s IAS) and how it was set:
+	// ApproachFrom names the base speed, ApproachAdd (m/s) the part added
+	// for the headwind and gust.
 	ApproachIAS  float64
 	ApproachFrom string
+	ApproachAdd  float64
 	Headwind     float64 // m/s surface, on final
 	Crosswind    float64 // m/s surface
 	Directions   []Direction
@@ -184,6 +187,7 @@ type planner struct {
 	frame   terrain.Frame
 	elev    float64
 	ias     float64
+	add     float64 // m/s of the approach speed added for wind and gust
 	eff     float64
 	sx, sy  float64 // aircraft in the frame
 	step    float64
@@ -523,10 +527,7 @@ func (q *planner) approachSpeed(hw float64) (string, error) {
 	}
 	add := q.p.WindFactor*math.Max(hw, 0) + q.req.Gust
 	v := math.Min(base+add, ac.UsableMaxIAS(c))
-	q.ias = v
-	if add > 0 {
-		from += fmt.Sprintf(" + %.0f kt for wind and gust", add/knot)
-	}
+	q.ias, q.add = v, add
 	return from, nil
 }
 

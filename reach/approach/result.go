@@ -131,6 +131,9 @@ func (q *planner) fill(res *Result, a *attempt) error {
 		res.Notes = append(res.Notes, fmt.Sprintf("arrives %.0f m high: %d circle(s) over the entry gate (%.0f m each), downwind lengthened by %.0f m",
 			res.Excess, a.circles, a.perCircle, b.ext))
 	}
+	if b.kept > 0 {
+		res.Notes = append(res.Notes, fmt.Sprintf("the pattern is flown %.0f m above the glide's need at the base and entry gates, to keep the least pattern heights (base %.0f m, entry %.0f m above the field)", b.kept, q.p.BaseHeight, q.p.EntryHeight))
+	}
 	if res.FinalExcess > 0 {
 		res.Notes = append(res.Notes, fmt.Sprintf("the final is planned %.0f m above the clean glide: airbrakes, flaps or a slip take it off", res.FinalExcess))
 	}
