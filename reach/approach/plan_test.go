@@ -316,3 +316,37 @@ func TestTerrainUnderFinal(t *testing.T) {
 		t.Errorf("north not refused by terrain: %+v", res.Directions)
 	}
 }
+
+// The kind's least pattern heights hold at the gates (common practice, no
+// source): a sailplane's base at least 150 m and the full pattern's entry
+// at least 250 m above the field, though its glide would need less.
+func TestLeastPatternHeights(t *testing.T) {
+	ac, err := reach.Builtin("sailplane")
+	if err != nil {
+		t.Fatal(err)
+	}
+	req := request(t, ac, nil, 0, 4000, 900)
+	req.LandingDir = 180
+	res, err := Plan(context.Background(), req)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !res.Feasible || res.Variant != "full pattern" || res.Kind != reach.KindSailplane {
+		t.Fatalf("feasible %v variant %q kind %q: %s", res.Feasible, res.Variant, res.Kind, res.Reason)
+	}
+	for _, g := range res.Gates {
+		min := map[string]float64{"entry": 250, "base": 150}[g.Name]
+		if g.HeightAboveField < min-1e-9 {
+			t.Errorf("%s gate %.1f m above the field, want ≥ %v", g.Name, g.HeightAboveField, min)
+		}
+	}
+	// A sailplane glides 1:40: the clean pattern would need far less, so
+	// the heights were kept and the plan says so.
+	found := false
+	for _, n := range res.Notes {
+		found = found || strings.Contains(n, "least pattern heights")
+	}
+	if !found {
+		t.Errorf("notes %v", res.Notes)
+	}
+}
