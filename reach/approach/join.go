@@ -3,6 +3,7 @@ package approach
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"glidereach/reach"
 	"glidereach/reach/transition"
@@ -278,7 +279,14 @@ func (q *planner) planDirection(d float64) (*Result, error) {
 		}
 		return a.why == ""
 	}
-	defer func() { res.Rejected = rejected }()
+	defer func() {
+		// The variant taken is not "not taken", though its first tries were.
+		for _, r := range rejected {
+			if !(res.Feasible && strings.HasPrefix(r, res.Variant+": ")) {
+				res.Rejected = append(res.Rejected, r)
+			}
+		}
+	}()
 	// 1. The full pattern.
 	full := chain{variant: "full pattern", pts: [][2]float64{cr.E, cr.B, cr.F, cr.A},
 		names: []string{"entry", "base", "final", "touchdown"}, legs: []string{"downwind", "base", "final"}}
