@@ -118,6 +118,23 @@ func (s *failureState) assumption() string {
 		hd, sp, s.Reaction, s.Bank)
 }
 
+// credit returns the most height the energy trade can give at altitude
+// alt (m), for sizing tables, and refuses a failure speed far above the
+// profile's maximum (a typing error: 1.5 × max_speed).
+func (s *failureState) credit(setup *glideSetup, alt float64) (float64, error) {
+	ac := setup.Aircraft
+	if s.IAS > 1.5*ac.MaxIAS {
+		return 0, input.Usagef("--speed", "%.0f kt is far above the profile's maximum speed %.0f kt", s.IAS/input.Knot, ac.MaxIAS/input.Knot)
+	}
+	if s.IAS > 0 && s.IAS < ac.StallIASAt(setup.Cond) {
+		return 0, input.Usagef("--speed", "%.0f kt is below the stall speed %.0f kt", s.IAS/input.Knot, ac.StallIASAt(setup.Cond)/input.Knot)
+	}
+	rho := setup.Atm.Density(alt)
+	sigma := rho / reach.ISADensity0
+	fig := ac.Figures(rho, setup.Cond)
+	return math.Max(0, transition.EnergyCredit(reach.TAS(s.IAS, sigma), fig.BestGlideTAS, s.Efficiency)), nil
+}
+
 // failureSectorCount is the number of centre tracks of a footprint from a
 // failure state (every 15°; each turned both ways where useful): the
 // one-spacing turn charged per sector is then about 10 m for the trainer.

@@ -23,6 +23,9 @@ import (
 // checked against the terrain; the assumptions say so.
 func computeFinalFrom(ctx context.Context, run *finalRun, route []geodesy.LatLon, startAlt, goalElev float64, step *input.Quantity, fs *failureState) (*reach.FinalGlideResult, error) {
 	s := run.setup
+	if _, err := fs.credit(s, startAlt); err != nil {
+		return nil, err
+	}
 	ac, c := s.Aircraft, s.Cond
 	rho := s.Atm.Density(startAlt)
 	fig := ac.Figures(rho, c)

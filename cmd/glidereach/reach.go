@@ -251,7 +251,11 @@ func computeReachFrom(ctx context.Context, setup *glideSetup, gr ground, pos *po
 	// start higher (the energy credit): widen the window and the tables.
 	pad, topExtra := 0.0, 0.0
 	if fstate != nil {
-		pad, topExtra = 3000, 300
+		credit, err := fstate.credit(setup, alt)
+		if err != nil {
+			return nil, err
+		}
+		pad, topExtra = 3000, credit+100
 	}
 
 	// Size the window from the best downwind glide down to the lowest ground

@@ -25,6 +25,9 @@ import (
 // recomputed.
 func routeFromState(ctx context.Context, run *routeRun, prof *reach.RouteProfile) error {
 	s := run.setup
+	if _, err := run.fail.credit(s, 0); err != nil {
+		return err
+	}
 	g := run.res.Ground
 	ter := func(lat, lon float64) (float64, bool) {
 		x, y := g.Frame.Forward(lat, lon)
