@@ -87,18 +87,33 @@ func TestReachFromFailureState(t *testing.T) {
 	}
 }
 
-// --speed without --heading is refused (exit 2 naming --speed).
-func TestReachSpeedAloneRefused(t *testing.T) {
-	r, w, _ := os.Pipe()
-	saved := os.Stderr
-	os.Stderr = w
-	code, _, _ := runCLI(t, "reach", "--from", "-0.5,-24.5", "--alt", "1200m", "--speed", "100kt")
-	w.Close()
-	os.Stderr = saved
-	var msg bytes.Buffer
-	msg.ReadFrom(r)
-	if code != 2 || !strings.Contains(msg.String(), "--speed") {
-		t.Errorf("exit %d, %q", code, msg.String())
+// Bad failure states exit 2 naming the flag: --speed without --heading, a
+// speed below the stall (48 kt for the trainer) or far above its maximum,
+// a bank out of range, final's state without the altitude at the failure.
+func TestFailureStateBadInput(t *testing.T) {
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"reach", "--from", "-0.5,-24.5", "--alt", "1200m", "--speed", "100kt"}, "--speed"},
+		{[]string{"reach", "--from", "-0.5,-24.5", "--alt", "1200m", "--heading", "10", "--speed", "30kt"}, "--speed"},
+		{[]string{"reach", "--from", "-0.5,-24.5", "--alt", "1200m", "--heading", "10", "--speed", "250kt"}, "--speed"},
+		{[]string{"reach", "--from", "-0.5,-24.5", "--alt", "1200m", "--heading", "10", "--bank", "75"}, "--bank"},
+		{[]string{"reach", "--from", "-0.5,-24.5", "--alt", "1200m", "--heading", "10", "--reaction-time", "-1"}, "--reaction-time"},
+		{[]string{"final", "--from", "-0.5,-24.5", "--to", "-0.55,-24.5", "--heading", "10"}, "--heading"},
+		{[]string{"final", "--from", "-0.5,-24.5", "--alt", "1200m", "--to", "-0.55,-24.5", "--heading", "10", "--energy-efficiency", "2"}, "--energy-efficiency"},
+	} {
+		r, w, _ := os.Pipe()
+		saved := os.Stderr
+		os.Stderr = w
+		code, _, _ := runCLI(t, c.args...)
+		w.Close()
+		os.Stderr = saved
+		var msg bytes.Buffer
+		msg.ReadFrom(r)
+		if code != 2 || !strings.Contains(msg.String(), c.want) {
+			t.Errorf("%v: exit %d, %q; want 2 naming %s", c.args, code, msg.String(), c.want)
+		}
 	}
 }
 
