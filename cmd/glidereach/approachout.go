@@ -50,7 +50,11 @@ func (u displayUnits) v(mps float64) string {
 	if math.IsNaN(mps) || math.IsInf(mps, 0) {
 		return "-"
 	}
-	return fmt.Sprintf("%.0f %s", mps/u.vFact, u.vUnit)
+	v := math.Round(mps / u.vFact)
+	if v == 0 {
+		v = 0 // no "-0"
+	}
+	return fmt.Sprintf("%.0f %s", v, u.vUnit)
 }
 
 func (u displayUnits) vn(mps float64) string {
@@ -135,7 +139,7 @@ func approachAssumptions(run *approachRun) []string {
 		a = append(a, fmt.Sprintf("magnetic variation %.1f° %s (from --variation): magnetic = true %+.1f°", math.Abs(run.variation), map[bool]string{true: "E", false: "W"}[run.variation >= 0], -run.variation))
 	}
 	if r.Unknown > 0 {
-		a = append(a, fmt.Sprintf("%d terrain samples had no data (unknown ground, not checked)", r.Unknown))
+		a = append(a, fmt.Sprintf("the terrain data do not cover all of the ground planned over (%d samples over all the attempts): unknown ground is not checked", r.Unknown))
 	}
 	return a
 }
@@ -230,13 +234,36 @@ func writeApproachText(w io.Writer, run *approachRun) {
 		fmt.Fprintln(w)
 		fmt.Fprintln(w, "Landing directions considered:")
 		var refused []approach.Direction
+		tried := 0
+		for _, d := range r.Directions {
+			if d.Tried {
+				tried++
+			}
+		}
+		others := map[string]int{}
 		for _, d := range r.Directions {
 			switch {
 			case d.Refused != "":
 				refused = append(refused, d)
-			case d.Tried:
+			case d.Tried && (tried <= 8 || d.Result == "chosen"):
 				fmt.Fprintf(w, "  %s°  headwind %s, crosswind %s: %s\n", fmtDeg(d.Deg), u.v(d.Headwind), u.v(d.Crosswind), d.Result)
+			case d.Tried:
+				others[d.Result]++
 			}
+		}
+		feasible, notHeld := 0, 0
+		for res, n := range others {
+			if strings.HasPrefix(res, "feasible") {
+				feasible += n
+			} else {
+				notHeld += n
+			}
+		}
+		if feasible > 0 {
+			fmt.Fprintf(w, "  %d other directions hold with less height in hand\n", feasible)
+		}
+		if notHeld > 0 {
+			fmt.Fprintf(w, "  %d other directions do not hold (the reasons are in --format json)\n", notHeld)
 		}
 		if len(refused) <= 6 {
 			for _, d := range refused {
