@@ -178,3 +178,35 @@ func TestApproachNextField(t *testing.T) {
 		t.Errorf("%s", out)
 	}
 }
+
+// Over a DEM (the GeoTIFF fixture; its values printed by GDAL are in
+// testdata/geotiff/values.txt) the field's elevation comes from the
+// terrain and the plan keeps the pattern's clearance over it.
+func TestApproachOverTerrain(t *testing.T) {
+	dem := filepath.Join("..", "..", "testdata", "geotiff", "geo_int16_strip_none.tif")
+	code, out, errs := runCLI(t, "approach", "--terrain", dem, "--from", "0.02,-25.03", "--alt", "2800m",
+		"--to", "-0.02,-24.97", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	f := doc["field"].(map[string]any)
+	if f["elevation_from"] != "terrain" || !(f["elevation_m"].(float64) > 0) {
+		t.Errorf("field %v", f)
+	}
+	if doc["feasible"] != true {
+		t.Fatalf("not feasible: %v", doc["reason"])
+	}
+	for _, l := range doc["legs"].([]any) {
+		m := l.(map[string]any)
+		c, ok := m["lowest_clearance_m"].(float64)
+		// The pattern keeps 50 m tapering to half the height above the
+		// field; the glide 100 m tapering likewise: never below 0.
+		if ok && c < 0 {
+			t.Errorf("leg %v passes %v m below the terrain", m["name"], c)
+		}
+	}
+}
