@@ -44,7 +44,7 @@ type approachOptions struct {
 
 func newApproachCmd() *cobra.Command {
 	o := &approachOptions{pos: newPositionFlags(), glide: newGlideFlags(), terr: newTerrainFlags(), fail: newFailureFlags(),
-		landingDir: input.NewQuantity(input.Angle, 0), appSpeed: input.NewQuantity(input.Speed, 0), gust: input.NewQuantity(input.Speed, 0)}
+		landingDir: input.NewQuantity(input.Angle, 0).Within(0, 360), appSpeed: input.NewQuantity(input.Speed, 0).Within(0, 150), gust: input.NewQuantity(input.Speed, 0).Within(0, 30)}
 	cmd := &cobra.Command{
 		Use:   "approach",
 		Short: "Plan the landing pattern to one field from the aircraft's state: direction, gates, heights",
@@ -84,16 +84,17 @@ with an optional --landing-dir. Pattern defaults follow the profile's kind
 	fs.StringVar(&o.fields, "fields", "", "landing fields file (GeoJSON) to take the field from with --field")
 	fs.StringVar(&o.field, "field", "", "name of the field in --fields")
 	fs.StringVar(&o.to, "to", "", "the field as a point LAT,LON[@ELEV] instead of --fields/--field")
-	fs.Var(o.landingDir, "landing-dir", "landing direction, degrees true (the track on final); default: the best of the field's")
+	fs.Var(o.landingDir, "landing-dir", o.landingDir.Help("landing direction, degrees true (the track on final); default: the best of the field's"))
 	fs.StringVar(&o.side, "side", "", "pattern side, left or right; default the field's pattern_side, else left")
-	fs.Var(o.appSpeed, "approach-speed", "approach speed IAS in calm air (kt, km/h); default the profile's, else 1.3 × stall; half the headwind is added")
-	fs.Var(o.gust, "gust", "gust addition to the approach speed (kt, km/h)")
+	fs.Var(o.appSpeed, "approach-speed", o.appSpeed.Help("approach speed IAS in calm air (kt, km/h); default the profile's, else 1.3 × stall; half the headwind is added"))
+	fs.Var(o.gust, "gust", o.gust.Help("gust addition to the approach speed (kt, km/h)"))
 	fs.StringVar(&o.variation, "variation", "", "magnetic variation, e.g. 7W, 3.5E or -7 (west negative): headings are printed magnetic too")
 	fs.StringVar(&o.units, "units", "m-kt", "units of the text: m-kt (heights m, speeds kt), ft-kt or m-kmh")
 	fs.StringVar(&o.out, "out", "", "write the plan to this file (GeoJSON; JSON with --format json)")
 	fs.StringVar(&o.format, "format", "text", "output format: text, json or geojson (stdout, or --out)")
 	fs.StringVar(&o.mapPNG, "map", "", "draw the pattern over the terrain to this PNG file")
 	fs.StringVar(&o.report, "report", "", "write a self-contained HTML report with the altitude profile to this file")
+	hideDefault(fs, "landing-dir", "approach-speed")
 	return cmd
 }
 

@@ -23,26 +23,42 @@ type failureFlags struct {
 }
 
 func newFailureFlags() *failureFlags {
-	return &failureFlags{heading: input.NewQuantity(input.Angle, 0), speed: input.NewQuantity(input.Speed, 0),
+	return &failureFlags{heading: input.NewQuantity(input.Angle, 0).Within(0, 360), speed: input.NewQuantity(input.Speed, 0).Within(0, 150),
 		reaction: transition.DefaultReactionTime, efficiency: transition.DefaultEfficiency,
-		bank: input.NewQuantity(input.Angle, transition.DefaultBank)}
+		bank: input.NewQuantity(input.Angle, transition.DefaultBank).Within(transition.MinBank, transition.MaxBank)}
 }
 
 func (f *failureFlags) register(fs *pflag.FlagSet) {
-	fs.Var(f.heading, "heading", "aircraft heading at the engine failure (degrees true): the glide starts with the turn from it")
-	fs.Var(f.speed, "speed", "indicated airspeed at the failure (kt, km/h, m/s): slowing to the glide speed is credited as height; needs --heading")
-	fs.Float64Var(&f.reaction, "reaction-time", transition.DefaultReactionTime, "seconds flown on the heading at the failure speed before the pilot acts (common practice, no source)")
-	fs.Float64Var(&f.efficiency, "energy-efficiency", transition.DefaultEfficiency, "share 0..1 of the speed above the glide speed credited as height (0 = no credit)")
-	fs.Var(f.bank, "bank", fmt.Sprintf("bank angle of the turns (degrees, %g..%g)", transition.MinBank, transition.MaxBank))
+	fs.Var(f.heading, "heading", f.heading.Help("aircraft heading at the engine failure (degrees true): the glide starts with the turn from it; default: no failure state"))
+	fs.Var(f.speed, "speed", f.speed.Help("indicated airspeed at the failure (kt, km/h, m/s): slowing to the glide speed is credited as height; needs --heading"))
+	f.registerCommon(fs)
+	hideDefault(fs, "heading", "speed")
+}
+
+// registerCommon registers the flags shared by register and
+// registerSpeedOnly.
+func (f *failureFlags) registerCommon(fs *pflag.FlagSet) {
+	fs.Float64Var(&f.reaction, "reaction-time", transition.DefaultReactionTime, fmt.Sprintf("seconds flown on the heading at the failure speed before the pilot acts (common practice, no source); range 0..%g s", transition.MaxReactionTime))
+	fs.Float64Var(&f.efficiency, "energy-efficiency", transition.DefaultEfficiency, "share of the kinetic energy above the glide speed credited as height (0 = no credit); range 0..1")
+	fs.Var(f.bank, "bank", f.bank.Help("bank angle of the turns (degrees)"))
+}
+
+// hideDefault drops pflag's "(default …)" from the named flags' help,
+// where the zero value means "not given" rather than a setting.
+func hideDefault(fs *pflag.FlagSet, names ...string) {
+	for _, n := range names {
+		if fl := fs.Lookup(n); fl != nil {
+			fl.DefValue = ""
+		}
+	}
 }
 
 // registerSpeedOnly registers the flags of a command whose heading at
 // each point is given by the command itself (route: the route's course).
 func (f *failureFlags) registerSpeedOnly(fs *pflag.FlagSet) {
-	fs.Var(f.speed, "speed", "indicated airspeed at a failure (kt, km/h, m/s), on the route's course at each point: the reaction, energy trade and turn toward the best field count")
-	fs.Float64Var(&f.reaction, "reaction-time", transition.DefaultReactionTime, "seconds flown on the course at the failure speed before the pilot acts (common practice, no source)")
-	fs.Float64Var(&f.efficiency, "energy-efficiency", transition.DefaultEfficiency, "share 0..1 of the speed above the glide speed credited as height (0 = no credit)")
-	fs.Var(f.bank, "bank", fmt.Sprintf("bank angle of the turns (degrees, %g..%g)", transition.MinBank, transition.MaxBank))
+	fs.Var(f.speed, "speed", f.speed.Help("indicated airspeed at a failure (kt, km/h, m/s), on the route's course at each point: the reaction, energy trade and turn toward the best field count"))
+	f.registerCommon(fs)
+	hideDefault(fs, "speed")
 }
 
 // resolveCourse resolves the flags of registerSpeedOnly: nil without
