@@ -461,7 +461,7 @@ func approachScene(run *approachRun) (*render.Scene, error) {
 	}
 	s := &render.Scene{Title: approachTitle(run), Terrain: l, Bounds: mapBounds(l, run.ground),
 		DataSource: "terrain: " + run.ground.describe(), Caution: reach.Caution, HeightFeet: run.units.feet}
-	gl := &render.GlideLine{LowestClearance: math.NaN()}
+	gl := &render.GlideLine{LowestClearance: math.NaN(), LineLabel: "Planned path: failure, pattern, touchdown", TurnLabel: "Gate (height above the field)"}
 	for _, p := range r.Path {
 		gl.Line = append(gl.Line, orb.Point{p.Lon, p.Lat})
 	}

@@ -175,6 +175,10 @@ type GlideLine struct {
 	// Turns are the turn points between start and goal, in order, each
 	// drawn as a small ringed dot with its name.
 	Turns []TurnPoint
+	// LineLabel and TurnLabel name the line and its points in the legend;
+	// empty means "Final glide line" and "Turn point" (an approach plan
+	// draws its path and gates with the same symbols under its own names).
+	LineLabel, TurnLabel string
 }
 
 // TurnPoint is a named point of a final-glide line.
