@@ -41,7 +41,26 @@ type Aircraft struct {
 	// Clearance, so a 0 is a setting (a "touch the ground" planning ring)
 	// and not "unset".
 	HasReserve, HasClearance bool
+
+	// Kind is the kind of aircraft for the approach plan's pattern
+	// defaults: KindSailplane, KindPowered, or "" (treated as powered, the
+	// larger pattern). Profile key kind.
+	Kind string
+	// ApproachIAS, when > 0, is the calm-air approach speed at RefMass
+	// (m/s IAS; profile key approach_speed); 0 means StallMargin × the
+	// stall speed. It must not be below the usable minimum.
+	ApproachIAS float64
+	// MaxCrosswind, when > 0, is the largest crosswind component (m/s) a
+	// landing direction may have (profile key max_crosswind); 0 means the
+	// kind's default in reach/approach.
+	MaxCrosswind float64
 }
+
+// Kinds of aircraft for the approach pattern defaults.
+const (
+	KindSailplane = "sailplane"
+	KindPowered   = "powered"
+)
 
 // Conditions are the flight conditions a performance figure is computed for.
 // The zero value is the conservative-neutral case: the aircraft's Mass, clean
@@ -89,8 +108,8 @@ const (
 
 // ProfileError is the error of Aircraft.Validate: Field names the profile
 // key at fault as written in profile files ("reference_mass", "mass",
-// "stall_speed", "min_speed", "max_speed", "reserve", "clearance" or
-// "polar"), so a loader can point at its line.
+// "stall_speed", "min_speed", "max_speed", "reserve", "clearance",
+// "kind", "approach_speed", "max_crosswind" or "polar"), so a loader can point at its line.
 type ProfileError struct {
 	Field string
 	Err   error
@@ -153,6 +172,16 @@ func (ac *Aircraft) Validate() error {
 		return fail("clearance", "clearance %v m is negative", ac.Clearance)
 	case ac.Clearance > MaxProfileMargin:
 		return fail("clearance", "clearance %.0f m is more than %.0f m", ac.Clearance, MaxProfileMargin)
+	case ac.Kind != "" && ac.Kind != KindSailplane && ac.Kind != KindPowered:
+		return fail("kind", "kind %q: want %s or %s", ac.Kind, KindSailplane, KindPowered)
+	case !(ac.ApproachIAS >= 0) || math.IsInf(ac.ApproachIAS, 0):
+		return fail("approach_speed", "approach speed %v m/s is not positive", ac.ApproachIAS)
+	case ac.ApproachIAS > 0 && ac.ApproachIAS < ac.baseMinIAS():
+		return fail("approach_speed", "approach speed %s is below the lowest usable speed %s (%s, above the stall %s)", kt(ac.ApproachIAS), kt(ac.baseMinIAS()), ac.minSource(), kt(ac.StallIAS))
+	case ac.ApproachIAS > ac.MaxIAS:
+		return fail("approach_speed", "approach speed %s is above the maximum speed %s", kt(ac.ApproachIAS), kt(ac.MaxIAS))
+	case !(ac.MaxCrosswind >= 0 && ac.MaxCrosswind <= 40):
+		return fail("max_crosswind", "crosswind limit %v m/s is outside 0..40 m/s", ac.MaxCrosswind)
 	}
 	if bg, ok := ac.Polar.(*BestGlidePolar); ok && !(bg.Speed > ac.StallIAS && bg.Speed <= ac.MaxIAS) {
 		return fail("polar", "best_glide_speed %s is not between the stall speed %s and the maximum speed %s", kt(bg.Speed), kt(ac.StallIAS), kt(ac.MaxIAS))

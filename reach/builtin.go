@@ -50,7 +50,7 @@ var builtins = map[string]func() *Aircraft{
 		return &Aircraft{
 			Name: "Generic standard-class sailplane", RefMass: 380,
 			StallIAS: 65 * kmh, MaxIAS: 250 * kmh,
-			Polar: p, Reserve: 200, Clearance: 100,
+			Polar: p, Reserve: 200, Clearance: 100, Kind: KindSailplane,
 		}
 	},
 	// A two-seat touring motorglider, propeller stopped: best glide 55 kt at

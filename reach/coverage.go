@@ -67,10 +67,17 @@ type CoverageResult struct {
 	// flown plus the margin.
 	Ceiling float64
 	// ZoneCells and CoveredCells count the cells of the area and those of
-	// them covered by at least one target; CellArea is one cell's area (m²).
+	// them covered by at least one target; CellArea is one cell's area in
+	// the solver's tangent plane (Cell², m²).
 	ZoneCells, CoveredCells int
 	CellArea                float64
-	// CoveredFraction is CoveredCells / ZoneCells (0 for an empty area).
+	// Areas gives each cell's area on the WGS84 ellipsoid (m²;
+	// terrain.CellAreas); ZoneArea and CoveredArea are the sums over the
+	// zone's cells and its covered cells. Every area and share below is
+	// counted with these ellipsoidal cell areas, not with CellArea.
+	Areas                 *terrain.CellAreas
+	ZoneArea, CoveredArea float64
+	// CoveredFraction is CoveredArea / ZoneArea (0 for an empty area).
 	CoveredFraction float64
 	// Covers[i] is the area (m²) of the zone target i covers, alone or with
 	// others; Exclusive[i] the part no other target covers. A target off
@@ -156,6 +163,7 @@ func Coverage(ctx context.Context, ground *terrain.Local, targets []Target, mode
 	c.Exclusive = make([]float64, len(targets))
 	c.Skipped = make([]bool, len(targets))
 	c.CellArea = ground.Cell * ground.Cell
+	c.Areas = ground.CellAreas()
 
 	var mu sync.Mutex
 	var firstErr error
@@ -180,7 +188,7 @@ func Coverage(ctx context.Context, ground *terrain.Local, targets []Target, mode
 			return err
 		}
 		found = true
-		c.Covers[k] = float64(covers) * c.CellArea
+		c.Covers[k] = covers
 		for j, i := range cells {
 			v := vals[j]
 			if v != v {
@@ -207,22 +215,54 @@ func Coverage(ctx context.Context, ground *terrain.Local, targets []Target, mode
 	if !found {
 		return nil, ErrNoTargets
 	}
-	for i := 0; i < n; i++ {
+	c.countZone()
+	return c, nil
+}
+
+// countZone counts the zone's cells and covered cells, sums their
+// ellipsoidal areas and the exclusive area of each target, and sets the
+// covered fraction. It sets Areas when missing.
+func (c *CoverageResult) countZone() {
+	if c.Areas == nil {
+		c.Areas = c.Ground.CellAreas()
+	}
+	c.ZoneCells, c.CoveredCells, c.ZoneArea, c.CoveredArea = 0, 0, 0, 0
+	for i := range c.Count {
 		if !c.inZone(i) {
 			continue
 		}
+		a := c.Areas.At(i)
 		c.ZoneCells++
+		c.ZoneArea += a
 		if c.Count[i] > 0 {
 			c.CoveredCells++
+			c.CoveredArea += a
 		}
-		if c.Count[i] == 1 {
-			c.Exclusive[c.only[i]] += c.CellArea
+		if c.Count[i] == 1 && c.only != nil && c.only[i] >= 0 {
+			c.Exclusive[c.only[i]] += a
 		}
 	}
-	if c.ZoneCells > 0 {
-		c.CoveredFraction = float64(c.CoveredCells) / float64(c.ZoneCells)
+	c.CoveredFraction = 0
+	if c.ZoneArea > 0 {
+		c.CoveredFraction = c.CoveredArea / c.ZoneArea
 	}
-	return c, nil
+}
+
+// NewEmptyCoverage is the coverage of ground when no target lies on it:
+// nothing is covered, the zone (opts.Mask, nil for every cell) is counted
+// with its ellipsoidal area, and each of the nTargets targets is Skipped.
+func NewEmptyCoverage(ground *terrain.Local, opts CoverageOptions, nTargets int) *CoverageResult {
+	n := ground.Cols * ground.Rows
+	c := &CoverageResult{Ground: ground, Opts: opts, Least: make([]float32, n), Best: make([]int16, n), Count: make([]uint8, n),
+		CellArea: ground.Cell * ground.Cell, Covers: make([]float64, nTargets), Exclusive: make([]float64, nTargets), Skipped: make([]bool, nTargets)}
+	for i := range c.Least {
+		c.Least[i], c.Best[i] = float32(math.NaN()), -1
+	}
+	for i := range c.Skipped {
+		c.Skipped[i] = true
+	}
+	c.countZone()
+	return c
 }
 
 // forTargets runs fn(k) for k in 0..n−1 on w goroutines, stopping at the
@@ -266,9 +306,9 @@ loop:
 // fieldCover runs the backward solver for target t alone on the part of the
 // window within its reach radius from the ceiling, and returns the cells of
 // the window it computed (indices into Ground) with their least altitudes,
-// and how many cells of the zone it covers (value at most the altitude
-// flown).
-func (c *CoverageResult) fieldCover(ctx context.Context, t Target, models []LossModel) (cells []int32, vals []float32, covers int, err error) {
+// and the ellipsoidal area (m²) of the zone's cells it covers (value at most
+// the altitude flown).
+func (c *CoverageResult) fieldCover(ctx context.Context, t Target, models []LossModel) (cells []int32, vals []float32, covers float64, err error) {
 	g := c.Ground
 	x, y := g.Frame.Forward(t.Lat, t.Lon)
 	fx, fy := (x-g.X0)/g.Cell, (y-g.Y0)/g.Cell
@@ -319,7 +359,7 @@ func (c *CoverageResult) fieldCover(ctx context.Context, t Target, models []Loss
 			cells = append(cells, int32(i))
 			vals = append(vals, v)
 			if float64(v) <= c.altAt(i) && c.inZone(i) {
-				covers++
+				covers += c.Areas.At(i)
 			}
 		}
 	}
@@ -417,7 +457,11 @@ func (c *CoverageResult) Candidates(ctx context.Context, candidates []Target, mo
 		}
 		mu.Lock()
 		newCells[j] = add
-		rk.Gain[j] = float64(len(add)) * c.CellArea
+		gain := 0.0
+		for _, i := range add {
+			gain += c.Areas.At(int(i))
+		}
+		rk.Gain[j] = gain
 		done++
 		if c.Opts.Progress != nil {
 			c.Opts.Progress(float64(done) / float64(len(candidates)))
@@ -435,17 +479,17 @@ func (c *CoverageResult) Candidates(ctx context.Context, candidates []Target, mo
 	sort.SliceStable(rk.Order, func(a, b int) bool { return rk.Gain[rk.Order[a]] > rk.Gain[rk.Order[b]] })
 	taken := make([]bool, len(c.Count))
 	chosen := make([]bool, len(candidates))
-	covered := c.CoveredCells
+	covered := c.CoveredArea
 	for step := 0; step < k; step++ {
-		best, bestN := -1, 0
+		best, bestN := -1, 0.0
 		for j, cells := range newCells {
 			if chosen[j] {
 				continue
 			}
-			nn := 0
+			nn := 0.0
 			for _, i := range cells {
 				if !taken[i] {
-					nn++
+					nn += c.Areas.At(int(i))
 				}
 			}
 			if nn > bestN {
@@ -461,10 +505,10 @@ func (c *CoverageResult) Candidates(ctx context.Context, candidates []Target, mo
 		}
 		covered += bestN
 		frac := 0.0
-		if c.ZoneCells > 0 {
-			frac = float64(covered) / float64(c.ZoneCells)
+		if c.ZoneArea > 0 {
+			frac = covered / c.ZoneArea
 		}
-		rk.Steps = append(rk.Steps, CandidateStep{Candidate: best, Added: float64(bestN) * c.CellArea, CoveredFraction: frac})
+		rk.Steps = append(rk.Steps, CandidateStep{Candidate: best, Added: bestN, CoveredFraction: frac})
 	}
 	return rk, nil
 }

@@ -54,6 +54,10 @@ type FootprintResult struct {
 	StartX, StartY float64
 	// members are the footprints an Intersect combined (nil otherwise).
 	members []*FootprintResult
+	// sectors and sectorMembers are the sector starts and their
+	// footprints of a FootprintFromState result (nil otherwise).
+	sectors       []SectorStart
+	sectorMembers []*FootprintResult
 }
 
 // ErrStartBelowGround is returned when the start altitude is not above the
@@ -196,6 +200,9 @@ func (f *FootprintResult) ArrivalAtField(lat, lon, elev float64) (alt float64, o
 		}
 		return low, true
 	}
+	if f.sectorMembers != nil {
+		return f.sectorArrivalAt(lat, lon)
+	}
 	x, y := f.Ground.Frame.Forward(lat, lon)
 	gx, gy := (x-f.Ground.X0)/f.Ground.Cell, (y-f.Ground.Y0)/f.Ground.Cell
 	return f.arrivalAtCellXY(gx, gy, float32(elev))
@@ -255,6 +262,9 @@ func (f *FootprintResult) arrivalAtCellXY(gx, gy float64, elev float32) (float64
 func (f *FootprintResult) Path(c, r int) ([][2]float64, bool) {
 	if f.members != nil {
 		return f.members[0].Path(c, r)
+	}
+	if f.sectorMembers != nil {
+		return f.sectorPath(c, r)
 	}
 	p := f.prop
 	q := r*p.cols + c

@@ -383,19 +383,7 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 // emptyCoverage is the coverage with no field on the window: nothing is
 // covered (a CoverageResult with the zone counted, for the writers).
 func emptyCoverage(l *terrain.Local, opts reach.CoverageOptions, nFields int) (*reach.CoverageResult, error) {
-	n := l.Cols * l.Rows
-	c := &reach.CoverageResult{Ground: l, Opts: opts, Least: make([]float32, n), Best: make([]int16, n), Count: make([]uint8, n),
-		CellArea: l.Cell * l.Cell, Covers: make([]float64, nFields), Exclusive: make([]float64, nFields), Skipped: make([]bool, nFields)}
-	for i := range c.Least {
-		c.Least[i], c.Best[i] = float32(math.NaN()), -1
-		if opts.Mask == nil || opts.Mask[i] {
-			c.ZoneCells++
-		}
-	}
-	for i := range c.Skipped {
-		c.Skipped[i] = true
-	}
-	return c, nil
+	return reach.NewEmptyCoverage(l, opts, nFields), nil
 }
 
 // writeLeastRaster writes the least altitude (m MSL) on the DEM's lattice

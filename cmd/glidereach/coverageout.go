@@ -22,7 +22,7 @@ func (run *coverageRun) assumptions() []string {
 	a = append(a, "altitude flown: "+run.altMode,
 		"a cell is covered when some field is reached from its centre with the reserve; shares and areas count cells",
 		fmt.Sprintf("least altitudes computed up to %.0f m MSL (raster empty above)", run.res.Ceiling),
-		fmt.Sprintf("solver grid %d×%d cells of %.0f m (%.4f km² each)", l.Cols, l.Rows, l.Cell, run.res.CellArea/1e6),
+		fmt.Sprintf("solver grid %d×%d cells of %.0f m (%.4f km² each in its tangent plane; areas are summed with each cell's area on the WGS84 ellipsoid)", l.Cols, l.Rows, l.Cell, run.res.CellArea/1e6),
 		"analysed: "+run.zoneText,
 		"terrain: "+run.ground.describe())
 	return a
@@ -31,7 +31,7 @@ func (run *coverageRun) assumptions() []string {
 func km2(m2 float64) float64 { return m2 / 1e6 }
 
 // zoneArea is the area of the zone as counted, m².
-func (run *coverageRun) zoneArea() float64 { return float64(run.res.ZoneCells) * run.res.CellArea }
+func (run *coverageRun) zoneArea() float64 { return run.res.ZoneArea }
 
 func writeCoverageText(w io.Writer, run *coverageRun) {
 	r := run.res
@@ -40,8 +40,8 @@ func writeCoverageText(w io.Writer, run *coverageRun) {
 	fmt.Fprintf(w, "Aircraft: %s   Wind: %s\n", run.setup.Aircraft.Name, run.setup.WindText)
 	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.describe())
 	fmt.Fprintf(w, "A field is in reach with the %.0f m reserve from %.1f %% of the area (%.1f of %.1f km²).\n",
-		run.setup.Reserve, r.CoveredFraction*100, km2(float64(r.CoveredCells)*r.CellArea), km2(run.zoneArea()))
-	fmt.Fprintf(w, "Uncovered: %.1f km² in %d part(s).\n\n", km2(run.zoneArea()-float64(r.CoveredCells)*r.CellArea), len(run.uncovered))
+		run.setup.Reserve, r.CoveredFraction*100, km2(r.CoveredArea), km2(run.zoneArea()))
+	fmt.Fprintf(w, "Uncovered: %.1f km² in %d part(s).\n\n", km2(run.zoneArea()-r.CoveredArea), len(run.uncovered))
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 	fmt.Fprintln(tw, "FIELD\tELEV m\tCOVERS km²\tONLY IT km²\tNOTE\t")
 	for i, f := range run.fields {
@@ -121,7 +121,7 @@ func coverageJSON(run *coverageRun) ([]byte, error) {
 		"terrain":           run.ground.describe(),
 		"covered_fraction":  math.Round(r.CoveredFraction*1e4) / 1e4,
 		"area_m2":           math.Round(run.zoneArea()),
-		"covered_m2":        math.Round(float64(r.CoveredCells) * r.CellArea),
+		"covered_m2":        math.Round(r.CoveredArea),
 		"uncovered_parts":   len(run.uncovered),
 		"cell_size_m":       num(r.Ground.Cell),
 		"computed_to_msl_m": num(r.Ceiling),
@@ -160,13 +160,13 @@ func coverageGeoJSON(run *coverageRun) ([]byte, error) {
 	fc.ExtraMembers = geojson.Properties{"caution": reach.Caution}
 	cov := geojson.NewFeature(multiGeometry(run.covered))
 	cov.Properties = map[string]any{"kind": "covered", "caution": reach.Caution, "covered_fraction": math.Round(r.CoveredFraction*1e4) / 1e4,
-		"area_m2": math.Round(float64(r.CoveredCells) * r.CellArea), "contour_area_m2": math.Round(run.coveredArea),
+		"area_m2": math.Round(r.CoveredArea), "contour_area_m2": math.Round(run.coveredArea),
 		"altitude_flown": run.altMode, "aircraft": run.setup.Aircraft.Name, "wind": run.setup.WindText,
 		"reserve_m": run.setup.Reserve, "clearance_m": run.setup.Clearance, "terrain": run.ground.describe(),
 		"assumptions": run.assumptions(), "planning_only": true}
 	fc.Append(cov)
 	unc := geojson.NewFeature(multiGeometry(run.uncovered))
-	unc.Properties = map[string]any{"kind": "uncovered", "caution": reach.Caution, "area_m2": math.Round(run.zoneArea() - float64(r.CoveredCells)*r.CellArea),
+	unc.Properties = map[string]any{"kind": "uncovered", "caution": reach.Caution, "area_m2": math.Round(run.zoneArea() - r.CoveredArea),
 		"contour_area_m2": math.Round(run.uncoveredArea), "parts": len(run.uncovered)}
 	fc.Append(unc)
 	if zp := run.zonePolygons(); len(zp) > 0 {
@@ -262,7 +262,7 @@ func drawCoverage(run *coverageRun, mapPath, reportPath string) error {
 		Caution:  reach.Caution,
 		Summary: []string{
 			fmt.Sprintf("A field is in reach with the %.0f m reserve from %.1f %% of the area (%.1f of %.1f km²).", run.setup.Reserve, r.CoveredFraction*100,
-				km2(float64(r.CoveredCells)*r.CellArea), km2(run.zoneArea())),
+				km2(r.CoveredArea), km2(run.zoneArea())),
 			fmt.Sprintf("Uncovered parts: %d.", len(run.uncovered)),
 		},
 	}

@@ -35,10 +35,11 @@ type finalOptions struct {
 	format string
 	mapPNG string
 	report string
+	fail   *failureFlags
 }
 
 func newFinalCmd() *cobra.Command {
-	o := &finalOptions{pos: newPositionFlags(), glide: newGlideFlags(), terr: newTerrainFlags(), step: input.NewQuantity(input.Length, 0).Within(1, 5000)}
+	o := &finalOptions{pos: newPositionFlags(), glide: newGlideFlags(), terr: newTerrainFlags(), step: input.NewQuantity(input.Length, 0).Within(1, 5000), fail: newFailureFlags()}
 	cmd := &cobra.Command{
 		Use:   "final",
 		Short: "Final glide to a goal, directly or through turn points: required altitude, arrival, terrain clearance",
@@ -74,6 +75,7 @@ turn point. Without --alt or --agl the glide starts at the required altitude.
 	o.pos.register(fs)
 	o.glide.register(fs)
 	o.terr.register(fs)
+	o.fail.register(fs)
 	fs.StringArrayVar(&o.to, "to", nil, "turn point or goal LAT,LON[@ELEV] (repeat; the last is the goal)")
 	fs.StringVar(&o.fields, "fields", "", "landing fields file (GeoJSON) to take the goal from with --field")
 	fs.StringVar(&o.field, "field", "", "name of the goal field in --fields")
@@ -278,7 +280,20 @@ func runFinal(ctx context.Context, o *finalOptions, stdout, stderr io.Writer) er
 			run.goalNote = fmt.Sprintf("the terrain data give %.0f m at the goal, %+.0f m from the %.0f m used", e, e-goal.Elev, goal.Elev)
 		}
 	}
-	res, err := computeFinal(ctx, run, route, startAlt, goal.Elev, o.step)
+	fstate, err := o.fail.resolve()
+	if err != nil {
+		return err
+	}
+	var res *reach.FinalGlideResult
+	if fstate != nil {
+		if !run.altGiven {
+			return input.Usagef("--heading", "the failure state needs the altitude at the failure (--alt or --agl)")
+		}
+		res, err = computeFinalFrom(ctx, run, route, startAlt, goal.Elev, o.step, fstate)
+	} else {
+		setup.State = fstate.assumption()
+		res, err = computeFinal(ctx, run, route, startAlt, goal.Elev, o.step)
+	}
 	if err != nil {
 		return err
 	}

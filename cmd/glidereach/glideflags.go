@@ -137,6 +137,9 @@ type glideSetup struct {
 	// Notes are further assumptions of the run (how the start altitude
 	// was obtained), listed after the standard ones.
 	Notes []string
+	// State describes the engine-failure state the result starts from, for
+	// the commands that take one ("" for the others).
+	State string
 }
 
 // warn records a warning and prints it on stderr (w) at once.
@@ -320,6 +323,9 @@ func (s *glideSetup) assumptions() []string {
 	a = append(a, "no thrust, speed to fly for best range in the wind at each altitude, stall margin applied")
 	if len(s.Winds) > 1 {
 		a = append(a, fmt.Sprintf("wind uncertainty: every figure holds in each of the %d winds of the set; a point counts as covered only when the SAME field is in reach in all of them", len(s.Winds)))
+	}
+	if s.State != "" {
+		a = append(a, s.State)
 	}
 	return append(a, s.Notes...)
 }

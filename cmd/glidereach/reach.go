@@ -22,23 +22,21 @@ func init() { register(newReachCmd) }
 
 // reachOptions are the reach command's flags.
 type reachOptions struct {
-	pos     *positionFlags
-	glide   *glideFlags
-	terr    *terrainFlags
-	fields  string
-	levels  []string
-	out     string
-	format  string
-	raster  string
-	mapPNG  string
-	report  string
-	heading float64
-	// headingGiven: --heading was given (NaN given is refused, not "none").
-	headingGiven bool
+	pos    *positionFlags
+	glide  *glideFlags
+	terr   *terrainFlags
+	fields string
+	levels []string
+	out    string
+	format string
+	raster string
+	mapPNG string
+	report string
+	fail   *failureFlags
 }
 
 func newReachCmd() *cobra.Command {
-	o := &reachOptions{pos: newPositionFlags(), glide: newGlideFlags(), terr: newTerrainFlags(), heading: math.NaN()}
+	o := &reachOptions{pos: newPositionFlags(), glide: newGlideFlags(), terr: newTerrainFlags(), fail: newFailureFlags()}
 	cmd := &cobra.Command{
 		Use:   "reach",
 		Short: "Ground reachable without thrust from a position and altitude (footprint)",
@@ -56,7 +54,6 @@ just reach them with the reserve.
   glidereach reach --from -0.5,-24.5 --alt 1200m --format json`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			o.headingGiven = cmd.Flags().Changed("heading")
 			return runReach(cmd.Context(), o, cmd.OutOrStdout(), cmd.ErrOrStderr())
 		},
 	}
@@ -71,7 +68,7 @@ just reach them with the reserve.
 	fs.StringVar(&o.raster, "raster", "", "write the arrival height above ground as a raster (.tif GeoTIFF or .asc ESRI ASCII grid)")
 	fs.StringVar(&o.mapPNG, "map", "", "draw a map of the result to this PNG file")
 	fs.StringVar(&o.report, "report", "", "write a self-contained HTML report to this file")
-	fs.Float64Var(&o.heading, "heading", math.NaN(), "aircraft heading at the start (degrees true), drawn on the map; range 0..360")
+	o.fail.register(fs)
 	return cmd
 }
 
@@ -134,6 +131,8 @@ type reachRun struct {
 	farPoint   orb.Point     // the reserve ring's vertex farthest from the start (lon, lat)
 	grid       *terrain.Grid // DEM window, nil on flat ground
 
+	fail    *failureState       // nil: no failure state (--heading)
+	sectors []reach.SectorStart // the failure's sector starts (nominal wind)
 }
 
 func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) error {
@@ -144,9 +143,6 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 	}
 	if !o.pos.from.Given {
 		return input.Usagef("--from", "the start position is required (LAT,LON)")
-	}
-	if o.headingGiven && !(o.heading >= 0 && o.heading <= 360) {
-		return input.Usagef("--heading", "%v is outside 0..360 degrees true", o.heading)
 	}
 	extra, err := parseLevels(o.levels)
 	if err != nil {
@@ -171,11 +167,14 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 			return err
 		}
 	}
-	run, err := computeReach(ctx, setup, ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}, o.pos, fields, extra, stderr)
+	fstate, err := o.fail.resolve()
 	if err != nil {
 		return err
 	}
-	run.heading = o.heading
+	run, err := computeReachFrom(ctx, setup, ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}, o.pos, fields, extra, stderr, fstate)
+	if err != nil {
+		return err
+	}
 
 	return deliver(ctx, stdout, results{out: o.out, format: o.format, raster: o.raster, mapPNG: o.mapPNG, report: o.report,
 		document: func(format string) ([]byte, error) {
@@ -191,6 +190,12 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 
 // computeReach runs the footprint and judges the fields.
 func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positionFlags, fields []input.Field, extraLevels []float64, stderr io.Writer) (*reachRun, error) {
+	return computeReachFrom(ctx, setup, gr, pos, fields, extraLevels, stderr, nil)
+}
+
+// computeReachFrom is computeReach from an engine failure's state (nil:
+// already gliding at the speed to fly, as computeReach).
+func computeReachFrom(ctx context.Context, setup *glideSetup, gr ground, pos *positionFlags, fields []input.Field, extraLevels []float64, stderr io.Writer, fstate *failureState) (*reachRun, error) {
 	lat, lon := pos.from.Lat, pos.from.Lon
 	elev, ok, err := gr.elevationAt(lat, lon)
 	if err != nil {
@@ -209,8 +214,25 @@ func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positi
 	if alt <= elev {
 		return nil, input.Usagef("--alt", "%.0f m MSL is not above the terrain at the start (%.0f m)", alt, elev)
 	}
-	run := &reachRun{setup: setup, ground: gr, startLat: lat, startLon: lon, startAlt: alt, startElev: elev}
+	run := &reachRun{setup: setup, ground: gr, startLat: lat, startLon: lon, startAlt: alt, startElev: elev, heading: math.NaN(), fail: fstate}
+	if fstate != nil {
+		run.heading = fstate.HeadingDeg
+	}
 	setup.checkStartClearance(stderr, alt, elev)
+	setup.State = fstate.assumption()
+	if fstate != nil {
+		setup.State += "; the footprint is the shape this state gives: the glide toward each direction starts after the turn to it (either way, up to 270°)"
+	}
+	// From a failure state the glides start up to a few km away and may
+	// start higher (the energy credit): widen the window and the tables.
+	pad, topExtra := 0.0, 0.0
+	if fstate != nil {
+		credit, err := fstate.credit(setup, alt)
+		if err != nil {
+			return nil, err
+		}
+		pad, topExtra = 3000, credit+100
+	}
 
 	// Size the window from the best downwind glide down to the lowest ground
 	// it meets (a first guess below the start's ground, then corrected).
@@ -220,17 +242,17 @@ func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positi
 	for pass := 0; pass < 2; pass++ {
 		radius := 0.0
 		for _, w := range setup.Winds {
-			tab, err := setup.tableFor(w, bottom-50, alt+50)
+			tab, err := setup.tableFor(w, bottom-50, alt+50+topExtra)
 			if err != nil {
 				return nil, &input.UsageError{Where: "--aircraft", Err: err}
 			}
-			r, err := reach.ReachRadius(tab, alt, bottom)
+			r, err := reach.ReachRadius(tab, alt+topExtra, bottom)
 			if err != nil {
 				return nil, &input.UsageError{Err: err}
 			}
 			radius = math.Max(radius, r)
 		}
-		l, grid, err = gr.window(lat, lon, radius*1.02+1000)
+		l, grid, err = gr.window(lat, lon, radius*1.02+1000+pad)
 		if err != nil {
 			return nil, err
 		}
@@ -257,12 +279,12 @@ func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positi
 	shares := make([]float64, len(setup.Winds))
 	var shareMu sync.Mutex
 	err = forEach(ctx, len(setup.Winds), 2, func(k int) error {
-		tab, err := setup.tableFor(setup.Winds[k], lo+math.Min(minLevel, 0)-260, alt+60)
+		tab, err := setup.tableFor(setup.Winds[k], lo+math.Min(minLevel, 0)-260, alt+60+topExtra)
 		if err != nil {
 			return &input.UsageError{Where: "--aircraft", Err: err}
 		}
 		n := float64(len(setup.Winds))
-		res, err := reach.Footprint(ctx, l, reach.Start{Lat: lat, Lon: lon, Alt: alt}, tab, reach.FootprintOptions{
+		fopts := reach.FootprintOptions{
 			Reserve: setup.Reserve, Clearance: setup.Clearance, Levels: extraLevels,
 			Progress: func(d float64) {
 				shareMu.Lock()
@@ -273,7 +295,20 @@ func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positi
 				}
 				shareMu.Unlock()
 				prog.set(t / n)
-			}})
+			}}
+		var res *reach.FootprintResult
+		if fstate != nil {
+			secs, err := failureSectors(setup, setup.Winds[k], l, lat, lon, alt, fstate)
+			if err != nil {
+				return err
+			}
+			if k == 0 {
+				run.sectors = secs
+			}
+			res, err = reach.FootprintFromState(ctx, l, reach.Start{Lat: lat, Lon: lon, Alt: alt}, secs, tab, fopts)
+		} else {
+			res, err = reach.Footprint(ctx, l, reach.Start{Lat: lat, Lon: lon, Alt: alt}, tab, fopts)
+		}
 		if err != nil {
 			switch {
 			case errors.Is(err, reach.ErrStartBelowGround), errors.Is(err, reach.ErrStartOffGround):
@@ -397,13 +432,17 @@ func dedupe(v []float64) []float64 {
 // fieldJob is what the backward runs of one field need and produce.
 type fieldJob struct {
 	onWindow bool
-	dist     float64        // m from the start (geodesic), NaN if unknown
-	win      *terrain.Local // the window the runs search
-	target   reach.Target
-	ceiling  float64 // m MSL
-	lo       float64 // lowest ground of win or the field, m MSL
-	req      []float64
-	ok       []bool
+	// fromLat, fromLon are where the glide to the field starts (the start,
+	// or the failure state's sector start), cost the altitude (m) the
+	// failure costs before it.
+	fromLat, fromLon, cost float64
+	dist                   float64        // m from the start (geodesic), NaN if unknown
+	win                    *terrain.Local // the window the runs search
+	target                 reach.Target
+	ceiling                float64 // m MSL
+	lo                     float64 // lowest ground of win or the field, m MSL
+	req                    []float64
+	ok                     []bool
 }
 
 // finish folds the runs of every wind into the field's figure: the
@@ -463,9 +502,31 @@ func prepareField(run *reachRun, f input.Field, l *terrain.Local) (fieldResult, 
 	} else {
 		fr.Note = "beyond the computed window: out of reach"
 	}
+	// From a failure state the glide starts at the sector start that
+	// claims the field, and what the failure costs before it (the start's
+	// altitude less the sector's) is added to the figure.
+	fromLat, fromLon, cost, dist := run.startLat, run.startLon, 0.0, fr.DistanceM
+	if err != nil {
+		dist = math.NaN()
+	}
+	if run.sectors != nil {
+		sec, ok := sectorFor(l, run.sectors, f.Lat, f.Lon)
+		if !ok {
+			if fr.Note == "" {
+				fr.Note = "inside the turn after the failure: no straight glide from the failure state reaches it"
+			}
+			return fr, nil, nil
+		}
+		fromLat, fromLon, cost = sec.Start.Lat, sec.Start.Lon, run.startAlt-sec.Start.Alt
+		if d, _, _, err := geodesy.Inverse(geodesy.LatLon{Lat: fromLat, Lon: fromLon}, geodesy.LatLon{Lat: f.Lat, Lon: f.Lon}); err == nil {
+			dist = d
+		} else {
+			dist = math.NaN()
+		}
+	}
 	ceiling := math.Max(run.startAlt, fr.ElevationM+reserve) + 4000
 	nw := len(run.setup.Winds)
-	return fr, &fieldJob{ceiling: ceiling, onWindow: onWindow, dist: s,
+	return fr, &fieldJob{ceiling: ceiling, onWindow: onWindow, dist: dist, fromLat: fromLat, fromLon: fromLon, cost: cost,
 		target: reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: fr.ElevationM, Reserve: reserve},
 		req:    make([]float64, nw), ok: make([]bool, nw)}, nil
 }
@@ -498,7 +559,7 @@ func placeField(run *reachRun, l *terrain.Local, fr *fieldResult, j *fieldJob, b
 	// ridge with open ends and contradicted the forward figures.
 	j.win = l
 	if !j.onWindow {
-		midLat, midLon := (run.startLat+j.target.Lat)/2, (run.startLon+j.target.Lon)/2
+		midLat, midLon := (j.fromLat+j.target.Lat)/2, (j.fromLon+j.target.Lon)/2
 		w, _, err := run.ground.window(midLat, midLon, j.dist/2*1.3+2000)
 		if err != nil {
 			fr.Note = "required altitude not computed: " + err.Error()
@@ -541,20 +602,22 @@ func judgeFields(ctx context.Context, run *reachRun, l *terrain.Local, jobs []*f
 		j, k := jobs[work[w].f], work[w].k
 		tab := tabs[k]
 		r, rok, err := reach.RequiredFrom(ctx, j.win, j.target, tab,
-			reach.RequiredOptions{Clearance: run.setup.Clearance, Ceiling: j.ceiling}, run.startLat, run.startLon)
+			reach.RequiredOptions{Clearance: run.setup.Clearance, Ceiling: j.ceiling}, j.fromLat, j.fromLon)
 		if err != nil {
 			if !errors.Is(err, reach.ErrNoTargets) && !errors.Is(err, reach.ErrStartOffGround) {
 				return err
 			}
 			rok = false
 		}
-		if j.win == l {
+		if j.win == l && run.sectors == nil {
+			// (From a failure state the forward figure is the sectors'
+			// union, which a bisection from one point would not fly.)
 			r, rok, err = run.reconcile(ctx, k, l, j.target, tab, r, rok, j.ceiling)
 			if err != nil {
 				return err
 			}
 		}
-		j.req[k], j.ok[k] = r, rok
+		j.req[k], j.ok[k] = r+j.cost, rok
 		return nil
 	})
 }

@@ -50,10 +50,11 @@ type routeOptions struct {
 	out       string
 	mapPNG    string
 	report    string
+	fail      *failureFlags
 }
 
 func newRouteCmd() *cobra.Command {
-	o := &routeOptions{glide: newGlideFlags(), terr: newTerrainFlags(),
+	o := &routeOptions{glide: newGlideFlags(), terr: newTerrainFlags(), fail: newFailureFlags(),
 		alt: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), agl: input.NewQuantity(input.Length, 0).Within(0, maxAGL), ind: newIndicatedFlags(), step: input.NewQuantity(input.Length, 250).Within(10, 10000)}
 	cmd := &cobra.Command{
 		Use:   "route --route FILE --fields FILE [--alt ALT|--agl HEIGHT]",
@@ -84,6 +85,7 @@ reserve; a margin of +200 m arrives with about reserve + 200 m.
 	fs := cmd.Flags()
 	o.glide.register(fs)
 	o.terr.register(fs)
+	o.fail.registerSpeedOnly(fs)
 	fs.StringVar(&o.route, "route", "", "planned route: GPX 1.1 (track or route) or GeoJSON LineString file")
 	fs.StringVar(&o.routeName, "route-name", "", "which route or track of the file, when it holds several")
 	fs.StringVar(&o.fields, "fields", "", "landing fields: GeoJSON points or polygons with a name property")
@@ -114,6 +116,7 @@ type routeRun struct {
 	prof      *reach.RouteProfile
 	ceiling   float64
 	notes     []string
+	fail      *failureState // --speed: a failure on the course at each point
 }
 
 // routeField is a landing field as the route command used it.
@@ -161,6 +164,10 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 	if note != "" {
 		setup.Notes = append(setup.Notes, note)
 	}
+	fstate, err := o.fail.resolveCourse()
+	if err != nil {
+		return err
+	}
 	src, err := o.terr.open()
 	if err != nil {
 		return err
@@ -173,7 +180,7 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 	if err != nil {
 		return err
 	}
-	run := &routeRun{setup: setup, ground: ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}, file: o.route, name: rt.Name, step: o.step.Value}
+	run := &routeRun{setup: setup, ground: ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}, file: o.route, name: rt.Name, step: o.step.Value, fail: fstate}
 	prog := newProgress(stderr, "route")
 	err = computeRoute(ctx, run, rt, fields, o, prog.set)
 	prog.done()
@@ -385,6 +392,12 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 	prof, err := res.Route(pts, run.ceiling)
 	if err != nil {
 		return err
+	}
+	run.setup.State = run.fail.assumption()
+	if run.fail != nil {
+		if err := routeFromState(ctx, run, prof); err != nil {
+			return err
+		}
 	}
 	run.prof = prof
 	// Length of route along which each field is the best one in reach.

@@ -8,6 +8,8 @@ import (
 	"strings"
 
 	"github.com/paulmach/orb"
+
+	"glidereach/reach/geodesy"
 )
 
 // Field is a landing field read from a user GeoJSON file. Coordinates are
@@ -26,6 +28,15 @@ type Field struct {
 	Length       float64     // usable length, m, from length_m; 0 when not given
 	Surface      string      // free text from surface ("grass", "sand", …); "" when not given
 	Polygon      orb.Polygon // the field's outline for a Polygon feature (exterior counter-clockwise); nil for a Point
+	// Strip holds the two ends (lon, lat) of a LineString field, a strip
+	// usable from both ends; nil otherwise. Lat, Lon is then its midpoint.
+	Strip orb.LineString
+	// LandingDirs are the directions (degrees true, 0..360) a landing may
+	// be made in, from property landing_directions; nil = any direction
+	// (for a strip: its two directions).
+	LandingDirs []float64
+	// PatternSide is "left", "right" or "" (not given), from pattern_side.
+	PatternSide string
 }
 
 // Property names read from each feature's "properties".
@@ -34,6 +45,8 @@ const (
 	propElevation = "elevation_m"
 	propLength    = "length_m"
 	propSurface   = "surface"
+	propDirs      = "landing_directions"
+	propSide      = "pattern_side"
 )
 
 // Plausibility bounds for field properties: the lowest dry land is about
@@ -53,7 +66,11 @@ const (
 //	elevation_m  number, optional, metres MSL
 //	length_m     number, optional, metres, ≥ 0
 //	surface      string, optional
+//	landing_directions  array of degrees true (0..360), optional; absent = any
+//	pattern_side string "left" or "right", optional
 //
+// A LineString is a strip usable from both ends: its first and last
+// positions are the ends, its midpoint the landing point.
 // Other properties are ignored. A Polygon's landing point is its area
 // centroid; a polygon whose centroid falls outside it (an L- or U-shaped
 // outline) is refused, since the landing point must be on the field — give
@@ -121,8 +138,35 @@ func fieldFrom(f *geoFeature) (Field, error) {
 		}
 		fl.Lon, fl.Lat = c[0], c[1]
 		fl.Polygon = g
+	case orb.LineString:
+		if err := stripFrom(&fl, g); err != nil {
+			return fl, err
+		}
 	default:
-		return fl, fmt.Errorf("field %q: geometry %s not supported (want Point or Polygon)", fl.Name, f.Kind)
+		return fl, fmt.Errorf("field %q: geometry %s not supported (want Point, Polygon or a LineString strip)", fl.Name, f.Kind)
+	}
+	if raw, ok := f.Props[propDirs]; ok && string(raw) != "null" {
+		var dirs []float64
+		if err := json.Unmarshal(raw, &dirs); err != nil || len(dirs) == 0 {
+			return fl, fmt.Errorf("field %q: property %q must be a non-empty array of degrees true, not %s", fl.Name, propDirs, shorten(raw))
+		}
+		for i, d := range dirs {
+			if !(d >= 0 && d <= 360) {
+				return fl, fmt.Errorf("field %q: %s[%d] = %v is outside 0..360 degrees", fl.Name, propDirs, i, d)
+			}
+			dirs[i] = math.Mod(d, 360)
+		}
+		fl.LandingDirs = dirs
+	}
+	if s, ok, err := stringProp(f.Props, propSide); err != nil {
+		return fl, err
+	} else if ok {
+		switch v := strings.ToLower(strings.TrimSpace(s)); v {
+		case "left", "right":
+			fl.PatternSide = v
+		default:
+			return fl, fmt.Errorf("field %q: %s %q: want left or right", fl.Name, propSide, s)
+		}
 	}
 	if v, ok, err := numberProp(f.Props, propElevation); err != nil {
 		return fl, err
@@ -138,7 +182,9 @@ func fieldFrom(f *geoFeature) (Field, error) {
 		if v < 0 || v > maxFieldLength {
 			return fl, fmt.Errorf("field %q: %s %v outside 0..%v m", fl.Name, propLength, v, maxFieldLength)
 		}
-		fl.Length = v
+		if fl.Strip == nil || v < fl.Length {
+			fl.Length = v
+		}
 	}
 	if s, ok, err := stringProp(f.Props, propSurface); err != nil {
 		return fl, err
@@ -146,6 +192,27 @@ func fieldFrom(f *geoFeature) (Field, error) {
 		fl.Surface = strings.TrimSpace(s)
 	}
 	return fl, nil
+}
+
+// stripFrom reads a LineString strip: its first and last positions are the
+// ends (inner vertices are ignored), its midpoint the landing point, its
+// geodesic length the usable length unless length_m says less.
+func stripFrom(fl *Field, g orb.LineString) error {
+	a, b := g[0], g[len(g)-1]
+	s, _, _, err := geodesy.Inverse(geodesy.LatLon{Lat: a[1], Lon: a[0]}, geodesy.LatLon{Lat: b[1], Lon: b[0]})
+	if err != nil {
+		return fmt.Errorf("field %q: strip ends: %w", fl.Name, err)
+	}
+	if !(s >= 1) {
+		return fmt.Errorf("field %q: the strip has zero length (its ends are %.1f m apart); give two distinct ends", fl.Name, s)
+	}
+	if s > maxFieldLength {
+		return fmt.Errorf("field %q: the strip is %.0f m long, more than %v m", fl.Name, s, maxFieldLength)
+	}
+	fl.Strip = orb.LineString{a, b}
+	fl.Lon, fl.Lat = (a[0]+b[0])/2, (a[1]+b[1])/2
+	fl.Length = s
+	return nil
 }
 
 // stringProp returns property key as a string; null counts as absent.

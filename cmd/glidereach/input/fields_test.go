@@ -111,7 +111,12 @@ func TestParseFieldsErrors(t *testing.T) {
 		{"elevation string", fc(pt(`{"name":"A","elevation_m":"350ft"}`, `[1,2]`)), `property "elevation_m" must be a number of metres, not "350ft"`},
 		{"elevation range", fc(pt(`{"name":"A","elevation_m":12000}`, `[1,2]`)), "elevation_m 12000 outside"},
 		{"length negative", fc(pt(`{"name":"A","length_m":-5}`, `[1,2]`)), "length_m -5 outside"},
-		{"linestring", fc(`{"type":"Feature","properties":{"name":"L"},"geometry":{"type":"LineString","coordinates":[[1,2],[3,4]]}}`), "geometry LineString not supported"},
+		{"long strip", fc(`{"type":"Feature","properties":{"name":"L"},"geometry":{"type":"LineString","coordinates":[[1,2],[3,4]]}}`), "the strip is 313588 m long"},
+		{"zero-length strip", fc(`{"type":"Feature","properties":{"name":"Z"},"geometry":{"type":"LineString","coordinates":[[1,2],[1,2]]}}`), "the strip has zero length"},
+		{"direction out of range", fc(`{"type":"Feature","properties":{"name":"D","landing_directions":[90,400]},"geometry":{"type":"Point","coordinates":[1,2]}}`), "landing_directions[1] = 400 is outside 0..360"},
+		{"directions not numbers", fc(`{"type":"Feature","properties":{"name":"D","landing_directions":"27"},"geometry":{"type":"Point","coordinates":[1,2]}}`), "must be a non-empty array"},
+		{"bad side", fc(`{"type":"Feature","properties":{"name":"S","pattern_side":"up"},"geometry":{"type":"Point","coordinates":[1,2]}}`), "want left or right"},
+		{"multilinestring", fc(`{"type":"Feature","properties":{"name":"M"},"geometry":{"type":"MultiLineString","coordinates":[[[1,2],[1,2.01]]]}}`), "geometry MultiLineString not supported"},
 		{"null geometry", fc(`{"type":"Feature","properties":{"name":"N"},"geometry":null}`), "feature has no geometry"},
 		// RFC 7946 §3.1.6: a linear ring is closed and has >= 4 positions.
 		{"open ring", fc(`{"type":"Feature","properties":{"name":"P"},"geometry":{"type":"Polygon","coordinates":[[[0,0],[1,0],[1,1],[0,1]]]}}`), "invalid coordinates"},

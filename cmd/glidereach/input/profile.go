@@ -27,6 +27,9 @@ import (
 //	max_speed: 120kt          # indicated
 //	reserve: 300m             # optional defaults for the commands
 //	clearance: 100m
+//	kind: powered             # optional: powered | sailplane (approach pattern defaults)
+//	approach_speed: 65kt      # optional: calm-air approach speed, indicated
+//	max_crosswind: 15kt       # optional: crosswind limit for the landing direction
 //	polar:
 //	  form: best_glide        # best_glide | points | drag
 //	  best_glide_speed: 65kt  # best_glide: indicated, at reference mass
@@ -242,7 +245,8 @@ func (p *profileParser) number(n *yaml.Node, key string) (float64, error) {
 }
 
 var topKeys = map[string]bool{"name": true, "reference_mass": true, "mass": true, "stall_speed": true,
-	"min_speed": true, "max_speed": true, "reserve": true, "clearance": true, "polar": true}
+	"min_speed": true, "max_speed": true, "reserve": true, "clearance": true, "polar": true,
+	"kind": true, "approach_speed": true, "max_crosswind": true}
 
 var polarKeys = map[string]map[string]bool{
 	"best_glide": {"form": true, "best_glide_speed": true, "glide_ratio": true},
@@ -266,6 +270,12 @@ func (p *profileParser) aircraft(root *yaml.Node) (*reach.Aircraft, error) {
 		}
 		ac.Name = strings.TrimSpace(ac.Name)
 	}
+	if n, ok := m["kind"]; ok {
+		if ac.Kind, err = p.scalar(n, "kind"); err != nil {
+			return nil, err
+		}
+		ac.Kind = strings.ToLower(strings.TrimSpace(ac.Kind))
+	}
 	req := func(key string) (*yaml.Node, error) {
 		n, ok := m[key]
 		if !ok {
@@ -287,6 +297,8 @@ func (p *profileParser) aircraft(root *yaml.Node) (*reach.Aircraft, error) {
 		{"max_speed", Speed, &ac.MaxIAS, true},
 		{"reserve", Length, &ac.Reserve, false},
 		{"clearance", Length, &ac.Clearance, false},
+		{"approach_speed", Speed, &ac.ApproachIAS, false},
+		{"max_crosswind", Speed, &ac.MaxCrosswind, false},
 	} {
 		n, ok := m[f.key]
 		if !ok {

@@ -121,9 +121,16 @@ func (r *renderer) legendItems() []legendItem {
 		it = append(it, legendItem{kind: lgGap, text: "Gap: no landing option"})
 	}
 	if g := s.Glide; g != nil {
-		it = append(it, legendItem{kind: lgGlide, text: "Final glide line"})
+		lineText, turnText := "Final glide line", "Turn point"
+		if g.LineLabel != "" {
+			lineText = g.LineLabel
+		}
+		if g.TurnLabel != "" {
+			turnText = g.TurnLabel
+		}
+		it = append(it, legendItem{kind: lgGlide, text: lineText})
 		if len(g.Turns) > 0 {
-			it = append(it, legendItem{kind: lgTurn, text: "Turn point"})
+			it = append(it, legendItem{kind: lgTurn, text: turnText})
 		}
 		if !math.IsNaN(g.LowestClearance) && r.lowestAtField() < 0 {
 			it = append(it, legendItem{kind: lgLowest, text: "Lowest terrain clearance"})

@@ -55,6 +55,7 @@ type layout struct {
 	cautionRect     image.Rectangle
 	titleRect       image.Rectangle
 	northDeg        float64 // true north, degrees clockwise from map up
+	windArrow       pt      // centre of the wind arrow, when drawn
 	labels          []placed
 }
 
@@ -479,7 +480,11 @@ func (r *renderer) drawOverlays() {
 	}
 	sb := r.drawScaleBar()
 	pl.reserve(sb)
-	pl.reserve(r.drawNorthArrow())
+	nb := r.drawNorthArrow()
+	pl.reserve(nb)
+	if s.Wind != nil {
+		pl.reserve(r.drawWindArrow(nb, *s.Wind))
+	}
 
 	pad := px(3)
 	lo.labels = pl.placeAll(labels, r.f.label, r.f.labelBold, pad)
@@ -745,6 +750,35 @@ func (r *renderer) drawNorthArrow() box {
 	c.stroke([]pt{tip, right, tail}, px(1.6), true, colText)
 	n := "N"
 	drawText(r.img, r.f.labelBold, tip.X-textWidth(r.f.labelBold, n)/2, tip.Y-px(5), n, colText)
+	return b
+}
+
+// drawWindArrow draws the wind below box above (the north arrow's): an
+// arrow the way the air moves, turned for the map's north, with its label,
+// and returns its box.
+func (r *renderer) drawWindArrow(above box, w WindArrow) box {
+	lo, c, px := r.lo, r.c, r.px
+	a := (w.FromDeg + 180 + lo.northDeg) * math.Pi / 180
+	dx, dy := math.Sin(a), -math.Cos(a)
+	ex, ey := -dy, dx
+	size := px(46)
+	tw := textWidth(r.f.label, w.Label)
+	half := math.Max(size/2+px(4), tw/2+px(6))
+	o := pt{(above.x0 + above.x1) / 2, above.y1 + px(10) + size/2}
+	if o.X+half > float64(lo.mapRect.Max.X)-px(4) {
+		o.X = float64(lo.mapRect.Max.X) - px(4) - half
+	}
+	b := box{o.X - half, o.Y - size/2 - px(4), o.X + half, o.Y + size/2 + px(22)}
+	c.fillRect(b.x0, b.y0, b.x1, b.y1, withAlpha(colHalo, 0.85))
+	tip := pt{o.X + dx*size*0.45, o.Y + dy*size*0.45}
+	tail := pt{o.X - dx*size*0.45, o.Y - dy*size*0.45}
+	hl := pt{tip.X - dx*size*0.3 + ex*size*0.18, tip.Y - dy*size*0.3 + ey*size*0.18}
+	hr := pt{tip.X - dx*size*0.3 - ex*size*0.18, tip.Y - dy*size*0.3 - ey*size*0.18}
+	lo.windArrow = o
+	c.stroke([]pt{tail, tip}, px(2.4), false, colText)
+	c.addRing([]pt{tip, hl, hr}, 1)
+	c.paint(colText)
+	drawText(r.img, r.f.label, o.X-tw/2, b.y1-px(6), w.Label, colText)
 	return b
 }
 

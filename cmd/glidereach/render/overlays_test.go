@@ -302,3 +302,28 @@ func TestNoSeamAlongVoidEdge(t *testing.T) {
 		t.Errorf("colour jumps by %d levels between neighbouring pixels along the row next to the void", jump)
 	}
 }
+
+// A line drawn with its own names (an approach plan's path and gates) is
+// named so in the legend; without names it is a final glide line.
+func TestGlideLineLegendNames(t *testing.T) {
+	s := flatScene()
+	f := s.Terrain.Frame
+	line := orb.LineString{at(f, -5, 0), at(f, 5, 0)}
+	texts := func() []string {
+		var out []string
+		for _, it := range legendOf(t, s) {
+			if it.kind == lgGlide || it.kind == lgTurn {
+				out = append(out, it.text)
+			}
+		}
+		return out
+	}
+	s.Glide = &GlideLine{Line: line, LowestClearance: math.NaN(), Turns: []TurnPoint{{Name: "TP1", Point: at(f, 0, 0)}}}
+	if got := texts(); len(got) != 2 || got[0] != "Final glide line" || got[1] != "Turn point" {
+		t.Errorf("default legend %q", got)
+	}
+	s.Glide.LineLabel, s.Glide.TurnLabel = "Planned path", "Gate"
+	if got := texts(); len(got) != 2 || got[0] != "Planned path" || got[1] != "Gate" {
+		t.Errorf("named legend %q", got)
+	}
+}

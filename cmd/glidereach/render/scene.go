@@ -78,6 +78,17 @@ type Scene struct {
 	// Hillshade sets the light for the terrain shading; the zero value is
 	// gdaldem's default (azimuth 315°, altitude 45°, z-factor 1).
 	Hillshade HillshadeOptions
+
+	// Wind, when not nil, draws a wind arrow below the north arrow.
+	Wind *WindArrow
+}
+
+// WindArrow is the wind drawn on a map: the arrow points the way the air
+// moves (FromDeg + 180°, degrees true), Label is printed under it ("wind
+// 240°/12 kt at the field").
+type WindArrow struct {
+	FromDeg float64
+	Label   string
 }
 
 // Level is one footprint level.
@@ -164,6 +175,10 @@ type GlideLine struct {
 	// Turns are the turn points between start and goal, in order, each
 	// drawn as a small ringed dot with its name.
 	Turns []TurnPoint
+	// LineLabel and TurnLabel name the line and its points in the legend;
+	// empty means "Final glide line" and "Turn point" (an approach plan
+	// draws its path and gates with the same symbols under its own names).
+	LineLabel, TurnLabel string
 }
 
 // TurnPoint is a named point of a final-glide line.

@@ -1,0 +1,110 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"math"
+
+	"glidereach/cmd/glidereach/input"
+	"glidereach/reach/approach"
+	"glidereach/reach/geodesy"
+)
+
+func init() {
+	registerDemoStep(35, "engine failure in cruise: the approach to the best field", demoApproach)
+}
+
+// demoFailure is the demo's invented engine failure: the trainer in
+// cruise along the demo route, heading north-east.
+var demoFailure = struct {
+	from     [2]float64
+	alt      float64 // m MSL
+	heading  float64 // degrees true
+	speedKt  float64 // IAS
+	aircraft string
+}{from: [2]float64{-0.62, -24.66}, alt: 2400, heading: 45, speedKt: 105, aircraft: "trainer"}
+
+// demoApproach plans the approach to every demo field from the failure and
+// writes the plan to the best one: the plan that holds with the most height
+// in hand at its entry.
+func demoApproach(ctx context.Context, d *demoRun) error {
+	sc, err := loadDemoScene()
+	if err != nil {
+		return err
+	}
+	g := newGlideFlags()
+	g.aircraft = demoFailure.aircraft
+	g.wind = demoWindSpec
+	setup, err := g.resolve()
+	if err != nil {
+		return err
+	}
+	ff := newFailureFlags()
+	fs := &failureState{HeadingDeg: demoFailure.heading, IAS: demoFailure.speedKt * input.Knot,
+		Reaction: ff.reaction, Efficiency: ff.efficiency, Bank: ff.bank.Value}
+	run := &approachRun{setup: setup, ground: ground{src: sc.src}, fail: fs, startLat: demoFailure.from[0], startLon: demoFailure.from[1],
+		startAlt: demoFailure.alt, variation: math.NaN(), units: unitSets["m-kt"]}
+	var best *approachRun
+	for _, f := range sc.fields {
+		r := *run
+		r.field = f
+		sampler, err := approachTerrain(&r, nil)
+		if err != nil {
+			return err
+		}
+		r.sampler = sampler
+		elev, ok := sampler.at(r.startLat, r.startLon)
+		if !ok {
+			return fmt.Errorf("demo approach: no terrain at the failure point")
+		}
+		r.startElev = elev
+		fe, ok := sampler.field(f.Lat, f.Lon)
+		if !ok {
+			continue
+		}
+		r.field.Elevation, r.fieldFrom = fe, "terrain"
+		if s, _, _, err := geodesy.Inverse(geodesy.LatLon{Lat: r.startLat, Lon: r.startLon}, geodesy.LatLon{Lat: f.Lat, Lon: f.Lon}); err != nil || s > 60e3 {
+			continue
+		}
+		req := approach.Request{Field: approachField(r.field), Aircraft: setup.Aircraft, Cond: setup.Cond, Atm: setup.Atm, Wind: setup.Wind,
+			Ground: sampler.high, Clearance: setup.Clearance, Lat: r.startLat, Lon: r.startLon, Alt: r.startAlt, LandingDir: math.NaN(),
+			Step: sampler.step, Failure: &approach.Failure{HeadingDeg: fs.HeadingDeg, IAS: fs.IAS, ReactionTime: fs.Reaction, Efficiency: fs.Efficiency, Bank: fs.Bank}}
+		res, err := approach.Plan(ctx, req)
+		if err != nil {
+			return err
+		}
+		r.res = res
+		status := "no plan holds"
+		if res.Feasible {
+			status = fmt.Sprintf("%s landing %03.0f°, %.0f m in hand", res.Variant, res.LandingDir, res.Excess)
+		}
+		fmt.Fprintf(d.out, "  %-20s %s\n", f.Name, status)
+		if res.Feasible && (best == nil || res.Excess > best.res.Excess) {
+			rr := r
+			best = &rr
+		}
+	}
+	if best == nil {
+		return fmt.Errorf("demo approach: no field gives a plan (the scenario needs adjusting)")
+	}
+	fmt.Fprintf(d.out, "Best field: %s\n\n", best.field.Name)
+	for _, out := range []struct{ name, format string }{{"approach-trainer.geojson", "geojson"}, {"approach-trainer.json", "json"}} {
+		var data []byte
+		if out.format == "json" {
+			data, err = approachJSON(best)
+		} else {
+			data, err = approachGeoJSON(best)
+		}
+		if err != nil {
+			return err
+		}
+		if err := d.writeBytes(out.name, data); err != nil {
+			return err
+		}
+	}
+	if err := d.drawBoth("approach-trainer", func(m, r string) error { return drawApproach(best, m, r) }); err != nil {
+		return err
+	}
+	writeApproachText(d.out, best)
+	return nil
+}

@@ -1,0 +1,189 @@
+package reach
+
+import (
+	"context"
+	"math"
+	"testing"
+
+	"glidereach/reach/transition"
+	"glidereach/terrain"
+)
+
+// stateSectors converts transition sectors to sector starts around
+// (lat0, lon0) at altitude alt.
+func stateSectors(l *terrain.Local, lat0, lon0, alt float64, ss []transition.Sector) []SectorStart {
+	x0, y0 := l.Frame.Forward(lat0, lon0)
+	out := make([]SectorStart, len(ss))
+	for i, s := range ss {
+		lat, lon := l.Frame.Inverse(x0+s.East, y0+s.North)
+		out[i] = SectorStart{TrackDeg: s.TrackDeg, HalfDeg: s.HalfDeg, Start: Start{Lat: lat, Lon: lon, Alt: alt - s.Height}}
+	}
+	return out
+}
+
+// reachAlong returns the farthest distance (m) from the start's cell
+// straight south (bearing 180) or north at which the arrival keeps agl.
+func reachAlong(f *FootprintResult, north bool, agl float64) float64 {
+	g := f.Ground
+	c := int(math.Round(f.StartX))
+	r0 := int(math.Round(f.StartY))
+	best := 0.0
+	for r := 0; r < g.Rows; r++ {
+		if north != (r > r0) {
+			continue
+		}
+		if f.AGL(c, r) >= agl {
+			best = math.Max(best, math.Abs(float64(r)-f.StartY)*g.Cell)
+		}
+	}
+	return best
+}
+
+// With every sector starting where the failure is, at its altitude (no
+// reaction, no turn loss, no credit), the footprint is today's, cell for
+// cell.
+func TestFootprintFromStateNoLossEqualsFootprint(t *testing.T) {
+	l := flatWindow(0, 0, 301, 60, 0)
+	st := Start{Lat: 0, Lon: 0, Alt: 1000}
+	opts := FootprintOptions{Reserve: 300}
+	plain, err := Footprint(context.Background(), l, st, ConstantLoss(9), opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var secs []SectorStart
+	for k := 0; k < 12; k++ {
+		secs = append(secs, SectorStart{TrackDeg: float64(k) * 30, HalfDeg: 15, Start: st})
+	}
+	got, err := FootprintFromState(context.Background(), l, st, secs, ConstantLoss(9), opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	diff := 0
+	for i := range plain.Arrival {
+		a, b := plain.Arrival[i], got.Arrival[i]
+		if a != b && !(a != a && b != b) {
+			diff++
+		}
+	}
+	if diff > 1 { // the start cell itself has no bearing
+		t.Errorf("%d cells differ", diff)
+	}
+	if a, _ := plain.ArrivalAt(0.03, 0.02); true {
+		b, _ := got.ArrivalAt(0.03, 0.02)
+		if math.Abs(a-b) > 1e-3 {
+			t.Errorf("ArrivalAt %v vs %v", b, a)
+		}
+	}
+}
+
+// A failure heading north in calm air over flat ground: the reach behind
+// (south) is today's less exactly the turn's loss (the half turn, plus the
+// half-sector charge) times the glide ratio and the displacement of the
+// reaction, speed change and turn; ahead it is today's plus the forward
+// displacement and the energy credit. Closed forms: the energy height and
+// turn relations of Anderson, Introduction to Flight, ch. 6 (from memory),
+// checked in reach/transition; the circle of radius (h − reserve)·E around
+// each sector start (flat still air, E constant).
+func TestFootprintFromStateHalfTurn(t *testing.T) {
+	const E, alt, reserve = 9.0, 1500.0, 300.0
+	l := flatWindow(0, 0, 461, 60, 0)
+	st := Start{Lat: 0, Lon: 0, Alt: alt}
+	opts := FootprintOptions{Reserve: reserve}
+	v := 33.4
+	f := transition.Failure{Heading: 0, FailTAS: 50, FailSink: 50 / 6.0, GlideTAS: v, GlideSink: v / E,
+		ReactionTime: 3, Efficiency: 0.5, Bank: 30}
+	ss, err := f.Sectors(12, 0, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := FootprintFromState(context.Background(), l, st, stateSectors(l, 0, 0, alt, ss), ConstantLoss(E), opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	plain, err := Footprint(context.Background(), l, st, ConstantLoss(E), opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Behind: the sector of track 180 turning right (the first of them).
+	var s transition.Sector
+	for _, x := range ss {
+		if x.TrackDeg == 180 {
+			s = x
+			break
+		}
+	}
+	R := (alt - s.Height - reserve) * E
+	wantBehind := math.Sqrt(R*R-s.East*s.East) - s.North
+	today := reachAlong(plain, false, reserve)
+	behind := reachAlong(got, false, reserve)
+	cell := l.Cell
+	if math.Abs(behind-wantBehind) > 1.5*cell {
+		t.Errorf("behind %.0f m, want %.0f m (today %.0f m; turn and half-sector %.1f m of height, displacement %.0f m north %.0f m east)",
+			behind, wantBehind, today, s.Height, s.North, s.East)
+	}
+	if math.Abs((today-behind)-(today-wantBehind)) > 1.5*cell || !(today-behind > s.Height*E) {
+		t.Errorf("shortened by %.0f m, want %.0f m", today-behind, today-wantBehind)
+	}
+	// Ahead: the sector of track 000, no turn.
+	a := ss[0]
+	if a.TrackDeg != 0 || math.Abs(a.TurnDeg) > 1e-6 {
+		t.Errorf("turn ahead %v°", a.TurnDeg)
+	}
+	Ra := (alt - a.Height - reserve) * E
+	wantAhead := math.Sqrt(Ra*Ra-a.East*a.East) + a.North
+	if ahead := reachAlong(got, true, reserve); math.Abs(ahead-wantAhead) > 1.5*cell || !(ahead > today) {
+		t.Errorf("ahead %.0f m, want %.0f m (today %.0f m)", ahead, wantAhead, today)
+	}
+}
+
+// The classic case: a failure climbing out at 150–300 m above the runway
+// (heading 360, the runway behind). Turning back needs the half turn's
+// loss and the distance flown out; from 150 m it is not possible, from
+// higher it may be. The footprint decides at the runway threshold behind
+// the aircraft, and the result agrees with the closed form of the sector.
+func TestTurnBackAfterTakeOff(t *testing.T) {
+	const E = 9.0
+	l := flatWindow(0, 0, 201, 20, 0)
+	v := 33.4
+	// Climbing out at the glide speed (no energy to trade), 3 s reaction.
+	f := transition.Failure{Heading: 0, FailTAS: v, FailSink: v / E, GlideTAS: v, GlideSink: v / E, ReactionTime: 3, Bank: 30}
+	ss, err := f.Sectors(12, 0, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The runway: 1500 m behind the failure point (the climb-out so far).
+	rwLat, rwLon := l.Frame.Inverse(0, -1500)
+	possible := func(h float64) bool {
+		st := Start{Lat: 0, Lon: 0, Alt: h}
+		res, err := FootprintFromState(context.Background(), l, st, stateSectors(l, 0, 0, h, ss), ConstantLoss(E), FootprintOptions{Reserve: 0})
+		if err != nil {
+			t.Fatal(err)
+		}
+		a, ok := res.ArrivalAt(rwLat, rwLon)
+		return ok && a >= 0
+	}
+	// Closed form: the least, over the sectors whose cone holds the
+	// runway as seen from their start, of the sector's loss plus the glide
+	// from its start to the runway, |(0, −1500) − (E_s, N_s)| / E. (After a
+	// half turn the aircraft is 2r to the side, so the sector that points at
+	// the runway has turned a little more than 180°.)
+	need := math.Inf(1)
+	for _, s := range ss {
+		b := math.Atan2(0-s.East, -1500-s.North) * 180 / math.Pi
+		if d := math.Mod(b-s.TrackDeg+540, 360) - 180; math.Abs(d) <= s.HalfDeg {
+			need = math.Min(need, s.Height+math.Hypot(s.East, -1500-s.North)/E)
+		}
+	}
+	if need < 150 || need > 400 {
+		t.Fatalf("turn-back height %.0f m outside the plausible 150..400 m", need)
+	}
+	if possible(150) {
+		t.Errorf("turn back possible from 150 m (needs %.0f m)", need)
+	}
+	if !possible(need + 5) {
+		t.Errorf("turn back not possible from %.0f m (needs %.0f m)", need+5, need)
+	}
+	if possible(need - 5) {
+		t.Errorf("turn back possible from %.0f m (needs %.0f m)", need-5, need)
+	}
+}
