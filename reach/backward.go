@@ -67,7 +67,7 @@ var ErrNoTargets = errors.New("reach: no landing field lies on the terrain windo
 // Footprint. Targets off the window or on a void are skipped; ErrNoTargets
 // if none is left.
 func Required(ctx context.Context, ground *terrain.Local, targets []Target, model LossModel, opts RequiredOptions) (*RequiredResult, error) {
-	return required(ctx, ground, targets, model, opts, nil)
+	return required(ctx, ground, targets, model, opts, nil, true)
 }
 
 // required is Required with a hook that may adjust each propagation before
@@ -84,7 +84,7 @@ func Required(ctx context.Context, ground *terrain.Local, targets []Target, mode
 // (each set's run is the one the whole window would have made: the same
 // table, the same queue bounds, the same cells). No two workers sweep the
 // same cells.
-func required(ctx context.Context, ground *terrain.Local, targets []Target, model LossModel, opts RequiredOptions, hook func(p *propagation, c0, r0 int)) (*RequiredResult, error) {
+func required(ctx context.Context, ground *terrain.Local, targets []Target, model LossModel, opts RequiredOptions, hook func(p *propagation, c0, r0 int), merge bool) (*RequiredResult, error) {
 	if ground == nil || ground.Cols < 2 || ground.Rows < 2 {
 		return nil, errors.New("reach: backward reach needs a terrain window of at least 2×2 cells")
 	}
@@ -187,6 +187,9 @@ func required(ctx context.Context, ground *terrain.Local, targets []Target, mode
 	})
 	if err != nil {
 		return nil, err
+	}
+	if !merge {
+		return &RequiredResult{Ground: ground, Targets: targets}, nil
 	}
 	res := &RequiredResult{Ground: ground, Targets: targets, Best: make([]int16, n)}
 	if len(sets) == 1 && results[0].l == ground {
@@ -330,6 +333,15 @@ func (r *RequiredResult) RequiredAt(lat, lon float64) (alt float64, best int, ok
 	tx, ty := fx-float64(c), fy-float64(rr)
 	i := rr*g.Cols + c
 	v := [4]float32{r.Required[i], r.Required[i+1], r.Required[i+g.Cols], r.Required[i+g.Cols+1]}
+	b := [4]int16{r.Best[i], r.Best[i+1], r.Best[i+g.Cols], r.Best[i+g.Cols+1]}
+	return bilinearRequired(v, b, tx, ty)
+}
+
+// bilinearRequired interpolates the least altitudes v of the four cells
+// (c, r), (c+1, r), (c, r+1), (c+1, r+1) at weights tx, ty toward the
+// second column and row; NaN where a cell of positive weight has no value.
+// best is the field of the cell of largest weight.
+func bilinearRequired(v [4]float32, bestOf [4]int16, tx, ty float64) (alt float64, best int, ok bool) {
 	w := [4]float64{(1 - tx) * (1 - ty), tx * (1 - ty), (1 - tx) * ty, tx * ty}
 	sum, bestW := 0.0, -1.0
 	best = -1
@@ -343,7 +355,7 @@ func (r *RequiredResult) RequiredAt(lat, lon float64) (alt float64, best int, ok
 		sum += float64(v[k]) * w[k]
 		if w[k] > bestW {
 			bestW = w[k]
-			best = int(r.Best[[4]int{i, i + 1, i + g.Cols, i + g.Cols + 1}[k]])
+			best = int(bestOf[k])
 		}
 	}
 	return sum, best, true
@@ -364,7 +376,12 @@ func RequiredFrom(ctx context.Context, ground *terrain.Local, target Target, mod
 	c0, r0 := min(int(fx), g.Cols-2), min(int(fy), g.Rows-2)
 	need := []int{r0*g.Cols + c0, r0*g.Cols + c0 + 1, (r0+1)*g.Cols + c0, (r0+1)*g.Cols + c0 + 1}
 	opts.Workers = 1
-	res, err := required(ctx, ground, []Target{target}, model, opts, func(p *propagation, wc0, wr0 int) {
+	// The run's values are read at the point's four cells only (as
+	// RequiredAt does), not merged into a raster of the whole window.
+	var run *propagation
+	var rc0, rr0 int
+	_, err = required(ctx, ground, []Target{target}, model, opts, func(p *propagation, wc0, wr0 int) {
+		run, rc0, rr0 = p, wc0, wr0
 		// The point's cells in the run's window; those outside it are
 		// beyond reach from the ceiling and never close.
 		var in []int
@@ -387,11 +404,19 @@ func RequiredFrom(ctx context.Context, ground *terrain.Local, target Target, mod
 			}
 			return true
 		}
-	})
+	}, false)
 	if err != nil {
 		return math.NaN(), false, err
 	}
-	a, _, ok := res.RequiredAt(lat, lon)
+	var v [4]float32
+	for k, q := range need {
+		c, r := q%g.Cols-rc0, q/g.Cols-rr0
+		v[k] = float32(math.NaN())
+		if c >= 0 && r >= 0 && c < run.cols && r < run.rows {
+			v[k] = run.val[r*run.cols+c]
+		}
+	}
+	a, _, ok := bilinearRequired(v, [4]int16{}, fx-float64(c0), fy-float64(r0))
 	return a, ok, nil
 }
 
