@@ -139,19 +139,30 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 // dirIndex splits a bearing (radians) into the tabulated direction below it
 // and the blend weight toward the next one.
 func (t *descent) dirIndex(bearing float64) (d0, d1 int, w float64) {
-	f := bearing / t.dirStep
+	return t.splitDir(bearing / t.dirStep)
+}
+
+// splitDir splits f, a direction in units of the table's direction step (any
+// real value; it is reduced modulo nDir), into the tabulated direction d0 at
+// or below it, the next one d1 (wrapping to 0 after the last), and the blend
+// weight w ∈ [0, 1) toward d1. A value a hair below a multiple of nDir
+// (e.g. −1e-15) reduces to exactly nDir in floating point; that is direction
+// 0 with weight 0, never direction 0 with weight nDir (which extrapolated
+// the blend far beyond both tabulated columns). NaN gives direction 0.
+func (t *descent) splitDir(f float64) (d0, d1 int, w float64) {
 	n := float64(t.nDir)
-	if f < 0 {
-		f += n
-		if f < 0 {
-			f -= math.Floor(f/n) * n
+	if !(f >= 0 && f < n) {
+		if math.IsNaN(f) || math.IsInf(f, 0) {
+			return 0, 1, 0
 		}
-	} else if f >= n {
 		f -= math.Floor(f/n) * n
+		if f < 0 { // a tiny negative f whose f/n underflowed to −0
+			f += n
+		}
 	}
 	d0 = int(f)
-	if d0 >= t.nDir {
-		d0 = 0
+	if d0 >= t.nDir { // f rounded up to n
+		d0, f = 0, 0
 	}
 	w = f - float64(d0)
 	d1 = d0 + 1
@@ -271,20 +282,7 @@ func (t *descent) departVec(h, dx, dy, L float64) float64 {
 
 // vecIndex is dirIndex for the bearing of the vector (dx east, dy north).
 func (t *descent) vecIndex(dx, dy float64) (d0, d1 int, w float64) {
-	f := bearingOf(dx, dy) * t.invStep
-	if f < 0 {
-		f += float64(t.nDir)
-	}
-	d0 = int(f)
-	if d0 >= t.nDir {
-		d0 = 0
-	}
-	w = f - float64(d0)
-	d1 = d0 + 1
-	if d1 == t.nDir {
-		d1 = 0
-	}
-	return d0, d1, w
+	return t.splitDir(bearingOf(dx, dy) * t.invStep)
 }
 
 func (t *descent) arriveBlend(d0, d1 int, w, h, L float64) float64 {

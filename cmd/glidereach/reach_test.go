@@ -390,3 +390,74 @@ func TestOutputNamesCheckedByEveryCommand(t *testing.T) {
 		}
 	}
 }
+
+func TestReachFieldsOnTheCardinalLines(t *testing.T) {
+	// Regression (issue 11, defect 1): a field due north of the start (same
+	// longitude) got an arrival of 1845 m above the field from a 1500 m
+	// start and a required altitude of 583 m, because the direction blend of
+	// the descent tables wrapped wrongly at bearing 0/360. Every field on or
+	// a hair beside the start's meridian and parallel must agree with the
+	// final glide to the same point (the final glide integrates the speed-to-
+	// fly table on the geodesic's own track, independently of the footprint;
+	// the two commands compute the same quantity, so they must agree) within
+	// 1.5 m (outputs are rounded to 0.1 m or 1 m, and the footprint's
+	// straight frame line is within a metre of the geodesic over 10 km).
+	const lat0, lon0 = 50.0, -1.0
+	const dLat, dLon = 0.088846475148735, 0.138
+	pts := [][2]float64{
+		{lat0 + dLat, lon0}, {lat0 + dLat, lon0 + 1e-9}, {lat0 + dLat, lon0 - 1e-9}, {lat0 + dLat, lon0 + 1e-7},
+		{lat0 - dLat, lon0}, {lat0 - dLat, lon0 - 1e-9},
+		{lat0, lon0 + dLon}, {lat0 + 1e-9, lon0 - dLon}, {lat0 - 1e-9, lon0 - dLon},
+	}
+	var feats []string
+	for i, p := range pts {
+		feats = append(feats, fmt.Sprintf(`{"type":"Feature","properties":{"name":"F%d"},"geometry":{"type":"Point","coordinates":[%.15f,%.15f]}}`, i, p[1], p[0]))
+	}
+	fields := filepath.Join(t.TempDir(), "fields.geojson")
+	if err := os.WriteFile(fields, []byte(`{"type":"FeatureCollection","features":[`+strings.Join(feats, ",")+`]}`), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	common := []string{"--aircraft", "trainer", "--wind", "250/15kt", "--format", "json"}
+	code, out, stderr := runCLI(t, append([]string{"reach", "--from", "50,-1", "--alt", "1500m", "--fields", fields}, common...)...)
+	if code != 0 {
+		t.Fatalf("reach: exit %d: %s", code, stderr)
+	}
+	var r struct {
+		Fields []struct {
+			Name     string  `json:"name"`
+			Arrival  float64 `json:"arrival_agl_m"`
+			Required float64 `json:"required_msl_m"`
+		} `json:"fields"`
+	}
+	if err := json.Unmarshal([]byte(out), &r); err != nil {
+		t.Fatal(err)
+	}
+	if len(r.Fields) != len(pts) {
+		t.Fatalf("%d fields in the output, want %d", len(r.Fields), len(pts))
+	}
+	for _, f := range r.Fields {
+		i, err := strconv.Atoi(strings.TrimPrefix(f.Name, "F"))
+		if err != nil || i < 0 || i >= len(pts) {
+			t.Fatalf("unexpected field %q", f.Name)
+		}
+		p := pts[i]
+		to := strconv.FormatFloat(p[0], 'f', 15, 64) + "," + strconv.FormatFloat(p[1], 'f', 15, 64)
+		code, out, stderr := runCLI(t, append([]string{"final", "--from", "50,-1", "--alt", "1500m", "--to", to}, common...)...)
+		if code != 0 {
+			t.Fatalf("final to %s: exit %d: %s", to, code, stderr)
+		}
+		var g struct {
+			Arrival  float64 `json:"arrival_agl_m"`
+			Required float64 `json:"required_msl_m"`
+		}
+		if err := json.Unmarshal([]byte(out), &g); err != nil {
+			t.Fatal(err)
+		}
+		if f.Arrival >= 1500 || math.Abs(f.Arrival-g.Arrival) > 1.5 {
+			t.Errorf("%s at %s: reach arrives %.1f m above the field, the final glide %.1f m", f.Name, to, f.Arrival, g.Arrival)
+		}
+		if math.Abs(f.Required-g.Required) > 1.5 {
+			t.Errorf("%s at %s: reach needs %.1f m MSL, the final glide %.1f m", f.Name, to, f.Required, g.Required)
+		}
+	}
+}

@@ -1,0 +1,94 @@
+package reach
+
+import (
+	"math"
+	"testing"
+)
+
+// skewLoss is a loss model with a different glide ratio in every direction
+// and no symmetry about north (a tailwind from about 220°): the direction
+// blend of the descent table shows up in its figures.
+func skewLoss(e float64) LossFunc {
+	return func(h, b float64) float64 { return 1 / (e * (1 + 0.3*math.Sin(b-0.7))) }
+}
+
+// wrapBearings returns bearings (radians) at every multiple of 90° and a
+// hair either side of it: ±1e-9° and ±1e-15 rad (the latter rounds to the
+// multiple when reduced to [0, 360°) — the case that broke the blend).
+func wrapBearings() []float64 {
+	var out []float64
+	for k := -1; k <= 4; k++ {
+		base := float64(k) * math.Pi / 2
+		for _, d := range []float64{0, 1e-9 * math.Pi / 180, -1e-9 * math.Pi / 180, 1e-15, -1e-15, 5e-324, -5e-324} {
+			out = append(out, base+d)
+		}
+	}
+	return out
+}
+
+func TestDescentDirectionWrap(t *testing.T) {
+	// Regression (issue 11, defect 1): a track a hair west of north reduced
+	// to exactly 360° and was blended as direction 0 with weight 360, which
+	// extrapolated the two columns: a field due north of the start got an
+	// arrival hundreds of metres above the start.
+	//
+	// Reference: with a loss that does not depend on altitude the descent
+	// on a held track is the straight line h₂ = h₁ − λ(θ)·L (definition of
+	// the loss, no source needed); the table's 1° columns are linear in
+	// between, so the figures agree within 0.1 % of the height lost.
+	m := skewLoss(12)
+	d, err := newDescentFor(m, 0, 2000)
+	if err != nil {
+		t.Fatal(err)
+	}
+	const h, L = 1800.0, 6000.0
+	for _, b := range wrapBearings() {
+		d0, d1, w := d.dirIndex(b)
+		if d0 < 0 || d0 >= d.nDir || d1 < 0 || d1 >= d.nDir || !(w >= 0 && w < 1) {
+			t.Errorf("bearing %.17g: dirIndex = %d, %d, %g", b, d0, d1, w)
+		}
+		want := h - m.Loss(h, b)*L
+		tol := 1e-3 * (h - want)
+		if got := d.arrive(h, b, L); math.Abs(got-want) > tol {
+			t.Errorf("arrive on bearing %.17g rad: %.3f m, want %.3f m", b, got, want)
+		}
+		if got := d.depart(want, b, L); math.Abs(got-h) > tol {
+			t.Errorf("depart on bearing %.17g rad: %.3f m, want %.3f m", b, got, h)
+		}
+		// The same track given as a vector, as the any-angle search does.
+		dx, dy := math.Sin(b), math.Cos(b)
+		if got := d.arriveVec(h, dx, dy, L); math.Abs(got-want) > tol {
+			t.Errorf("arriveVec (%.17g, %.17g): %.3f m, want %.3f m", dx, dy, got, want)
+		}
+		if got := d.departVec(want, dx, dy, L); math.Abs(got-h) > tol {
+			t.Errorf("departVec (%.17g, %.17g): %.3f m, want %.3f m", dx, dy, got, h)
+		}
+	}
+	// Vectors a hair west of north, as a frame projection gives for a field
+	// on the start's meridian.
+	for _, dx := range []float64{-1e-13, -1e-16, -5e-324, 1e-13} {
+		want := h - m.Loss(h, 0)*L
+		if got := d.arriveVec(h, dx, 1, L); math.Abs(got-want) > 1e-3*(h-want) {
+			t.Errorf("arriveVec (%g, 1): %.3f m, want %.3f m", dx, got, want)
+		}
+	}
+}
+
+func TestTableGridDirectionWrap(t *testing.T) {
+	// The speed-to-fly table and the final glide's track table locate a
+	// bearing with tableGrid.cell: at and a hair either side of every
+	// multiple of 90° the columns must be valid and the weight in [0, 1]
+	// (the descent table's wrap bug, issue 11 defect 1, must not exist
+	// here either).
+	g := tableGrid{hMin: 0, hMax: 1000, dh: 50, nh: 21, nd: TableDirections}
+	for _, b := range wrapBearings() {
+		_, _, j0, j1, tb, ok := g.cell(500, b)
+		if !ok || j0 < 0 || j0 >= g.nd || j1 < 0 || j1 >= g.nd || !(tb >= 0 && tb <= 1) {
+			t.Errorf("bearing %.17g: columns %d, %d, weight %g, ok %v", b, j0, j1, tb, ok)
+		}
+		// Within 1e-9° of a multiple of 90° the weight sits at an end.
+		if j0%90 != 0 && j1%90 != 0 {
+			t.Errorf("bearing %.17g: columns %d, %d are not beside a multiple of 90°", b, j0, j1)
+		}
+	}
+}
