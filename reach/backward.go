@@ -253,3 +253,52 @@ func RequiredFrom(ctx context.Context, ground *terrain.Local, target Target, mod
 	a, _, ok := res.RequiredAt(lat, lon)
 	return a, ok, nil
 }
+
+// RequiredForward returns the least start altitude (m MSL) at the point
+// (lat, lon) in lo..hi from which a Footprint with opts arrives at target
+// with at least its reserve (ArrivalAt ≥ Elev + Reserve), by bisection on
+// forward runs until the bracket is narrower than tol metres; the upper end
+// is returned, so the forward run from it reaches the field. ok is false
+// when even hi does not. It costs one footprint per step and serves to
+// settle the cases where the backward solver's figure and the forward one's
+// verdict disagree (both searches are near-optimal, not optimal, and may
+// bend their paths at different cells).
+//
+// lo must be above the terrain at the point; the forward solver is assumed
+// monotone in the start altitude (a property test checks it).
+func RequiredForward(ctx context.Context, ground *terrain.Local, lat, lon float64, target Target, model LossModel, opts FootprintOptions, lo, hi, tol float64) (alt float64, ok bool, err error) {
+	if !(hi >= lo) || !(tol > 0) {
+		return math.NaN(), false, fmt.Errorf("reach: RequiredForward: bad bracket %g..%g m or tolerance %g m", lo, hi, tol)
+	}
+	opts.Reserve = target.Reserve
+	reaches := func(h float64) (bool, error) {
+		f, err := Footprint(ctx, ground, Start{Lat: lat, Lon: lon, Alt: h}, model, opts)
+		if err != nil {
+			return false, err
+		}
+		a, ok := f.ArrivalAt(target.Lat, target.Lon)
+		return ok && a >= target.Elev+target.Reserve, nil
+	}
+	r, err := reaches(hi)
+	if err != nil || !r {
+		return math.NaN(), false, err
+	}
+	if r, err := reaches(lo); err != nil {
+		return math.NaN(), false, err
+	} else if r {
+		return lo, true, nil
+	}
+	for hi-lo > tol {
+		mid := (lo + hi) / 2
+		r, err := reaches(mid)
+		if err != nil {
+			return math.NaN(), false, err
+		}
+		if r {
+			hi = mid
+		} else {
+			lo = mid
+		}
+	}
+	return hi, true, nil
+}

@@ -122,6 +122,7 @@ type reachRun struct {
 	startElev  float64
 	heading    float64
 	res        *reach.FootprintResult
+	members    []*reach.FootprintResult // one per wind of setup.Winds (res is their Intersect)
 	levels     []reach.Level
 	fields     []fieldResult
 	farthest   float64
@@ -334,7 +335,7 @@ func computeReachFrom(ctx context.Context, setup *glideSetup, gr ground, pos *po
 	if err != nil {
 		return nil, err
 	}
-	run.res = res
+	run.res, run.members = res, members
 	levels := append([]float64{setup.Reserve}, extraLevels...)
 	sort.Sort(sort.Reverse(sort.Float64Slice(levels))) // highest first, as a pilot reads them
 	run.levels = res.Rings(dedupe(levels))
@@ -405,7 +406,6 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 	if err == nil {
 		fr.DistanceM, fr.BearingDeg = s, math.Mod(az+360, 360)
 	}
-	x, y := l.Frame.Forward(f.Lat, f.Lon)
 	te, onWindow := pointElevation(l, run.grid, f.Lat, f.Lon)
 	switch {
 	case f.HasElevation:
@@ -433,8 +433,8 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 	} else {
 		fr.Note = "beyond the computed window: out of reach"
 	}
-	// The least start altitude: backward from the field over a window that
-	// holds both the field and the start. From a failure state the glide
+	// The least start altitude: backward from the field. From a failure
+	// state the glide
 	// starts at the sector start that claims the field, and what the
 	// failure costs before it (the start's altitude less the sector's) is
 	// added.
@@ -449,17 +449,13 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 		}
 		fromLat, fromLon, cost = sec.Start.Lat, sec.Start.Lon, run.startAlt-sec.Start.Alt
 	}
+	// Backward from the field over the whole forward window (RequiredFrom
+	// stops as soon as the start's cells are final, so only ground needing
+	// less altitude than the start's figure is searched). A box around
+	// start and field missed the way around a ridge with open ends and
+	// contradicted the forward figures.
 	win := l
-	if onWindow {
-		// The backward propagation needs only the ground between the field
-		// and the start and around them; a path that would leave this box
-		// is not found, which can only raise the figure (conservative).
-		sx, sy := l.Frame.Forward(fromLat, fromLon)
-		m := 0.5*math.Hypot(x-sx, y-sy) + 3000
-		if c := l.Crop(math.Min(x, sx)-m, math.Min(y, sy)-m, math.Max(x, sx)+m, math.Max(y, sy)+m); c != nil && c.Cols >= 2 && c.Rows >= 2 {
-			win = c
-		}
-	} else {
+	if !onWindow {
 		midLat, midLon := (run.startLat+f.Lat)/2, (run.startLon+f.Lon)/2
 		w, _, err := run.ground.window(midLat, midLon, s/2*1.3+2000)
 		if err != nil {
@@ -469,20 +465,26 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 		win = w
 	}
 	ceiling := math.Max(run.startAlt, fr.ElevationM+reserve) + 4000
+	target := reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: fr.ElevationM, Reserve: reserve}
 	req, ok := math.Inf(-1), true
 	for k := range run.setup.Winds {
 		tab, err := run.fieldTable(k, math.Min(lowest(win), fr.ElevationM)-60, ceiling+60)
 		if err != nil {
 			return fr, &input.UsageError{Where: "--aircraft", Err: err}
 		}
-		r, rok, err := reach.RequiredFrom(ctx, win, reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: fr.ElevationM, Reserve: reserve}, tab,
+		r, rok, err := reach.RequiredFrom(ctx, win, target, tab,
 			reach.RequiredOptions{Clearance: run.setup.Clearance, Ceiling: ceiling}, fromLat, fromLon)
 		if err != nil {
-			if errors.Is(err, reach.ErrNoTargets) || errors.Is(err, reach.ErrStartOffGround) {
-				ok = false
-				break
+			if !errors.Is(err, reach.ErrNoTargets) && !errors.Is(err, reach.ErrStartOffGround) {
+				return fr, err
 			}
-			return fr, err
+			rok = false
+		}
+		if onWindow && run.sectors == nil {
+			r, rok, err = run.reconcile(ctx, k, l, target, tab, r, rok, ceiling)
+			if err != nil {
+				return fr, err
+			}
 		}
 		if !rok {
 			ok = false
@@ -496,4 +498,60 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 		fr.Note = fmt.Sprintf("not reachable from below %.0f m MSL", ceiling)
 	}
 	return fr, nil
+}
+
+// reconcile makes the required altitude r of wind k agree with the forward
+// footprint's verdict at the start: a start at or above the required
+// altitude reaches the field with the reserve, one below does not. Both
+// searches are near-optimal (their paths may bend at different cells), so
+// where the backward figure and the forward verdict disagree — the forward
+// run reaches the field but r is above the start or missing, or it does
+// not but r is at or below the start — the figure is found again by
+// bisection on forward runs from the start (reach.RequiredForward, to
+// 0.25 m), which is what the verdict rests on. Neither figure is derived
+// from the other by subtraction.
+func (run *reachRun) reconcile(ctx context.Context, k int, l *terrain.Local, target reach.Target, tab reach.LossModel, r float64, rok bool, ceiling float64) (float64, bool, error) {
+	a, reached := run.members[k].ArrivalAt(target.Lat, target.Lon)
+	reachable := reached && a >= target.Elev+target.Reserve
+	start := run.startAlt
+	if reachable == (rok && r <= start) {
+		return r, rok, nil
+	}
+	opts := reach.FootprintOptions{Clearance: run.setup.Clearance}
+	base := math.Max(run.startElev+1, target.Elev+target.Reserve) // no glide climbs
+	find := func(lo, hi float64) (float64, bool, error) {
+		lo = math.Max(lo, base)
+		if hi < lo {
+			return math.NaN(), false, nil
+		}
+		v, ok, err := reach.RequiredForward(ctx, l, run.startLat, run.startLon, target, tab, opts, lo, hi, 0.25)
+		if err == nil && ok && v == lo && lo > base {
+			// Reached already at the guessed bottom: search down to base.
+			return reach.RequiredForward(ctx, l, run.startLat, run.startLon, target, tab, opts, base, lo, 0.25)
+		}
+		return v, ok, err
+	}
+	if reachable {
+		// The forward run reaches the field: the figure is at most the start.
+		guess := start - 1.1*(a-target.Elev-target.Reserve) - 20
+		v, ok, err := find(guess, start)
+		if err != nil || !ok {
+			return start, true, err // the start itself reaches it
+		}
+		return math.Min(v, start), true, nil
+	}
+	// The forward run does not reach it: the figure is above the start.
+	short := 50.0
+	if reached {
+		short = target.Elev + target.Reserve - a
+	}
+	hi := math.Min(start+1.2*short+20, ceiling)
+	v, ok, err := find(start, hi)
+	if err == nil && !ok && hi < ceiling {
+		v, ok, err = find(hi, ceiling)
+	}
+	if err != nil || !ok {
+		return math.NaN(), false, err
+	}
+	return math.Max(v, math.Nextafter(start, math.Inf(1))), true, nil
 }
