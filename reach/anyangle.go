@@ -19,6 +19,9 @@ const (
 // noParentObs is the obstruction of a segment with no intermediate cells.
 const noParentObs = float32(-1e30)
 
+// noTop is the top of a path that is nowhere below the clearance.
+var noTop = float32(math.Inf(-1))
+
 // source is a virtual point where a propagation starts: the start of a
 // forward footprint or a landing field of a backward one. X, Y are in cell
 // units of the raster (cell (c, r) has its centre at (c, r)).
@@ -56,13 +59,22 @@ type propagation struct {
 	cols, rows int
 	cell       float64
 
-	val   []float32 // forward: best arrival altitude; backward: least required altitude (m MSL); NaN none
-	obs   []float32
+	val []float32 // forward: best arrival altitude; backward: least required altitude (m MSL); NaN none
+	obs []float32
+	// top (forward) is the highest terrain (m MSL) under the points of the
+	// path to each cell where the glide is below the clearance (the cell
+	// itself included), −Inf when there is none: the path is a valid glide
+	// to a landing point only when that point's ground is at least as high
+	// (the terrain floor, DEVELOPERS.md "Reserve and clearance").
+	top   []float32
 	par   []int32 // ≥ 0 parent cell; −1−k virtual source k
 	state []uint8
 	src   []uint16 // backward: which source the value leads to
-	srcs  []source
-	queue *bucketQueue
+	// fieldElev (backward) is the elevation (m MSL) of the field of each
+	// source Index, for the terrain floor.
+	fieldElev []float32
+	srcs      []source
+	queue     *bucketQueue
 	// stop, if not nil, is asked after each expansion whether the run may
 	// end early (the cells a caller needs are final).
 	stop func(cell int) bool
@@ -81,6 +93,11 @@ func newPropagation(l *terrain.Local, d *descent, backward bool) *propagation {
 	}
 	if backward {
 		p.src = make([]uint16, n)
+	} else {
+		p.top = make([]float32, n)
+		for i := range p.top {
+			p.top[i] = noTop
+		}
 	}
 	return p
 }
@@ -140,17 +157,17 @@ func (p *propagation) segment(px, py, pv float64, qc, qr int) float64 {
 	return p.desc.arriveVec(pv, dx, dy, L)
 }
 
-// rayObs returns the obstruction met on the segment from parent pi at
-// (px, py) to cell (qc, qr), up to but excluding the cell, and whether it
-// could be decided from cells that share the parent.
-func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, bool) {
+// rayCells finds the two cells either side of the segment from parent pi at
+// (px, py) to cell (qc, qr), one step back toward the parent, and which of
+// them the segment's figures may be read from (they must share the parent):
+// useA, useB, with u the weight of b. short is true when the segment has no
+// intermediate cell; ok is false when neither cell can be used.
+func (p *propagation) rayCells(pi int32, px, py float64, qc, qr int) (ia, ib int, u float64, useA, useB, short, ok bool) {
 	dx, dy := float64(qc)-px, float64(qr)-py
 	adx, ady := math.Abs(dx), math.Abs(dy)
-	var ia, ib int // cells either side of the ray one step back
-	var u float64  // weight of ib
 	if adx >= ady {
 		if adx <= 1 {
-			return noParentObs, true
+			return 0, 0, 0, false, false, true, true
 		}
 		sx := 1
 		if dx < 0 {
@@ -161,19 +178,19 @@ func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, boo
 		r0 := int(math.Floor(yb))
 		u = yb - float64(r0)
 		if cb < 0 || cb >= p.cols || r0 < 0 || r0 >= p.rows {
-			return 0, false
+			return 0, 0, 0, false, false, false, false
 		}
 		ia = r0*p.cols + cb
 		ib = ia
 		if u > 1e-9 {
 			if r0+1 >= p.rows {
-				return 0, false
+				return 0, 0, 0, false, false, false, false
 			}
 			ib = ia + p.cols
 		}
 	} else {
 		if ady <= 1 {
-			return noParentObs, true
+			return 0, 0, 0, false, false, true, true
 		}
 		sy := 1
 		if dy < 0 {
@@ -184,13 +201,13 @@ func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, boo
 		c0 := int(math.Floor(xb))
 		u = xb - float64(c0)
 		if rb < 0 || rb >= p.rows || c0 < 0 || c0 >= p.cols {
-			return 0, false
+			return 0, 0, 0, false, false, false, false
 		}
 		ia = rb*p.cols + c0
 		ib = ia
 		if u > 1e-9 {
 			if c0+1 >= p.cols {
-				return 0, false
+				return 0, 0, 0, false, false, false, false
 			}
 			ib = ia + 1
 		}
@@ -199,13 +216,56 @@ func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, boo
 	okB := p.par[ib] == pi && p.state[ib] != cellUntouched
 	switch {
 	case okA && okB:
-		return p.obs[ia]*float32(1-u) + p.obs[ib]*float32(u), true
+		return ia, ib, u, true, true, false, true
 	case okA && u <= 0.5:
-		return p.obs[ia], true
+		return ia, ib, u, true, false, false, true
 	case okB && u >= 0.5:
-		return p.obs[ib], true
+		return ia, ib, u, false, true, false, true
 	}
-	return 0, false
+	return 0, 0, 0, false, false, false, false
+}
+
+// rayObs returns the obstruction met on the segment from parent pi at
+// (px, py) to cell (qc, qr), up to but excluding the cell, and whether it
+// could be decided from cells that share the parent.
+func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, bool) {
+	ia, ib, u, useA, useB, short, ok := p.rayCells(pi, px, py, qc, qr)
+	switch {
+	case !ok:
+		return 0, false
+	case short:
+		return noParentObs, true
+	case useA && useB:
+		return p.obs[ia]*float32(1-u) + p.obs[ib]*float32(u), true
+	case useA:
+		return p.obs[ia], true
+	}
+	return p.obs[ib], true
+}
+
+// rayTop is rayObs for the forward terrain floor: the highest terrain (m
+// MSL) under the points of the segment where the glide is below the
+// clearance, up to but excluding the cell, or −Inf when there is none. It
+// takes the larger of the two cells' figures (conservative).
+func (p *propagation) rayTop(pi int32, px, py float64, qc, qr int) (float32, bool) {
+	ia, ib, _, useA, useB, short, ok := p.rayCells(pi, px, py, qc, qr)
+	switch {
+	case !ok:
+		return 0, false
+	case short:
+		if pi < 0 {
+			return noTop, true
+		}
+		return p.top[pi], true
+	}
+	t := noTop
+	if useA {
+		t = max(t, p.top[ia])
+	}
+	if useB {
+		t = max(t, p.top[ib])
+	}
+	return t, true
 }
 
 // offer records value v at cell q reached from parent pi with obstruction
@@ -216,7 +276,9 @@ func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, boo
 // ground its neighbours are offered end values through it (endOnly), so the
 // contours below the clearance (down to touching the ground) are traced
 // with the last part of the glide below the clearance, as a landing is.
-func (p *propagation) offer(q int, pi int32, v float64, prev float32, srcIdx uint16, endOnly bool) {
+// top is the highest terrain under the path's points below the clearance
+// before q (forward; noTop when there is none).
+func (p *propagation) offer(q int, pi int32, v float64, prev float32, srcIdx uint16, top float32, endOnly bool) {
 	if math.IsInf(v, 0) || math.IsNaN(v) {
 		return
 	}
@@ -230,10 +292,17 @@ func (p *propagation) offer(q int, pi int32, v float64, prev float32, srcIdx uin
 	}
 	own := t + p.clearance - vf
 	if p.backward {
+		// The terrain floor (DEVELOPERS.md "Reserve and clearance"): the
+		// glide keeps the clearance above the terrain, except where it is
+		// within the clearance of the field's own elevation over ground no
+		// higher than the field (the final part of the glide, tapering to
+		// the reserve): floor = t + min(clearance, v − field elevation).
+		own = t + min(p.clearance, vf-p.fieldElev[srcIdx]) - vf
 		if own > 0 {
-			// The glide would pass below the clearance here: the least
-			// altitude that keeps it is the clearance height itself, and the
-			// straight line through this cell is blocked for cells beyond.
+			// The glide would pass below the floor here: the least altitude
+			// that keeps it is the clearance height itself (here t is above
+			// the field), and the straight line through this cell is blocked
+			// for cells beyond.
 			vf = t + p.clearance
 			if !p.better(vf, p.val[q]) {
 				return
@@ -253,20 +322,35 @@ func (p *propagation) offer(q int, pi int32, v float64, prev float32, srcIdx uin
 	if endOnly && (p.state[q] == cellOpen || p.state[q] == cellClosed) {
 		return
 	}
-	p.val[q], p.par[q] = vf, pi
 	if own <= 0 && !endOnly {
+		p.val[q], p.par[q] = vf, pi
 		p.obs[q] = max(prev, own)
+		p.top[q] = noTop
 		p.state[q] = cellOpen
 		p.queue.push(int32(q), p.key(vf))
 		return
 	}
-	// Below the clearance: an end value (for contours and fields) only.
-	p.obs[q] = max(own, 1e-3) // positive: no line of sight passes through an end point
+	// Below the clearance (here or earlier on the path): an end value, for
+	// contours and fields, never flown over on the way elsewhere. It is a
+	// valid glide only when every point of the path below the clearance
+	// lies over ground no higher than this cell's: the terrain floor
+	// t + min(clearance, altitude − landing elevation) of DEVELOPERS.md
+	// "Reserve and clearance", the same rule as the backward solver's and
+	// the final glide's.
+	if top > t {
+		return
+	}
 	if p.state[q] == cellOpen || p.state[q] == cellClosed {
 		// An open or closed cell that gets a better value stays above the
 		// clearance (better means higher); nothing to do here.
 		return
 	}
+	p.val[q], p.par[q] = vf, pi
+	p.obs[q] = max(own, 1e-3) // positive: no line of sight passes through an end point
+	if own > 0 {
+		top = max(top, t)
+	}
+	p.top[q] = top
 	p.state[q] = cellEnd
 	if vf >= t+p.endLevel {
 		p.queue.push(int32(q), p.key(vf))
@@ -289,7 +373,7 @@ func (p *propagation) seed(k int) {
 				continue
 			}
 			v := p.segment(s.X, s.Y, s.Alt, c, r)
-			p.offer(q, pi, v, noParentObs, uint16(s.Index), false)
+			p.offer(q, pi, v, noParentObs, uint16(s.Index), noTop, false)
 		}
 	}
 }
@@ -360,19 +444,26 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 				if p.state[q] == cellEndDone {
 					continue
 				}
+				// Straight on from s's parent when the cells beside the
+				// line share it (a glide below the clearance is straight, not
+				// a chain of steps between cell centres), and bent at s.
+				if top, ok := p.rayTop(pi, px, py, qc, qr); ok {
+					v := p.segment(px, py, pv, qc, qr)
+					p.offer(q, pi, v, noParentObs, srcIdx, top, true)
+				}
 				v := p.segment(float64(sc), float64(sr), sv, qc, qr)
-				p.offer(q, int32(s), v, noParentObs, srcIdx, true)
+				p.offer(q, int32(s), v, noParentObs, srcIdx, p.top[s], true)
 				continue
 			}
 			// Straight on from s's parent, if the line of sight holds.
 			if prev, ok := p.rayObs(pi, px, py, qc, qr); ok && prev <= 0 {
 				v := p.segment(px, py, pv, qc, qr)
-				p.offer(q, pi, v, prev, srcIdx, false)
+				p.offer(q, pi, v, prev, srcIdx, noTop, false)
 				continue
 			}
 			// Otherwise the path bends at s.
 			v := p.segment(float64(sc), float64(sr), sv, qc, qr)
-			p.offer(q, int32(s), v, noParentObs, srcIdx, false)
+			p.offer(q, int32(s), v, noParentObs, srcIdx, noTop, false)
 		}
 	}
 	if progress != nil {

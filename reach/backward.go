@@ -23,8 +23,11 @@ type Target struct {
 // RequiredOptions tune a backward reach computation.
 type RequiredOptions struct {
 	// Clearance is the least height above the terrain (m) the glide keeps
-	// on the way; the least altitude at a cell is never below the terrain
-	// there plus the clearance.
+	// on the way. The floor at a point is terrain + min(Clearance, altitude
+	// − field elevation), as in Footprint and FinalGlide: over ground
+	// higher than the field the least altitude is never below the terrain
+	// plus the clearance; within the clearance of the field's elevation,
+	// over ground no higher than the field, it tapers to the reserve.
 	Clearance float64
 	// Ceiling (m MSL) bounds the altitudes computed: cells that would need
 	// more are left without a value (NaN). Zero means 6000 m.
@@ -85,7 +88,9 @@ func required(ctx context.Context, ground *terrain.Local, targets []Target, mode
 		}
 	}
 	var srcs []source
+	fieldElev := make([]float32, len(targets))
 	for i, t := range targets {
+		fieldElev[i] = float32(t.Elev)
 		x, y := ground.Frame.Forward(t.Lat, t.Lon)
 		sx, sy := (x-ground.X0)/ground.Cell, (y-ground.Y0)/ground.Cell
 		if sx < 0 || sy < 0 || sx > float64(ground.Cols-1) || sy > float64(ground.Rows-1) {
@@ -131,6 +136,7 @@ func required(ctx context.Context, ground *terrain.Local, targets []Target, mode
 			p := newPropagation(ground, d, true)
 			p.clearance = float32(opts.Clearance)
 			p.ceiling = ceiling
+			p.fieldElev = fieldElev
 			p.srcs = groups[w]
 			p.initQueue(lo-20, ceiling+20, bucketWidth(ground.Cell, d))
 			for k := range p.srcs {
@@ -276,7 +282,7 @@ func RequiredForward(ctx context.Context, ground *terrain.Local, lat, lon float6
 		if err != nil {
 			return false, err
 		}
-		a, ok := f.ArrivalAt(target.Lat, target.Lon)
+		a, ok := f.ArrivalAtField(target.Lat, target.Lon, target.Elev)
 		return ok && a >= target.Elev+target.Reserve, nil
 	}
 	r, err := reaches(hi)

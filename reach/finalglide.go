@@ -52,9 +52,11 @@ type FinalGlideOptions struct {
 	Reserve float64
 	// Clearance is the least height above the terrain (m) the glide line
 	// keeps en route. Close to the goal the demanded clearance tapers to the
-	// reserve: at a point it is min(Clearance, least altitude there − GoalElev)
-	// (see FinalGlideResult.Profile), so a reserve below the clearance does
-	// not flag the landing itself as blocked.
+	// reserve: at a point the floor is Terrain + min(Clearance, glide
+	// altitude there − GoalElev) (floorAt; the footprint and the backward
+	// solver use the same rule), so a reserve below the clearance does not
+	// flag the landing itself as blocked, while ground higher than the goal
+	// is always cleared by the full clearance.
 	Clearance float64
 	// Terrain, when not nil, gives the terrain elevation (m MSL) at a point
 	// (degrees); ok is false where it is unknown (a void, off the data). It
@@ -157,8 +159,9 @@ type GlidePoint struct {
 	// Terrain is the elevation here (m MSL), NaN when unknown or no terrain
 	// was given; Clearance = Alt − Terrain.
 	Terrain, Clearance float64
-	// Floor is the least altitude the terrain check demands here:
-	// Terrain + min(Clearance option, Least − GoalElev); NaN without terrain.
+	// Floor is the least altitude the terrain check demands here of the
+	// glide from the start altitude: Terrain + min(Clearance option,
+	// Alt − GoalElev) (see floorAt); NaN without terrain.
 	Floor float64
 	// Clear is the altitude (m MSL) here on the glide from Required, the
 	// least start altitude that keeps the floor and arrives with the
@@ -429,9 +432,6 @@ func FinalGlide(ctx context.Context, route []geodesy.LatLon, startAlt float64, p
 	res.Margin = startAlt - res.Required
 	for k := range res.Profile {
 		res.Profile[k].Least = least[k]
-		if p := &res.Profile[k]; !math.IsNaN(p.Terrain) {
-			p.Floor = p.Terrain + math.Min(opts.Clearance, least[k]-opts.GoalElev)
-		}
 	}
 
 	alt := make([]float64, n)
@@ -450,6 +450,9 @@ func FinalGlide(ctx context.Context, route []geodesy.LatLon, startAlt float64, p
 		p := &res.Profile[k]
 		p.Alt = alt[k]
 		p.Clearance = alt[k] - p.Terrain
+		if !math.IsNaN(p.Terrain) {
+			p.Floor = floorAt(p.Terrain, alt[k], opts.Clearance, opts.GoalElev)
+		}
 	}
 	res.Time = times[n-1]
 	g.legStats(res, times)
@@ -788,23 +791,46 @@ func (g *finalGlide) noHeadway(res *FinalGlideResult, startAlt float64) *FinalGl
 	return res
 }
 
-// margin returns the least Alt − Floor of the glide alt over the samples
-// with known terrain, and the sample where it occurs (−1 when none).
-func margin(prof []GlidePoint, alt []float64) (float64, int) {
-	worst, at := math.Inf(1), -1
+// floorAt is the terrain floor (m MSL) under a glide at altitude alt over
+// terrain t toward a landing point of elevation goal with clearance c:
+//
+//	floor = t + min(c, alt − goal)
+//
+// the clearance en route, and below it, where the glide is within the
+// clearance of the landing point's elevation, the ground must be no higher
+// than the landing point (floor ≤ alt exactly when t ≤ goal). The footprint
+// and the backward solver apply the same rule (DEVELOPERS.md "Reserve and
+// clearance").
+func floorAt(t, alt, c, goal float64) float64 {
+	return t + math.Min(c, alt-goal)
+}
+
+// margin returns the least alt − floor of the glide alt over the samples
+// with known terrain, the sample where it occurs (−1 when none), and the
+// rise of the whole line that would give every sample in deficit the full
+// clearance (the step of the search for the least clearing start).
+func (g *finalGlide) margin(prof []GlidePoint, alt []float64) (worst float64, at int, rise float64) {
+	worst, at = math.Inf(1), -1
+	c, goal := g.opts.Clearance, g.opts.GoalElev
 	for k, p := range prof {
-		if math.IsNaN(p.Floor) {
+		if math.IsNaN(p.Terrain) {
 			continue
 		}
-		m := alt[k] - p.Floor
+		m := alt[k] - floorAt(p.Terrain, alt[k], c, goal)
 		if math.IsNaN(m) {
 			m = math.Inf(-1)
 		}
 		if m < worst {
 			worst, at = m, k
 		}
+		if m < 0 {
+			rise = math.Max(rise, p.Terrain+c-alt[k])
+		}
 	}
-	return worst, at
+	if math.IsNaN(rise) || math.IsInf(worst, -1) {
+		rise = math.Inf(1)
+	}
+	return worst, at, rise
 }
 
 // ensureTop grows the flown table so it covers altitude h.
@@ -838,7 +864,7 @@ func (g *finalGlide) terrainCheck(ctx context.Context, res *FinalGlideResult) er
 	for k, p := range prof {
 		alt[k] = p.Alt
 	}
-	m, at := margin(prof, alt)
+	m, at, _ := g.margin(prof, alt)
 	if at < 0 {
 		tr.LeastClearAlt = res.Required
 		tr.Verified = true
@@ -859,8 +885,8 @@ func (g *finalGlide) terrainCheck(ctx context.Context, res *FinalGlideResult) er
 		if g.forward(g.tab, h0, alt) >= 0 {
 			return false, math.Inf(-1), nil
 		}
-		m, _ := margin(prof, alt)
-		return m >= 0, m, nil
+		m, _, rise := g.margin(prof, alt)
+		return m >= 0, rise, nil
 	}
 	// The least clearing start altitude S*: the altitude along the line
 	// rises with the start altitude, so the margin is monotone in it. Step
@@ -880,7 +906,7 @@ func (g *finalGlide) terrainCheck(ctx context.Context, res *FinalGlideResult) er
 			if i > 60 {
 				return fmt.Errorf("reach: final glide: no start altitude below %.0f m clears the terrain", hi)
 			}
-			d := -mlo
+			d := mlo // the rise that gives every point in deficit the full clearance
 			if math.IsInf(d, 0) || math.IsNaN(d) {
 				d = 500
 			}

@@ -19,6 +19,11 @@ type FootprintOptions struct {
 	Reserve float64
 	// Clearance is the least height above the terrain (m) the glide keeps
 	// on the way; cells below it can be end points but are not flown over.
+	// The last part of a glide may be below it only over ground no higher
+	// than the cell (or field) it ends at: the floor is terrain +
+	// min(Clearance, altitude − landing elevation), as in FinalGlide and
+	// Required, so a Reserve below the Clearance is reached on a straight
+	// glide.
 	Clearance float64
 	// Levels are further arrival heights above the ground (m) to contour.
 	Levels []float64
@@ -167,12 +172,27 @@ func (f *FootprintResult) AGL(c, r int) float64 {
 // ArrivalAt returns the best arrival altitude (m MSL) at a point (degrees):
 // the best straight final segment from the line-of-sight parents of the
 // cells around the point, so it is exact along the solver's own paths. ok is
-// false when no glide reaches there.
+// false when no glide reaches there. The landing elevation for the terrain
+// floor is the ground's own value at the point; ArrivalAtField takes it.
 func (f *FootprintResult) ArrivalAt(lat, lon float64) (alt float64, ok bool) {
+	x, y := f.Ground.Frame.Forward(lat, lon)
+	e, ok := f.Ground.Sample(x, y)
+	if !ok {
+		e = math.Inf(-1) // unknown ground: no part of the glide below the clearance counts
+	}
+	return f.ArrivalAtField(lat, lon, e)
+}
+
+// ArrivalAtField is ArrivalAt for a landing point of elevation elev (m
+// MSL): a path whose glide is below the clearance somewhere (the last part
+// of a glide to a reserve under the clearance) counts only where the
+// ground beneath those points is no higher than elev (the terrain floor of
+// DEVELOPERS.md "Reserve and clearance").
+func (f *FootprintResult) ArrivalAtField(lat, lon, elev float64) (alt float64, ok bool) {
 	if f.members != nil {
 		low := math.Inf(1)
 		for _, m := range f.members {
-			a, ok := m.ArrivalAt(lat, lon)
+			a, ok := m.ArrivalAtField(lat, lon, elev)
 			if !ok {
 				return math.NaN(), false
 			}
@@ -185,10 +205,10 @@ func (f *FootprintResult) ArrivalAt(lat, lon float64) (alt float64, ok bool) {
 	}
 	x, y := f.Ground.Frame.Forward(lat, lon)
 	gx, gy := (x-f.Ground.X0)/f.Ground.Cell, (y-f.Ground.Y0)/f.Ground.Cell
-	return f.arrivalAtCellXY(gx, gy)
+	return f.arrivalAtCellXY(gx, gy, float32(elev))
 }
 
-func (f *FootprintResult) arrivalAtCellXY(gx, gy float64) (float64, bool) {
+func (f *FootprintResult) arrivalAtCellXY(gx, gy float64, elev float32) (float64, bool) {
 	p := f.prop
 	best := math.Inf(-1)
 	c0, r0 := int(math.Floor(gx)), int(math.Floor(gy))
@@ -202,12 +222,20 @@ func (f *FootprintResult) arrivalAtCellXY(gx, gy float64) (float64, bool) {
 			if p.state[q] == cellUntouched {
 				continue
 			}
-			// Through the cell itself, and straight from its parent.
+			// Through the cell itself, and straight from its parent (a
+			// line close to the cell's own, so the cell's record of the
+			// points below the clearance stands for it too).
+			if p.top[q] > elev {
+				continue
+			}
 			for _, pi := range []int32{int32(q), p.par[q]} {
 				if seen[pi] {
 					continue
 				}
 				seen[pi] = true
+				if pi >= 0 && p.top[pi] > elev {
+					continue
+				}
 				px, py, pv := p.parentPos(pi)
 				dx, dy := gx-px, gy-py
 				L := math.Hypot(dx, dy) * p.cell

@@ -34,8 +34,8 @@ func edgeDistance(t *testing.T, f *FootprintResult, bearing, level float64) floa
 		if gx < 0 || gy < 0 || gx > float64(g.Cols-1) || gy > float64(g.Rows-1) {
 			t.Fatalf("bearing %v: ran off the window at %v m", bearing, d)
 		}
-		a, ok := f.arrivalAtCellXY(gx, gy)
 		e, _ := g.Sample(x, y)
+		a, ok := f.arrivalAtCellXY(gx, gy, float32(e))
 		v := a - e - level
 		if !ok {
 			v = -1e9

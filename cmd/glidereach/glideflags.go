@@ -93,8 +93,8 @@ func (g *glideFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&g.wind, "wind", "", "wind: calm, DIR/SPEED (270/20kt), layers (0m:240/10kt,1500m:270/20kt), or a YAML/JSON/CSV file")
 	fs.StringVar(&g.windAloft, "wind-aloft", "", "coded winds-aloft groups with levels in ft, e.g. \"3000:2714 6000:2725+05\", or a bulletin file")
 	fs.StringVar(&g.windError, "wind-error", "", "wind uncertainty DIR,SPEED (e.g. 20deg,5kt): the result holds for every wind within it (conservative)")
-	fs.Var(g.reserve, "reserve", g.reserve.Help("height above a field to arrive with (m, ft); default: the aircraft profile's ("+builtinDefaults(func(a *reach.Aircraft) float64 { return a.Reserve })+"), else 300 m; below 150 m warns, 0 warns loudly"))
-	fs.Var(g.clearance, "clearance", g.clearance.Help("least height above terrain on the way (m, ft); default: the aircraft profile's ("+builtinDefaults(func(a *reach.Aircraft) float64 { return a.Clearance })+"), else 100 m; below 50 m warns, 0 warns loudly"))
+	fs.Var(g.reserve, "reserve", g.reserve.Help("height above a field to arrive with (m, ft); default: the aircraft profile's ("+builtinDefaults(func(a *reach.Aircraft) float64 { return a.Reserve })+"), else 300 m; below 150 m warns, 0 warns loudly. It may be below the clearance: the glide then tapers from the clearance to the reserve over ground no higher than the field"))
+	fs.Var(g.clearance, "clearance", g.clearance.Help("least height above terrain on the way (m, ft); default: the aircraft profile's ("+builtinDefaults(func(a *reach.Aircraft) float64 { return a.Clearance })+"), else 100 m; below 50 m warns, 0 warns loudly. Kept over all ground higher than the field, tapering to the reserve over lower ground near it (reach, final, route and coverage alike)"))
 	// The default depends on the profile, so no single "(default …)".
 	fs.Lookup("reserve").DefValue = ""
 	fs.Lookup("clearance").DefValue = ""

@@ -425,7 +425,7 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 	}
 	reserve := run.setup.Reserve
 	if onWindow {
-		if a, ok := run.res.ArrivalAt(f.Lat, f.Lon); ok {
+		if a, ok := run.res.ArrivalAtField(f.Lat, f.Lon, fr.ElevationM); ok {
 			fr.ArrivalAGLM = a - fr.ElevationM
 			fr.MarginM = fr.ArrivalAGLM - reserve
 			fr.Reachable = fr.ArrivalAGLM >= reserve
@@ -511,7 +511,7 @@ func judgeField(ctx context.Context, run *reachRun, f input.Field, l *terrain.Lo
 // 0.25 m), which is what the verdict rests on. Neither figure is derived
 // from the other by subtraction.
 func (run *reachRun) reconcile(ctx context.Context, k int, l *terrain.Local, target reach.Target, tab reach.LossModel, r float64, rok bool, ceiling float64) (float64, bool, error) {
-	a, reached := run.members[k].ArrivalAt(target.Lat, target.Lon)
+	a, reached := run.members[k].ArrivalAtField(target.Lat, target.Lon, target.Elev)
 	reachable := reached && a >= target.Elev+target.Reserve
 	start := run.startAlt
 	if reachable == (rok && r <= start) {
