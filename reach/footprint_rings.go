@@ -5,6 +5,8 @@ import (
 	"math"
 
 	"github.com/paulmach/orb"
+
+	"glidereach/reach/geodesy"
 )
 
 // Level is one contour of a footprint: the ground reached with at least
@@ -57,6 +59,39 @@ func (f *FootprintResult) Farthest(agl float64) (dist, bearing float64) {
 		b += 360
 	}
 	return math.Sqrt(best) * g.Cell, b
+}
+
+// FarthestVertex returns the vertex of the level's outer rings farthest
+// from (lat, lon) (degrees) by geodesic distance: the point (lon/lat, as in
+// the GeoJSON output, rounded to 6 decimals), its distance (m) and its
+// bearing from the start (degrees true, 0..360). The farthest point of a
+// region from a point lies on its outer boundary, and simplification keeps
+// a subset of the contour's vertices, so this is the farthest point of the
+// ring as written. The contour lies between the last cell reached with the
+// level and the first reached below it (or not at all), so the vertex is
+// within one cell of the farthest reached cell centre. ok is false when
+// the level is empty.
+func (l *Level) FarthestVertex(lat, lon float64) (p orb.Point, dist, bearing float64, ok bool) {
+	from := geodesy.LatLon{Lat: lat, Lon: lon}
+	dist = -1
+	for _, poly := range l.Polygons {
+		if len(poly) == 0 {
+			continue
+		}
+		for _, v := range poly[0] {
+			s, az, _, err := geodesy.Inverse(from, geodesy.LatLon{Lat: v[1], Lon: v[0]})
+			if err != nil {
+				continue
+			}
+			if s > dist {
+				p, dist, bearing = v, s, math.Mod(az+360, 360)
+			}
+		}
+	}
+	if dist < 0 {
+		return orb.Point{}, 0, math.NaN(), false
+	}
+	return p, dist, bearing, true
 }
 
 // Intersect combines footprints computed on the same Ground from the same

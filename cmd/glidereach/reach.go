@@ -9,6 +9,7 @@ import (
 	"sort"
 	"sync"
 
+	"github.com/paulmach/orb"
 	"github.com/spf13/cobra"
 
 	"glidereach/cmd/glidereach/input"
@@ -125,8 +126,9 @@ type reachRun struct {
 	members    []*reach.FootprintResult // one per wind of setup.Winds (res is their Intersect)
 	levels     []reach.Level
 	fields     []fieldResult
-	farthest   float64
-	farBearing float64
+	farthest   float64       // m, geodesic, start to farPoint (0 when nothing is reached)
+	farBearing float64       // degrees true
+	farPoint   orb.Point     // the reserve ring's vertex farthest from the start (lon, lat)
 	grid       *terrain.Grid // DEM window, nil on flat ground
 
 	tablesMu sync.Mutex
@@ -339,7 +341,17 @@ func computeReachFrom(ctx context.Context, setup *glideSetup, gr ground, pos *po
 	levels := append([]float64{setup.Reserve}, extraLevels...)
 	sort.Sort(sort.Reverse(sort.Float64Slice(levels))) // highest first, as a pilot reads them
 	run.levels = res.Rings(dedupe(levels))
-	run.farthest, run.farBearing = res.Farthest(setup.Reserve)
+	// The farthest point: the reserve ring's vertex farthest from the start
+	// (geodesic), which a reader finds in the GeoJSON rings as written; it is
+	// within one cell of the farthest cell reached with the reserve.
+	for _, lv := range run.levels {
+		if lv.ArrivalAGL != setup.Reserve {
+			continue
+		}
+		if p, d, b, ok := lv.FarthestVertex(lat, lon); ok {
+			run.farthest, run.farBearing, run.farPoint = d, b, p
+		}
+	}
 
 	// Fields, two at a time (each judgement is one backward propagation).
 	run.fields = make([]fieldResult, len(fields))

@@ -461,3 +461,81 @@ func TestReachFieldsOnTheCardinalLines(t *testing.T) {
 		}
 	}
 }
+
+func TestReachFarthestIsTheRingVertex(t *testing.T) {
+	// Regression (issue 11, defect 5): the farthest point was reported 4°
+	// and 19 m off the raster's own farthest cell. It is now the reserve
+	// ring's vertex farthest from the start, and says so: the geodesic
+	// distance from the start to every outer-ring vertex of the reserve
+	// polygon in the GeoJSON (Vincenty on WGS84, checked against published
+	// values in reach/geodesy) is at most the reported one, and the reported
+	// point is one of them (0.5 m, 0.05°: coordinates are rounded to 1e-6°).
+	code, out, stderr := runCLI(t, "reach", "--from", "10,10", "--alt", "1500m", "--aircraft", "trainer", "--wind", "270/30kt", "--format", "geojson")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	var doc fc
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	var far, farDeg, farLat, farLon float64
+	var rings [][][2]float64
+	for _, f := range doc.Features {
+		switch f.Properties["kind"] {
+		case "start":
+			far, _ = f.Properties["farthest_m"].(float64)
+			farDeg, _ = f.Properties["farthest_deg"].(float64)
+			farLat, _ = f.Properties["farthest_lat"].(float64)
+			farLon, _ = f.Properties["farthest_lon"].(float64)
+			if s, _ := f.Properties["farthest_is"].(string); !strings.Contains(s, "ring") {
+				t.Errorf("farthest_is = %q, want it to name the ring vertex", s)
+			}
+		case "footprint":
+			if lv, _ := f.Properties["arrival_agl_m"].(float64); lv != 300 {
+				continue
+			}
+			var g struct {
+				Type        string          `json:"type"`
+				Coordinates json.RawMessage `json:"coordinates"`
+			}
+			if err := json.Unmarshal(f.Geometry, &g); err != nil {
+				t.Fatal(err)
+			}
+			var polys [][][][2]float64
+			if g.Type == "Polygon" {
+				var p [][][2]float64
+				if err := json.Unmarshal(g.Coordinates, &p); err != nil {
+					t.Fatal(err)
+				}
+				polys = append(polys, p)
+			} else if err := json.Unmarshal(g.Coordinates, &polys); err != nil {
+				t.Fatal(err)
+			}
+			for _, p := range polys {
+				rings = append(rings, p[0])
+			}
+		}
+	}
+	if far <= 0 || len(rings) == 0 {
+		t.Fatalf("farthest %v m, %d reserve rings", far, len(rings))
+	}
+	best, bestDeg := 0.0, 0.0
+	for _, r := range rings {
+		for _, v := range r {
+			s, az, _, err := geodesy.Inverse(geodesy.LatLon{Lat: 10, Lon: 10}, geodesy.LatLon{Lat: v[1], Lon: v[0]})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if s > best {
+				best, bestDeg = s, math.Mod(az+360, 360)
+			}
+		}
+	}
+	if math.Abs(best-far) > 0.5 || math.Abs(bestDeg-farDeg) > 0.05 {
+		t.Errorf("reported farthest %.1f m toward %.2f°, the ring's farthest vertex is %.1f m toward %.2f°", far, farDeg, best, bestDeg)
+	}
+	s, _, _, _ := geodesy.Inverse(geodesy.LatLon{Lat: 10, Lon: 10}, geodesy.LatLon{Lat: farLat, Lon: farLon})
+	if math.Abs(s-far) > 0.5 {
+		t.Errorf("the reported point %.6f, %.6f is %.1f m from the start, reported %.1f m", farLat, farLon, s, far)
+	}
+}

@@ -118,6 +118,9 @@ func startProps(run *reachRun) map[string]any {
 		"terrain":        run.ground.describe(),
 		"farthest_m":     num(run.farthest),
 		"farthest_deg":   num(run.farBearing),
+		"farthest_lat":   farCoord(run, 1),
+		"farthest_lon":   farCoord(run, 0),
+		"farthest_is":    farthestIs,
 		"assumptions":    run.setup.assumptions(),
 		"cell_size_m":    num(run.res.Ground.Cell),
 		"planning_only":  true,
@@ -159,10 +162,25 @@ func reachJSON(run *reachRun) ([]byte, error) {
 		"levels":               lv,
 		"farthest_m":           num(run.farthest),
 		"farthest_bearing_deg": num(run.farBearing),
+		"farthest_lat":         farCoord(run, 1),
+		"farthest_lon":         farCoord(run, 0),
+		"farthest_is":          farthestIs,
 		"fields":               fields,
 		"assumptions":          run.setup.assumptions(),
 	}
 	return jsonDoc(out, "  ")
+}
+
+// farthestIs says which point the farthest figures are.
+const farthestIs = "the reserve ring's vertex farthest from the start"
+
+// farCoord returns coordinate i (0 lon, 1 lat) of the farthest point, NaN
+// (null) when nothing is reached.
+func farCoord(run *reachRun, i int) any {
+	if !(run.farthest > 0) {
+		return num(math.NaN())
+	}
+	return run.farPoint[i]
 }
 
 func fmtM(v float64) string {
@@ -189,7 +207,7 @@ func writeReachText(w io.Writer, run *reachRun) {
 		fmt.Fprintf(w, "Arrive with >= %4.0f m above ground%s: %8.1f km², %d area(s)\n", lv.ArrivalAGL, tag, lv.Area/1e6, len(lv.Polygons))
 	}
 	if run.farthest > 0 {
-		fmt.Fprintf(w, "Farthest reach with the reserve: %.1f km (%.1f nm) toward %03.0f°\n", run.farthest/1000, run.farthest/1852, run.farBearing)
+		fmt.Fprintf(w, "Farthest reach with the reserve: %.1f km (%.1f nm) toward %03.0f° (%s, at %.5f, %.5f)\n", run.farthest/1000, run.farthest/1852, run.farBearing, farthestIs, run.farPoint[1], run.farPoint[0])
 	} else {
 		fmt.Fprintln(w, "No ground is reachable with the reserve from here.")
 	}
