@@ -5,7 +5,6 @@ import (
 
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/planar"
-	"github.com/paulmach/orb/simplify"
 
 	"glidereach/terrain"
 )
@@ -169,8 +168,8 @@ func contourRings(v func(c, r int) float64, cols, rows int, level float64) []orb
 	return rings
 }
 
-// polygonsFromRings simplifies rings (cell units) with Douglas–Peucker at
-// tol cells, drops outer rings smaller than minArea cells² (slivers of
+// polygonsFromRings simplifies rings (cell units) inward only at tol cells
+// (simplifyInward), drops outer rings smaller than minArea cells² (slivers of
 // reachable ground; dropping them is conservative), keeps every hole however
 // small (unreachable ground is never hidden; a hole that simplification would
 // collapse is kept as traced), and nests holes (clockwise rings) into the
@@ -178,10 +177,9 @@ func contourRings(v func(c, r int) float64, cols, rows int, level float64) []orb
 func polygonsFromRings(rings []orb.Ring, tol, minArea float64) []orb.Polygon {
 	var outers []orb.Ring
 	var holes []orb.Ring
-	dp := simplify.DouglasPeucker(tol)
 	for _, r := range rings {
 		hole := r.Orientation() != orb.CCW
-		s := dp.Ring(r.Clone())
+		s := simplifyInward(r, tol)
 		if len(s) < 4 || s.Orientation() != r.Orientation() {
 			if !hole {
 				continue // a sliver of reachable ground: dropping it is conservative
@@ -217,9 +215,79 @@ func polygonsFromRings(rings []orb.Ring, tol, minArea float64) []orb.Polygon {
 	return polys
 }
 
+// simplifyInward is Douglas–Peucker at tol that only ever moves a ring
+// toward less reach. The region of every ring lies on its left (exteriors
+// counter-clockwise, holes clockwise), so a chord may replace a stretch of
+// the ring only when every point of the stretch lies within tol of it and on
+// its right or on it: the chord then cuts that stretch off the region, never
+// adds ground beside it. Where a point lies left of the chord (a concave
+// stretch, which plain Douglas–Peucker would bridge outward over unreached
+// ground) the stretch is split there. The first point and the point
+// farthest from it are kept. r must be closed (first point = last).
+func simplifyInward(r orb.Ring, tol float64) orb.Ring {
+	n := len(r)
+	if n < 5 {
+		return r.Clone()
+	}
+	keep := make([]bool, n)
+	far, best := 0, -1.0
+	for i := 1; i < n-1; i++ {
+		dx, dy := r[i][0]-r[0][0], r[i][1]-r[0][1]
+		if d := dx*dx + dy*dy; d > best {
+			far, best = i, d
+		}
+	}
+	keep[0], keep[far], keep[n-1] = true, true, true
+	var span func(i, j int)
+	span = func(i, j int) {
+		if j-i < 2 {
+			return
+		}
+		a, b := r[i], r[j]
+		ex, ey := b[0]-a[0], b[1]-a[1]
+		l := math.Hypot(ex, ey)
+		split, worst := -1, 0.0
+		left := false
+		for k := i + 1; k < j; k++ {
+			px, py := r[k][0]-a[0], r[k][1]-a[1]
+			var side, d float64 // side > 0: left of a→b
+			if l == 0 {
+				side, d = 1, math.Hypot(px, py) // degenerate chord: keep the stretch
+			} else {
+				side = (ex*py - ey*px) / l
+				d = math.Abs(side)
+			}
+			if side > 1e-9 {
+				if !left || d > worst {
+					split, worst, left = k, d, true
+				}
+				continue
+			}
+			if !left && d > worst {
+				split, worst = k, d
+			}
+		}
+		if split < 0 || (!left && worst <= tol) {
+			return
+		}
+		keep[split] = true
+		span(i, split)
+		span(split, j)
+	}
+	span(0, far)
+	span(far, n-1)
+	out := make(orb.Ring, 0, n)
+	for i, k := range keep {
+		if k {
+			out = append(out, r[i])
+		}
+	}
+	return out
+}
+
 // ContourPolygons traces the region of Local g where v(c, r) ≥ level by
-// marching squares (NaN counts as below), simplifies the rings by
-// Douglas–Peucker to at most half a cell of error, drops regions smaller
+// marching squares (NaN counts as below), simplifies the rings inward
+// only (simplifyInward) to at most half a cell of error, drops regions smaller
 // than one cell but keeps every hole (see polygonsFromRings), nests holes
 // in their outer rings, and returns the polygons
 // in lon/lat degrees (RFC 7946 winding: exteriors counter-clockwise, holes

@@ -19,7 +19,7 @@ type Level struct {
 }
 
 // Rings contours the arrival height above ground at each level (m): marching
-// squares on the cell values, rings simplified by Douglas–Peucker to at most
+// squares on the cell values, rings simplified inward only (Douglas–Peucker that never bridges a concave stretch) to at most
 // half a cell of error, regions smaller than one cell dropped.
 func (f *FootprintResult) Rings(levels []float64) []Level {
 	g := f.Ground
