@@ -14,7 +14,12 @@ const (
 	cellClosed          // expanded; its value is final
 	cellEnd             // has a value but may only be an end point (below the clearance)
 	cellEndDone         // an end point whose neighbours have been offered end values
+	cellVoid            // a void (unknown ground, an obstacle) a line of sight has met: carries its shadow
 )
+
+// voidObs is the obstruction a void carries into the lines of sight beside
+// it: large, so a line passing within a cell of unknown ground is blocked.
+const voidObs = float32(1e4)
 
 // noParentObs is the obstruction of a segment with no intermediate cells.
 const noParentObs = float32(-1e30)
@@ -227,7 +232,12 @@ func (p *propagation) rayCells(pi int32, px, py float64, qc, qr int) (ia, ib int
 
 // rayObs returns the obstruction met on the segment from parent pi at
 // (px, py) to cell (qc, qr), up to but excluding the cell, and whether it
-// could be decided from cells that share the parent.
+// could be decided from cells that share the parent. Where only one of the
+// two cells beside the line shares the parent, the other one's ground still
+// counts where the line passes between them: the obstruction there is the
+// ground interpolated linearly between the two cell centres, plus the floor,
+// minus the altitude of the shared cell (a one-cell wall beside the line is
+// not ignored because its own value came along another path).
 func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, bool) {
 	ia, ib, u, useA, useB, short, ok := p.rayCells(pi, px, py, qc, qr)
 	switch {
@@ -237,18 +247,75 @@ func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, boo
 		return noParentObs, true
 	case useA && useB:
 		return p.obs[ia]*float32(1-u) + p.obs[ib]*float32(u), true
-	case useA:
-		return p.obs[ia], true
 	}
-	return p.obs[ib], true
+	shared := ia
+	if useB {
+		shared = ib
+	}
+	t, blocked := p.crossTerrain(ia, ib, u)
+	if blocked {
+		return 1, true
+	}
+	v := p.val[shared]
+	floor := p.clearance
+	if p.backward {
+		floor = min(floor, v-p.fieldElev[p.src[shared]])
+	}
+	return max(p.obs[shared], t+floor-v), true
+}
+
+// crossTerrain is the ground (m MSL) where a line passes between cells ia
+// and ib at weight u toward ib: linear between the two, blocked when the
+// nearer one (or both) is a void.
+func (p *propagation) crossTerrain(ia, ib int, u float64) (float32, bool) {
+	a, b := p.l.Elev[ia], p.l.Elev[ib]
+	switch {
+	case a != a && b != b:
+		return 0, true
+	case a != a:
+		if u < 0.5 {
+			return 0, true
+		}
+		a = b
+	case b != b:
+		if u > 0.5 {
+			return 0, true
+		}
+		b = a
+	}
+	return a*float32(1-u) + b*float32(u), false
+}
+
+// stepObs is the obstruction of a one-cell step from cell s (value sv) to
+// its neighbour q (value v): none for a step along a row or column; for a
+// diagonal step, the line passes between the two cells beside it at their
+// midpoint, where the ground is their mean (a void beside it blocks) and
+// the altitude is the mean of the two ends.
+func (p *propagation) stepObs(s, q int, sv, v float64, srcIdx uint16) float32 {
+	sc, sr := s%p.cols, s/p.cols
+	qc, qr := q%p.cols, q/p.cols
+	if sc == qc || sr == qr {
+		return noParentObs
+	}
+	t, blocked := p.crossTerrain(sr*p.cols+qc, qr*p.cols+sc, 0.5)
+	if blocked {
+		return 1
+	}
+	alt := float32((sv + v) / 2)
+	floor := p.clearance
+	if p.backward {
+		floor = min(floor, alt-p.fieldElev[srcIdx])
+	}
+	return t + floor - alt
 }
 
 // rayTop is rayObs for the forward terrain floor: the highest terrain (m
 // MSL) under the points of the segment where the glide is below the
 // clearance, up to but excluding the cell, or −Inf when there is none. It
-// takes the larger of the two cells' figures (conservative).
+// takes the larger of the two cells' figures (conservative), and where
+// only one shares the parent, the crossing between them as rayObs does.
 func (p *propagation) rayTop(pi int32, px, py float64, qc, qr int) (float32, bool) {
-	ia, ib, _, useA, useB, short, ok := p.rayCells(pi, px, py, qc, qr)
+	ia, ib, u, useA, useB, short, ok := p.rayCells(pi, px, py, qc, qr)
 	switch {
 	case !ok:
 		return 0, false
@@ -264,6 +331,19 @@ func (p *propagation) rayTop(pi int32, px, py float64, qc, qr int) (float32, boo
 	}
 	if useB {
 		t = max(t, p.top[ib])
+	}
+	if !(useA && useB) {
+		shared := ia
+		if useB {
+			shared = ib
+		}
+		tc, blocked := p.crossTerrain(ia, ib, u)
+		if blocked {
+			return float32(math.Inf(1)), true
+		}
+		if tc+p.clearance > p.val[shared] {
+			t = max(t, tc)
+		}
 	}
 	return t, true
 }
@@ -368,6 +448,11 @@ func (p *propagation) seed(k int) {
 			if c < 0 || r < 0 || c >= p.cols || r >= p.rows {
 				continue
 			}
+			// Only the cells within one cell of the source in both axes:
+			// a longer first segment would pass over ground no check sees.
+			if math.Abs(float64(c)-s.X) > 1 || math.Abs(float64(r)-s.Y) > 1 {
+				continue
+			}
 			q := r*p.cols + c
 			if p.l.Elev[q] != p.l.Elev[q] { // void
 				continue
@@ -438,6 +523,21 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 				continue // closed with a value no lower cell can improve
 			}
 			if p.l.Elev[q] != p.l.Elev[q] { // void: an obstacle
+				if p.state[q] == cellUntouched {
+					// Record the line of sight that met it, so the lines
+					// beside it interpolate its obstruction and its shadow
+					// is carried like a wall's (the cells behind a void are
+					// not reached by lines threaded between clear cells
+					// either side of it).
+					p.state[q], p.obs[q] = cellVoid, voidObs
+					if p.top != nil {
+						p.top[q] = float32(math.Inf(1))
+					}
+					p.par[q] = int32(s)
+					if _, ok := p.rayObs(pi, px, py, qc, qr); ok {
+						p.par[q] = pi
+					}
+				}
 				continue
 			}
 			if endOnly {
@@ -452,7 +552,9 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 					p.offer(q, pi, v, noParentObs, srcIdx, top, true)
 				}
 				v := p.segment(float64(sc), float64(sr), sv, qc, qr)
-				p.offer(q, int32(s), v, noParentObs, srcIdx, p.top[s], true)
+				if p.stepObs(s, q, sv, v, srcIdx) <= 0 {
+					p.offer(q, int32(s), v, noParentObs, srcIdx, p.top[s], true)
+				}
 				continue
 			}
 			// Straight on from s's parent, if the line of sight holds.
@@ -461,9 +563,13 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 				p.offer(q, pi, v, prev, srcIdx, noTop, false)
 				continue
 			}
-			// Otherwise the path bends at s.
+			// Otherwise the path bends at s; a diagonal step must clear the
+			// corner between the two cells beside it (a wall one cell thick
+			// running diagonally has no gap to slip through).
 			v := p.segment(float64(sc), float64(sr), sv, qc, qr)
-			p.offer(q, int32(s), v, noParentObs, srcIdx, noTop, false)
+			if ob := p.stepObs(s, q, sv, v, srcIdx); ob <= 0 {
+				p.offer(q, int32(s), v, ob, srcIdx, noTop, false)
+			}
 		}
 	}
 	if progress != nil {

@@ -219,7 +219,7 @@ func (f *FootprintResult) arrivalAtCellXY(gx, gy float64, elev float32) (float64
 				continue
 			}
 			q := r*p.cols + c
-			if p.state[q] == cellUntouched {
+			if p.state[q] == cellUntouched || p.state[q] == cellVoid {
 				continue
 			}
 			// Through the cell itself, and straight from its parent (a
@@ -268,7 +268,7 @@ func (f *FootprintResult) Path(c, r int) ([][2]float64, bool) {
 	}
 	p := f.prop
 	q := r*p.cols + c
-	if p.state[q] == cellUntouched {
+	if p.state[q] == cellUntouched || p.state[q] == cellVoid {
 		return nil, false
 	}
 	var pts [][2]float64

@@ -122,17 +122,23 @@ func TestFootprintAroundWallEnd(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	// The corner to go around: just past the wall's end (half a cell beyond
-	// the last wall cell centre).
-	ex, ey := float64(wallC-150)*cell+cell/2, float64(endR-150)*cell+cell/2
+	// The corner to go around: past the wall's end where the ground, linear
+	// between cell centres (the solver's model of the ground between them),
+	// has fallen below the glide less the clearance: u = (9000 − (2832 −
+	// 50))/9000 = 0.69 of a cell beyond the last wall cell centre (2832 m
+	// is the glide's altitude there), and half a cell beside the wall.
+	ex, ey := float64(wallC-150)*cell+cell/2, float64(endR-150)*cell+0.69*cell
 	for _, target := range [][2]int{{wallC + 20, 150 - 40}, {wallC + 60, 150}, {wallC + 10, 150 - 100}} {
 		c, r := target[0], target[1]
 		x, y := float64(c-150)*cell, float64(r-150)*cell
 		d := math.Hypot(ex, ey) + math.Hypot(x-ex, y-ey)
 		want := H - d/E
 		got := float64(res.Arrival[r*n+c])
-		// 1 % of the height lost.
-		if math.Abs(got-want) > 0.01*(H-want) {
+		// 1.5 % of the height lost: the path bends at a cell centre, up to
+		// a cell beyond the corner (it was 1 % while a wall's end was taken
+		// to stop half a cell past its last centre, which a glide at the
+		// corner's altitude could not clear with the linear ground model).
+		if math.Abs(got-want) > 0.015*(H-want) {
 			t.Errorf("cell (%d,%d): arrival %.1f m, want %.1f m around the wall end (straight line would give %.1f)", c, r, got, want, H-math.Hypot(x, y)/E)
 		}
 	}
