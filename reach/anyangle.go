@@ -234,11 +234,18 @@ func (p *propagation) rayCells(pi int32, px, py float64, qc, qr int) (ia, ib int
 // (px, py) to cell (qc, qr), up to but excluding the cell, and whether it
 // could be decided from cells that share the parent. Where only one of the
 // two cells beside the line shares the parent, the other one's ground still
-// counts where the line passes between them: the obstruction there is the
-// ground interpolated linearly between the two cell centres, plus the floor,
-// minus the altitude of the shared cell (a one-cell wall beside the line is
-// not ignored because its own value came along another path).
+// counts where the line passes between them: its own obstruction (ground +
+// floor − the shared cell's altitude; a void counts as voidObs) is
+// interpolated with the shared cell's, so a one-cell wall beside the line
+// is not ignored because its own value came along another path.
 func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, bool) {
+	return p.rayObsDepth(pi, px, py, qc, qr, 0)
+}
+
+// maxShadowDepth bounds the recursion of rayObsDepth along a line.
+const maxShadowDepth = 48
+
+func (p *propagation) rayObsDepth(pi int32, px, py float64, qc, qr, depth int) (float32, bool) {
 	ia, ib, u, useA, useB, short, ok := p.rayCells(pi, px, py, qc, qr)
 	switch {
 	case !ok:
@@ -248,20 +255,47 @@ func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, boo
 	case useA && useB:
 		return p.obs[ia]*float32(1-u) + p.obs[ib]*float32(u), true
 	}
-	shared := ia
+	// One cell shares the parent: interpolate its obstruction with the
+	// other cell's own (its ground plus the floor, at the shared cell's
+	// altitude), as XDraw would had both shared the parent.
+	shared, other, wo := ia, ib, u
 	if useB {
-		shared = ib
+		shared, other, wo = ib, ia, 1-u
 	}
+	if wo <= 1e-9 {
+		return p.obs[shared], true
+	}
+	v := p.val[shared]
 	t, blocked := p.crossTerrain(ia, ib, u)
 	if blocked {
 		return 1, true
 	}
-	v := p.val[shared]
 	floor := p.clearance
 	if p.backward {
 		floor = min(floor, v-p.fieldElev[p.src[shared]])
 	}
-	return max(p.obs[shared], t+floor-v), true
+	ownOther := voidObs
+	if to := p.l.Elev[other]; to == to {
+		ownOther = to + floor - v
+		// The other cell was reached along another line (often because the
+		// line from this parent was blocked there: a shadow edge), so its
+		// record says nothing about this parent's line. Work out the
+		// obstruction of this parent's line up to it instead; undecidable
+		// counts as blocked.
+		if depth < maxShadowDepth {
+			oc, or := other%p.cols, other/p.cols
+			ob, ok := p.rayObsDepth(pi, px, py, oc, or, depth+1)
+			if !ok {
+				ob = 1
+			}
+			ownOther = max(ownOther, ob)
+		} else {
+			ownOther = max(ownOther, 1)
+		}
+	}
+	// The most conservative of: the shared cell's own record, the ground at
+	// the crossing (linear between the two centres), and the interpolation.
+	return max(p.obs[shared], t+floor-v, p.obs[shared]*float32(1-wo)+ownOther*float32(wo)), true
 }
 
 // crossTerrain is the ground (m MSL) where a line passes between cells ia
@@ -297,10 +331,11 @@ func (p *propagation) stepObs(s, q int, sv, v float64, srcIdx uint16) float32 {
 	if sc == qc || sr == qr {
 		return noParentObs
 	}
-	t, blocked := p.crossTerrain(sr*p.cols+qc, qr*p.cols+sc, 0.5)
-	if blocked {
-		return 1
+	a, b := sr*p.cols+qc, qr*p.cols+sc
+	if p.l.Elev[a] != p.l.Elev[a] || p.l.Elev[b] != p.l.Elev[b] {
+		return 1 // a void beside the corner
 	}
+	t, _ := p.crossTerrain(a, b, 0.5)
 	alt := float32((sv + v) / 2)
 	floor := p.clearance
 	if p.backward {
@@ -560,8 +595,14 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			// Straight on from s's parent, if the line of sight holds.
 			if prev, ok := p.rayObs(pi, px, py, qc, qr); ok && prev <= 0 {
 				v := p.segment(px, py, pv, qc, qr)
-				p.offer(q, pi, v, prev, srcIdx, noTop, false)
-				continue
+				if pi >= 0 && math.Abs(float64(qc)-px) == 1 && math.Abs(float64(qr)-py) == 1 {
+					// A diagonal step straight from the parent: its corner.
+					prev = max(prev, p.stepObs(int(pi), q, pv, v, srcIdx))
+				}
+				if prev <= 0 {
+					p.offer(q, pi, v, prev, srcIdx, noTop, false)
+					continue
+				}
 			}
 			// Otherwise the path bends at s; a diagonal step must clear the
 			// corner between the two cells beside it (a wall one cell thick
