@@ -175,8 +175,8 @@ func contourRings(v func(c, r int) float64, cols, rows int, level float64) []orb
 // collapse is kept as traced), and nests holes (clockwise rings) into the
 // smallest outer ring that contains them.
 func polygonsFromRings(rings []orb.Ring, tol, minArea float64) []orb.Polygon {
-	var outers []orb.Ring
-	var holes []orb.Ring
+	var outers, tracedOuters []orb.Ring
+	var holes, tracedHoles []orb.Ring
 	for _, r := range rings {
 		hole := r.Orientation() != orb.CCW
 		s := simplifyInward(r, tol)
@@ -190,21 +190,24 @@ func polygonsFromRings(rings []orb.Ring, tol, minArea float64) []orb.Polygon {
 			continue
 		}
 		if hole {
-			holes = append(holes, s)
+			holes, tracedHoles = append(holes, s), append(tracedHoles, r)
 		} else {
-			outers = append(outers, s)
+			outers, tracedOuters = append(outers, s), append(tracedOuters, r)
 		}
 	}
 	polys := make([]orb.Polygon, len(outers))
 	areas := make([]float64, len(outers))
 	for i, o := range outers {
 		polys[i] = orb.Polygon{o}
-		areas[i] = math.Abs(planar.Area(o))
+		areas[i] = math.Abs(planar.Area(tracedOuters[i]))
 	}
-	for _, h := range holes {
+	// Holes are nested by the traced rings: an outer ring simplified inward
+	// can pass inside a hole near its edge, and the hole must not be lost
+	// for its first point falling outside the simplified ring.
+	for k, h := range holes {
 		best := -1
-		for i, o := range outers {
-			if (best < 0 || areas[i] < areas[best]) && planar.RingContains(o, h[0]) {
+		for i, o := range tracedOuters {
+			if (best < 0 || areas[i] < areas[best]) && planar.RingContains(o, tracedHoles[k][0]) {
 				best = i
 			}
 		}
