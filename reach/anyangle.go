@@ -270,13 +270,13 @@ func (p *propagation) rayObsDepth(pi int32, px, py float64, qc, qr, depth int) (
 	if blocked {
 		return 1, true
 	}
-	floor := p.clearance
+	var src uint16
 	if p.backward {
-		floor = min(floor, v-p.fieldElev[p.src[shared]])
+		src = p.src[shared]
 	}
 	ownOther := voidObs
 	if to := p.l.Elev[other]; to == to {
-		ownOther = to + floor - v
+		ownOther = p.floorObs(to, v, src)
 		// The other cell was reached along another line (often because the
 		// line from this parent was blocked there: a shadow edge), so its
 		// record says nothing about this parent's line. Work out the
@@ -295,7 +295,21 @@ func (p *propagation) rayObsDepth(pi int32, px, py float64, qc, qr, depth int) (
 	}
 	// The most conservative of: the shared cell's own record, the ground at
 	// the crossing (linear between the two centres), and the interpolation.
-	return max(p.obs[shared], t+floor-v, p.obs[shared]*float32(1-wo)+ownOther*float32(wo)), true
+	return max(p.obs[shared], p.floorObs(t, v, src), p.obs[shared]*float32(1-wo)+ownOther*float32(wo)), true
+}
+
+// floorObs is the obstruction (m; ≤ 0 clear) of ground t under a glide at
+// altitude v toward source src: t + min(clearance, v − field elevation) − v
+// backward, t + clearance − v forward, written so that ground at the
+// field's elevation gives exactly t − e (no rounding residue that would
+// block a line over flat ground).
+func (p *propagation) floorObs(t, v float32, src uint16) float32 {
+	if p.backward {
+		if e := p.fieldElev[src]; v-e < p.clearance {
+			return t - e
+		}
+	}
+	return t + p.clearance - v
 }
 
 // crossTerrain is the ground (m MSL) where a line passes between cells ia
@@ -336,12 +350,7 @@ func (p *propagation) stepObs(s, q int, sv, v float64, srcIdx uint16) float32 {
 		return 1 // a void beside the corner
 	}
 	t, _ := p.crossTerrain(a, b, 0.5)
-	alt := float32((sv + v) / 2)
-	floor := p.clearance
-	if p.backward {
-		floor = min(floor, alt-p.fieldElev[srcIdx])
-	}
-	return t + floor - alt
+	return p.floorObs(t, float32((sv+v)/2), srcIdx)
 }
 
 // rayTop is rayObs for the forward terrain floor: the highest terrain (m
@@ -412,7 +421,11 @@ func (p *propagation) offer(q int, pi int32, v float64, prev float32, srcIdx uin
 		// within the clearance of the field's own elevation over ground no
 		// higher than the field (the final part of the glide, tapering to
 		// the reserve): floor = t + min(clearance, v − field elevation).
-		own = t + min(p.clearance, vf-p.fieldElev[srcIdx]) - vf
+		// (Written so that flat ground at the field's elevation gives
+		// exactly 0, not a rounding residue that would block the line.)
+		if e := p.fieldElev[srcIdx]; vf-e < p.clearance {
+			own = t - e
+		}
 		if own > 0 {
 			// The glide would pass below the floor here: the least altitude
 			// that keeps it is the clearance height itself (here t is above
