@@ -239,7 +239,101 @@ func (p *propagation) rayCells(pi int32, px, py float64, qc, qr int) (ia, ib int
 // interpolated with the shared cell's, so a one-cell wall beside the line
 // is not ignored because its own value came along another path.
 func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, bool) {
-	return p.rayObsDepth(pi, px, py, qc, qr, 0)
+	o, ok := p.rayObsDepth(pi, px, py, qc, qr, 0)
+	if !ok || o > 0 {
+		return o, ok
+	}
+	return max(o, p.midObs(pi, px, py, qc, qr)), true
+}
+
+// midObs checks the last step of the segment from the parent to cell
+// (qc, qr) half-way between the crossing one step back and the cell, where
+// the line passes from one column (or row) of cells to the next: there it
+// lies over the squares of the cells on both sides, and the highest of them
+// counts (a void blocks). Lines crossing a wall one cell thick that runs
+// diagonally pass between its cell centres, over the corner its squares
+// share; the crossings at cell centres alone do not see it. The altitude is
+// the line's at the crossing one step back, less the least height lost over
+// the half step.
+func (p *propagation) midObs(pi int32, px, py float64, qc, qr int) float32 {
+	ia, ib, u, useA, useB, short, ok := p.rayCells(pi, px, py, qc, qr)
+	if !ok || short {
+		return noParentObs
+	}
+	var alt float32
+	src := 0
+	switch {
+	case useA && useB:
+		alt = p.val[ia]*float32(1-u) + p.val[ib]*float32(u)
+		src = ia
+	case useA:
+		alt, src = p.val[ia], ia
+	default:
+		alt, src = p.val[ib], ib
+	}
+	dx, dy := float64(qc)-px, float64(qr)-py
+	var c0, c1, r0, r1 int
+	var step float64
+	if math.Abs(dx) >= math.Abs(dy) {
+		sx := 1
+		if dx < 0 {
+			sx = -1
+		}
+		ym := float64(qr) - dy/math.Abs(dx)/2
+		c0, c1 = qc-sx, qc
+		r0, r1 = halfRound(ym)
+		step = math.Hypot(1, dy/dx) / 2
+	} else {
+		sy := 1
+		if dy < 0 {
+			sy = -1
+		}
+		xm := float64(qc) - dx/math.Abs(dy)/2
+		r0, r1 = qr-sy, qr
+		c0, c1 = halfRound(xm)
+		step = math.Hypot(1, dx/dy) / 2
+	}
+	t := float32(math.Inf(-1))
+	for _, c := range [2]int{c0, c1} {
+		for _, r := range [2]int{r0, r1} {
+			if c < 0 || r < 0 || c >= p.cols || r >= p.rows {
+				return 1
+			}
+			e := p.l.Elev[r*p.cols+c]
+			if e != e {
+				return 1
+			}
+			t = max(t, e)
+		}
+	}
+	// Only where the squares there hold ground higher than the ground at
+	// the crossing (a feature between the lines of cell centres), and then
+	// lowered by the half step; elsewhere the crossing's own check stands,
+	// so a glide over even ground is not cut short where it nears the
+	// clearance.
+	if ta, tb := p.l.Elev[ia], p.l.Elev[ib]; ta == ta && tb == tb && !(t > ta*float32(1-u)+tb*float32(u)) {
+		return noParentObs
+	}
+	if !p.backward && p.desc.maxRatio > 0 {
+		alt -= float32(step * p.cell / p.desc.maxRatio)
+	}
+	var s uint16
+	if p.backward {
+		s = p.src[src]
+	}
+	return p.floorObs(t, alt, s)
+}
+
+// halfRound returns the index of the cell whose span (±0.5) holds v, twice,
+// or both neighbours when v lies on the boundary between them (within
+// 1e-9).
+func halfRound(v float64) (int, int) {
+	f := math.Floor(v)
+	if math.Abs(v-f-0.5) < 1e-9 {
+		return int(f), int(f) + 1
+	}
+	r := int(math.Round(v))
+	return r, r
 }
 
 // maxShadowDepth bounds the recursion of rayObsDepth along a line.
