@@ -311,7 +311,7 @@ func (p *propagation) midObs(pi int32, px, py float64, qc, qr int) float32 {
 	// lowered by the half step; elsewhere the crossing's own check stands,
 	// so a glide over even ground is not cut short where it nears the
 	// clearance.
-	if ta, tb := p.l.Elev[ia], p.l.Elev[ib]; ta == ta && tb == tb && !(t > ta*float32(1-u)+tb*float32(u)) {
+	if ta, tb := p.l.Elev[ia], p.l.Elev[ib]; ta == ta && tb == tb && !(t > ta*float32(1-u)+tb*float32(u)+0.01) { // 1 cm: not a rounding residue on even ground
 		return noParentObs
 	}
 	if !p.backward && p.desc.maxRatio > 0 {
