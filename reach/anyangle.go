@@ -239,11 +239,12 @@ func (p *propagation) rayCells(pi int32, px, py float64, qc, qr int) (ia, ib int
 // interpolated with the shared cell's, so a one-cell wall beside the line
 // is not ignored because its own value came along another path.
 func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, bool) {
-	o, ok := p.rayObsDepth(pi, px, py, qc, qr, 0)
-	if !ok || o > 0 {
+	ia, ib, u, useA, useB, short, ok := p.rayCells(pi, px, py, qc, qr)
+	o, ok := p.rayObsCells(pi, px, py, 0, ia, ib, u, useA, useB, short, ok)
+	if !ok || o > 0 || short {
 		return o, ok
 	}
-	return max(o, p.midObs(pi, px, py, qc, qr)), true
+	return max(o, p.midObs(px, py, qc, qr, ia, ib, u, useA, useB)), true
 }
 
 // midObs checks the last step of the segment from the parent to cell
@@ -255,53 +256,55 @@ func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, boo
 // share; the crossings at cell centres alone do not see it. The altitude is
 // the line's at the crossing one step back, less the least height lost over
 // the half step.
-func (p *propagation) midObs(pi int32, px, py float64, qc, qr int) float32 {
-	ia, ib, u, useA, useB, short, ok := p.rayCells(pi, px, py, qc, qr)
-	if !ok || short {
+func (p *propagation) midObs(px, py float64, qc, qr, ia, ib int, u float64, useA, useB bool) float32 {
+	t, alt, src, void := p.midGround(px, py, qc, qr, ia, ib, u, useA, useB)
+	switch {
+	case void:
+		return 1
+	case math.IsInf(float64(t), -1):
 		return noParentObs
 	}
-	var alt float32
-	src := 0
-	switch {
-	case useA && useB:
-		alt = p.val[ia]*float32(1-u) + p.val[ib]*float32(u)
-		src = ia
-	case useA:
-		alt, src = p.val[ia], ia
-	default:
-		alt, src = p.val[ib], ib
+	var s uint16
+	if p.backward {
+		s = p.src[src]
 	}
+	return p.floorObs(t, alt, s)
+}
+
+// midGround is the ground midObs checks: the highest of the cell squares
+// half-way along the last step, −Inf where it is not above the ground at
+// the crossing one step back (+1 cm), void true where a void or the window's
+// edge is there; alt is the line's altitude there (forward: the crossing's,
+// less the least height lost over the half step) and src the cell beside
+// the line whose source it leads to.
+func (p *propagation) midGround(px, py float64, qc, qr, ia, ib int, u float64, useA, useB bool) (t, alt float32, src int, void bool) {
 	dx, dy := float64(qc)-px, float64(qr)-py
 	var c0, c1, r0, r1 int
-	var step float64
-	if math.Abs(dx) >= math.Abs(dy) {
+	xMajor := math.Abs(dx) >= math.Abs(dy)
+	if xMajor {
 		sx := 1
 		if dx < 0 {
 			sx = -1
 		}
-		ym := float64(qr) - dy/math.Abs(dx)/2
 		c0, c1 = qc-sx, qc
-		r0, r1 = halfRound(ym)
-		step = math.Hypot(1, dy/dx) / 2
+		r0, r1 = halfRound(float64(qr) - dy/math.Abs(dx)/2)
 	} else {
 		sy := 1
 		if dy < 0 {
 			sy = -1
 		}
-		xm := float64(qc) - dx/math.Abs(dy)/2
 		r0, r1 = qr-sy, qr
-		c0, c1 = halfRound(xm)
-		step = math.Hypot(1, dx/dy) / 2
+		c0, c1 = halfRound(float64(qc) - dx/math.Abs(dy)/2)
 	}
-	t := float32(math.Inf(-1))
+	t = float32(math.Inf(-1))
 	for _, c := range [2]int{c0, c1} {
 		for _, r := range [2]int{r0, r1} {
 			if c < 0 || r < 0 || c >= p.cols || r >= p.rows {
-				return 1
+				return 0, 0, 0, true
 			}
 			e := p.l.Elev[r*p.cols+c]
 			if e != e {
-				return 1
+				return 0, 0, 0, true
 			}
 			t = max(t, e)
 		}
@@ -312,16 +315,27 @@ func (p *propagation) midObs(pi int32, px, py float64, qc, qr int) float32 {
 	// so a glide over even ground is not cut short where it nears the
 	// clearance.
 	if ta, tb := p.l.Elev[ia], p.l.Elev[ib]; ta == ta && tb == tb && !(t > ta*float32(1-u)+tb*float32(u)+0.01) { // 1 cm: not a rounding residue on even ground
-		return noParentObs
+		return float32(math.Inf(-1)), 0, 0, false
+	}
+	src = ia
+	switch {
+	case useA && useB:
+		alt = p.val[ia]*float32(1-u) + p.val[ib]*float32(u)
+	case useA:
+		alt = p.val[ia]
+	default:
+		alt, src = p.val[ib], ib
 	}
 	if !p.backward && p.desc.maxRatio > 0 {
+		var step float64
+		if xMajor {
+			step = math.Hypot(1, dy/dx) / 2
+		} else {
+			step = math.Hypot(1, dx/dy) / 2
+		}
 		alt -= float32(step * p.cell / p.desc.maxRatio)
 	}
-	var s uint16
-	if p.backward {
-		s = p.src[src]
-	}
-	return p.floorObs(t, alt, s)
+	return t, alt, src, false
 }
 
 // halfRound returns the index of the cell whose span (±0.5) holds v, twice,
@@ -341,6 +355,11 @@ const maxShadowDepth = 48
 
 func (p *propagation) rayObsDepth(pi int32, px, py float64, qc, qr, depth int) (float32, bool) {
 	ia, ib, u, useA, useB, short, ok := p.rayCells(pi, px, py, qc, qr)
+	return p.rayObsCells(pi, px, py, depth, ia, ib, u, useA, useB, short, ok)
+}
+
+// rayObsCells is rayObsDepth given the cells beside the line (rayCells).
+func (p *propagation) rayObsCells(pi int32, px, py float64, depth, ia, ib int, u float64, useA, useB, short, ok bool) (float32, bool) {
 	switch {
 	case !ok:
 		return 0, false
@@ -482,6 +501,15 @@ func (p *propagation) rayTop(pi int32, px, py float64, qc, qr int) (float32, boo
 		if tc+p.clearance > p.val[shared] {
 			t = max(t, tc)
 		}
+	}
+	// The last half step, as midObs: ground between the lines of cell
+	// centres under the glide where it is below the clearance there.
+	tm, alt, _, void := p.midGround(px, py, qc, qr, ia, ib, u, useA, useB)
+	switch {
+	case void:
+		return float32(math.Inf(1)), true
+	case !math.IsInf(float64(tm), -1) && tm+p.clearance > alt:
+		t = max(t, tm)
 	}
 	return t, true
 }
