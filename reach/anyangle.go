@@ -234,12 +234,132 @@ func (p *propagation) rayCells(pi int32, px, py float64, qc, qr int) (ia, ib int
 // (px, py) to cell (qc, qr), up to but excluding the cell, and whether it
 // could be decided from cells that share the parent. Where only one of the
 // two cells beside the line shares the parent, the other one's ground still
-// counts where the line passes between them: the obstruction there is the
-// ground interpolated linearly between the two cell centres, plus the floor,
-// minus the altitude of the shared cell (a one-cell wall beside the line is
-// not ignored because its own value came along another path).
+// counts where the line passes between them: its own obstruction (ground +
+// floor − the shared cell's altitude; a void counts as voidObs) is
+// interpolated with the shared cell's, so a one-cell wall beside the line
+// is not ignored because its own value came along another path.
 func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, bool) {
 	ia, ib, u, useA, useB, short, ok := p.rayCells(pi, px, py, qc, qr)
+	o, ok := p.rayObsCells(pi, px, py, 0, ia, ib, u, useA, useB, short, ok)
+	if !ok || o > 0 || short {
+		return o, ok
+	}
+	return max(o, p.midObs(px, py, qc, qr, ia, ib, u, useA, useB)), true
+}
+
+// midObs checks the last step of the segment from the parent to cell
+// (qc, qr) half-way between the crossing one step back and the cell, where
+// the line passes from one column (or row) of cells to the next: there it
+// lies over the squares of the cells on both sides, and the highest of them
+// counts (a void blocks). Lines crossing a wall one cell thick that runs
+// diagonally pass between its cell centres, over the corner its squares
+// share; the crossings at cell centres alone do not see it. The altitude is
+// the line's at the crossing one step back, less the least height lost over
+// the half step.
+func (p *propagation) midObs(px, py float64, qc, qr, ia, ib int, u float64, useA, useB bool) float32 {
+	t, alt, src, void := p.midGround(px, py, qc, qr, ia, ib, u, useA, useB)
+	switch {
+	case void:
+		return 1
+	case math.IsInf(float64(t), -1):
+		return noParentObs
+	}
+	var s uint16
+	if p.backward {
+		s = p.src[src]
+	}
+	return p.floorObs(t, alt, s)
+}
+
+// midGround is the ground midObs checks: the highest of the cell squares
+// half-way along the last step, −Inf where it is not above the ground at
+// the crossing one step back (+1 cm), void true where a void or the window's
+// edge is there; alt is the line's altitude there (forward: the crossing's,
+// less the least height lost over the half step) and src the cell beside
+// the line whose source it leads to.
+func (p *propagation) midGround(px, py float64, qc, qr, ia, ib int, u float64, useA, useB bool) (t, alt float32, src int, void bool) {
+	dx, dy := float64(qc)-px, float64(qr)-py
+	var c0, c1, r0, r1 int
+	xMajor := math.Abs(dx) >= math.Abs(dy)
+	if xMajor {
+		sx := 1
+		if dx < 0 {
+			sx = -1
+		}
+		c0, c1 = qc-sx, qc
+		r0, r1 = halfRound(float64(qr) - dy/math.Abs(dx)/2)
+	} else {
+		sy := 1
+		if dy < 0 {
+			sy = -1
+		}
+		r0, r1 = qr-sy, qr
+		c0, c1 = halfRound(float64(qc) - dx/math.Abs(dy)/2)
+	}
+	t = float32(math.Inf(-1))
+	for _, c := range [2]int{c0, c1} {
+		for _, r := range [2]int{r0, r1} {
+			if c < 0 || r < 0 || c >= p.cols || r >= p.rows {
+				return 0, 0, 0, true
+			}
+			e := p.l.Elev[r*p.cols+c]
+			if e != e {
+				return 0, 0, 0, true
+			}
+			t = max(t, e)
+		}
+	}
+	// Only where the squares there hold ground higher than the ground at
+	// the crossing (a feature between the lines of cell centres), and then
+	// lowered by the half step; elsewhere the crossing's own check stands,
+	// so a glide over even ground is not cut short where it nears the
+	// clearance.
+	if ta, tb := p.l.Elev[ia], p.l.Elev[ib]; ta == ta && tb == tb && !(t > ta*float32(1-u)+tb*float32(u)+0.01) { // 1 cm: not a rounding residue on even ground
+		return float32(math.Inf(-1)), 0, 0, false
+	}
+	src = ia
+	switch {
+	case useA && useB:
+		alt = p.val[ia]*float32(1-u) + p.val[ib]*float32(u)
+	case useA:
+		alt = p.val[ia]
+	default:
+		alt, src = p.val[ib], ib
+	}
+	if !p.backward && p.desc.maxRatio > 0 {
+		var step float64
+		if xMajor {
+			step = math.Hypot(1, dy/dx) / 2
+		} else {
+			step = math.Hypot(1, dx/dy) / 2
+		}
+		alt -= float32(step * p.cell / p.desc.maxRatio)
+	}
+	return t, alt, src, false
+}
+
+// halfRound returns the index of the cell whose span (±0.5) holds v, twice,
+// or both neighbours when v lies on the boundary between them (within
+// 1e-9).
+func halfRound(v float64) (int, int) {
+	f := math.Floor(v)
+	if math.Abs(v-f-0.5) < 1e-9 {
+		return int(f), int(f) + 1
+	}
+	r := int(math.Round(v))
+	return r, r
+}
+
+// maxShadowDepth bounds the recursion of rayObsDepth along a line.
+const maxShadowDepth = 48
+
+func (p *propagation) rayObsDepth(pi int32, px, py float64, qc, qr, depth int) (float32, bool) {
+	ia, ib, u, useA, useB, short, ok := p.rayCells(pi, px, py, qc, qr)
+	return p.rayObsCells(pi, px, py, depth, ia, ib, u, useA, useB, short, ok)
+}
+
+// rayObsCells is rayObsDepth given the cells beside the line (rayCells).
+func (p *propagation) rayObsCells(pi int32, px, py float64, depth, ia, ib int, u float64, useA, useB, short, ok bool) (float32, bool) {
 	switch {
 	case !ok:
 		return 0, false
@@ -248,20 +368,61 @@ func (p *propagation) rayObs(pi int32, px, py float64, qc, qr int) (float32, boo
 	case useA && useB:
 		return p.obs[ia]*float32(1-u) + p.obs[ib]*float32(u), true
 	}
-	shared := ia
+	// One cell shares the parent: interpolate its obstruction with the
+	// other cell's own (its ground plus the floor, at the shared cell's
+	// altitude), as XDraw would had both shared the parent.
+	shared, other, wo := ia, ib, u
 	if useB {
-		shared = ib
+		shared, other, wo = ib, ia, 1-u
 	}
+	if wo <= 1e-9 {
+		return p.obs[shared], true
+	}
+	v := p.val[shared]
 	t, blocked := p.crossTerrain(ia, ib, u)
 	if blocked {
 		return 1, true
 	}
-	v := p.val[shared]
-	floor := p.clearance
+	var src uint16
 	if p.backward {
-		floor = min(floor, v-p.fieldElev[p.src[shared]])
+		src = p.src[shared]
 	}
-	return max(p.obs[shared], t+floor-v), true
+	ownOther := voidObs
+	if to := p.l.Elev[other]; to == to {
+		ownOther = p.floorObs(to, v, src)
+		// The other cell was reached along another line (often because the
+		// line from this parent was blocked there: a shadow edge), so its
+		// record says nothing about this parent's line. Work out the
+		// obstruction of this parent's line up to it instead; undecidable
+		// counts as blocked.
+		if depth < maxShadowDepth {
+			oc, or := other%p.cols, other/p.cols
+			ob, ok := p.rayObsDepth(pi, px, py, oc, or, depth+1)
+			if !ok {
+				ob = 1
+			}
+			ownOther = max(ownOther, ob)
+		} else {
+			ownOther = max(ownOther, 1)
+		}
+	}
+	// The most conservative of: the shared cell's own record, the ground at
+	// the crossing (linear between the two centres), and the interpolation.
+	return max(p.obs[shared], p.floorObs(t, v, src), p.obs[shared]*float32(1-wo)+ownOther*float32(wo)), true
+}
+
+// floorObs is the obstruction (m; ≤ 0 clear) of ground t under a glide at
+// altitude v toward source src: t + min(clearance, v − field elevation) − v
+// backward, t + clearance − v forward, written so that ground at the
+// field's elevation gives exactly t − e (no rounding residue that would
+// block a line over flat ground).
+func (p *propagation) floorObs(t, v float32, src uint16) float32 {
+	if p.backward {
+		if e := p.fieldElev[src]; v-e < p.clearance {
+			return t - e
+		}
+	}
+	return t + p.clearance - v
 }
 
 // crossTerrain is the ground (m MSL) where a line passes between cells ia
@@ -297,16 +458,12 @@ func (p *propagation) stepObs(s, q int, sv, v float64, srcIdx uint16) float32 {
 	if sc == qc || sr == qr {
 		return noParentObs
 	}
-	t, blocked := p.crossTerrain(sr*p.cols+qc, qr*p.cols+sc, 0.5)
-	if blocked {
-		return 1
+	a, b := sr*p.cols+qc, qr*p.cols+sc
+	if p.l.Elev[a] != p.l.Elev[a] || p.l.Elev[b] != p.l.Elev[b] {
+		return 1 // a void beside the corner
 	}
-	alt := float32((sv + v) / 2)
-	floor := p.clearance
-	if p.backward {
-		floor = min(floor, alt-p.fieldElev[srcIdx])
-	}
-	return t + floor - alt
+	t, _ := p.crossTerrain(a, b, 0.5)
+	return p.floorObs(t, float32((sv+v)/2), srcIdx)
 }
 
 // rayTop is rayObs for the forward terrain floor: the highest terrain (m
@@ -345,6 +502,15 @@ func (p *propagation) rayTop(pi int32, px, py float64, qc, qr int) (float32, boo
 			t = max(t, tc)
 		}
 	}
+	// The last half step, as midObs: ground between the lines of cell
+	// centres under the glide where it is below the clearance there.
+	tm, alt, _, void := p.midGround(px, py, qc, qr, ia, ib, u, useA, useB)
+	switch {
+	case void:
+		return float32(math.Inf(1)), true
+	case !math.IsInf(float64(tm), -1) && tm+p.clearance > alt:
+		t = max(t, tm)
+	}
 	return t, true
 }
 
@@ -377,7 +543,11 @@ func (p *propagation) offer(q int, pi int32, v float64, prev float32, srcIdx uin
 		// within the clearance of the field's own elevation over ground no
 		// higher than the field (the final part of the glide, tapering to
 		// the reserve): floor = t + min(clearance, v − field elevation).
-		own = t + min(p.clearance, vf-p.fieldElev[srcIdx]) - vf
+		// (Written so that flat ground at the field's elevation gives
+		// exactly 0, not a rounding residue that would block the line.)
+		if e := p.fieldElev[srcIdx]; vf-e < p.clearance {
+			own = t - e
+		}
 		if own > 0 {
 			// The glide would pass below the floor here: the least altitude
 			// that keeps it is the clearance height itself (here t is above
@@ -560,8 +730,14 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			// Straight on from s's parent, if the line of sight holds.
 			if prev, ok := p.rayObs(pi, px, py, qc, qr); ok && prev <= 0 {
 				v := p.segment(px, py, pv, qc, qr)
-				p.offer(q, pi, v, prev, srcIdx, noTop, false)
-				continue
+				if pi >= 0 && math.Abs(float64(qc)-px) == 1 && math.Abs(float64(qr)-py) == 1 {
+					// A diagonal step straight from the parent: its corner.
+					prev = max(prev, p.stepObs(int(pi), q, pv, v, srcIdx))
+				}
+				if prev <= 0 {
+					p.offer(q, pi, v, prev, srcIdx, noTop, false)
+					continue
+				}
 			}
 			// Otherwise the path bends at s; a diagonal step must clear the
 			// corner between the two cells beside it (a wall one cell thick

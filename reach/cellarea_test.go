@@ -62,3 +62,38 @@ func TestCellAreasMatchEllipsoid(t *testing.T) {
 		}
 	}
 }
+
+// ContourPolygons gives the area of its polygons on the ellipsoid, not in
+// the tangent plane: for a block of cells 400 km from the frame's origin,
+// the area it returns over the planar (shoelace) area of the same
+// polygons mapped back into the plane is the ellipsoid-to-plane ratio of
+// the cells there (terrain.CellAreas, checked above against
+// geodesy.RingArea), 1.002 at that distance, not 1. (Its edges are straight
+// in lon/lat while the plane's are straight in the plane; over these 10 km
+// edges that differs by under 1e-4 of the area.)
+func TestContourAreaOnEllipsoid(t *testing.T) {
+	f := terrain.NewFrame(-62, 140)
+	const n, cell = 880, 500.0
+	l := terrain.NewFlat(f, 0, 0, cell, n, n, 0) // origin at cell (0, 0)
+	in := func(c, r int) bool { return c >= 560 && c < 580 && r >= 560 && r < 580 }
+	mp, area := ContourPolygons(l, func(c, r int) float64 {
+		if in(c, r) {
+			return 1
+		}
+		return 0
+	}, 0.5)
+	planar := 0.0
+	for _, p := range mp {
+		for _, ring := range p {
+			for j := 1; j < len(ring); j++ {
+				x0, y0 := f.Forward(ring[j-1][1], ring[j-1][0])
+				x1, y1 := f.Forward(ring[j][1], ring[j][0])
+				planar += (x0*y1 - x1*y0) / 2
+			}
+		}
+	}
+	ratio := l.CellAreas().At(570*n+570) / (cell * cell)
+	if got := area / planar; math.Abs(got-ratio) > 1e-4 || ratio < 1.001 {
+		t.Errorf("contour area %.7g m² over its planar %.7g = %.6f, want the cells' ratio %.6f", area, planar, got, ratio)
+	}
+}

@@ -6,6 +6,7 @@ import (
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/planar"
 
+	"glidereach/reach/geodesy"
 	"glidereach/terrain"
 )
 
@@ -175,8 +176,8 @@ func contourRings(v func(c, r int) float64, cols, rows int, level float64) []orb
 // collapse is kept as traced), and nests holes (clockwise rings) into the
 // smallest outer ring that contains them.
 func polygonsFromRings(rings []orb.Ring, tol, minArea float64) []orb.Polygon {
-	var outers []orb.Ring
-	var holes []orb.Ring
+	var outers, tracedOuters []orb.Ring
+	var holes, tracedHoles []orb.Ring
 	for _, r := range rings {
 		hole := r.Orientation() != orb.CCW
 		s := simplifyInward(r, tol)
@@ -190,21 +191,24 @@ func polygonsFromRings(rings []orb.Ring, tol, minArea float64) []orb.Polygon {
 			continue
 		}
 		if hole {
-			holes = append(holes, s)
+			holes, tracedHoles = append(holes, s), append(tracedHoles, r)
 		} else {
-			outers = append(outers, s)
+			outers, tracedOuters = append(outers, s), append(tracedOuters, r)
 		}
 	}
 	polys := make([]orb.Polygon, len(outers))
 	areas := make([]float64, len(outers))
 	for i, o := range outers {
 		polys[i] = orb.Polygon{o}
-		areas[i] = math.Abs(planar.Area(o))
+		areas[i] = math.Abs(planar.Area(tracedOuters[i]))
 	}
-	for _, h := range holes {
+	// Holes are nested by the traced rings: an outer ring simplified inward
+	// can pass inside a hole near its edge, and the hole must not be lost
+	// for its first point falling outside the simplified ring.
+	for k, h := range holes {
 		best := -1
-		for i, o := range outers {
-			if (best < 0 || areas[i] < areas[best]) && planar.RingContains(o, h[0]) {
+		for i, o := range tracedOuters {
+			if (best < 0 || areas[i] < areas[best]) && planar.RingContains(o, tracedHoles[k][0]) {
 				best = i
 			}
 		}
@@ -292,26 +296,27 @@ func simplifyInward(r orb.Ring, tol float64) orb.Ring {
 // in their outer rings, and returns the polygons
 // in lon/lat degrees (RFC 7946 winding: exteriors counter-clockwise, holes
 // clockwise; coordinates rounded to 6 decimals) with their total area in m²
-// on g's local frame. It is the contouring the footprint rings use, for any
-// raster laid out like g.Elev.
+// on the WGS84 ellipsoid, of the polygons as written (edges straight in
+// lon/lat, as RFC 7946 draws them; geodesy.RingArea), so a GIS measuring a
+// feature on the ellipsoid finds the same figure. It is the contouring the
+// footprint rings use, for any raster laid out like g.Elev.
 func ContourPolygons(g *terrain.Local, v func(c, r int) float64, level float64) (orb.MultiPolygon, float64) {
 	polys := polygonsFromRings(contourRings(v, g.Cols, g.Rows, level), 0.5, 1)
 	mp := make(orb.MultiPolygon, 0, len(polys))
 	area := 0.0
+	var ll [][2]float64
 	for _, p := range polys {
 		gp := make(orb.Polygon, len(p))
 		for i, ring := range p {
-			a := 0.0
 			gr := make(orb.Ring, len(ring))
+			ll = ll[:0]
 			for j, pt := range ring {
 				x, y := g.X0+pt[0]*g.Cell, g.Y0+pt[1]*g.Cell
 				lat, lon := g.Frame.Inverse(x, y)
 				gr[j] = orb.Point{round6(lon), round6(lat)}
-				if j > 0 {
-					a += ring[j-1][0]*pt[1] - pt[0]*ring[j-1][1]
-				}
+				ll = append(ll, [2]float64{gr[j][0], gr[j][1]})
 			}
-			area += a / 2 * g.Cell * g.Cell
+			area += geodesy.RingArea(ll) // signed: exteriors +, holes −
 			gp[i] = gr
 		}
 		mp = append(mp, gp)

@@ -970,8 +970,9 @@ func (g *finalGlide) macCready(ctx context.Context, res *FinalGlideResult, mcMax
 		return t, nil
 	}
 	// With a terrain check a setting is affordable only when its glide
-	// also keeps the floor: the terrain plus min(clearance, least − goal)
-	// with the least altitude of that setting.
+	// also keeps the floor (floorAt: the terrain plus min(clearance,
+	// altitude flown − goal)); the backward line of the setting is
+	// integrated only to catch a leg without headway.
 	var alt, least []float64
 	if res.Terrain != nil {
 		alt, least = make([]float64, len(res.Profile)), make([]float64, len(res.Profile))
@@ -996,7 +997,7 @@ func (g *finalGlide) macCready(ctx context.Context, res *FinalGlideResult, mcMax
 			if math.IsNaN(p.Terrain) {
 				continue
 			}
-			fl := p.Terrain + math.Min(g.opts.Clearance, least[k]-g.opts.GoalElev)
+			fl := floorAt(p.Terrain, alt[k], g.opts.Clearance, g.opts.GoalElev)
 			if d := alt[k] - fl; !(d >= f) {
 				f = d
 			}
