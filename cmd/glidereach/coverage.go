@@ -59,8 +59,10 @@ by one, each choice taking the one that adds most to what is covered.
 
 ` + cautionText,
 		Example: `  glidereach coverage --fields testdata/fields/demo-fields.geojson --area -24.85,-0.8,-24.15,-0.15 --alt 1500m
-  glidereach coverage --fields fields.geojson --corridor plan.gpx,10km --agl 2000ft --terrain dem/ --raster least.tif
-  glidereach coverage --fields fields.geojson --area area.geojson --alt 1200m --candidates new.geojson --pick 2 \
+  glidereach coverage --fields testdata/fields/fixture-fields.geojson --corridor testdata/routes/fixture-route.gpx,2km \
+      --agl 600m --terrain testdata/geotiff/geo_int16_strip_none.tif --raster least.tif
+  glidereach coverage --fields testdata/fields/demo-fields.geojson --area testdata/areas/demo-area.geojson --alt 1200m \
+      --candidates testdata/fields/demo-candidates.geojson --pick 2 \
       --format geojson --out coverage.geojson --map coverage.png`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {

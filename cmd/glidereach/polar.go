@@ -71,7 +71,7 @@ Built-in profiles: ` + strings.Join(reach.BuiltinNames(), ", ") + ` (generic, in
 		Example: `  glidereach polar --aircraft trainer --alt 5000ft
   glidereach polar --aircraft sailplane --alt 1500m --units km/h --mc 1.5m/s
   glidereach polar --aircraft trainer --alt 6000ft --wind 270/20kt --track 090
-  glidereach polar --aircraft my-plane.yaml --mass 1100kg --bugs 10% --isa-dev 15C --format json`,
+  glidereach polar --aircraft testdata/aircraft/trainer.yaml --mass 700kg --bugs 10% --isa-dev 15C --format json`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			ac, err := input.LoadAircraft(aircraft)

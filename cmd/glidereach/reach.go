@@ -49,8 +49,8 @@ just reach them with the reserve.
 
 ` + cautionText,
 		Example: `  glidereach reach --from -0.5,-24.5 --alt 1500m --aircraft trainer --out reach.geojson
-  glidereach reach --from -0.5,-24.5 --agl 3000ft --wind 0m:240/10kt,1500m:270/20kt \
-      --terrain testdata/geotiff --fields testdata/fields/demo-fields.geojson --levels 0m,150m
+  glidereach reach --from 0.0,-25.0 --agl 3000ft --wind 0m:240/10kt,1500m:270/20kt \
+      --terrain testdata/geotiff/geo_int16_strip_none.tif --fields testdata/fields/fixture-fields.geojson --levels 0m,150m
   glidereach reach --from -0.5,-24.5 --alt 1200m --format json`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {

@@ -75,8 +75,10 @@ reserve; a margin of +200 m arrives with about reserve + 200 m.
 
 ` + cautionText,
 		Example: `  glidereach route --route testdata/routes/demo-route.gpx --fields testdata/fields/demo-fields.geojson --alt 4500ft
-  glidereach route --route plan.geojson --fields fields.geojson --agl 2000ft --terrain dem/ --format csv --out profile.csv
-  glidereach route --route plan.gpx --fields fields.geojson --format geojson --out route.geojson --map route.png --report route.html`,
+  glidereach route --route testdata/routes/fixture-route.gpx --fields testdata/fields/fixture-fields.geojson --agl 600m \
+      --terrain testdata/geotiff/geo_int16_strip_none.tif --format csv --out profile.csv
+  glidereach route --route testdata/routes/demo-route.geojson --fields testdata/fields/demo-fields.geojson --alt 2400m \
+      --format geojson --out route.geojson --map route.png --report route.html`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			return runRoute(cmd.Context(), o, cmd.OutOrStdout(), cmd.ErrOrStderr())
