@@ -1,7 +1,9 @@
 package main
 
 import (
+	"bytes"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"math"
 	"os"
@@ -11,6 +13,8 @@ import (
 	"time"
 
 	"github.com/spf13/cobra"
+
+	"glidereach/cmd/glidereach/input"
 )
 
 // exampleRun is one command line taken from an example text: the arguments
@@ -150,7 +154,24 @@ func exampleWorkDir(t *testing.T) string {
 // inside it too).
 func runExample(t *testing.T, dir string, run exampleRun) (int, string, string) {
 	t.Helper()
-	code, out, errOut := runCLI(t, run.args...)
+	var outb, errb bytes.Buffer
+	root := newRootCmd()
+	root.SetArgs(run.args)
+	root.SetOut(&outb)
+	root.SetErr(&errb)
+	var err error
+	func() {
+		defer func() {
+			if r := recover(); r != nil {
+				t.Fatalf("%s panicked: %v", run.line, r)
+			}
+		}()
+		err = root.Execute()
+	}()
+	code, out, errOut := exitCodeQuiet(err), outb.String(), errb.String()
+	if err != nil {
+		errOut += "glidereach: " + err.Error() + "\n"
+	}
 	if run.stdout != "" {
 		name := strings.NewReplacer("~/", "", "${fpath[1]}", "fpath", "$HOME", "home").Replace(run.stdout)
 		path := filepath.Join(dir, "redirect", name)
@@ -171,6 +192,19 @@ func runExample(t *testing.T, dir string, run exampleRun) (int, string, string) 
 		out = strings.Join(kept, "\n")
 	}
 	return code, out, errOut
+}
+
+// exitCodeQuiet is exitCode without printing: the examples' messages are
+// compared, not shown.
+func exitCodeQuiet(err error) int {
+	if err == nil {
+		return 0
+	}
+	var ue *input.UsageError
+	if errors.As(err, &ue) || isFlagError(err) {
+		return 2
+	}
+	return 1
 }
 
 // allCommands lists the command tree, depth first.
