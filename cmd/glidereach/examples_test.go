@@ -240,7 +240,11 @@ func TestHelpExamplesRun(t *testing.T) {
 			}
 			n++
 			t0 := time.Now()
-			code, _, errOut := runExample(t, dir, run)
+			code, out, errOut := runExample(t, dir, run)
+			// A completion script names the program's completion function.
+			if len(run.args) > 0 && run.args[0] == "completion" && !strings.Contains(out, "_glidereach") {
+				t.Errorf("%q printed no completion script:\n%.200s", run.line, out)
+			}
 			t.Logf("%.1f s  %s", time.Since(t0).Seconds(), run.line)
 			if code != 0 {
 				t.Errorf("%s --help example %q exits %d:\n%s", c.CommandPath(), run.line, code, errOut)

@@ -194,6 +194,10 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 			return err
 		}
 	}
+	start := orb.Point{o.pos.from.Lon, o.pos.from.Lat}
+	for _, w := range farWarnings("start", orb.Bound{Min: start, Max: start}, fields, "--fields", nil) {
+		fmt.Fprintln(stderr, "glidereach: warning:", w)
+	}
 	fstate, err := o.fail.resolve()
 	if err != nil {
 		return err

@@ -8,6 +8,7 @@ import (
 	"io"
 	"math"
 
+	"github.com/paulmach/orb"
 	"github.com/spf13/cobra"
 
 	"glidereach/cmd/glidereach/input"
@@ -181,6 +182,19 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 	rt, err := input.LoadRouteNamed(o.route, o.routeName)
 	if err != nil {
 		return err
+	}
+	var rb orb.Bound
+	for i, p := range rt.Points {
+		if q := (orb.Point{p.Lon, p.Lat}); i == 0 {
+			rb = orb.Bound{Min: q, Max: q}
+		} else {
+			rb = rb.Extend(q)
+		}
+	}
+	if len(rt.Points) > 0 {
+		for _, w := range farWarnings("route", rb, fields, "--fields", src) {
+			fmt.Fprintln(stderr, "glidereach: warning:", w)
+		}
 	}
 	run := &routeRun{setup: setup, ground: ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}, file: o.route, name: rt.Name, step: o.step.Value, fail: fstate}
 	prog := newProgress(stderr, "route")
