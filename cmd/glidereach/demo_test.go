@@ -38,6 +38,7 @@ func TestDemoWritesFiles(t *testing.T) {
 			}
 		}
 	}
+	checkKeysListed(t, dir)
 	for _, want := range []string{"polar-trainer.txt", "polar-trainer.json", "polar-sailplane.txt"} {
 		if !seen[want] {
 			t.Errorf("demo did not write %s", want)
@@ -117,5 +118,73 @@ func TestDemoWriteTerrainReadsBack(t *testing.T) {
 		if code, _, _ := runCLI(t, args...); code != 2 {
 			t.Errorf("%q: exit %d, want 2", args, code)
 		}
+	}
+}
+
+// checkKeysListed checks that every key of every JSON and GeoJSON file the
+// demo wrote (which runs every command), and of terrain --format json, is
+// listed in the README's "Output keys" section, and that the synonyms the
+// vocabulary replaced are gone: one name for one quantity across commands
+// (common practice, no source).
+func checkKeysListed(t *testing.T, dir string) {
+	t.Helper()
+	readme, err := os.ReadFile(filepath.Join("..", "..", "README.md"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	sec := string(readme)
+	i := strings.Index(sec, "## Output keys")
+	if i < 0 {
+		t.Fatal("README has no Output keys section")
+	}
+	sec = sec[i+3:]
+	if j := strings.Index(sec, "\n## "); j >= 0 {
+		sec = sec[:j]
+	}
+	listed := map[string]bool{}
+	for _, part := range strings.Split(sec, "`")[1:] {
+		listed[part] = true
+	}
+	geo := map[string]bool{"type": true, "features": true, "geometry": true, "coordinates": true, "properties": true, "bbox": true}
+	old := map[string]bool{"farthest_deg": true, "mc_m_s": true, "altitude_m": true, "dist_m": true}
+	docs := map[string][]byte{}
+	ents, _ := os.ReadDir(dir)
+	for _, e := range ents {
+		if strings.HasSuffix(e.Name(), "json") {
+			b, _ := os.ReadFile(filepath.Join(dir, e.Name()))
+			docs[e.Name()] = b
+		}
+	}
+	_, tj, _ := runCLI(t, "terrain", filepath.Join("..", "..", "testdata", "asc", "geo_corner.asc"), "--at", "-0.1,-24.2", "--format", "json")
+	docs["terrain --format json"] = []byte(tj)
+	var walk func(name string, v any)
+	walk = func(name string, v any) {
+		switch x := v.(type) {
+		case map[string]any:
+			for k, sub := range x {
+				if old[k] {
+					t.Errorf("%s: key %q is the old synonym; one vocabulary across commands", name, k)
+				}
+				if !geo[k] && !listed[k] {
+					t.Errorf("%s: key %q is not listed in the README's Output keys", name, k)
+				}
+				walk(name, sub)
+			}
+		case []any:
+			for _, sub := range x {
+				walk(name, sub)
+			}
+		}
+	}
+	for name, b := range docs {
+		var v any
+		if err := json.Unmarshal(b, &v); err != nil {
+			t.Errorf("%s: %v", name, err)
+			continue
+		}
+		walk(name, v)
+	}
+	if len(docs) < 8 {
+		t.Errorf("only %d JSON documents checked", len(docs))
 	}
 }

@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -471,4 +472,43 @@ func jsonDoc(v any, indent string) ([]byte, error) {
 		return nil, err
 	}
 	return append(data, '\n'), nil
+}
+
+// Conservative rounding. A required altitude is rounded up and an arrival
+// height or a margin down, so that a rounded figure never promises more
+// than the computation: 1084.01 m needed prints as 1085 m (text) or
+// 1084.1 m (JSON), an arrival of 449.99 m as 449 m or 449.9 m. The 1e-6
+// guard keeps a value that is whole up to floating-point noise whole.
+// NaN and infinities become "-" (text) or JSON null.
+
+// numUp rounds v up to 0.1 for JSON.
+func numUp(v float64) any {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return nil
+	}
+	return math.Ceil(v*10-1e-6) / 10
+}
+
+// numDown rounds v down to 0.1 for JSON.
+func numDown(v float64) any {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return nil
+	}
+	return math.Floor(v*10+1e-6) / 10
+}
+
+// fmtMUp prints v rounded up to a whole metre.
+func fmtMUp(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "-"
+	}
+	return fmt.Sprintf("%.0f", math.Ceil(v-1e-6))
+}
+
+// fmtMDown prints v rounded down to a whole metre.
+func fmtMDown(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "-"
+	}
+	return fmt.Sprintf("%.0f", math.Floor(v+1e-6))
 }

@@ -214,7 +214,7 @@ type polarWind struct {
 type polarReport struct {
 	Aircraft  string  `json:"aircraft"`
 	PolarForm string  `json:"polar_form"`
-	AltitudeM float64 `json:"altitude_m"`
+	AltitudeM float64 `json:"alt_msl_m"`
 	// ISADevK is the deviation from ISA of the air at AltitudeM: --isa-dev,
 	// or what the wind layers' temperatures give there (TempSource).
 	ISADevK      float64      `json:"isa_dev_k"`
@@ -226,7 +226,7 @@ type polarReport struct {
 	RefMassKg    float64      `json:"reference_mass_kg"`
 	Bugs         float64      `json:"bugs"`
 	AirSink      float64      `json:"air_sink_m_s"`
-	MacCready    float64      `json:"mc_m_s"`
+	MacCready    float64      `json:"mac_cready_m_s"`
 	Wind         *polarWind   `json:"wind"`
 	StallIAS     float64      `json:"stall_ias_m_s"`
 	MinIAS       float64      `json:"min_ias_m_s"`

@@ -62,7 +62,7 @@ func TestPolarJSONAndWind(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &r); err != nil {
 		t.Fatal(err)
 	}
-	for _, k := range []string{"altitude_m", "density_kg_m3", "rows", "best_glide", "least_sink", "speed_to_fly", "caution", "wind", "min_ias_m_s"} {
+	for _, k := range []string{"alt_msl_m", "mac_cready_m_s", "density_kg_m3", "rows", "best_glide", "least_sink", "speed_to_fly", "caution", "wind", "min_ias_m_s"} {
 		if _, ok := r[k]; !ok {
 			t.Errorf("JSON lacks %q", k)
 		}

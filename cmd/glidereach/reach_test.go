@@ -484,7 +484,7 @@ func TestReachFarthestIsTheRingVertex(t *testing.T) {
 		switch f.Properties["kind"] {
 		case "start":
 			far, _ = f.Properties["farthest_m"].(float64)
-			farDeg, _ = f.Properties["farthest_deg"].(float64)
+			farDeg, _ = f.Properties["farthest_bearing_deg"].(float64)
 			farLat, _ = f.Properties["farthest_lat"].(float64)
 			farLon, _ = f.Properties["farthest_lon"].(float64)
 			if s, _ := f.Properties["farthest_is"].(string); !strings.Contains(s, "ring") {

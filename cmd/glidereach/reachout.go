@@ -32,9 +32,9 @@ func fieldProps(f fieldResult) map[string]any {
 		"kind":                   "field",
 		"name":                   f.Name,
 		"reachable":              f.Reachable,
-		"arrival_agl_m":          num(f.ArrivalAGLM),
-		"required_msl_m":         num(f.RequiredMSL),
-		"margin_above_reserve_m": num(f.MarginM),
+		"arrival_agl_m":          numDown(f.ArrivalAGLM),
+		"required_msl_m":         numUp(f.RequiredMSL),
+		"margin_above_reserve_m": numDown(f.MarginM),
 		"distance_m":             num(f.DistanceM),
 		"bearing_deg":            num(f.BearingDeg),
 		"elevation_m":            num(f.ElevationM),
@@ -106,25 +106,25 @@ func levelMeaning(a, reserve float64) (below bool, meaning string) {
 
 func startProps(run *reachRun) map[string]any {
 	return map[string]any{
-		"kind":           "start",
-		"caution":        reach.Caution,
-		"alt_msl_m":      num(run.startAlt),
-		"ground_m":       num(run.startElev),
-		"agl_m":          num(run.startAlt - run.startElev),
-		"aircraft":       run.setup.Aircraft.Name,
-		"wind":           run.setup.WindText,
-		"reserve_m":      run.setup.Reserve,
-		"clearance_m":    run.setup.Clearance,
-		"terrain":        run.ground.describe(),
-		"farthest_m":     num(run.farthest),
-		"farthest_deg":   num(run.farBearing),
-		"farthest_lat":   farCoord(run, 1),
-		"farthest_lon":   farCoord(run, 0),
-		"farthest_is":    farthestIs,
-		"assumptions":    run.setup.assumptions(),
-		"cell_size_m":    num(run.res.Ground.Cell),
-		"planning_only":  true,
-		"mac_cready_m_s": run.setup.Cond.MacCready,
+		"kind":                 "start",
+		"caution":              reach.Caution,
+		"alt_msl_m":            num(run.startAlt),
+		"ground_m":             num(run.startElev),
+		"agl_m":                num(run.startAlt - run.startElev),
+		"aircraft":             run.setup.Aircraft.Name,
+		"wind":                 run.setup.WindText,
+		"reserve_m":            run.setup.Reserve,
+		"clearance_m":          run.setup.Clearance,
+		"terrain":              run.ground.describe(),
+		"farthest_m":           num(run.farthest),
+		"farthest_bearing_deg": num(run.farBearing),
+		"farthest_lat":         farCoord(run, 1),
+		"farthest_lon":         farCoord(run, 0),
+		"farthest_is":          farthestIs,
+		"assumptions":          run.setup.assumptions(),
+		"cell_size_m":          num(run.res.Ground.Cell),
+		"planning_only":        true,
+		"mac_cready_m_s":       run.setup.Cond.MacCready,
 	}
 }
 
@@ -220,7 +220,7 @@ func writeReachText(w io.Writer, run *reachRun) {
 			if f.Reachable {
 				r = "yes"
 			}
-			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%.1f\t%03.0f\t%.0f\t%s\n", f.Name, r, fmtM(f.ArrivalAGLM), fmtM(f.MarginM), fmtM(f.RequiredMSL), f.DistanceM/1000, f.BearingDeg, f.ElevationM, f.Note)
+			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%.1f\t%03.0f\t%.0f\t%s\n", f.Name, r, fmtMDown(f.ArrivalAGLM), fmtMDown(f.MarginM), fmtMUp(f.RequiredMSL), f.DistanceM/1000, f.BearingDeg, f.ElevationM, f.Note)
 		}
 		tw.Flush()
 	}
@@ -335,7 +335,7 @@ func drawReach(run *reachRun, mapPath, reportPath string) error {
 				if f.Reachable {
 					r = "yes"
 				}
-				t.Rows = append(t.Rows, []string{f.Name, r, fmtM(f.ArrivalAGLM), fmtM(f.MarginM), fmtM(f.RequiredMSL), fmt.Sprintf("%.1f", f.DistanceM/1000), fmt.Sprintf("%03.0f", f.BearingDeg)})
+				t.Rows = append(t.Rows, []string{f.Name, r, fmtMDown(f.ArrivalAGLM), fmtMDown(f.MarginM), fmtMUp(f.RequiredMSL), fmt.Sprintf("%.1f", f.DistanceM/1000), fmt.Sprintf("%03.0f", f.BearingDeg)})
 			}
 			rep.Tables = append(rep.Tables, t)
 		}

@@ -44,7 +44,7 @@ func (run *routeRun) gapClose(g reach.RouteGap) string {
 	if math.IsNaN(g.CloseAlt) {
 		return fmt.Sprintf("not below %.0f m", run.ceiling)
 	}
-	return fmt.Sprintf("%.0f m (%.0f ft)", g.CloseAlt, g.CloseAlt/0.3048)
+	return fmt.Sprintf("%s m (%s ft)", fmtMUp(g.CloseAlt), fmtMUp(g.CloseAlt/0.3048))
 }
 
 // writeRouteText prints the human summary.
@@ -81,7 +81,7 @@ func writeRouteText(w io.Writer, run *routeRun) {
 	}
 	if worst >= 0 {
 		s := p.Samples[worst]
-		fmt.Fprintf(w, "Smallest margin while covered: %.0f m at %.1f km (best field %s)\n", s.Margin, s.Dist/1000, run.bestName(s.Best))
+		fmt.Fprintf(w, "Smallest margin while covered: %s m at %.1f km (best field %s)\n", fmtMDown(s.Margin), s.Dist/1000, run.bestName(s.Best))
 	}
 	fmt.Fprintln(w)
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
@@ -103,7 +103,7 @@ func writeRouteText(w io.Writer, run *routeRun) {
 		if s.Covered {
 			c = "yes"
 		}
-		fmt.Fprintf(tw, "%.1f\t%.0f\t%s\t%s\t%s\t%s\t%s\t\n", s.Dist/1000, s.Alt, fmtM(s.Terrain), fmtM(s.Least), fmtM(s.Margin), run.bestName(s.Best), c)
+		fmt.Fprintf(tw, "%.1f\t%.0f\t%s\t%s\t%s\t%s\t%s\t\n", s.Dist/1000, s.Alt, fmtM(s.Terrain), fmtMUp(s.Least), fmtMDown(s.Margin), run.bestName(s.Best), c)
 	}
 	tw.Flush()
 	fmt.Fprintln(w, "\nMARGIN = planned - least altitude; the least altitude includes the reserve (0 = arrive with exactly the reserve).")
@@ -121,14 +121,14 @@ func gapJSON(run *routeRun, g reach.RouteGap) map[string]any {
 	return map[string]any{
 		"start_m": num(g.Start), "end_m": num(g.End), "length_m": num(g.Length()),
 		"start_lat": round6(g.StartLat), "start_lon": round6(g.StartLon), "end_lat": round6(g.EndLat), "end_lon": round6(g.EndLon),
-		"close_msl_m": num(g.CloseAlt), "searched_to_msl_m": num(run.ceiling),
+		"close_msl_m": numUp(g.CloseAlt), "searched_to_msl_m": num(run.ceiling),
 	}
 }
 
 func sampleJSON(run *routeRun, s reach.RouteSample) map[string]any {
 	m := map[string]any{
-		"dist_m": num(s.Dist), "lat": round6(s.Lat), "lon": round6(s.Lon), "planned_msl_m": num(s.Alt),
-		"terrain_m": num(s.Terrain), "least_msl_m": num(s.Least), "margin_above_reserve_m": num(s.Margin), "covered": s.Covered,
+		"distance_m": num(s.Dist), "lat": round6(s.Lat), "lon": round6(s.Lon), "planned_msl_m": num(s.Alt),
+		"terrain_m": num(s.Terrain), "least_msl_m": numUp(s.Least), "margin_above_reserve_m": numDown(s.Margin), "covered": s.Covered,
 	}
 	if n := run.bestName(s.Best); n != "" {
 		m["best_field"] = n
@@ -189,12 +189,20 @@ func routeCSV(run *routeRun) []byte {
 	notes := append([]string{"CAUTION: " + reach.Caution, marginNote}, run.assumptions()...)
 	notes = append(notes, run.notes...)
 	w := csv.NewWriter(&b)
-	w.Write([]string{"dist_m", "lat", "lon", "planned_msl_m", "terrain_m", "least_msl_m", "margin_above_reserve_m", "best_field", "covered", "notes"})
+	w.Write([]string{"distance_m", "lat", "lon", "planned_msl_m", "terrain_m", "least_msl_m", "margin_above_reserve_m", "best_field", "covered", "notes"})
 	f := func(v float64) string {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
 			return ""
 		}
 		return strconv.FormatFloat(math.Round(v*10)/10, 'f', -1, 64)
+	}
+	// Required altitudes up, margins down (see numUp).
+	fRound := func(v float64, r func(float64) any) string {
+		x, ok := r(v).(float64)
+		if !ok {
+			return ""
+		}
+		return strconv.FormatFloat(x, 'f', -1, 64)
 	}
 	for i, s := range run.prof.Samples {
 		note := ""
@@ -202,7 +210,7 @@ func routeCSV(run *routeRun) []byte {
 			note = notes[i]
 		}
 		w.Write([]string{f(s.Dist), strconv.FormatFloat(round6(s.Lat), 'f', -1, 64), strconv.FormatFloat(round6(s.Lon), 'f', -1, 64),
-			f(s.Alt), f(s.Terrain), f(s.Least), f(s.Margin), run.bestName(s.Best), strconv.FormatBool(s.Covered), note})
+			f(s.Alt), f(s.Terrain), fRound(s.Least, numUp), fRound(s.Margin, numDown), run.bestName(s.Best), strconv.FormatBool(s.Covered), note})
 	}
 	// A route shorter than its notes: the rest on rows of their own.
 	for i := len(run.prof.Samples); i < len(notes); i++ {
@@ -282,7 +290,7 @@ func routeGeoJSON(run *routeRun) ([]byte, error) {
 	for _, pc := range routePieces(p) {
 		f := geojson.NewFeature(pc.line)
 		f.Properties = map[string]any{"kind": "route_piece", "covered": pc.covered, "start_m": num(pc.start), "end_m": num(pc.end),
-			"length_m": num(pc.end - pc.start), "min_margin_above_reserve_m": num(pc.minMargin)}
+			"length_m": num(pc.end - pc.start), "min_margin_above_reserve_m": numDown(pc.minMargin)}
 		fc.Append(f)
 	}
 	for i, g := range p.Gaps {
