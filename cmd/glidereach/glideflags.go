@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"os"
 	"strings"
 
 	"github.com/spf13/pflag"
@@ -232,7 +233,7 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 		}
 	}
 	s.checkSettings(resFrom, clrFrom)
-	s.WindText = windText(w)
+	s.WindText = windTextStyled(w, windStyleOf(g.wind, g.windAloft))
 	s.Winds = []*wind.Profile{w}
 	if g.windError != "" {
 		d, sp, err := input.ParseWindError(g.windError)
@@ -313,6 +314,8 @@ func (s *glideSetup) assumptions() []string {
 	}
 	if s.Cond.AirSink > 0 {
 		a = append(a, fmt.Sprintf("sinking air allowance %.1f m/s", s.Cond.AirSink))
+	} else {
+		a = append(a, "no sinking-air allowance: the air is taken as neither rising nor sinking apart from the wind (add one with --air-sink)")
 	}
 	if s.Cond.MacCready > 0 {
 		a = append(a, fmt.Sprintf("MacCready setting %.1f m/s", s.Cond.MacCready))
@@ -536,8 +539,39 @@ func (f *indicatedFlags) convert(alt *input.Quantity) (string, error) {
 
 // windText describes a wind profile for people: each layer as
 // "ALTm DIR°/SPEED kt", direction the wind blows from.
-func windText(p *wind.Profile) string {
+func windText(p *wind.Profile) string { return windTextStyled(p, windStyle{}) }
+
+// windStyle says how the user gave the wind, so that it is echoed in the
+// user's terms: altitudes in feet as well when they were typed in feet (a
+// coded forecast always is), and a calm layer of a coded forecast (group
+// 9900) as "light and variable", which is what the forecast said.
+type windStyle struct {
+	feet, forecast bool
+}
+
+// windStyleOf finds the style of the --wind / --wind-aloft values: feet when
+// the forecast is given, or when the --wind text (or the file it names)
+// uses ft.
+func windStyleOf(windSpec, aloftSpec string) windStyle {
+	if strings.TrimSpace(aloftSpec) != "" {
+		return windStyle{feet: true, forecast: true}
+	}
+	text := windSpec
+	if st, err := os.Stat(strings.TrimSpace(windSpec)); err == nil && st.Mode().IsRegular() && st.Size() < 1<<20 {
+		if b, err := os.ReadFile(strings.TrimSpace(windSpec)); err == nil {
+			text = string(b)
+		}
+	}
+	return windStyle{feet: strings.Contains(strings.ToLower(text), "ft")}
+}
+
+// windTextStyled is windText in the given style: "3000 ft (914 m)
+// 270°/14 kt" for feet, "light and variable" for a forecast's calm layer.
+func windTextStyled(p *wind.Profile, st windStyle) string {
 	if p == nil || p.IsCalm() {
+		if st.forecast && p != nil && len(p.Layers()) > 0 {
+			return "light and variable at every level"
+		}
 		return "calm"
 	}
 	ls := p.Layers()
@@ -546,7 +580,18 @@ func windText(p *wind.Profile) string {
 	}
 	parts := make([]string, 0, len(ls))
 	for _, l := range ls {
-		s := fmt.Sprintf("%.0f m %03.0f°/%.0f kt", l.Alt, l.Dir, l.Speed/input.Knot)
+		alt := fmt.Sprintf("%.0f m", l.Alt)
+		if st.feet {
+			alt = fmt.Sprintf("%.0f ft (%.0f m)", l.Alt/0.3048, l.Alt)
+		}
+		dirSpeed := fmt.Sprintf("%03.0f°/%.0f kt", l.Dir, l.Speed/input.Knot)
+		if l.Speed == 0 {
+			dirSpeed = "calm"
+			if st.forecast {
+				dirSpeed = "light and variable"
+			}
+		}
+		s := alt + " " + dirSpeed
 		if l.HasTemp {
 			s += fmt.Sprintf(" %+.0f °C", l.Temp-273.15)
 		}

@@ -151,3 +151,54 @@ func TestUserFilesReferToShippedDocs(t *testing.T) {
 		}
 	}
 }
+
+// TestWindEchoedInUsersTerms checks that a wind is echoed as it was given:
+// levels of a coded forecast (feet MSL, the published coding) in feet with
+// metres beside, a 9900 group as "light and variable" (its published
+// meaning) rather than "000°/0 kt", and layers typed in feet in feet.
+func TestWindEchoedInUsersTerms(t *testing.T) {
+	_, out, _ := runCLI(t, "polar", "--aircraft", "trainer", "--alt", "9000ft", "--wind-aloft", "3000:9900 6000:2725+05 9000:2830-02", "--track", "090")
+	want := "Wind: 3000 ft (914 m) light and variable, 6000 ft (1829 m) 270°/25 kt +5 °C, 9000 ft (2743 m) 280°/30 kt -2 °C"
+	if !strings.Contains(out, want) {
+		t.Errorf("polar --wind-aloft: want %q in\n%s", want, out)
+	}
+	_, out, _ = runCLI(t, "reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--wind", "0ft:240/10kt,5000ft:270/20kt")
+	if !strings.Contains(out, "Wind: 0 ft (0 m) 240°/10 kt, 5000 ft (1524 m) 270°/20 kt") {
+		t.Errorf("reach --wind in ft: not echoed in feet:\n%s", out)
+	}
+	_, out, _ = runCLI(t, "reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--wind", "0m:240/10kt,1500m:270/20kt")
+	if !strings.Contains(out, "Wind: 0 m 240°/10 kt, 1500 m 270°/20 kt") || strings.Contains(out, " ft (") {
+		t.Errorf("reach --wind in m: echoed differently:\n%s", out)
+	}
+}
+
+// TestHelpShowsNoNaN checks that no --help shows a default a user cannot
+// read, such as "(default NaN)" for an optional --heading.
+func TestHelpShowsNoNaN(t *testing.T) {
+	for _, c := range allCommands(newRootCmd()) {
+		args := append(strings.Fields(strings.TrimPrefix(c.CommandPath(), "glidereach")), "--help")
+		_, out, _ := runCLI(t, args...)
+		if strings.Contains(out, "NaN") || strings.Contains(out, "Inf)") {
+			t.Errorf("%s --help shows NaN or Inf:\n%s", c.CommandPath(), out)
+		}
+	}
+	if code, _, _ := runCLI(t, "reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--heading", "400"); code != 2 {
+		t.Errorf("--heading 400: exit %d, want 2", code)
+	}
+}
+
+// TestAssumptionsSaySinkingAir checks that the assumptions say whether a
+// sinking-air allowance was applied — a glide in sinking air falls short of
+// a still-air figure (common practice, no source) — in text and JSON.
+func TestAssumptionsSaySinkingAir(t *testing.T) {
+	for _, extra := range [][]string{nil, {"--format", "json"}} {
+		_, out, _ := runCLI(t, append([]string{"reach", "--from", "-0.5,-24.5", "--alt", "1500m"}, extra...)...)
+		if !strings.Contains(out, "no sinking-air allowance") {
+			t.Errorf("reach %v: assumptions do not say no sinking-air allowance was applied:\n%s", extra, out)
+		}
+	}
+	_, out, _ := runCLI(t, "reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--air-sink", "0.5m/s")
+	if !strings.Contains(out, "sinking air allowance 0.5 m/s") || strings.Contains(out, "no sinking-air allowance") {
+		t.Errorf("reach --air-sink 0.5m/s: assumptions wrong:\n%s", out)
+	}
+}

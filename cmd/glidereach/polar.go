@@ -106,11 +106,11 @@ Built-in profiles: ` + strings.Join(reach.BuiltinNames(), ", ") + ` (generic, in
 				if !o.hasTrack {
 					return input.Usagef("--track", "is required with a wind (the track to hold, degrees true, e.g. --track 090)")
 				}
-				o.wind, o.windText = w, windText(w)
+				o.wind, o.windText = w, windTextStyled(w, windStyleOf(windSpec, aloftSpec))
 			}
 			if w.HasTemperatures() {
 				o.wind = w
-				o.windText = windText(w)
+				o.windText = windTextStyled(w, windStyleOf(windSpec, aloftSpec))
 			}
 			o.atm = reach.Atmosphere{ISADev: o.isaDev}
 			if w.HasTemperatures() {
