@@ -202,3 +202,20 @@ func TestAssumptionsSaySinkingAir(t *testing.T) {
 		t.Errorf("reach --air-sink 0.5m/s: assumptions wrong:\n%s", out)
 	}
 }
+
+// TestRouteFieldTableSaysWhatBestMeans checks that the route's field table
+// names its column for what it is (the length of route along which the
+// field is the best one) and shows "-" rather than "0.0" for a field that
+// is never the best, which read as "best at km 0".
+func TestRouteFieldTableSaysWhatBestMeans(t *testing.T) {
+	td := filepath.Join("..", "..", "testdata")
+	_, out, _ := runCLI(t, "route", "--route", filepath.Join(td, "routes", "demo-route.gpx"), "--fields", filepath.Join(td, "fields", "demo-fields.geojson"), "--alt", "7500ft")
+	if !strings.Contains(out, "BEST FOR km OF ROUTE") || !strings.Contains(out, "the length of route along which the field is the best one") {
+		t.Errorf("route text lacks the explained column:\n%s", out)
+	}
+	for _, l := range strings.Split(out, "\n") {
+		if strings.HasPrefix(l, "Gannet Flats ") && !strings.Contains(l, " - ") {
+			t.Errorf("a field never the best shows a number: %q", l)
+		}
+	}
+}

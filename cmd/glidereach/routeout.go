@@ -85,11 +85,12 @@ func writeRouteText(w io.Writer, run *routeRun) {
 	}
 	fmt.Fprintln(w)
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-	fmt.Fprintln(tw, "FIELD\tELEV m\tBEST ALONG km\tNOTE\t")
+	fmt.Fprintln(tw, "FIELD\tELEV m\tBEST FOR km OF ROUTE\tNOTE\t")
 	for _, f := range run.fields {
-		fmt.Fprintf(tw, "%s\t%s\t%.1f\t%s\t\n", f.Name, fmtM(f.Elev), f.BestM/1000, f.Note)
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t\n", f.Name, fmtM(f.Elev), bestForKm(f.BestM), f.Note)
 	}
 	tw.Flush()
+	fmt.Fprintln(w, "BEST FOR km OF ROUTE: the length of route along which the field is the best one (reached from the lowest altitude); - where it never is.")
 	// A short profile: about 12 rows.
 	fmt.Fprintln(w)
 	every := max(1, len(p.Samples)/12)
@@ -438,11 +439,20 @@ func drawRoute(run *routeRun, mapPath, reportPath string) error {
 	if len(gt.Rows) == 0 {
 		gt.Note = "No gaps."
 	}
-	ft := render.Table{Title: "Landing fields", Header: []string{"Field", "Elevation (m)", "Best along (km)", "Note"}}
+	ft := render.Table{Title: "Landing fields", Header: []string{"Field", "Elevation (m)", "Best field for (km of route)", "Note"}}
 	for _, f := range run.fields {
-		ft.Rows = append(ft.Rows, []string{f.Name, fmtM(f.Elev), fmt.Sprintf("%.1f", f.BestM/1000), f.Note})
+		ft.Rows = append(ft.Rows, []string{f.Name, fmtM(f.Elev), bestForKm(f.BestM), f.Note})
 	}
 	rep.Tables = append(rep.Tables, gt, ft, render.Table{Title: "Assumptions", Header: []string{"Input"}, Rows: rowsOf(run.assumptions())})
 	rep.MapPNG = pngData
 	return writeFileAtomic(reportPath, func(f *os.File) error { return render.WriteReport(f, rep) })
+}
+
+// bestForKm prints the length of route (m) along which a field is the best
+// one, in km, or "-" when it never is: "0.0" read as "best at km 0".
+func bestForKm(m float64) string {
+	if !(m > 0) {
+		return "-"
+	}
+	return fmt.Sprintf("%.1f", m/1000)
 }
