@@ -219,3 +219,43 @@ func TestRouteFieldTableSaysWhatBestMeans(t *testing.T) {
 		}
 	}
 }
+
+// TestFinalTextForNewcomers checks three things a first reader of the final
+// glide's text tripped over: a glide far short showed legs with negative
+// mean altitudes (the line continued below the ground) and two different
+// "more altitude" figures; and a powered trainer was offered a MacCready
+// line, a setting that means something only for sailplanes and motorgliders
+// (common practice, no source) or when --mc is given.
+func TestFinalTextForNewcomers(t *testing.T) {
+	_, out, _ := runCLI(t, "final", "--from", "-0.5,-24.5", "--alt", "500m", "--to", "-0.9,-24.1", "--aircraft", "trainer")
+	if !strings.Contains(out, "Legs as flown from the required") {
+		t.Errorf("short glide: the table does not say it shows the glide from the required altitude:\n%s", out)
+	}
+	for _, l := range strings.Split(out, "\n") {
+		if f := strings.Fields(l); len(f) > 7 && f[1] == "goal" {
+			if alt, err := strconv.ParseFloat(f[6], 64); err != nil || alt < 0 {
+				t.Errorf("short glide: leg mean altitude %q below sea level over ground at 0 m", f[6])
+			}
+		}
+	}
+	// One figure for how much more altitude is needed.
+	if strings.Contains(out, "at the start clears it") || strings.Count(out, "more altitude") != 1 {
+		t.Errorf("short glide: more than one 'more altitude' figure:\n%s", out)
+	}
+	for _, c := range []struct {
+		args []string
+		want bool
+	}{
+		{[]string{"--aircraft", "trainer"}, false},
+		{[]string{"--aircraft", "tourer"}, false},
+		{[]string{"--aircraft", "trainer", "--mc", "1m/s"}, true},
+		{[]string{"--aircraft", "sailplane"}, true},
+		{[]string{"--aircraft", "motorglider"}, true},
+	} {
+		args := append([]string{"final", "--from", "-0.5,-24.5", "--alt", "1500m", "--to", "-0.45,-24.45"}, c.args...)
+		_, out, _ := runCLI(t, args...)
+		if got := strings.Contains(out, "MacCready: highest affordable"); got != c.want {
+			t.Errorf("%v: MacCready line shown %v, want %v", c.args, got, c.want)
+		}
+	}
+}
