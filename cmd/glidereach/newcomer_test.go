@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"encoding/xml"
 	"math"
 	"os"
 	"path/filepath"
@@ -256,6 +257,57 @@ func TestFinalTextForNewcomers(t *testing.T) {
 		_, out, _ := runCLI(t, args...)
 		if got := strings.Contains(out, "MacCready: highest affordable"); got != c.want {
 			t.Errorf("%v: MacCready line shown %v, want %v", c.args, got, c.want)
+		}
+	}
+}
+
+// TestRasterASCSidecars checks that --raster x.asc writes x.prj, so the
+// tool's own terrain command reads the grid back without --crs (it refuses
+// an ASCII grid without a CRS), and x.asc.aux.xml, GDAL's auxiliary metadata
+// (PAMDataset, from memory of GDAL's PAM format), carrying the value's
+// meaning, its unit and the caution; for reach and for coverage.
+func TestRasterASCSidecars(t *testing.T) {
+	dir := t.TempDir()
+	fields := filepath.Join("..", "..", "testdata", "fields", "demo-fields.geojson")
+	for _, c := range []struct {
+		args []string
+		what string
+	}{
+		{[]string{"reach", "--from", "-0.5,-24.5", "--alt", "1500m", "--raster", filepath.Join(dir, "reach.asc")}, "arrival height above ground (m)"},
+		{[]string{"coverage", "--fields", fields, "--box", "-0.8,-24.8,-0.2,-24.2", "--alt", "1500m", "--raster", filepath.Join(dir, "coverage.asc")}, "least altitude (m MSL)"},
+	} {
+		path := c.args[len(c.args)-1]
+		if code, _, errOut := runCLI(t, c.args...); code != 0 {
+			t.Fatalf("%v: exit %d: %s", c.args, code, errOut)
+		}
+		code, out, errOut := runCLI(t, "terrain", path, "--format", "json")
+		if code != 0 || !strings.Contains(out, `"crs": "EPSG:4326"`) {
+			t.Errorf("terrain %s: exit %d %s\n%s", path, code, errOut, out)
+		}
+		aux, err := os.ReadFile(path + ".aux.xml")
+		if err != nil {
+			t.Fatal(err)
+		}
+		var pam struct {
+			MDI []struct {
+				Key  string `xml:"key,attr"`
+				Text string `xml:",chardata"`
+			} `xml:"Metadata>MDI"`
+			Band struct {
+				Description string `xml:"Description"`
+				UnitType    string `xml:"UnitType"`
+				NoData      string `xml:"NoDataValue"`
+			} `xml:"PAMRasterBand"`
+		}
+		if err := xml.Unmarshal(aux, &pam); err != nil {
+			t.Fatalf("%s.aux.xml: %v", path, err)
+		}
+		caution := false
+		for _, m := range pam.MDI {
+			caution = caution || (m.Key == "CAUTION" && strings.Contains(m.Text, "PLANNING AID ONLY"))
+		}
+		if !caution || !strings.Contains(pam.Band.Description, c.what) || pam.Band.UnitType != "m" || pam.Band.NoData != "-9999" {
+			t.Errorf("%s.aux.xml lacks the caution, meaning, unit or no-data value:\n%s", path, aux)
 		}
 	}
 }

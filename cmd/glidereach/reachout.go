@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"encoding/xml"
 	"fmt"
 	"io"
 	"math"
@@ -262,15 +263,59 @@ func writeArrivalRaster(path string, run *reachRun) error {
 
 // writeRaster writes g as GeoTIFF or ESRI ASCII grid by the path's
 // extension. A GeoTIFF carries what the values are and the caution in its
-// ImageDescription; an ASCII grid has no place for text.
+// ImageDescription. An ASCII grid has no place for text, so it gets two
+// sidecars: NAME.prj with its CRS (without it the tool's own readers, and
+// GDAL, do not know where the grid lies) and NAME.asc.aux.xml, GDAL's
+// auxiliary metadata file (a PAMDataset), whose dataset metadata and band
+// description GIS programs show: what the values are, their unit, and the
+// caution. The sidecars are written first and removed again if the grid
+// cannot be written, so a failure leaves nothing half-done.
 func writeRaster(path string, g *terrain.Grid, what string) error {
 	ext := strings.ToLower(filepath.Ext(path))
-	return writeFileAtomic(path, func(f *os.File) error {
-		if ext == ".asc" {
-			return terrain.WriteASC(f, g)
-		}
-		return terrain.GeoTIFFWriter{Description: "glidereach: " + what + ". " + reach.Caution}.Write(f, g)
-	})
+	if ext != ".asc" {
+		return writeFileAtomic(path, func(f *os.File) error {
+			return terrain.GeoTIFFWriter{Description: "glidereach: " + what + ". " + reach.Caution}.Write(f, g)
+		})
+	}
+	prj, err := terrain.PRJ(g.CRS)
+	if err != nil {
+		return err
+	}
+	prjPath := strings.TrimSuffix(path, filepath.Ext(path)) + ".prj"
+	auxPath := path + ".aux.xml"
+	if err := writeFileAtomic(prjPath, func(f *os.File) error { _, err := f.WriteString(prj + "\n"); return err }); err != nil {
+		return err
+	}
+	if err := writeFileAtomic(auxPath, func(f *os.File) error { _, err := f.WriteString(pamMetadata(what)); return err }); err != nil {
+		os.Remove(prjPath)
+		return err
+	}
+	if err := writeFileAtomic(path, func(f *os.File) error { return terrain.WriteASC(f, g) }); err != nil {
+		os.Remove(prjPath)
+		os.Remove(auxPath)
+		return err
+	}
+	return nil
+}
+
+// pamMetadata is the GDAL auxiliary metadata (.aux.xml, a PAMDataset) of a
+// raster the tool writes: the value's meaning as the band description and
+// as dataset metadata, the unit (m), the no-data value WriteASC uses, and
+// the caution.
+func pamMetadata(what string) string {
+	esc := func(s string) string {
+		var b strings.Builder
+		xml.EscapeText(&b, []byte(s))
+		return b.String()
+	}
+	return "<PAMDataset>\n  <Metadata>\n" +
+		"    <MDI key=\"DESCRIPTION\">glidereach: " + esc(what) + "</MDI>\n" +
+		"    <MDI key=\"CAUTION\">" + esc(reach.Caution) + "</MDI>\n" +
+		"  </Metadata>\n  <PAMRasterBand band=\"1\">\n" +
+		"    <Description>" + esc(what) + "</Description>\n" +
+		"    <NoDataValue>-9999</NoDataValue>\n" +
+		"    <UnitType>m</UnitType>\n" +
+		"  </PAMRasterBand>\n</PAMDataset>\n"
 }
 
 // reachScene builds the map scene of a reach run.
