@@ -210,11 +210,13 @@ func coverageScene(run *coverageRun) *render.Scene {
 	r := run.res
 	s := &render.Scene{
 		Title:      fmt.Sprintf("Field coverage at %s - %s", shortCoverageAlt(run), run.setup.Aircraft.Name),
-		Terrain:    r.Ground,
+		Terrain:    displayTerrain(r.Ground, run.ground),
 		DataSource: "terrain: " + run.ground.describe(),
 		Caution:    reach.Caution,
 		Coverage:   &render.Coverage{Area: run.zonePolygons(), Covered: run.covered, Uncovered: run.uncovered},
+		FieldsFrom: "from the area",
 	}
+	s.WindLayers, s.WindSource = windMarks(run.setup)
 	for i, f := range run.fields {
 		s.Fields = append(s.Fields, render.FieldMark{Name: f.Name, Point: orb.Point{f.Lon, f.Lat}, Reachable: !r.Skipped[i], ArrivalAGL: math.NaN()})
 	}

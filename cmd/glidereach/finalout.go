@@ -553,11 +553,12 @@ func finalScene(run *finalRun) (*render.Scene, error) {
 	}
 	s := &render.Scene{
 		Title:      fmt.Sprintf("Final glide to %s - %s", run.goalName, run.setup.Aircraft.Name),
-		Terrain:    l,
+		Terrain:    displayTerrain(l, run.ground),
 		Bounds:     mapBounds(l, run.ground),
 		DataSource: "terrain: " + run.ground.describe(),
 		Caution:    reach.Caution,
 	}
+	s.WindLayers, s.WindSource = windMarks(run.setup)
 	idx := finalIndices(r)
 	gl := &render.GlideLine{LowestClearance: math.NaN()}
 	for _, k := range idx {

@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"glidereach/cmd/glidereach/input"
+	"glidereach/cmd/glidereach/render"
 	"glidereach/reach"
 	"glidereach/terrain"
 	"glidereach/wind"
@@ -132,6 +133,10 @@ type glideSetup struct {
 	Reserve   float64
 	Clearance float64
 	WindText  string
+	// WindSource says where the wind came from, for maps: "--wind",
+	// "--wind-aloft (coded forecast)" or "none given: calm", and the
+	// --wind-error set when there is one.
+	WindSource string
 	// Warnings are the settings below common practice (see warnReserve);
 	// each is printed on stderr and listed first in the assumptions.
 	Warnings []string
@@ -234,6 +239,14 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 	}
 	s.checkSettings(resFrom, clrFrom)
 	s.WindText = windTextStyled(w, windStyleOf(g.wind, g.windAloft))
+	switch {
+	case strings.TrimSpace(g.windAloft) != "":
+		s.WindSource = "--wind-aloft " + strings.TrimSpace(g.windAloft) + " (coded forecast)"
+	case strings.TrimSpace(g.wind) != "":
+		s.WindSource = "--wind " + strings.TrimSpace(g.wind)
+	default:
+		s.WindSource = "none given: calm"
+	}
 	s.Winds = []*wind.Profile{w}
 	if g.windError != "" {
 		d, sp, err := input.ParseWindError(g.windError)
@@ -243,6 +256,7 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 		s.Winds = wind.Perturb(w, d, sp)
 		if len(s.Winds) > 1 {
 			s.WindText += fmt.Sprintf(" (±%.0f°, ±%.0f kt: worst of %d winds)", d, sp/input.Knot, len(s.Winds))
+			s.WindSource += fmt.Sprintf("; the figures hold for the worst of %d winds (--wind-error %s), the arrows show the forecast", len(s.Winds), g.windError)
 		}
 	}
 	return s, nil
@@ -598,4 +612,40 @@ func windTextStyled(p *wind.Profile, st windStyle) string {
 		parts = append(parts, s)
 	}
 	return strings.Join(parts, ", ")
+}
+
+// windMarks are the map's wind arrows for the setup's wind (the forecast,
+// not its --wind-error perturbations), one per layer, labelled as the text
+// outputs label them, and where the wind came from. A calm profile gives
+// one calm mark, so the map still says the air was taken as calm.
+func windMarks(s *glideSetup) ([]render.WindMark, string) {
+	var st windStyle
+	if strings.HasPrefix(s.WindSource, "--wind-aloft") {
+		st = windStyle{feet: true, forecast: true}
+	} else if strings.Contains(strings.ToLower(s.WindSource), "ft") {
+		st.feet = true
+	}
+	if s.Wind == nil || s.Wind.IsCalm() {
+		return []render.WindMark{{Text: "calm at every altitude"}}, s.WindSource
+	}
+	var marks []render.WindMark
+	for _, l := range s.Wind.Layers() {
+		text := fmt.Sprintf("%03.0f°/%.0f kt", l.Dir, l.Speed/input.Knot)
+		if len(s.Wind.Layers()) > 1 {
+			alt := fmt.Sprintf("%.0f m", l.Alt)
+			if st.feet {
+				alt = fmt.Sprintf("%.0f ft", l.Alt/0.3048)
+			}
+			switch {
+			case l.Speed == 0 && st.forecast:
+				text = alt + " light and variable"
+			case l.Speed == 0:
+				text = alt + " calm"
+			default:
+				text = alt + " " + text
+			}
+		}
+		marks = append(marks, render.WindMark{AltMSL: l.Alt, FromDeg: l.Dir, Speed: l.Speed, Text: text})
+	}
+	return marks, s.WindSource
 }

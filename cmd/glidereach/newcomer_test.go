@@ -1,8 +1,11 @@
 package main
 
 import (
+	"context"
 	"encoding/json"
 	"encoding/xml"
+	"fmt"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -10,6 +13,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/spf13/pflag"
 )
 
 // TestFarFromFieldsWarns checks that a start, route or area far from every
@@ -310,4 +315,65 @@ func TestRasterASCSidecars(t *testing.T) {
 			t.Errorf("%s.aux.xml lacks the caution, meaning, unit or no-data value:\n%s", path, aux)
 		}
 	}
+}
+
+// TestFootprintCutByTerrainEdge checks that a footprint running into the
+// edge of the terrain data says so in the text, the JSON, the GeoJSON and
+// on the map (as a warning), and that one ending inside the data does not:
+// the fixture geo_int16_strip_none.tif covers only 11 × 8 km, less than the
+// trainer's 1:9 glide from 914 m above it (common practice, no source:
+// glide distance = height × glide ratio).
+func TestFootprintCutByTerrainEdge(t *testing.T) {
+	dem := filepath.Join("..", "..", "testdata", "geotiff", "geo_int16_strip_none.tif")
+	cut := []string{"reach", "--from", "0.0,-25.0", "--agl", "3000ft", "--terrain", dem}
+	_, text, _ := runCLI(t, cut...)
+	if !strings.Contains(text, "NOTE: the footprint is cut off by the edge of the terrain data") {
+		t.Errorf("text does not say the footprint is cut off:\n%s", text)
+	}
+	_, js, _ := runCLI(t, append(cut, "--format", "json")...)
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(js), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if doc["cut_by_terrain_edge"] != true || !strings.Contains(fmt.Sprint(doc["terrain_edge_note"]), "edge of the terrain data") {
+		t.Errorf("JSON: cut_by_terrain_edge %v, note %v", doc["cut_by_terrain_edge"], doc["terrain_edge_note"])
+	}
+	_, gj, _ := runCLI(t, append(cut, "--format", "geojson")...)
+	if !strings.Contains(gj, `"cut_by_terrain_edge": true`) {
+		t.Errorf("GeoJSON start lacks cut_by_terrain_edge: true")
+	}
+	run, err := computeReachForTest(cut)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s := reachScene(run); len(s.Warnings) == 0 || !strings.Contains(s.Warnings[0], "edge of the terrain data") {
+		t.Errorf("map scene carries no warning: %q", s.Warnings)
+	}
+	inside := []string{"reach", "--from", "0.01,-25.02", "--agl", "50m", "--reserve", "0m", "--terrain", dem, "--format", "json"}
+	_, js, _ = runCLI(t, inside...)
+	if !strings.Contains(js, `"cut_by_terrain_edge": false`) || strings.Contains(js, "NOTE:") {
+		t.Errorf("a footprint inside the data is reported cut:\n%.400s", js)
+	}
+}
+
+// computeReachForTest runs the reach command's computation for a command
+// line, for tests that look at the map scene.
+func computeReachForTest(args []string) (*reachRun, error) {
+	o := &reachOptions{pos: newPositionFlags(), glide: newGlideFlags(), terr: newTerrainFlags()}
+	fs := pflag.NewFlagSet("reach", pflag.ContinueOnError)
+	o.pos.register(fs)
+	o.glide.register(fs)
+	o.terr.register(fs)
+	if err := fs.Parse(args[1:]); err != nil {
+		return nil, err
+	}
+	setup, err := o.glide.resolve()
+	if err != nil {
+		return nil, err
+	}
+	src, err := o.terr.open()
+	if err != nil {
+		return nil, err
+	}
+	return computeReach(context.Background(), setup, ground{src: src, flat: o.terr.ground.Value}, o.pos, nil, nil, io.Discard)
 }

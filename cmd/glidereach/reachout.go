@@ -122,6 +122,8 @@ func startProps(run *reachRun) map[string]any {
 		"farthest_lat":         farCoord(run, 1),
 		"farthest_lon":         farCoord(run, 0),
 		"farthest_is":          farthestIs,
+		"cut_by_terrain_edge":  run.edge != nil,
+		"terrain_edge_note":    edgeNote(run.edge),
 		"assumptions":          run.setup.assumptions(),
 		"cell_size_m":          num(run.res.Ground.Cell),
 		"planning_only":        true,
@@ -166,6 +168,8 @@ func reachJSON(run *reachRun) ([]byte, error) {
 		"farthest_lat":         farCoord(run, 1),
 		"farthest_lon":         farCoord(run, 0),
 		"farthest_is":          farthestIs,
+		"cut_by_terrain_edge":  run.edge != nil,
+		"terrain_edge_note":    edgeNote(run.edge),
 		"fields":               fields,
 		"assumptions":          run.setup.assumptions(),
 	}
@@ -211,6 +215,9 @@ func writeReachText(w io.Writer, run *reachRun) {
 		fmt.Fprintf(w, "Farthest reach with the reserve: %.1f km (%.1f nm) toward %03.0f° (%s, at %.5f, %.5f)\n", run.farthest/1000, run.farthest/1852, run.farBearing, farthestIs, run.farPoint[1], run.farPoint[0])
 	} else {
 		fmt.Fprintln(w, "No ground is reachable with the reserve from here.")
+	}
+	if run.edge != nil {
+		fmt.Fprintln(w, "NOTE: "+run.edge.text())
 	}
 	if len(run.fields) > 0 {
 		fmt.Fprintln(w)
@@ -322,9 +329,14 @@ func pamMetadata(what string) string {
 func reachScene(run *reachRun) *render.Scene {
 	s := &render.Scene{
 		Title:      fmt.Sprintf("Glide reach from %.0f m MSL - %s", run.startAlt, run.setup.Aircraft.Name),
-		Terrain:    run.res.Ground,
+		Terrain:    displayTerrain(run.res.Ground, run.ground),
 		DataSource: "terrain: " + run.ground.describe(),
 		Caution:    reach.Caution,
+		FieldsFrom: "from the start",
+	}
+	s.WindLayers, s.WindSource = windMarks(run.setup)
+	if run.edge != nil {
+		s.Warnings = append(s.Warnings, "Footprint cut off by the edge of the terrain data ("+run.edge.where()+"): reach beyond not computed")
 	}
 	for _, lv := range run.levels {
 		s.Levels = append(s.Levels, render.Level{ArrivalAGL: lv.ArrivalAGL, Polygons: lv.Polygons,
@@ -439,4 +451,12 @@ func drawMap(scene *render.Scene, mapPath string) ([]byte, error) {
 		}
 	}
 	return data, nil
+}
+
+// edgeNote is the JSON value of terrain_edge_note: the warning, or null.
+func edgeNote(e *edgeCut) any {
+	if e == nil {
+		return nil
+	}
+	return e.text()
 }

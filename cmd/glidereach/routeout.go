@@ -328,10 +328,12 @@ func routeScene(run *routeRun) *render.Scene {
 	p := run.prof
 	s := &render.Scene{
 		Title:      fmt.Sprintf("Landing options along %s - %s", orDefault(run.name, "the route"), run.setup.Aircraft.Name),
-		Terrain:    run.res.Ground,
+		Terrain:    displayTerrain(run.res.Ground, run.ground),
 		DataSource: "terrain: " + run.ground.describe(),
 		Caution:    reach.Caution,
+		FieldsFrom: "from the route (planned altitude)",
 	}
+	s.WindLayers, s.WindSource = windMarks(run.setup)
 	for _, pc := range routePieces(p) {
 		s.Route = append(s.Route, render.RoutePiece{Line: pc.line, Covered: pc.covered})
 	}
