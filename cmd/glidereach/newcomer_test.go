@@ -377,3 +377,41 @@ func computeReachForTest(args []string) (*reachRun, error) {
 	}
 	return computeReach(context.Background(), setup, ground{src: src, flat: o.terr.ground.Value}, o.pos, nil, nil, io.Discard)
 }
+
+// TestMapTerrainIsTheDEM checks that maps are drawn over the DEM resampled
+// bilinearly (terrain.Resample, whose values the terrain tests check
+// against GDAL), not over the solver's surface of the highest sample per
+// cell, whose alternating 2- and 3-sample maxima drew a lattice of squares.
+func TestMapTerrainIsTheDEM(t *testing.T) {
+	dem := filepath.Join("..", "..", "testdata", "geotiff", "geo_int16_strip_none.tif")
+	run, err := computeReachForTest([]string{"reach", "--from", "0.01,-25.02", "--agl", "50m", "--reserve", "0m", "--terrain", dem})
+	if err != nil {
+		t.Fatal(err)
+	}
+	d := reachScene(run).Terrain
+	if d == run.res.Ground {
+		t.Fatal("the map is drawn over the solver's window")
+	}
+	checked, higher := 0, 0
+	for r := 0; r < d.Rows; r += 7 {
+		for c := 0; c < d.Cols; c += 7 {
+			x, y := d.XY(c, r)
+			lat, lon := d.Frame.Inverse(x, y)
+			want, ok := run.grid.Elevation(lat, lon)
+			got := float64(d.Elev[r*d.Cols+c])
+			if !ok || got != got {
+				continue
+			}
+			checked++
+			if math.Abs(got-want) > 0.05 {
+				t.Fatalf("display cell (%d, %d): %.2f m, DEM bilinear %.2f m", c, r, got, want)
+			}
+			if hi, ok := run.res.Ground.Sample(x, y); ok && hi > want+1 {
+				higher++
+			}
+		}
+	}
+	if checked < 50 || higher == 0 {
+		t.Errorf("checked %d cells, %d where the solver surface is higher: the test proves nothing", checked, higher)
+	}
+}
