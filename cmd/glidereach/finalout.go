@@ -333,7 +333,7 @@ func finalLegJSON(run *finalRun, i int, l reach.FinalLeg) map[string]any {
 		"start_msl_m":                       num(l.StartAlt),
 		"end_msl_m":                         num(l.EndAlt),
 		"mean_msl_m":                        num(l.MeanAlt),
-		"least_start_without_terrain_msl_m": num(l.LeastStartAlt),
+		"least_start_without_terrain_msl_m": numUp(l.LeastStartAlt),
 		"tailwind_m_s":                      num(l.Tailwind),
 		"crosswind_m_s":                     num(l.Crosswind),
 		"ias_m_s":                           num(l.IAS),
@@ -341,7 +341,7 @@ func finalLegJSON(run *finalRun, i int, l reach.FinalLeg) map[string]any {
 		"speed_clamp":                       l.Clamp.String(),
 		"ground_speed_m_s":                  num(l.GroundSpeed),
 		"ground_glide_ratio":                num(l.GroundRatio),
-		"height_lost_m":                     num(l.HeightLost),
+		"height_lost_m":                     numUp(l.HeightLost),
 		"time_s":                            num(l.Time),
 		"no_headway":                        l.NoHeadway,
 	}
@@ -365,14 +365,14 @@ func finalSummary(run *finalRun) map[string]any {
 		"caution":                        reach.Caution,
 		"status":                         r.Status.String(),
 		"status_text":                    finalStatusText(run),
-		"required_msl_m":                 num(r.Required),
+		"required_msl_m":                 numUp(r.Required),
 		"required_set_by":                requiredSetBy(r),
-		"required_without_terrain_msl_m": num(r.RequiredStraight),
-		"arrival_without_terrain_agl_m":  num(r.LineArrival - r.GoalElev),
-		"arrival_agl_m":                  num(r.ArrivalAGL),
-		"arrival_msl_m":                  num(r.Arrival),
-		"arrival_above_reserve_m":        num(r.AboveReserve),
-		"margin_m":                       num(r.Margin),
+		"required_without_terrain_msl_m": numUp(r.RequiredStraight),
+		"arrival_without_terrain_agl_m":  numDown(r.LineArrival - r.GoalElev),
+		"arrival_agl_m":                  numDown(r.ArrivalAGL),
+		"arrival_msl_m":                  numDown(r.Arrival),
+		"arrival_above_reserve_m":        numDown(r.AboveReserve),
+		"margin_m":                       numDown(r.Margin),
 		"start_msl_m":                    num(r.StartAlt),
 		"start_given":                    run.altGiven,
 		"goal_elevation_m":               num(r.GoalElev),
@@ -384,7 +384,7 @@ func finalSummary(run *finalRun) map[string]any {
 		"mac_cready_m_s":                 s.Cond.MacCready,
 		"affordable_mac_cready_m_s":      num4(mc.Affordable),
 		"affordable_at_limit":            mc.AtLimit,
-		"affordable_arrival_agl_m":       num(mc.ArrivalAGL),
+		"affordable_arrival_agl_m":       numDown(mc.ArrivalAGL),
 		"time_mc0_s":                     num(mc.Time0),
 		"time_affordable_s":              num(mc.TimeAffordable),
 		"time_saved_s":                   num(mc.Saved),
@@ -407,7 +407,7 @@ func finalSummary(run *finalRun) map[string]any {
 	if t := r.Terrain; t != nil {
 		out["terrain_check"] = map[string]any{
 			"step_m":                   num(t.Step),
-			"lowest_clearance_m":       num(t.LowestClearance),
+			"lowest_clearance_m":       numDown(t.LowestClearance),
 			"lowest_distance_m":        num(t.LowestDist),
 			"lowest_lat":               num6(t.LowestLat),
 			"lowest_lon":               num6(t.LowestLon),
@@ -416,9 +416,9 @@ func finalSummary(run *finalRun) map[string]any {
 			"blocked_lat":              num6(t.BlockLat),
 			"blocked_lon":              num6(t.BlockLon),
 			"blocked_clearance_m":      num(t.BlockClearance),
-			"extra_alt_m":              num(t.Extra),
+			"extra_alt_m":              numUp(t.Extra),
 			"extra_verified":           t.Verified,
-			"least_clear_msl_m":        num(t.LeastClearAlt),
+			"least_clear_msl_m":        numUp(t.LeastClearAlt),
 			"unknown_samples":          t.Unknown,
 			"first_unknown_distance_m": num(t.FirstUnknownDist),
 		}
@@ -489,7 +489,7 @@ func finalGeoJSON(run *finalRun) ([]byte, error) {
 
 	st := geojson.NewFeature(orb.Point{round6(run.startLon), round6(run.startLat)})
 	st.Properties = map[string]any{"kind": "start", "caution": reach.Caution, "alt_msl_m": num(r.StartAlt),
-		"ground_m": num(run.startElev), "required_msl_m": num(r.Required), "margin_m": num(r.Margin)}
+		"ground_m": num(run.startElev), "required_msl_m": numUp(r.Required), "margin_m": numDown(r.Margin)}
 	fc.Append(st)
 	for i := 1; i < len(r.Route)-1; i++ {
 		f := geojson.NewFeature(orb.Point{round6(r.Route[i].Lon), round6(r.Route[i].Lat)})
@@ -500,19 +500,19 @@ func finalGeoJSON(run *finalRun) ([]byte, error) {
 	g := r.Route[len(r.Route)-1]
 	gf := geojson.NewFeature(orb.Point{round6(g.Lon), round6(g.Lat)})
 	gf.Properties = map[string]any{"kind": "goal", "name": run.goalName, "elevation_m": num(r.GoalElev),
-		"arrival_agl_m": num(r.ArrivalAGL), "arrival_above_reserve_m": num(r.AboveReserve),
-		"required_msl_m": num(r.Required), "reachable": r.Status == reach.FinalOK || r.Status == reach.FinalTerrainUnknown,
+		"arrival_agl_m": numDown(r.ArrivalAGL), "arrival_above_reserve_m": numDown(r.AboveReserve),
+		"required_msl_m": numUp(r.Required), "reachable": r.Status == reach.FinalOK || r.Status == reach.FinalTerrainUnknown,
 		"distance_m": num(r.Distance)}
 	fc.Append(gf)
 	if t := r.Terrain; t != nil && !math.IsNaN(t.LowestClearance) {
 		f := geojson.NewFeature(orb.Point{round6(t.LowestLon), round6(t.LowestLat)})
-		f.Properties = map[string]any{"kind": "lowest_clearance", "clearance_m": num(t.LowestClearance), "distance_m": num(t.LowestDist)}
+		f.Properties = map[string]any{"kind": "lowest_clearance", "clearance_m": numDown(t.LowestClearance), "distance_m": num(t.LowestDist)}
 		fc.Append(f)
 	}
 	if t := r.Terrain; t != nil && t.Blocked {
 		f := geojson.NewFeature(orb.Point{round6(t.BlockLon), round6(t.BlockLat)})
 		f.Properties = map[string]any{"kind": "blocked", "clearance_m": num(t.BlockClearance), "distance_m": num(t.BlockDist),
-			"extra_alt_m": num(t.Extra), "caution": reach.Caution}
+			"extra_alt_m": numUp(t.Extra), "caution": reach.Caution}
 		fc.Append(f)
 	}
 	return jsonDoc(fc, " ")

@@ -415,3 +415,42 @@ func TestMapTerrainIsTheDEM(t *testing.T) {
 		t.Errorf("checked %d cells, %d where the solver surface is higher: the test proves nothing", checked, higher)
 	}
 }
+
+// TestFinalRoundsConservatively checks the final glide's text and JSON
+// round the required altitude up and the arrival and margins down, and
+// agree in that direction (common practice, no source).
+func TestFinalRoundsConservatively(t *testing.T) {
+	args := []string{"final", "--from", "-0.5,-24.5", "--alt", "1500m", "--to", "-0.45,-24.39", "--to", "-0.55,-24.3@150m",
+		"--aircraft", "sailplane", "--wind", "0m:240/10kt,1500m:270/20kt,3000m:280/35kt", "--mc", "1.5m/s"}
+	_, text, _ := runCLI(t, args...)
+	_, js, _ := runCLI(t, append(args, "--format", "json")...)
+	var doc struct {
+		Required float64 `json:"required_msl_m"`
+		Arrival  float64 `json:"arrival_agl_m"`
+		Margin   float64 `json:"margin_m"`
+	}
+	if err := json.Unmarshal([]byte(js), &doc); err != nil {
+		t.Fatal(err)
+	}
+	var req, arr, mar float64
+	for _, l := range strings.Split(text, "\n") {
+		fmt.Sscanf(l, "Required at the start: %f m MSL", &req)
+		if strings.HasPrefix(l, "Arrival: ") {
+			fmt.Sscanf(l, "Arrival: %f m above the goal", &arr)
+			if i := strings.Index(l, "start margin "); i >= 0 {
+				fmt.Sscanf(l[i:], "start margin %f m", &mar)
+			}
+		}
+	}
+	if req < doc.Required || req-doc.Required >= 1 {
+		t.Errorf("required: text %v, JSON %v: text must be JSON rounded up", req, doc.Required)
+	}
+	if arr > doc.Arrival || doc.Arrival-arr >= 1 || mar > doc.Margin || doc.Margin-mar >= 1 {
+		t.Errorf("arrival %v / margin %v in text, %v / %v in JSON: text must be JSON rounded down", arr, mar, doc.Arrival, doc.Margin)
+	}
+	for _, v := range []float64{doc.Required, doc.Arrival, doc.Margin} {
+		if math.Abs(v*10-math.Round(v*10)) > 1e-6 {
+			t.Errorf("JSON value %v is not rounded to 0.1 m", v)
+		}
+	}
+}
