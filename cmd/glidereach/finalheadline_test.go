@@ -66,10 +66,20 @@ func TestFinalBlockedHeadlineText(t *testing.T) {
 			t.Errorf("text headlines %q on a blocked glide:\n%s", bad, head)
 		}
 	}
-	for _, want := range []string{"Required at the start: 2445 m MSL", "set by the terrain", "would need 1218 m", "Arrival: NONE from 1800 m", "start margin -645 m", "no setting affordable"} {
+	for _, want := range []string{"Required at the start: 2445 m MSL", "set by the terrain", "would need 1218 m", "Arrival: NONE from 1800 m", "start margin -645 m"} {
 		if !strings.Contains(head, want) {
 			t.Errorf("text lacks %q:\n%s", want, head)
 		}
+	}
+	// The trainer gets no MacCready line unless a setting is given (a
+	// powered aircraft has no use for it); given one, the blocked glide has
+	// none affordable.
+	if strings.Contains(head, "MacCready:") {
+		t.Errorf("a trainer without --mc is offered a MacCready line:\n%s", head)
+	}
+	_, out, _ = finalCLI(t, append(append([]string{"final"}, blockedFinal...), "--mc", "0.5m/s")...)
+	if !strings.Contains(out, "no setting affordable") {
+		t.Errorf("with --mc: the blocked glide's MacCready line lacks \"no setting affordable\":\n%s", out)
 	}
 }
 
