@@ -380,7 +380,7 @@ func TestOutputNamesCheckedByEveryCommand(t *testing.T) {
 		"reach":    {"reach", "--from", "-0.5,-24.5", "--alt", "1500m"},
 		"final":    {"final", "--from", "-0.5,-24.5", "--alt", "1500m", "--to", "-0.45,-24.6"},
 		"route":    {"route", "--route", "../../testdata/routes/demo-route.gpx", "--fields", fields, "--alt", "1500m"},
-		"coverage": {"coverage", "--fields", fields, "--area", "-24.8,-0.8,-24.2,-0.2", "--alt", "1500m"},
+		"coverage": {"coverage", "--fields", fields, "--box", "-0.8,-24.8,-0.2,-24.2", "--alt", "1500m"},
 	}
 	for name, args := range base {
 		for _, bad := range [][]string{{"--report", filepath.Join(dir, "r.pdf")}, {"--map", filepath.Join(dir, "m.jpg")}} {
