@@ -454,3 +454,36 @@ func TestFinalRoundsConservatively(t *testing.T) {
 		}
 	}
 }
+
+// TestCoveredSharesRoundDown checks that covered shares are rounded down
+// (a share of the route or area with a field in reach must not read larger
+// than it is; common practice, no source) in JSON and text, and that the
+// text's per cent is not above the JSON fraction.
+func TestCoveredSharesRoundDown(t *testing.T) {
+	if fractionDown(0.54998) != 0.5499 || pctDown(0.54998) != 54.9 || pctDown(0.5) != 50 || fractionDown(1) != 1 {
+		t.Errorf("fractionDown/pctDown: %v %v %v %v", fractionDown(0.54998), pctDown(0.54998), pctDown(0.5), fractionDown(1))
+	}
+	td := filepath.Join("..", "..", "testdata")
+	args := []string{"route", "--route", filepath.Join(td, "routes", "demo-route.gpx"), "--fields", filepath.Join(td, "fields", "demo-fields.geojson"),
+		"--alt", "7500ft", "--wind", "0m:240/10kt,1500m:270/20kt,3000m:280/35kt"}
+	_, text, _ := runCLI(t, args...)
+	_, js, _ := runCLI(t, append(args, "--format", "json")...)
+	var doc struct {
+		Fraction float64 `json:"covered_fraction"`
+		Samples  []struct {
+			Covered bool `json:"covered"`
+		} `json:"samples"`
+	}
+	if err := json.Unmarshal([]byte(js), &doc); err != nil {
+		t.Fatal(err)
+	}
+	var pct float64
+	for _, l := range strings.Split(text, "\n") {
+		if i := strings.Index(l, "reserve along "); i >= 0 {
+			fmt.Sscanf(l[i:], "reserve along %f", &pct)
+		}
+	}
+	if pct == 0 || pct > doc.Fraction*100+1e-9 || doc.Fraction*100-pct >= 0.1+1e-9 {
+		t.Errorf("text %.1f %% against JSON fraction %v: the text must be the fraction rounded down to 0.1 %%", pct, doc.Fraction)
+	}
+}

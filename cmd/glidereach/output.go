@@ -512,3 +512,11 @@ func fmtMDown(v float64) string {
 	}
 	return fmt.Sprintf("%.0f", math.Floor(v+1e-6))
 }
+
+// fractionDown rounds a covered share (0..1) down to 1e-4 for JSON, and
+// pctDown gives it in per cent rounded down to 0.1 for text ("%.1f"): a
+// share of the route or area with a field in reach must not read larger
+// than it is.
+func fractionDown(f float64) float64 { return math.Floor(f*1e4+1e-9) / 1e4 }
+
+func pctDown(f float64) float64 { return math.Floor(f*1e3+1e-9) / 10 }

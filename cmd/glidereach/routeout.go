@@ -59,7 +59,7 @@ func writeRouteText(w io.Writer, run *routeRun) {
 	fmt.Fprintf(w, "Aircraft: %s   Wind: %s\n", run.setup.Aircraft.Name, run.setup.WindText)
 	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.describe())
 	fmt.Fprintf(w, "A field is in reach with the %.0f m reserve along %.1f %% of the route (%.1f of %.1f km).\n",
-		run.setup.Reserve, p.CoveredFraction*100, p.CoveredFraction*p.Length/1000, p.Length/1000)
+		run.setup.Reserve, pctDown(p.CoveredFraction), math.Floor(p.CoveredFraction*p.Length/100+1e-9)/10, p.Length/1000)
 	if len(p.Gaps) == 0 {
 		fmt.Fprintln(w, "No gaps: some field stays in reach everywhere along the route.")
 	} else {
@@ -169,7 +169,7 @@ func routeJSON(run *routeRun) ([]byte, error) {
 		"clearance_m":       run.setup.Clearance,
 		"terrain":           run.ground.describe(),
 		"searched_to_msl_m": num(run.ceiling),
-		"covered_fraction":  math.Round(p.CoveredFraction*1e4) / 1e4,
+		"covered_fraction":  fractionDown(p.CoveredFraction),
 		"gaps":              gaps,
 		"fields":            fields,
 		"samples":           samples,
@@ -282,7 +282,7 @@ func routeGeoJSON(run *routeRun) ([]byte, error) {
 	fc.ExtraMembers = geojson.Properties{"caution": reach.Caution}
 	st := geojson.NewFeature(orb.Point{round6(p.Samples[0].Lon), round6(p.Samples[0].Lat)})
 	st.Properties = map[string]any{
-		"kind": "route_start", "caution": reach.Caution, "name": run.name, "covered_fraction": math.Round(p.CoveredFraction*1e4) / 1e4,
+		"kind": "route_start", "caution": reach.Caution, "name": run.name, "covered_fraction": fractionDown(p.CoveredFraction),
 		"length_m": num(p.Length), "gaps": len(p.Gaps), "aircraft": run.setup.Aircraft.Name, "wind": run.setup.WindText,
 		"reserve_m": run.setup.Reserve, "clearance_m": run.setup.Clearance, "terrain": run.ground.describe(),
 		"planned_altitude": run.altMode, "margin_note": marginNote, "assumptions": run.assumptions(), "planning_only": true,
@@ -354,7 +354,7 @@ func routeScene(run *routeRun) *render.Scene {
 		"Planned: " + shortAltMode(run),
 		"Wind: " + run.setup.WindText,
 		fmt.Sprintf("Reserve: %.0f m, clearance %.0f m", run.setup.Reserve, run.setup.Clearance),
-		fmt.Sprintf("Covered: %.1f %% of %.1f km", p.CoveredFraction*100, p.Length/1000),
+		fmt.Sprintf("Covered: %.1f %% of %.1f km", pctDown(p.CoveredFraction), p.Length/1000),
 	}
 	return s
 }
@@ -409,7 +409,7 @@ func drawRoute(run *routeRun, mapPath, reportPath string) error {
 		Scene:    scene,
 		Caution:  reach.Caution,
 		Summary: []string{
-			fmt.Sprintf("A field is in reach with the %.0f m reserve along %.1f %% of the route.", run.setup.Reserve, p.CoveredFraction*100),
+			fmt.Sprintf("A field is in reach with the %.0f m reserve along %.1f %% of the route.", run.setup.Reserve, pctDown(p.CoveredFraction)),
 			fmt.Sprintf("%d gap(s) with no field in reach.", len(p.Gaps)),
 			"Margin = planned - least altitude; the least altitude includes the reserve.",
 		},
