@@ -172,8 +172,8 @@ func writeFinalText(w io.Writer, run *finalRun) {
 		if terrainSetsAltitude(r) {
 			fmt.Fprintf(w, "Required at the start: %.0f m MSL (%.0f ft), set by the terrain: the least start that keeps the %.0f m clearance and arrives with the reserve\n",
 				math.Ceil(r.Required), math.Ceil(r.Required)/input.Foot, run.setup.Clearance)
-			fmt.Fprintf(w, "  (the straight line without the terrain would need %.0f m: goal %.0f m + reserve %.0f m + %.0f m lost on the way)\n",
-				r.RequiredStraight, r.GoalElev, r.Reserve, r.RequiredStraight-r.GoalElev-r.Reserve)
+			fmt.Fprintf(w, "  (the straight line without the terrain would need %s m: goal %.0f m + reserve %.0f m + %s m lost on the way)\n",
+				fmtMUp(r.RequiredStraight), r.GoalElev, r.Reserve, fmtMUp(r.RequiredStraight-r.GoalElev-r.Reserve))
 		} else {
 			// Required up, arrival and margins down (see numUp).
 			fmt.Fprintf(w, "Required at the start: %s m MSL (%s ft): goal %.0f m + reserve %.0f m + %s m lost on the way\n",
@@ -694,7 +694,7 @@ func drawFinal(run *finalRun, mapPath, reportPath string) error {
 	}
 	if r.Status != reach.FinalNoHeadway {
 		if terrainSetsAltitude(r) {
-			rep.Summary = append(rep.Summary, fmt.Sprintf("Required at the start: %.0f m MSL, set by the terrain (the straight line without the terrain would need %.0f m)", math.Ceil(r.Required), r.RequiredStraight))
+			rep.Summary = append(rep.Summary, fmt.Sprintf("Required at the start: %.0f m MSL, set by the terrain (the straight line without the terrain would need %s m)", math.Ceil(r.Required), fmtMUp(r.RequiredStraight)))
 		} else {
 			rep.Summary = append(rep.Summary, fmt.Sprintf("Required at the start: %.0f m MSL (goal %.0f m + reserve %.0f m + losses)", r.Required, r.GoalElev, r.Reserve))
 		}
