@@ -234,6 +234,18 @@ func (o *outputSet) commit() error {
 	return nil
 }
 
+// adopt adds a file already written under the temporary name tmp, to be
+// renamed to path with the others (an ASCII grid's sidecars).
+func (o *outputSet) adopt(tmp, path string) error {
+	t, err := resolveOutput(path)
+	if err != nil {
+		os.Remove(tmp)
+		return writeErr(path, err)
+	}
+	o.staged = append(o.staged, &stagedFile{target: t, tmp: tmp})
+	return nil
+}
+
 // discard removes the temporary files not renamed.
 func (o *outputSet) discard() {
 	for _, s := range o.staged {
@@ -331,6 +343,18 @@ func deliver(ctx context.Context, stdout io.Writer, r results) error {
 	if r.raster != "" {
 		if err := r.writeRaster(tmp[r.raster]); err != nil {
 			return err
+		}
+		// An ASCII grid's sidecars (writeRaster) were written beside its
+		// temporary name; they are renamed with it.
+		if t := tmp[r.raster]; t != r.raster && strings.EqualFold(filepath.Ext(r.raster), ".asc") {
+			tp, ta := ascSidecarNames(t)
+			p, a := ascSidecarNames(r.raster)
+			if err := set.adopt(tp, p); err != nil {
+				return err
+			}
+			if err := set.adopt(ta, a); err != nil {
+				return err
+			}
 		}
 	}
 	if err := ctx.Err(); err != nil {

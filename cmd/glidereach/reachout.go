@@ -288,8 +288,11 @@ func writeRaster(path string, g *terrain.Grid, what string) error {
 	if err != nil {
 		return err
 	}
-	prjPath := strings.TrimSuffix(path, filepath.Ext(path)) + ".prj"
-	auxPath := path + ".aux.xml"
+	if st, err := os.Stat(path); err == nil && !st.Mode().IsRegular() {
+		// A device or pipe (--raster /dev/stdout): no sidecars beside it.
+		return writeFileAtomic(path, func(f *os.File) error { return terrain.WriteASC(f, g) })
+	}
+	prjPath, auxPath := ascSidecarNames(path)
 	if err := writeFileAtomic(prjPath, func(f *os.File) error { _, err := f.WriteString(prj + "\n"); return err }); err != nil {
 		return err
 	}
@@ -303,6 +306,13 @@ func writeRaster(path string, g *terrain.Grid, what string) error {
 		return err
 	}
 	return nil
+}
+
+// ascSidecarNames are the files writeRaster writes beside an .asc grid:
+// its CRS (NAME.prj, the grid's name without .asc) and GDAL's metadata
+// (NAME.asc.aux.xml).
+func ascSidecarNames(grid string) (prj, aux string) {
+	return strings.TrimSuffix(grid, filepath.Ext(grid)) + ".prj", grid + ".aux.xml"
 }
 
 // pamMetadata is the GDAL auxiliary metadata (.aux.xml, a PAMDataset) of a
