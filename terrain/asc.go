@@ -506,3 +506,34 @@ func WriteASC(w io.Writer, g *Grid) error {
 	}
 	return nil
 }
+
+// PRJ returns the WKT1 text of a .prj sidecar for c, in the form GDAL
+// writes (for EPSG:32727 it is byte for byte testdata/asc/utm_center.prj,
+// which GDAL wrote): EPSG:4326, WGS84 UTM 326zz/327zz, ETRS89 UTM 258zz, each
+// with its top-level EPSG authority, so ParsePRJ (and GDAL) read the CRS
+// back. The ETRS89 datum and GRS 1980 spheroid lines are from memory of
+// GDAL's output. Other CRSs are an error.
+func PRJ(c CRS) (string, error) {
+	const prime = `PRIMEM["Greenwich",0,AUTHORITY["EPSG","8901"]],UNIT["degree",0.0174532925199433,AUTHORITY["EPSG","9122"]]`
+	wgs := `GEOGCS["WGS 84",DATUM["WGS_1984",SPHEROID["WGS 84",6378137,298.257223563,AUTHORITY["EPSG","7030"]],AUTHORITY["EPSG","6326"]],` + prime
+	etrs := `GEOGCS["ETRS89",DATUM["European_Terrestrial_Reference_System_1989",SPHEROID["GRS 1980",6378137,298.257222101,AUTHORITY["EPSG","7019"]],AUTHORITY["EPSG","6258"]],` + prime
+	if c.EPSG == 4326 {
+		return wgs + `,AXIS["Latitude",NORTH],AXIS["Longitude",EAST],AUTHORITY["EPSG","4326"]]`, nil
+	}
+	zone, south, ok := UTMZone(c.EPSG)
+	if !ok {
+		return "", fmt.Errorf("terrain: prj: EPSG:%d is not 4326 or a UTM zone", c.EPSG)
+	}
+	geog, name := wgs+`,AUTHORITY["EPSG","4326"]]`, "WGS 84"
+	if c.EPSG >= 25800 && c.EPSG < 25900 {
+		geog, name = etrs+`,AUTHORITY["EPSG","4258"]]`, "ETRS89"
+	}
+	hemi, northing := "N", 0
+	if south {
+		hemi, northing = "S", 10000000
+	}
+	return fmt.Sprintf(`PROJCS["%s / UTM zone %d%s",%s,PROJECTION["Transverse_Mercator"],PARAMETER["latitude_of_origin",0],`+
+		`PARAMETER["central_meridian",%d],PARAMETER["scale_factor",0.9996],PARAMETER["false_easting",500000],`+
+		`PARAMETER["false_northing",%d],UNIT["metre",1,AUTHORITY["EPSG","9001"]],AXIS["Easting",EAST],AXIS["Northing",NORTH],AUTHORITY["EPSG","%d"]]`,
+		name, zone, hemi, geog, 6*zone-183, northing, c.EPSG), nil
+}

@@ -96,7 +96,7 @@ func TestAltIndicatedRouteAndCoverage(t *testing.T) {
 	cold := []string{"--alt-indicated", "1500m", "--station-elev", "0m", "--station-temp", "-25C"}
 	for _, cmd := range [][]string{
 		{"route", "--route", route, "--fields", fields},
-		{"coverage", "--area", "-24.5005,-0.505,-24.4995,-0.495", "--fields", fields},
+		{"coverage", "--box", "-0.505,-24.5005,-0.495,-24.4995", "--fields", fields},
 	} {
 		code, out, errs := cliWithStderr(t, append(append(cmd, cold...), "--format", "json")...)
 		if code != 0 {

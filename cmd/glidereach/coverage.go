@@ -28,6 +28,7 @@ type coverageOptions struct {
 	terr       *terrainFlags
 	fields     string
 	area       string
+	box        string
 	corridor   string
 	alt        *input.Quantity
 	agl        *input.Quantity
@@ -44,10 +45,10 @@ type coverageOptions struct {
 func newCoverageCmd() *cobra.Command {
 	o := &coverageOptions{glide: newGlideFlags(), terr: newTerrainFlags(), alt: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), agl: input.NewQuantity(input.Length, 0).Within(0, maxAGL), ind: newIndicatedFlags(), pick: 3}
 	cmd := &cobra.Command{
-		Use:   "coverage --fields FILE (--area BOX|FILE | --corridor ROUTE,WIDTH) (--alt ALT|--agl HEIGHT)",
+		Use:   "coverage --fields FILE (--area FILE | --box LAT,LON,LAT,LON | --corridor ROUTE,WIDTH) (--alt ALT|--agl HEIGHT)",
 		Short: "How much of an area or corridor has a landing field in reach, and which new field helps most",
-		Long: `coverage computes, for every cell of an area (a lon/lat box or GeoJSON
-polygons) or of a corridor along a route, whether some landing field is in
+		Long: `coverage computes, for every cell of an area (GeoJSON polygons, --area,
+or a box typed as two opposite corners LAT,LON,LAT,LON, --box) or of a corridor along a route, whether some landing field is in
 reach with the reserve from the altitude flown there (--alt MSL, or --agl
 above the terrain at each cell), through the wind at each altitude and
 around the terrain. It reports the covered share, the covered and uncovered
@@ -58,9 +59,11 @@ fields by the area each would add and chooses the best --pick of them one
 by one, each choice taking the one that adds most to what is covered.
 
 ` + cautionText,
-		Example: `  glidereach coverage --fields testdata/fields/demo-fields.geojson --area -24.85,-0.8,-24.15,-0.15 --alt 1500m
-  glidereach coverage --fields fields.geojson --corridor plan.gpx,10km --agl 2000ft --terrain dem/ --raster least.tif
-  glidereach coverage --fields fields.geojson --area area.geojson --alt 1200m --candidates new.geojson --pick 2 \
+		Example: `  glidereach coverage --fields testdata/fields/demo-fields.geojson --box -0.8,-24.85,-0.15,-24.15 --alt 1500m
+  glidereach coverage --fields testdata/fields/fixture-fields.geojson --corridor testdata/routes/fixture-route.gpx,2km \
+      --agl 600m --terrain testdata/geotiff/geo_int16_strip_none.tif --raster least.tif
+  glidereach coverage --fields testdata/fields/demo-fields.geojson --area testdata/areas/demo-area.geojson --alt 1200m \
+      --candidates testdata/fields/demo-candidates.geojson --pick 2 \
       --format geojson --out coverage.geojson --map coverage.png`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -71,7 +74,8 @@ by one, each choice taking the one that adds most to what is covered.
 	o.glide.register(fs)
 	o.terr.register(fs)
 	fs.StringVar(&o.fields, "fields", "", "existing landing fields: GeoJSON points or polygons with a name property")
-	fs.StringVar(&o.area, "area", "", "area to analyse: minlon,minlat,maxlon,maxlat or a GeoJSON Polygon/MultiPolygon file")
+	fs.StringVar(&o.area, "area", "", "area to analyse: a GeoJSON Polygon/MultiPolygon file (a typed box goes in --box)")
+	fs.StringVar(&o.box, "box", "", "area to analyse: a box given by two opposite corners LAT,LON,LAT,LON (latitude first, like --from; not across 180°)")
 	fs.StringVar(&o.corridor, "corridor", "", "corridor to analyse: ROUTE,WIDTH (GPX/GeoJSON route and full width, e.g. plan.gpx,10km)")
 	fs.Var(o.alt, "alt", o.alt.Help("altitude flown over the area: TRUE altitude MSL (m, ft), not the altimeter reading (see --alt-indicated)"))
 	o.ind.register(fs, "altitude flown")
@@ -84,7 +88,7 @@ by one, each choice taking the one that adds most to what is covered.
 	fs.StringVar(&o.mapPNG, "map", "", "draw a map of the coverage to this PNG file")
 	fs.StringVar(&o.report, "report", "", "write a self-contained HTML report to this file")
 	cmd.MarkFlagsMutuallyExclusive("alt", "agl")
-	cmd.MarkFlagsMutuallyExclusive("area", "corridor")
+	cmd.MarkFlagsMutuallyExclusive("area", "box", "corridor")
 	return cmd
 }
 
@@ -115,8 +119,8 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 	if o.fields == "" {
 		return input.Usagef("--fields", "a landing-field file is required (GeoJSON)")
 	}
-	if o.area == "" && o.corridor == "" {
-		return input.Usagef("--area", "give the area to analyse: --area BOX|FILE or --corridor ROUTE,WIDTH")
+	if o.area == "" && o.box == "" && o.corridor == "" {
+		return input.Usagef("--area", "give the area to analyse: --area FILE, --box LAT,LON,LAT,LON or --corridor ROUTE,WIDTH")
 	}
 	if o.agl.Given && o.ind.altInd.Given {
 		return input.Usagef("--agl", "give --agl or --alt-indicated, not both")
@@ -173,12 +177,22 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 			return err
 		}
 		run.zone, run.zoneText = reg, "area "+o.area
+	} else if o.box != "" {
+		reg, err := input.ParseBox(o.box)
+		if err != nil {
+			return err
+		}
+		b := reg.Bounds()
+		run.zone, run.zoneText = reg, fmt.Sprintf("box %.5f,%.5f to %.5f,%.5f (south-west to north-east corner, lat,lon)", b.Min[1], b.Min[0], b.Max[1], b.Max[0])
 	} else {
 		cor, err := input.ParseCorridor(o.corridor)
 		if err != nil {
 			return err
 		}
 		run.zone, run.zoneText = cor, fmt.Sprintf("corridor %.1f km wide along %s", cor.Width/1000, o.corridor[:strings.LastIndex(o.corridor, ",")])
+	}
+	for _, w := range farWarnings(strings.Fields(run.zoneText)[0], run.zone.Bounds(), fields, "--fields", src) {
+		fmt.Fprintln(stderr, "glidereach: warning:", w)
 	}
 	prog := newProgress(stderr, "coverage")
 	err = computeCoverage(ctx, run, o, fields, cands, prog.set)
@@ -213,6 +227,8 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 	flag := "--area"
 	if o.corridor != "" {
 		flag = "--corridor"
+	} else if o.box != "" {
+		flag = "--box"
 	}
 	// The highest altitude flown: --alt, or the highest terrain of the zone
 	// plus --agl (read from a first window over the zone alone).

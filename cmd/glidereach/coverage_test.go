@@ -21,8 +21,8 @@ func TestCoverageJSONDiscFlat(t *testing.T) {
 	// disc is πr² over the box's area (common practice, no source), within
 	// 0.5 %.
 	fields := writeTestFields(t, -0.5, -24.5, []float64{0}, []float64{0})
-	box := "-24.75,-0.75,-24.25,-0.25"
-	code, out, stderr := runCLI(t, "coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--aircraft", "trainer", "--format", "json")
+	box := "-0.75,-24.75,-0.25,-24.25"
+	code, out, stderr := runCLI(t, "coverage", "--fields", fields, "--box", box, "--alt", "1500m", "--aircraft", "trainer", "--format", "json")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -67,7 +67,7 @@ func TestCoverageGeoJSONRasterCandidates(t *testing.T) {
 	fields := writeTestFields(t, -0.5, -24.5, []float64{0, 20000}, []float64{0, 90})
 	cands := writeTestFields(t, -0.5, -24.5, []float64{30000, 5000}, []float64{270, 180})
 	gj, tif := filepath.Join(dir, "c.geojson"), filepath.Join(dir, "least.tif")
-	code, text, stderr := runCLI(t, "coverage", "--fields", fields, "--area", "-24.8,-0.8,-24.2,-0.2", "--alt", "1500m",
+	code, text, stderr := runCLI(t, "coverage", "--fields", fields, "--box", "-0.8,-24.8,-0.2,-24.2", "--alt", "1500m",
 		"--candidates", cands, "--pick", "2", "--ground", "100m", "--format", "geojson", "--out", gj, "--raster", tif,
 		"--map", filepath.Join(dir, "c.png"), "--report", filepath.Join(dir, "c.html"))
 	if code != 0 {
@@ -148,24 +148,28 @@ func TestCoverageCorridorAGL(t *testing.T) {
 func TestCoverageBadInput(t *testing.T) {
 	// Bad input exits 2 naming the flag or file.
 	fields := filepath.Join("..", "..", "testdata", "fields", "demo-fields.geojson")
-	box := "-24.8,-0.8,-24.2,-0.2"
+	box := "-0.8,-24.8,-0.2,-24.2"
 	checkUsageErrors(t, []struct {
 		args []string
 		want string
 	}{
-		{[]string{"coverage", "--area", box, "--alt", "1500m"}, "--fields"},
+		{[]string{"coverage", "--box", box, "--alt", "1500m"}, "--fields"},
 		{[]string{"coverage", "--fields", fields, "--alt", "1500m"}, "--area"},
-		{[]string{"coverage", "--fields", fields, "--area", box}, "--alt"},
-		{[]string{"coverage", "--fields", fields, "--area", "-24.8,-0.8,-24.9,-0.2", "--alt", "1500m"}, "--area"},
-		{[]string{"coverage", "--fields", fields, "--area", box, "--corridor", "x.gpx,5km", "--alt", "1500m"}, "area"},
+		{[]string{"coverage", "--fields", fields, "--box", box}, "--alt"},
+		{[]string{"coverage", "--fields", fields, "--box", "-0.8,-24.8,-0.8,-24.9", "--alt", "1500m"}, "--box"},
+		// The old lon-first box in --area fails loudly, pointing to --box.
+		{[]string{"coverage", "--fields", fields, "--area", "-24.8,-0.8,-24.2,-0.2", "--alt", "1500m"}, "--box LAT,LON,LAT,LON"},
+		{[]string{"coverage", "--fields", fields, "--area", "-0.8,-24.85,-0.15,-24.15", "--alt", "1500m"}, "--area takes a GeoJSON file only"},
+		{[]string{"coverage", "--fields", fields, "--area", "x.geojson", "--box", "-0.8,-24.8,-0.2,-24.2", "--alt", "1500m"}, "area"},
+		{[]string{"coverage", "--fields", fields, "--box", box, "--corridor", "x.gpx,5km", "--alt", "1500m"}, "area"},
 		{[]string{"coverage", "--fields", fields, "--corridor", "x.gpx", "--alt", "1500m"}, "--corridor"},
-		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--raster", "least.png"}, "--raster"},
-		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--pick", "-1"}, "--pick"},
-		{[]string{"coverage", "--fields", fields, "--area", box, "--agl", "0m"}, "--agl"},
-		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--candidates", "none.geojson"}, "none.geojson"},
-		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--format", "csv"}, "--format"},
-		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--map", "coverage.jpg"}, "--map"},
-		{[]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--wind", "270/20kt", "--wind-error", "400deg,5kt"}, "--wind-error"},
+		{[]string{"coverage", "--fields", fields, "--box", box, "--alt", "1500m", "--raster", "least.png"}, "--raster"},
+		{[]string{"coverage", "--fields", fields, "--box", box, "--alt", "1500m", "--pick", "-1"}, "--pick"},
+		{[]string{"coverage", "--fields", fields, "--box", box, "--agl", "0m"}, "--agl"},
+		{[]string{"coverage", "--fields", fields, "--box", box, "--alt", "1500m", "--candidates", "none.geojson"}, "none.geojson"},
+		{[]string{"coverage", "--fields", fields, "--box", box, "--alt", "1500m", "--format", "csv"}, "--format"},
+		{[]string{"coverage", "--fields", fields, "--box", box, "--alt", "1500m", "--map", "coverage.jpg"}, "--map"},
+		{[]string{"coverage", "--fields", fields, "--box", box, "--alt", "1500m", "--wind", "270/20kt", "--wind-error", "400deg,5kt"}, "--wind-error"},
 	})
 }
 
@@ -191,7 +195,7 @@ func TestCoverageOnGeoTIFFFixture(t *testing.T) {
 	// testdata/fields/fixture-fields.geojson (pixel centres, see ORIGIN.md),
 	// the trainer in still air, reserve 300 m, clearance 100 m.
 	fields := filepath.Join("..", "..", "testdata", "fields", "fixture-fields.geojson")
-	box := "-25.05,-0.0375,-24.95,0.0375"
+	box := "-0.0375,-25.05,0.0375,-24.95"
 	dem := readFixtureLattice(t, fixtureDEM)
 	gdal := map[string]float64{"Upland Test Strip": 1009, "Lowland Test Strip": -130}
 	for _, mode := range []struct {
@@ -205,7 +209,7 @@ func TestCoverageOnGeoTIFFFixture(t *testing.T) {
 	} {
 		dir := t.TempDir()
 		tif := filepath.Join(dir, "least.tif")
-		code, out, stderr := runCLI(t, "coverage", "--fields", fields, "--area", box, mode.flag, mode.value,
+		code, out, stderr := runCLI(t, "coverage", "--fields", fields, "--box", box, mode.flag, mode.value,
 			"--terrain", fixtureDEM, "--raster", tif, "--format", "json")
 		if code != 0 {
 			t.Fatalf("%s %s: exit %d: %s", mode.flag, mode.value, code, stderr)
@@ -299,9 +303,9 @@ func TestCoverageWindErrorHoldsInEveryWind(t *testing.T) {
 	// common practice, no source): the covered share is no larger than with
 	// the nominal wind or with any single member of the set flown alone.
 	fields := "../../testdata/fields/demo-fields.geojson"
-	box := "-24.8,-0.8,-24.2,-0.2"
+	box := "-0.8,-24.8,-0.2,-24.2"
 	share := func(extra ...string) float64 {
-		args := append([]string{"coverage", "--fields", fields, "--area", box, "--alt", "1500m", "--format", "json"}, extra...)
+		args := append([]string{"coverage", "--fields", fields, "--box", box, "--alt", "1500m", "--format", "json"}, extra...)
 		code, out, stderr := runCLI(t, args...)
 		if code != 0 {
 			t.Fatalf("%v: exit %d: %s", args, code, stderr)

@@ -40,8 +40,9 @@ func writeCoverageText(w io.Writer, run *coverageRun) {
 	fmt.Fprintf(w, "Aircraft: %s   Wind: %s\n", run.setup.Aircraft.Name, run.setup.WindText)
 	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.describe())
 	fmt.Fprintf(w, "A field is in reach with the %.0f m reserve from %.1f %% of the area (%.1f of %.1f km²).\n",
-		run.setup.Reserve, r.CoveredFraction*100, km2(r.CoveredArea), km2(run.zoneArea()))
-	fmt.Fprintf(w, "Uncovered: %.1f km² in %d part(s).\n\n", km2(run.zoneArea()-r.CoveredArea), len(run.uncovered))
+		run.setup.Reserve, pctDown(r.CoveredFraction), math.Floor(km2(r.CoveredArea)*10+1e-9)/10, km2(run.zoneArea()))
+	// Covered figures round down, uncovered ones up.
+	fmt.Fprintf(w, "Uncovered: %.1f km² in %d part(s).\n\n", math.Ceil(km2(run.zoneArea()-r.CoveredArea)*10-1e-9)/10, len(run.uncovered))
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 	fmt.Fprintln(tw, "FIELD\tELEV m\tCOVERS km²\tONLY IT km²\tNOTE\t")
 	for i, f := range run.fields {
@@ -61,7 +62,7 @@ func writeCoverageText(w io.Writer, run *coverageRun) {
 			fmt.Fprintln(w, "  no candidate adds any covered area")
 		}
 		for k, s := range rk.Steps {
-			fmt.Fprintf(w, "  %d. %s: +%.1f km², covered %.1f %%\n", k+1, run.cands[s.Candidate].Name, km2(s.Added), s.CoveredFraction*100)
+			fmt.Fprintf(w, "  %d. %s: +%.1f km², covered %.1f %%\n", k+1, run.cands[s.Candidate].Name, km2(s.Added), pctDown(s.CoveredFraction))
 		}
 	}
 	for _, n := range run.notes {
@@ -103,7 +104,7 @@ func (run *coverageRun) candidatesJSON() (ranking, steps []map[string]any) {
 	steps = []map[string]any{}
 	for k, s := range rk.Steps {
 		steps = append(steps, map[string]any{"step": k + 1, "name": run.cands[s.Candidate].Name, "adds_m2": math.Round(s.Added),
-			"covered_fraction": math.Round(s.CoveredFraction*1e4) / 1e4})
+			"covered_fraction": fractionDown(s.CoveredFraction)})
 	}
 	return ranking, steps
 }
@@ -119,7 +120,7 @@ func coverageJSON(run *coverageRun) ([]byte, error) {
 		"reserve_m":         run.setup.Reserve,
 		"clearance_m":       run.setup.Clearance,
 		"terrain":           run.ground.describe(),
-		"covered_fraction":  math.Round(r.CoveredFraction*1e4) / 1e4,
+		"covered_fraction":  fractionDown(r.CoveredFraction),
 		"area_m2":           math.Round(run.zoneArea()),
 		"covered_m2":        math.Round(r.CoveredArea),
 		"uncovered_parts":   len(run.uncovered),
@@ -159,7 +160,7 @@ func coverageGeoJSON(run *coverageRun) ([]byte, error) {
 	fc := geojson.NewFeatureCollection()
 	fc.ExtraMembers = geojson.Properties{"caution": reach.Caution}
 	cov := geojson.NewFeature(multiGeometry(run.covered))
-	cov.Properties = map[string]any{"kind": "covered", "caution": reach.Caution, "covered_fraction": math.Round(r.CoveredFraction*1e4) / 1e4,
+	cov.Properties = map[string]any{"kind": "covered", "caution": reach.Caution, "covered_fraction": fractionDown(r.CoveredFraction),
 		"area_m2": math.Round(r.CoveredArea), "contour_area_m2": math.Round(run.coveredArea),
 		"altitude_flown": run.altMode, "aircraft": run.setup.Aircraft.Name, "wind": run.setup.WindText,
 		"reserve_m": run.setup.Reserve, "clearance_m": run.setup.Clearance, "terrain": run.ground.describe(),
@@ -210,11 +211,13 @@ func coverageScene(run *coverageRun) *render.Scene {
 	r := run.res
 	s := &render.Scene{
 		Title:      fmt.Sprintf("Field coverage at %s - %s", shortCoverageAlt(run), run.setup.Aircraft.Name),
-		Terrain:    r.Ground,
+		Terrain:    displayTerrain(r.Ground, run.ground),
 		DataSource: "terrain: " + run.ground.describe(),
 		Caution:    reach.Caution,
 		Coverage:   &render.Coverage{Area: run.zonePolygons(), Covered: run.covered, Uncovered: run.uncovered},
+		FieldsFrom: "from the area",
 	}
+	s.WindLayers, s.WindSource = windMarks(run.setup)
 	for i, f := range run.fields {
 		s.Fields = append(s.Fields, render.FieldMark{Name: f.Name, Point: orb.Point{f.Lon, f.Lat}, Reachable: !r.Skipped[i], ArrivalAGL: math.NaN()})
 	}
@@ -232,7 +235,7 @@ func coverageScene(run *coverageRun) *render.Scene {
 		"Altitude: " + shortCoverageAlt(run),
 		"Wind: " + run.setup.WindText,
 		fmt.Sprintf("Reserve: %.0f m, clearance %.0f m", run.setup.Reserve, run.setup.Clearance),
-		fmt.Sprintf("Covered: %.1f %% of %.0f km²", r.CoveredFraction*100, km2(run.zoneArea())),
+		fmt.Sprintf("Covered: %.1f %% of %.0f km²", pctDown(r.CoveredFraction), km2(run.zoneArea())),
 	}
 	return s
 }
@@ -261,7 +264,7 @@ func drawCoverage(run *coverageRun, mapPath, reportPath string) error {
 		Scene:    scene,
 		Caution:  reach.Caution,
 		Summary: []string{
-			fmt.Sprintf("A field is in reach with the %.0f m reserve from %.1f %% of the area (%.1f of %.1f km²).", run.setup.Reserve, r.CoveredFraction*100,
+			fmt.Sprintf("A field is in reach with the %.0f m reserve from %.1f %% of the area (%.1f of %.1f km²).", run.setup.Reserve, pctDown(r.CoveredFraction),
 				km2(r.CoveredArea), km2(run.zoneArea())),
 			fmt.Sprintf("Uncovered parts: %d.", len(run.uncovered)),
 		},
@@ -279,7 +282,7 @@ func drawCoverage(run *coverageRun, mapPath, reportPath string) error {
 		}
 		st := render.Table{Title: "Greedy choice", Header: []string{"Step", "Candidate", "Adds (km²)", "Covered after (%)"}}
 		for k, s := range rk.Steps {
-			st.Rows = append(st.Rows, []string{strconv.Itoa(k + 1), run.cands[s.Candidate].Name, fmt.Sprintf("%.1f", km2(s.Added)), fmt.Sprintf("%.1f", s.CoveredFraction*100)})
+			st.Rows = append(st.Rows, []string{strconv.Itoa(k + 1), run.cands[s.Candidate].Name, fmt.Sprintf("%.1f", km2(s.Added)), fmt.Sprintf("%.1f", pctDown(s.CoveredFraction))})
 		}
 		rep.Tables = append(rep.Tables, ct, st)
 	}

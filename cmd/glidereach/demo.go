@@ -18,6 +18,7 @@ import (
 
 	"glidereach/cmd/glidereach/input"
 	"glidereach/reach"
+	"glidereach/terrain"
 )
 
 func init() {
@@ -78,7 +79,8 @@ func (d *demoRun) drawBoth(stem string, draw func(mapPath, reportPath string) er
 }
 
 func newDemoCmd() *cobra.Command {
-	var dir string
+	var dir, terrainFile string
+	var seed int64
 	cmd := &cobra.Command{
 		Use:   "demo [--out DIR]",
 		Short: "Run every capability on the built-in fictional scenario and write the results",
@@ -88,10 +90,20 @@ writes the results into a folder, printing a short summary of each part.
 Everything in it is made up for demonstration.
 
 ` + wrapText(cautionText, 78),
-		Example: `  glidereach demo
-  glidereach demo --out /tmp/glidereach-demo`,
+		Example: `  glidereach demo --out demo-out
+  glidereach demo --write-terrain demo-terrain.tif
+  glidereach demo --write-terrain other-landscape.tif --seed 7`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if terrainFile != "" {
+				if cmd.Flags().Changed("out") {
+					return input.Usagef("--write-terrain", "writes only the landscape; leave out --out (or drop --write-terrain to run the demo)")
+				}
+				return writeDemoTerrain(cmd.OutOrStdout(), terrainFile, seed)
+			}
+			if cmd.Flags().Changed("seed") {
+				return input.Usagef("--seed", "picks the landscape --write-terrain writes; the demo itself runs on seed %d", demoSeed)
+			}
 			if strings.TrimSpace(dir) == "" {
 				return input.Usagef("--out", "is empty")
 			}
@@ -114,6 +126,8 @@ Everything in it is made up for demonstration.
 		},
 	}
 	cmd.Flags().StringVar(&dir, "out", "glidereach-demo", "directory to write the results into (created if needed)")
+	cmd.Flags().StringVar(&terrainFile, "write-terrain", "", "write the demo's invented landscape as a GeoTIFF `FILE.tif` (usable with --terrain) instead of running the demo")
+	cmd.Flags().Int64Var(&seed, "seed", demoSeed, "with --write-terrain: which invented landscape (same layout, other ridges and valleys)")
 	return cmd
 }
 
@@ -175,6 +189,30 @@ func runDemoSteps(ctx context.Context, d *demoRun, steps []demoStep) error {
 		d.files = append(d.files, o.run.files...)
 	}
 	return nil
+}
+
+// writeDemoTerrain writes the invented landscape of the given seed (the
+// demo's own for demoSeed) as a float32 GeoTIFF in EPSG:4326 that --terrain
+// and GIS programs read, and prints what it wrote. The file says in its
+// ImageDescription that it is invented.
+func writeDemoTerrain(w io.Writer, path string, seed int64) error {
+	ext := strings.ToLower(filepath.Ext(path))
+	if ext != ".tif" && ext != ".tiff" {
+		return input.Usagef("--write-terrain", "%q: want a .tif or .tiff file name", path)
+	}
+	g := terrain.Synthetic(seed, demoCells, demoCells, demoCellDeg)
+	desc := fmt.Sprintf("glidereach: invented landscape (synthetic, seed %d, %d x %d cells of 2 arc-seconds), elevation m MSL; not a real place. %s", seed, demoCells, demoCells, reach.Caution)
+	if err := writeFileAtomic(path, func(f *os.File) error {
+		return terrain.GeoTIFFWriter{Description: desc}.Write(f, g)
+	}); err != nil {
+		return &input.UsageError{Where: "--write-terrain", Err: err}
+	}
+	west, north := g.X0-g.DX/2, g.Y0+g.DY/2
+	east, south := west+float64(g.Cols)*g.DX, north-float64(g.Rows)*g.DY
+	_, err := fmt.Fprintf(w, "Wrote %s: invented landscape (seed %d), %d × %d cells of 2″, EPSG:4326, %.6f..%.6f N, %.6f..%.6f E\n"+
+		"Use it with --terrain %s (e.g. glidereach reach --from %.2f,%.2f --agl 1000m --terrain %s).\n",
+		path, seed, g.Cols, g.Rows, south, north, west, east, path, terrain.SyntheticLat, terrain.SyntheticLon, path)
+	return err
 }
 
 // demoAltitudes are the altitudes (m MSL) of the demo's performance tables.

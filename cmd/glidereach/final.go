@@ -133,6 +133,10 @@ type finalRun struct {
 	// altitudes back into readings on the same source.
 	ind *indicatedFlags
 	res *reach.FinalGlideResult
+	// fromRequired is the glide flown from the required altitude, when the
+	// glide from the given altitude is short: its legs are what the pilot
+	// would fly, where the short glide's legs run on below the ground.
+	fromRequired *reach.FinalGlideResult
 }
 
 func runFinal(ctx context.Context, o *finalOptions, stdout, stderr io.Writer) error {
@@ -298,6 +302,11 @@ func runFinal(ctx context.Context, o *finalOptions, stdout, stderr io.Writer) er
 		return err
 	}
 	run.res = res
+	if res.Status == reach.FinalShort && run.altGiven && res.Required <= 19000 {
+		if need, err := computeFinal(ctx, run, route, math.Ceil(res.Required), goal.Elev, o.step); err == nil && len(need.Legs) == len(res.Legs) {
+			run.fromRequired = need
+		}
+	}
 
 	// Files first, so that a failure leaves nothing half-written and stdout
 	// shows the summary only for a complete run.

@@ -61,15 +61,25 @@ func TestFinalBlockedHeadlineText(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, msg)
 	}
 	head := out[:strings.Index(out, "Status:")]
-	for _, bad := range []string{"Required at the start: 1218", "start margin +", "882 m above", "highest affordable"} {
+	for _, bad := range []string{"Required at the start: 1218", "Required at the start: 1219", "start margin +", "882 m above", "highest affordable"} {
 		if strings.Contains(head, bad) {
 			t.Errorf("text headlines %q on a blocked glide:\n%s", bad, head)
 		}
 	}
-	for _, want := range []string{"Required at the start: 2445 m MSL", "set by the terrain", "would need 1218 m", "Arrival: NONE from 1800 m", "start margin -645 m", "no setting affordable"} {
+	for _, want := range []string{"Required at the start: 2445 m MSL", "set by the terrain", "would need 1219 m", "Arrival: NONE from 1800 m", "start margin -645 m"} {
 		if !strings.Contains(head, want) {
 			t.Errorf("text lacks %q:\n%s", want, head)
 		}
+	}
+	// The trainer gets no MacCready line unless a setting is given (a
+	// powered aircraft has no use for it); given one, the blocked glide has
+	// none affordable.
+	if strings.Contains(head, "MacCready:") {
+		t.Errorf("a trainer without --mc is offered a MacCready line:\n%s", head)
+	}
+	_, out, _ = finalCLI(t, append(append([]string{"final"}, blockedFinal...), "--mc", "0.5m/s")...)
+	if !strings.Contains(out, "no setting affordable") {
+		t.Errorf("with --mc: the blocked glide's MacCready line lacks \"no setting affordable\":\n%s", out)
 	}
 }
 
@@ -166,7 +176,7 @@ func TestFinalBlockedHeadlineMapAndReport(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if s := string(h); strings.Contains(s, "Required at the start: 1218") || !strings.Contains(s, "Required at the start: 2445 m MSL, set by the terrain") {
+	if s := string(h); strings.Contains(s, "Required at the start: 1218") || strings.Contains(s, "Required at the start: 1219") || !strings.Contains(s, "Required at the start: 2445 m MSL, set by the terrain") {
 		t.Error("report summary does not headline the clearing altitude")
 	}
 }

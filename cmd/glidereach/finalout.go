@@ -22,6 +22,23 @@ import (
 // route points, the lowest-clearance and the blocked points.
 const finalProfileMax = 800
 
+// soaringGlideRatio is the best glide ratio from which an aircraft is taken
+// for a sailplane or motorglider, for which the MacCready setting (the climb
+// expected in the next thermal) means something: powered light aircraft
+// glide about 1:8 to 1:12, sailplanes 1:30 and better, motorgliders about
+// 1:20 to 1:30 (common practice, no source; from memory).
+const soaringGlideRatio = 20
+
+// showMacCready reports whether the final glide's MacCready line is shown:
+// for a sailplane or motorglider (best glide 1:20 or better at sea level),
+// or when a MacCready setting was given.
+func showMacCready(s *glideSetup) bool {
+	if s.Cond.MacCready > 0 {
+		return true
+	}
+	return s.Aircraft.Figures(1.225, reach.Conditions{}).BestGlideRatio >= soaringGlideRatio
+}
+
 // finalStatusText says in words what the status means for the pilot.
 func finalStatusText(run *finalRun) string {
 	r := run.res
@@ -38,7 +55,7 @@ func finalStatusText(run *finalRun) string {
 		}
 		return txt
 	case reach.FinalShort:
-		return fmt.Sprintf("SHORT: arrives %.0f m below the reserve; %.0f m more altitude at the start is needed", -r.AboveReserve, math.Ceil(-r.Margin))
+		return fmt.Sprintf("SHORT: arrives %s m below the reserve; %s m more altitude at the start is needed", fmtMUp(-r.AboveReserve), fmtMUp(-r.Margin))
 	case reach.FinalTerrainUnknown:
 		return fmt.Sprintf("arrives with the reserve, but the terrain is unknown at %d samples (from %.1f km): the clearance is not checked there", r.Terrain.Unknown, r.Terrain.FirstUnknownDist/1000)
 	}
@@ -124,9 +141,16 @@ func writeFinalText(w io.Writer, run *finalRun) {
 	fmt.Fprintf(w, "Aircraft: %s   Wind: %s   MacCready %.1f m/s\n", s.Aircraft.Name, s.WindText, s.Cond.MacCready)
 	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.describe())
 
+	legs := r.Legs
+	if run.fromRequired != nil {
+		// A short glide's own legs continue below the ground (negative mean
+		// altitudes); show the glide that makes it instead, and say so.
+		legs = run.fromRequired.Legs
+		fmt.Fprintf(w, "Legs as flown from the required %.0f m MSL (from %.0f m MSL the glide is short):\n", run.fromRequired.StartAlt, r.StartAlt)
+	}
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "LEG\tTO\tDIST km\tTRACK°\tTAIL kt\tCROSS kt\tMEAN ALT m\tIAS kt\tTAS kt\tGS kt\tGLIDE\tLOST m\tTIME\t")
-	for i, l := range r.Legs {
+	for i, l := range legs {
 		note := ""
 		if l.NoHeadway {
 			note = "  no headway"
@@ -135,7 +159,7 @@ func writeFinalText(w io.Writer, run *finalRun) {
 		}
 		fmt.Fprintf(tw, "%d\t%s\t%.1f\t%03.0f\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", i+1, finalPointName(run, i+1),
 			l.Distance/1000, l.TrackDeg, fmtSigned(l.Tailwind/input.Knot), fmtSigned(l.Crosswind/input.Knot), fmtM(l.MeanAlt),
-			fmtKt(l.IAS), fmtKt(l.TAS), fmtKt(l.GroundSpeed), fmtRatio(l.GroundRatio), fmtM(l.HeightLost), fmtDuration(l.Time), note)
+			fmtKt(l.IAS), fmtKt(l.TAS), fmtKt(l.GroundSpeed), fmtRatio(l.GroundRatio), fmtMUp(l.HeightLost), fmtDuration(l.Time), note)
 	}
 	tw.Flush()
 	if math.IsNaN(r.ArrivalAGL) && r.Status != reach.FinalNoHeadway {
@@ -148,11 +172,12 @@ func writeFinalText(w io.Writer, run *finalRun) {
 		if terrainSetsAltitude(r) {
 			fmt.Fprintf(w, "Required at the start: %.0f m MSL (%.0f ft), set by the terrain: the least start that keeps the %.0f m clearance and arrives with the reserve\n",
 				math.Ceil(r.Required), math.Ceil(r.Required)/input.Foot, run.setup.Clearance)
-			fmt.Fprintf(w, "  (the straight line without the terrain would need %.0f m: goal %.0f m + reserve %.0f m + %.0f m lost on the way)\n",
-				r.RequiredStraight, r.GoalElev, r.Reserve, r.RequiredStraight-r.GoalElev-r.Reserve)
+			fmt.Fprintf(w, "  (the straight line without the terrain would need %s m: goal %.0f m + reserve %.0f m + %s m lost on the way)\n",
+				fmtMUp(r.RequiredStraight), r.GoalElev, r.Reserve, fmtMUp(r.RequiredStraight-r.GoalElev-r.Reserve))
 		} else {
-			fmt.Fprintf(w, "Required at the start: %.0f m MSL (%.0f ft): goal %.0f m + reserve %.0f m + %.0f m lost on the way\n",
-				r.Required, r.Required/input.Foot, r.GoalElev, r.Reserve, r.Required-r.GoalElev-r.Reserve)
+			// Required up, arrival and margins down (see numUp).
+			fmt.Fprintf(w, "Required at the start: %s m MSL (%s ft): goal %.0f m + reserve %.0f m + %s m lost on the way\n",
+				fmtMUp(r.Required), fmtMUp(r.Required/input.Foot), r.GoalElev, r.Reserve, fmtMUp(r.Required-r.GoalElev-r.Reserve))
 		}
 		if v, ok := run.ind.reading(r.Required); ok {
 			fmt.Fprintf(w, "  on the altimeter (QNH of the %.0f m source at %.1f °C) that is a reading of at least %.0f m\n",
@@ -165,8 +190,8 @@ func writeFinalText(w io.Writer, run *finalRun) {
 				fmt.Fprintf(w, "  from the required %.0f m it arrives %.0f m above the goal\n", math.Ceil(r.Required), c)
 			}
 		} else {
-			fmt.Fprintf(w, "Arrival: %.0f m above the goal, %s m against the reserve; start margin %s m\n",
-				r.ArrivalAGL, fmtSigned(math.Floor(r.AboveReserve)), fmtSigned(math.Floor(r.Margin)))
+			fmt.Fprintf(w, "Arrival: %s m above the goal, %s m against the reserve; start margin %s m\n",
+				fmtMDown(r.ArrivalAGL), fmtSigned(math.Floor(r.AboveReserve+1e-6)), fmtSigned(math.Floor(r.Margin+1e-6)))
 			fmt.Fprintf(w, "Time: %s\n", fmtDuration(r.Time))
 		}
 	}
@@ -186,11 +211,18 @@ func writeFinalText(w io.Writer, run *finalRun) {
 				// short; the reserve, not the terrain, sets the altitude.
 				label = "Below the clearance (the glide is short) at"
 			}
-			fmt.Fprintf(w, "%s %.1f km (%.5f, %.5f): %s; +%.0f m at the start clears it (%s)\n",
-				label, t.BlockDist/1000, t.BlockLat, t.BlockLon, aboveTerrain(t.BlockClearance), math.Ceil(t.Extra), v)
+			if r.Status == reach.FinalShort {
+				// One figure for "how much higher": the reserve's, in
+				// the status; the clearance needs less here.
+				fmt.Fprintf(w, "%s %.1f km (%.5f, %.5f): %s; the altitude needed is the reserve's (Status)\n",
+					label, t.BlockDist/1000, t.BlockLat, t.BlockLon, aboveTerrain(t.BlockClearance))
+			} else {
+				fmt.Fprintf(w, "%s %.1f km (%.5f, %.5f): %s; +%.0f m at the start clears it (%s)\n",
+					label, t.BlockDist/1000, t.BlockLat, t.BlockLon, aboveTerrain(t.BlockClearance), math.Ceil(t.Extra), v)
+			}
 		}
 	}
-	if mc := r.MacCready; r.Status != reach.FinalNoHeadway {
+	if mc := r.MacCready; r.Status != reach.FinalNoHeadway && showMacCready(s) {
 		switch {
 		case math.IsNaN(mc.Affordable) && r.Terrain != nil:
 			fmt.Fprintln(w, "MacCready: no setting affordable (even setting 0 does not both clear the terrain and arrive with the reserve)")
@@ -301,7 +333,7 @@ func finalLegJSON(run *finalRun, i int, l reach.FinalLeg) map[string]any {
 		"start_msl_m":                       num(l.StartAlt),
 		"end_msl_m":                         num(l.EndAlt),
 		"mean_msl_m":                        num(l.MeanAlt),
-		"least_start_without_terrain_msl_m": num(l.LeastStartAlt),
+		"least_start_without_terrain_msl_m": numUp(l.LeastStartAlt),
 		"tailwind_m_s":                      num(l.Tailwind),
 		"crosswind_m_s":                     num(l.Crosswind),
 		"ias_m_s":                           num(l.IAS),
@@ -309,7 +341,7 @@ func finalLegJSON(run *finalRun, i int, l reach.FinalLeg) map[string]any {
 		"speed_clamp":                       l.Clamp.String(),
 		"ground_speed_m_s":                  num(l.GroundSpeed),
 		"ground_glide_ratio":                num(l.GroundRatio),
-		"height_lost_m":                     num(l.HeightLost),
+		"height_lost_m":                     numUp(l.HeightLost),
 		"time_s":                            num(l.Time),
 		"no_headway":                        l.NoHeadway,
 	}
@@ -333,14 +365,14 @@ func finalSummary(run *finalRun) map[string]any {
 		"caution":                        reach.Caution,
 		"status":                         r.Status.String(),
 		"status_text":                    finalStatusText(run),
-		"required_msl_m":                 num(r.Required),
+		"required_msl_m":                 numUp(r.Required),
 		"required_set_by":                requiredSetBy(r),
-		"required_without_terrain_msl_m": num(r.RequiredStraight),
-		"arrival_without_terrain_agl_m":  num(r.LineArrival - r.GoalElev),
-		"arrival_agl_m":                  num(r.ArrivalAGL),
-		"arrival_msl_m":                  num(r.Arrival),
-		"arrival_above_reserve_m":        num(r.AboveReserve),
-		"margin_m":                       num(r.Margin),
+		"required_without_terrain_msl_m": numUp(r.RequiredStraight),
+		"arrival_without_terrain_agl_m":  numDown(r.LineArrival - r.GoalElev),
+		"arrival_agl_m":                  numDown(r.ArrivalAGL),
+		"arrival_msl_m":                  numDown(r.Arrival),
+		"arrival_above_reserve_m":        numDown(r.AboveReserve),
+		"margin_m":                       numDown(r.Margin),
 		"start_msl_m":                    num(r.StartAlt),
 		"start_given":                    run.altGiven,
 		"goal_elevation_m":               num(r.GoalElev),
@@ -352,7 +384,7 @@ func finalSummary(run *finalRun) map[string]any {
 		"mac_cready_m_s":                 s.Cond.MacCready,
 		"affordable_mac_cready_m_s":      num4(mc.Affordable),
 		"affordable_at_limit":            mc.AtLimit,
-		"affordable_arrival_agl_m":       num(mc.ArrivalAGL),
+		"affordable_arrival_agl_m":       numDown(mc.ArrivalAGL),
 		"time_mc0_s":                     num(mc.Time0),
 		"time_affordable_s":              num(mc.TimeAffordable),
 		"time_saved_s":                   num(mc.Saved),
@@ -375,7 +407,7 @@ func finalSummary(run *finalRun) map[string]any {
 	if t := r.Terrain; t != nil {
 		out["terrain_check"] = map[string]any{
 			"step_m":                   num(t.Step),
-			"lowest_clearance_m":       num(t.LowestClearance),
+			"lowest_clearance_m":       numDown(t.LowestClearance),
 			"lowest_distance_m":        num(t.LowestDist),
 			"lowest_lat":               num6(t.LowestLat),
 			"lowest_lon":               num6(t.LowestLon),
@@ -384,9 +416,9 @@ func finalSummary(run *finalRun) map[string]any {
 			"blocked_lat":              num6(t.BlockLat),
 			"blocked_lon":              num6(t.BlockLon),
 			"blocked_clearance_m":      num(t.BlockClearance),
-			"extra_alt_m":              num(t.Extra),
+			"extra_alt_m":              numUp(t.Extra),
 			"extra_verified":           t.Verified,
-			"least_clear_msl_m":        num(t.LeastClearAlt),
+			"least_clear_msl_m":        numUp(t.LeastClearAlt),
 			"unknown_samples":          t.Unknown,
 			"first_unknown_distance_m": num(t.FirstUnknownDist),
 		}
@@ -457,7 +489,7 @@ func finalGeoJSON(run *finalRun) ([]byte, error) {
 
 	st := geojson.NewFeature(orb.Point{round6(run.startLon), round6(run.startLat)})
 	st.Properties = map[string]any{"kind": "start", "caution": reach.Caution, "alt_msl_m": num(r.StartAlt),
-		"ground_m": num(run.startElev), "required_msl_m": num(r.Required), "margin_m": num(r.Margin)}
+		"ground_m": num(run.startElev), "required_msl_m": numUp(r.Required), "margin_m": numDown(r.Margin)}
 	fc.Append(st)
 	for i := 1; i < len(r.Route)-1; i++ {
 		f := geojson.NewFeature(orb.Point{round6(r.Route[i].Lon), round6(r.Route[i].Lat)})
@@ -468,19 +500,19 @@ func finalGeoJSON(run *finalRun) ([]byte, error) {
 	g := r.Route[len(r.Route)-1]
 	gf := geojson.NewFeature(orb.Point{round6(g.Lon), round6(g.Lat)})
 	gf.Properties = map[string]any{"kind": "goal", "name": run.goalName, "elevation_m": num(r.GoalElev),
-		"arrival_agl_m": num(r.ArrivalAGL), "arrival_above_reserve_m": num(r.AboveReserve),
-		"required_msl_m": num(r.Required), "reachable": r.Status == reach.FinalOK || r.Status == reach.FinalTerrainUnknown,
+		"arrival_agl_m": numDown(r.ArrivalAGL), "arrival_above_reserve_m": numDown(r.AboveReserve),
+		"required_msl_m": numUp(r.Required), "reachable": r.Status == reach.FinalOK || r.Status == reach.FinalTerrainUnknown,
 		"distance_m": num(r.Distance)}
 	fc.Append(gf)
 	if t := r.Terrain; t != nil && !math.IsNaN(t.LowestClearance) {
 		f := geojson.NewFeature(orb.Point{round6(t.LowestLon), round6(t.LowestLat)})
-		f.Properties = map[string]any{"kind": "lowest_clearance", "clearance_m": num(t.LowestClearance), "distance_m": num(t.LowestDist)}
+		f.Properties = map[string]any{"kind": "lowest_clearance", "clearance_m": numDown(t.LowestClearance), "distance_m": num(t.LowestDist)}
 		fc.Append(f)
 	}
 	if t := r.Terrain; t != nil && t.Blocked {
 		f := geojson.NewFeature(orb.Point{round6(t.BlockLon), round6(t.BlockLat)})
 		f.Properties = map[string]any{"kind": "blocked", "clearance_m": num(t.BlockClearance), "distance_m": num(t.BlockDist),
-			"extra_alt_m": num(t.Extra), "caution": reach.Caution}
+			"extra_alt_m": numUp(t.Extra), "caution": reach.Caution}
 		fc.Append(f)
 	}
 	return jsonDoc(fc, " ")
@@ -521,11 +553,12 @@ func finalScene(run *finalRun) (*render.Scene, error) {
 	}
 	s := &render.Scene{
 		Title:      fmt.Sprintf("Final glide to %s - %s", run.goalName, run.setup.Aircraft.Name),
-		Terrain:    l,
+		Terrain:    displayTerrain(l, run.ground),
 		Bounds:     mapBounds(l, run.ground),
 		DataSource: "terrain: " + run.ground.describe(),
 		Caution:    reach.Caution,
 	}
+	s.WindLayers, s.WindSource = windMarks(run.setup)
 	idx := finalIndices(r)
 	gl := &render.GlideLine{LowestClearance: math.NaN()}
 	for _, k := range idx {
@@ -661,7 +694,7 @@ func drawFinal(run *finalRun, mapPath, reportPath string) error {
 	}
 	if r.Status != reach.FinalNoHeadway {
 		if terrainSetsAltitude(r) {
-			rep.Summary = append(rep.Summary, fmt.Sprintf("Required at the start: %.0f m MSL, set by the terrain (the straight line without the terrain would need %.0f m)", math.Ceil(r.Required), r.RequiredStraight))
+			rep.Summary = append(rep.Summary, fmt.Sprintf("Required at the start: %.0f m MSL, set by the terrain (the straight line without the terrain would need %s m)", math.Ceil(r.Required), fmtMUp(r.RequiredStraight)))
 		} else {
 			rep.Summary = append(rep.Summary, fmt.Sprintf("Required at the start: %.0f m MSL (goal %.0f m + reserve %.0f m + losses)", r.Required, r.GoalElev, r.Reserve))
 		}
@@ -672,7 +705,7 @@ func drawFinal(run *finalRun, mapPath, reportPath string) error {
 		}
 		rep.Profile = finalProfile(run)
 	}
-	if mc := r.MacCready; !math.IsNaN(mc.Affordable) {
+	if mc := r.MacCready; !math.IsNaN(mc.Affordable) && showMacCready(run.setup) {
 		rep.Summary = append(rep.Summary, fmt.Sprintf("Highest affordable MacCready setting %.1f m/s, %s sooner than setting 0", math.Floor(mc.Affordable*10)/10, fmtDuration(mc.Saved)))
 	}
 	t := render.Table{Title: "Legs", Header: []string{"Leg", "To", "Distance (km)", "Track (°)", "Tailwind (kt)", "Crosswind (kt)", "Mean alt (m)", "IAS (kt)", "TAS (kt)", "Ground speed (kt)", "Glide", "Height lost (m)", "Time"}}

@@ -4,11 +4,13 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"os"
 	"strings"
 
 	"github.com/spf13/pflag"
 
 	"glidereach/cmd/glidereach/input"
+	"glidereach/cmd/glidereach/render"
 	"glidereach/reach"
 	"glidereach/terrain"
 	"glidereach/wind"
@@ -131,6 +133,10 @@ type glideSetup struct {
 	Reserve   float64
 	Clearance float64
 	WindText  string
+	// WindSource says where the wind came from, for maps: "--wind",
+	// "--wind-aloft (coded forecast)" or "none given: calm", and the
+	// --wind-error set when there is one.
+	WindSource string
 	// Warnings are the settings below common practice (see warnReserve);
 	// each is printed on stderr and listed first in the assumptions.
 	Warnings []string
@@ -232,7 +238,15 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 		}
 	}
 	s.checkSettings(resFrom, clrFrom)
-	s.WindText = windText(w)
+	s.WindText = windTextStyled(w, windStyleOf(g.wind, g.windAloft))
+	switch {
+	case strings.TrimSpace(g.windAloft) != "":
+		s.WindSource = "--wind-aloft " + strings.TrimSpace(g.windAloft) + " (coded forecast)"
+	case strings.TrimSpace(g.wind) != "":
+		s.WindSource = "--wind " + strings.TrimSpace(g.wind)
+	default:
+		s.WindSource = "none given: calm"
+	}
 	s.Winds = []*wind.Profile{w}
 	if g.windError != "" {
 		d, sp, err := input.ParseWindError(g.windError)
@@ -242,6 +256,7 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 		s.Winds = wind.Perturb(w, d, sp)
 		if len(s.Winds) > 1 {
 			s.WindText += fmt.Sprintf(" (±%.0f°, ±%.0f kt: worst of %d winds)", d, sp/input.Knot, len(s.Winds))
+			s.WindSource += fmt.Sprintf("; the figures hold for the worst of %d winds (--wind-error %s), the arrows show the forecast", len(s.Winds), g.windError)
 		}
 	}
 	return s, nil
@@ -313,6 +328,8 @@ func (s *glideSetup) assumptions() []string {
 	}
 	if s.Cond.AirSink > 0 {
 		a = append(a, fmt.Sprintf("sinking air allowance %.1f m/s", s.Cond.AirSink))
+	} else {
+		a = append(a, "no sinking-air allowance: the air is taken as neither rising nor sinking apart from the wind (add one with --air-sink)")
 	}
 	if s.Cond.MacCready > 0 {
 		a = append(a, fmt.Sprintf("MacCready setting %.1f m/s", s.Cond.MacCready))
@@ -536,8 +553,39 @@ func (f *indicatedFlags) convert(alt *input.Quantity) (string, error) {
 
 // windText describes a wind profile for people: each layer as
 // "ALTm DIR°/SPEED kt", direction the wind blows from.
-func windText(p *wind.Profile) string {
+func windText(p *wind.Profile) string { return windTextStyled(p, windStyle{}) }
+
+// windStyle says how the user gave the wind, so that it is echoed in the
+// user's terms: altitudes in feet as well when they were typed in feet (a
+// coded forecast always is), and a calm layer of a coded forecast (group
+// 9900) as "light and variable", which is what the forecast said.
+type windStyle struct {
+	feet, forecast bool
+}
+
+// windStyleOf finds the style of the --wind / --wind-aloft values: feet when
+// the forecast is given, or when the --wind text (or the file it names)
+// uses ft.
+func windStyleOf(windSpec, aloftSpec string) windStyle {
+	if strings.TrimSpace(aloftSpec) != "" {
+		return windStyle{feet: true, forecast: true}
+	}
+	text := windSpec
+	if st, err := os.Stat(strings.TrimSpace(windSpec)); err == nil && st.Mode().IsRegular() && st.Size() < 1<<20 {
+		if b, err := os.ReadFile(strings.TrimSpace(windSpec)); err == nil {
+			text = string(b)
+		}
+	}
+	return windStyle{feet: strings.Contains(strings.ToLower(text), "ft")}
+}
+
+// windTextStyled is windText in the given style: "3000 ft (914 m)
+// 270°/14 kt" for feet, "light and variable" for a forecast's calm layer.
+func windTextStyled(p *wind.Profile, st windStyle) string {
 	if p == nil || p.IsCalm() {
+		if st.forecast && p != nil && len(p.Layers()) > 0 {
+			return "light and variable at every level"
+		}
 		return "calm"
 	}
 	ls := p.Layers()
@@ -546,11 +594,58 @@ func windText(p *wind.Profile) string {
 	}
 	parts := make([]string, 0, len(ls))
 	for _, l := range ls {
-		s := fmt.Sprintf("%.0f m %03.0f°/%.0f kt", l.Alt, l.Dir, l.Speed/input.Knot)
+		alt := fmt.Sprintf("%.0f m", l.Alt)
+		if st.feet {
+			alt = fmt.Sprintf("%.0f ft (%.0f m)", l.Alt/0.3048, l.Alt)
+		}
+		dirSpeed := fmt.Sprintf("%03.0f°/%.0f kt", l.Dir, l.Speed/input.Knot)
+		if l.Speed == 0 {
+			dirSpeed = "calm"
+			if st.forecast {
+				dirSpeed = "light and variable"
+			}
+		}
+		s := alt + " " + dirSpeed
 		if l.HasTemp {
 			s += fmt.Sprintf(" %+.0f °C", l.Temp-273.15)
 		}
 		parts = append(parts, s)
 	}
 	return strings.Join(parts, ", ")
+}
+
+// windMarks are the map's wind arrows for the setup's wind (the forecast,
+// not its --wind-error perturbations), one per layer, labelled as the text
+// outputs label them, and where the wind came from. A calm profile gives
+// one calm mark, so the map still says the air was taken as calm.
+func windMarks(s *glideSetup) ([]render.WindMark, string) {
+	var st windStyle
+	if strings.HasPrefix(s.WindSource, "--wind-aloft") {
+		st = windStyle{feet: true, forecast: true}
+	} else if strings.Contains(strings.ToLower(s.WindSource), "ft") {
+		st.feet = true
+	}
+	if s.Wind == nil || s.Wind.IsCalm() {
+		return []render.WindMark{{Text: "calm at every altitude"}}, s.WindSource
+	}
+	var marks []render.WindMark
+	for _, l := range s.Wind.Layers() {
+		text := fmt.Sprintf("%03.0f°/%.0f kt", l.Dir, l.Speed/input.Knot)
+		if len(s.Wind.Layers()) > 1 {
+			alt := fmt.Sprintf("%.0f m", l.Alt)
+			if st.feet {
+				alt = fmt.Sprintf("%.0f ft", l.Alt/0.3048)
+			}
+			switch {
+			case l.Speed == 0 && st.forecast:
+				text = alt + " light and variable"
+			case l.Speed == 0:
+				text = alt + " calm"
+			default:
+				text = alt + " " + text
+			}
+		}
+		marks = append(marks, render.WindMark{AltMSL: l.Alt, FromDeg: l.Dir, Speed: l.Speed, Text: text})
+	}
+	return marks, s.WindSource
 }

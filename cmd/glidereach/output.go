@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -233,6 +234,18 @@ func (o *outputSet) commit() error {
 	return nil
 }
 
+// adopt adds a file already written under the temporary name tmp, to be
+// renamed to path with the others (an ASCII grid's sidecars).
+func (o *outputSet) adopt(tmp, path string) error {
+	t, err := resolveOutput(path)
+	if err != nil {
+		os.Remove(tmp)
+		return writeErr(path, err)
+	}
+	o.staged = append(o.staged, &stagedFile{target: t, tmp: tmp})
+	return nil
+}
+
 // discard removes the temporary files not renamed.
 func (o *outputSet) discard() {
 	for _, s := range o.staged {
@@ -330,6 +343,18 @@ func deliver(ctx context.Context, stdout io.Writer, r results) error {
 	if r.raster != "" {
 		if err := r.writeRaster(tmp[r.raster]); err != nil {
 			return err
+		}
+		// An ASCII grid's sidecars (writeRaster) were written beside its
+		// temporary name; they are renamed with it.
+		if t := tmp[r.raster]; t != r.raster && strings.EqualFold(filepath.Ext(r.raster), ".asc") {
+			tp, ta := ascSidecarNames(t)
+			p, a := ascSidecarNames(r.raster)
+			if err := set.adopt(tp, p); err != nil {
+				return err
+			}
+			if err := set.adopt(ta, a); err != nil {
+				return err
+			}
 		}
 	}
 	if err := ctx.Err(); err != nil {
@@ -472,3 +497,50 @@ func jsonDoc(v any, indent string) ([]byte, error) {
 	}
 	return append(data, '\n'), nil
 }
+
+// Conservative rounding. A required altitude is rounded up and an arrival
+// height or a margin down, so that a rounded figure never promises more
+// than the computation: 1084.01 m needed prints as 1085 m (text) or
+// 1084.1 m (JSON), an arrival of 449.99 m as 449 m or 449.9 m. The 1e-6
+// guard keeps a value that is whole up to floating-point noise whole.
+// NaN and infinities become "-" (text) or JSON null.
+
+// numUp rounds v up to 0.1 for JSON.
+func numUp(v float64) any {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return nil
+	}
+	return math.Ceil(v*10-1e-6) / 10
+}
+
+// numDown rounds v down to 0.1 for JSON.
+func numDown(v float64) any {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return nil
+	}
+	return math.Floor(v*10+1e-6) / 10
+}
+
+// fmtMUp prints v rounded up to a whole metre.
+func fmtMUp(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "-"
+	}
+	return fmt.Sprintf("%.0f", math.Ceil(v-1e-6))
+}
+
+// fmtMDown prints v rounded down to a whole metre.
+func fmtMDown(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "-"
+	}
+	return fmt.Sprintf("%.0f", math.Floor(v+1e-6))
+}
+
+// fractionDown rounds a covered share (0..1) down to 1e-4 for JSON, and
+// pctDown gives it in per cent rounded down to 0.1 for text ("%.1f"): a
+// share of the route or area with a field in reach must not read larger
+// than it is.
+func fractionDown(f float64) float64 { return math.Floor(f*1e4+1e-9) / 1e4 }
+
+func pctDown(f float64) float64 { return math.Floor(f*1e3+1e-9) / 10 }

@@ -71,7 +71,7 @@ Built-in profiles: ` + strings.Join(reach.BuiltinNames(), ", ") + ` (generic, in
 		Example: `  glidereach polar --aircraft trainer --alt 5000ft
   glidereach polar --aircraft sailplane --alt 1500m --units km/h --mc 1.5m/s
   glidereach polar --aircraft trainer --alt 6000ft --wind 270/20kt --track 090
-  glidereach polar --aircraft my-plane.yaml --mass 1100kg --bugs 10% --isa-dev 15C --format json`,
+  glidereach polar --aircraft testdata/aircraft/trainer.yaml --mass 700kg --bugs 10% --isa-dev 15C --format json`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			ac, err := input.LoadAircraft(aircraft)
@@ -106,11 +106,11 @@ Built-in profiles: ` + strings.Join(reach.BuiltinNames(), ", ") + ` (generic, in
 				if !o.hasTrack {
 					return input.Usagef("--track", "is required with a wind (the track to hold, degrees true, e.g. --track 090)")
 				}
-				o.wind, o.windText = w, windText(w)
+				o.wind, o.windText = w, windTextStyled(w, windStyleOf(windSpec, aloftSpec))
 			}
 			if w.HasTemperatures() {
 				o.wind = w
-				o.windText = windText(w)
+				o.windText = windTextStyled(w, windStyleOf(windSpec, aloftSpec))
 			}
 			o.atm = reach.Atmosphere{ISADev: o.isaDev}
 			if w.HasTemperatures() {
@@ -214,7 +214,7 @@ type polarWind struct {
 type polarReport struct {
 	Aircraft  string  `json:"aircraft"`
 	PolarForm string  `json:"polar_form"`
-	AltitudeM float64 `json:"altitude_m"`
+	AltitudeM float64 `json:"alt_msl_m"`
 	// ISADevK is the deviation from ISA of the air at AltitudeM: --isa-dev,
 	// or what the wind layers' temperatures give there (TempSource).
 	ISADevK      float64      `json:"isa_dev_k"`
@@ -226,7 +226,7 @@ type polarReport struct {
 	RefMassKg    float64      `json:"reference_mass_kg"`
 	Bugs         float64      `json:"bugs"`
 	AirSink      float64      `json:"air_sink_m_s"`
-	MacCready    float64      `json:"mc_m_s"`
+	MacCready    float64      `json:"mac_cready_m_s"`
 	Wind         *polarWind   `json:"wind"`
 	StallIAS     float64      `json:"stall_ias_m_s"`
 	MinIAS       float64      `json:"min_ias_m_s"`

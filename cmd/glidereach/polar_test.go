@@ -62,7 +62,7 @@ func TestPolarJSONAndWind(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &r); err != nil {
 		t.Fatal(err)
 	}
-	for _, k := range []string{"altitude_m", "density_kg_m3", "rows", "best_glide", "least_sink", "speed_to_fly", "caution", "wind", "min_ias_m_s"} {
+	for _, k := range []string{"alt_msl_m", "mac_cready_m_s", "density_kg_m3", "rows", "best_glide", "least_sink", "speed_to_fly", "caution", "wind", "min_ias_m_s"} {
 		if _, ok := r[k]; !ok {
 			t.Errorf("JSON lacks %q", k)
 		}
@@ -204,8 +204,9 @@ func TestPolarWindAndTemperatureLines(t *testing.T) {
 	}
 	for _, want := range []string{
 		"Air: -7.0 °C (ISA -10.1 K, from the wind layers' temperatures)",
-		// Layers described in knots, like every other command.
-		"Wind: 0 m 240°/10 kt, 1524 m 270°/20 kt -5 °C",
+		// Layers described in knots, like every other command, at the
+		// altitudes in the feet they were typed in (metres beside).
+		"Wind: 0 ft (0 m) 240°/10 kt, 5000 ft (1524 m) 270°/20 kt -5 °C",
 		// A west wind on a southbound track comes from the right (wind
 		// package sign convention: cross > 0 from the left).
 		"crosswind 20.0 kt from the right",

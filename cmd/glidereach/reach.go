@@ -49,8 +49,8 @@ just reach them with the reserve.
 
 ` + cautionText,
 		Example: `  glidereach reach --from -0.5,-24.5 --alt 1500m --aircraft trainer --out reach.geojson
-  glidereach reach --from -0.5,-24.5 --agl 3000ft --wind 0m:240/10kt,1500m:270/20kt \
-      --terrain testdata/geotiff --fields testdata/fields/demo-fields.geojson --levels 0m,150m
+  glidereach reach --from 0.0,-25.0 --agl 3000ft --wind 0m:240/10kt,1500m:270/20kt \
+      --terrain testdata/geotiff/geo_int16_strip_none.tif --fields testdata/fields/fixture-fields.geojson --levels 0m,150m
   glidereach reach --from -0.5,-24.5 --alt 1200m --format json`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -130,6 +130,9 @@ type reachRun struct {
 	farBearing float64       // degrees true
 	farPoint   orb.Point     // the reserve ring's vertex farthest from the start (lon, lat)
 	grid       *terrain.Grid // DEM window, nil on flat ground
+	// edge is set when the footprint runs into the edge of the terrain
+	// data (see terrainEdge): the ground beyond was not computed.
+	edge *edgeCut
 
 	fail    *failureState       // nil: no failure state (--heading)
 	sectors []reach.SectorStart // the failure's sector starts (nominal wind)
@@ -166,6 +169,10 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 		if err != nil {
 			return err
 		}
+	}
+	start := orb.Point{o.pos.from.Lon, o.pos.from.Lat}
+	for _, w := range farWarnings("start", orb.Bound{Min: start, Max: start}, fields, "--fields", nil) {
+		fmt.Fprintln(stderr, "glidereach: warning:", w)
 	}
 	fstate, err := o.fail.resolve()
 	if err != nil {
@@ -342,6 +349,7 @@ func computeReachFrom(ctx context.Context, setup *glideSetup, gr ground, pos *po
 			run.farthest, run.farBearing, run.farPoint = d, b, p
 		}
 	}
+	run.edge = terrainEdge(res, grid, math.Min(minLevel, setup.Reserve))
 
 	// Fields: each is judged in every wind by its own backward run; the
 	// (field, wind) runs are independent and shared between two workers.
@@ -731,4 +739,78 @@ func (run *reachRun) reconcile(ctx context.Context, k int, l *terrain.Local, tar
 		return math.NaN(), false, err
 	}
 	return math.Max(v, math.Nextafter(start, math.Inf(1))), true, nil
+}
+
+// edgeCut says where a footprint is cut off by the edge of the terrain data.
+type edgeCut struct {
+	BearingDeg float64 // from the start to the mean of the cut cells, degrees true
+	// AllRound is set when the cut cells lie on several sides of the start
+	// (their mean direction is weak), so no one bearing describes them.
+	AllRound bool
+	Cells    int     // footprint cells next to the edge
+	CoverM   float64 // half-size of the window the solver wanted, m: terrain this far around the start avoids the cut
+}
+
+// terrainEdge finds footprint cells (arrival at least minAGL above the
+// ground) next to a cell that lies outside the terrain data (off grid, the
+// DEM window read; a void inside the data is an obstacle, not an edge) or on
+// the border of the solver's window. Such a footprint ends where the data
+// ends, not where the glide does, and must say so; nil when none is, or on
+// flat ground.
+func terrainEdge(res *reach.FootprintResult, grid *terrain.Grid, minAGL float64) *edgeCut {
+	if grid == nil || res == nil || res.Ground == nil {
+		return nil
+	}
+	l := res.Ground
+	off := func(c, r int) bool {
+		if c < 0 || r < 0 || c >= l.Cols || r >= l.Rows {
+			return true
+		}
+		if e := l.Elev[r*l.Cols+c]; e == e {
+			return false
+		}
+		x, y := l.XY(c, r)
+		lat, lon := l.Frame.Inverse(x, y)
+		return !inside(grid, lat, lon)
+	}
+	var n int
+	var ux, uy float64
+	sx0, sy0 := l.Frame.Forward(res.Start.Lat, res.Start.Lon)
+	for r := 0; r < l.Rows; r++ {
+		for c := 0; c < l.Cols; c++ {
+			k := r*l.Cols + c
+			a, e := res.Arrival[k], l.Elev[k]
+			if a != a || e != e || float64(a-e) < minAGL {
+				continue
+			}
+			if off(c-1, r) || off(c+1, r) || off(c, r-1) || off(c, r+1) {
+				x, y := l.XY(c, r)
+				if d := math.Hypot(x-sx0, y-sy0); d > 0 {
+					ux, uy = ux+(x-sx0)/d, uy+(y-sy0)/d
+				}
+				n++
+			}
+		}
+	}
+	if n == 0 {
+		return nil
+	}
+	brg := math.Mod(math.Atan2(ux, uy)*180/math.Pi+360, 360)
+	return &edgeCut{BearingDeg: brg, AllRound: math.Hypot(ux, uy)/float64(n) < 0.5, Cells: n, CoverM: float64(max(l.Cols, l.Rows)-1) * l.Cell / 2}
+}
+
+// edgeText is the warning a footprint cut off by the data's edge carries in
+// every output.
+func (e *edgeCut) text() string {
+	return fmt.Sprintf("the footprint is cut off by the edge of the terrain data (%s): the ground beyond was not computed, "+
+		"so the reach there may be larger than shown and the farthest reach may be the data's edge; give terrain covering %.0f km around the start",
+		e.where(), math.Ceil(e.CoverM/1000))
+}
+
+// where says where the cut lies: "toward 213°" or "on several sides".
+func (e *edgeCut) where() string {
+	if e.AllRound {
+		return "on several sides"
+	}
+	return fmt.Sprintf("toward %03.0f°", e.BearingDeg)
 }

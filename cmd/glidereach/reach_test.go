@@ -380,7 +380,7 @@ func TestOutputNamesCheckedByEveryCommand(t *testing.T) {
 		"reach":    {"reach", "--from", "-0.5,-24.5", "--alt", "1500m"},
 		"final":    {"final", "--from", "-0.5,-24.5", "--alt", "1500m", "--to", "-0.45,-24.6"},
 		"route":    {"route", "--route", "../../testdata/routes/demo-route.gpx", "--fields", fields, "--alt", "1500m"},
-		"coverage": {"coverage", "--fields", fields, "--area", "-24.8,-0.8,-24.2,-0.2", "--alt", "1500m"},
+		"coverage": {"coverage", "--fields", fields, "--box", "-0.8,-24.8,-0.2,-24.2", "--alt", "1500m"},
 	}
 	for name, args := range base {
 		for _, bad := range [][]string{{"--report", filepath.Join(dir, "r.pdf")}, {"--map", filepath.Join(dir, "m.jpg")}} {
@@ -484,7 +484,7 @@ func TestReachFarthestIsTheRingVertex(t *testing.T) {
 		switch f.Properties["kind"] {
 		case "start":
 			far, _ = f.Properties["farthest_m"].(float64)
-			farDeg, _ = f.Properties["farthest_deg"].(float64)
+			farDeg, _ = f.Properties["farthest_bearing_deg"].(float64)
 			farLat, _ = f.Properties["farthest_lat"].(float64)
 			farLon, _ = f.Properties["farthest_lon"].(float64)
 			if s, _ := f.Properties["farthest_is"].(string); !strings.Contains(s, "ring") {

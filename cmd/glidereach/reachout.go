@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"encoding/xml"
 	"fmt"
 	"io"
 	"math"
@@ -32,9 +33,9 @@ func fieldProps(f fieldResult) map[string]any {
 		"kind":                   "field",
 		"name":                   f.Name,
 		"reachable":              f.Reachable,
-		"arrival_agl_m":          num(f.ArrivalAGLM),
-		"required_msl_m":         num(f.RequiredMSL),
-		"margin_above_reserve_m": num(f.MarginM),
+		"arrival_agl_m":          numDown(f.ArrivalAGLM),
+		"required_msl_m":         numUp(f.RequiredMSL),
+		"margin_above_reserve_m": numDown(f.MarginM),
 		"distance_m":             num(f.DistanceM),
 		"bearing_deg":            num(f.BearingDeg),
 		"elevation_m":            num(f.ElevationM),
@@ -106,25 +107,27 @@ func levelMeaning(a, reserve float64) (below bool, meaning string) {
 
 func startProps(run *reachRun) map[string]any {
 	return map[string]any{
-		"kind":           "start",
-		"caution":        reach.Caution,
-		"alt_msl_m":      num(run.startAlt),
-		"ground_m":       num(run.startElev),
-		"agl_m":          num(run.startAlt - run.startElev),
-		"aircraft":       run.setup.Aircraft.Name,
-		"wind":           run.setup.WindText,
-		"reserve_m":      run.setup.Reserve,
-		"clearance_m":    run.setup.Clearance,
-		"terrain":        run.ground.describe(),
-		"farthest_m":     num(run.farthest),
-		"farthest_deg":   num(run.farBearing),
-		"farthest_lat":   farCoord(run, 1),
-		"farthest_lon":   farCoord(run, 0),
-		"farthest_is":    farthestIs,
-		"assumptions":    run.setup.assumptions(),
-		"cell_size_m":    num(run.res.Ground.Cell),
-		"planning_only":  true,
-		"mac_cready_m_s": run.setup.Cond.MacCready,
+		"kind":                 "start",
+		"caution":              reach.Caution,
+		"alt_msl_m":            num(run.startAlt),
+		"ground_m":             num(run.startElev),
+		"agl_m":                num(run.startAlt - run.startElev),
+		"aircraft":             run.setup.Aircraft.Name,
+		"wind":                 run.setup.WindText,
+		"reserve_m":            run.setup.Reserve,
+		"clearance_m":          run.setup.Clearance,
+		"terrain":              run.ground.describe(),
+		"farthest_m":           num(run.farthest),
+		"farthest_bearing_deg": num(run.farBearing),
+		"farthest_lat":         farCoord(run, 1),
+		"farthest_lon":         farCoord(run, 0),
+		"farthest_is":          farthestIs,
+		"cut_by_terrain_edge":  run.edge != nil,
+		"terrain_edge_note":    edgeNote(run.edge),
+		"assumptions":          run.setup.assumptions(),
+		"cell_size_m":          num(run.res.Ground.Cell),
+		"planning_only":        true,
+		"mac_cready_m_s":       run.setup.Cond.MacCready,
 	}
 }
 
@@ -165,6 +168,8 @@ func reachJSON(run *reachRun) ([]byte, error) {
 		"farthest_lat":         farCoord(run, 1),
 		"farthest_lon":         farCoord(run, 0),
 		"farthest_is":          farthestIs,
+		"cut_by_terrain_edge":  run.edge != nil,
+		"terrain_edge_note":    edgeNote(run.edge),
 		"fields":               fields,
 		"assumptions":          run.setup.assumptions(),
 	}
@@ -211,6 +216,9 @@ func writeReachText(w io.Writer, run *reachRun) {
 	} else {
 		fmt.Fprintln(w, "No ground is reachable with the reserve from here.")
 	}
+	if run.edge != nil {
+		fmt.Fprintln(w, "NOTE: "+run.edge.text())
+	}
 	if len(run.fields) > 0 {
 		fmt.Fprintln(w)
 		tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
@@ -220,7 +228,7 @@ func writeReachText(w io.Writer, run *reachRun) {
 			if f.Reachable {
 				r = "yes"
 			}
-			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%.1f\t%03.0f\t%.0f\t%s\n", f.Name, r, fmtM(f.ArrivalAGLM), fmtM(f.MarginM), fmtM(f.RequiredMSL), f.DistanceM/1000, f.BearingDeg, f.ElevationM, f.Note)
+			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%.1f\t%03.0f\t%.0f\t%s\n", f.Name, r, fmtMDown(f.ArrivalAGLM), fmtMDown(f.MarginM), fmtMUp(f.RequiredMSL), f.DistanceM/1000, f.BearingDeg, f.ElevationM, f.Note)
 		}
 		tw.Flush()
 	}
@@ -262,24 +270,83 @@ func writeArrivalRaster(path string, run *reachRun) error {
 
 // writeRaster writes g as GeoTIFF or ESRI ASCII grid by the path's
 // extension. A GeoTIFF carries what the values are and the caution in its
-// ImageDescription; an ASCII grid has no place for text.
+// ImageDescription. An ASCII grid has no place for text, so it gets two
+// sidecars: NAME.prj with its CRS (without it the tool's own readers, and
+// GDAL, do not know where the grid lies) and NAME.asc.aux.xml, GDAL's
+// auxiliary metadata file (a PAMDataset), whose dataset metadata and band
+// description GIS programs show: what the values are, their unit, and the
+// caution. The sidecars are written first and removed again if the grid
+// cannot be written, so a failure leaves nothing half-done.
 func writeRaster(path string, g *terrain.Grid, what string) error {
 	ext := strings.ToLower(filepath.Ext(path))
-	return writeFileAtomic(path, func(f *os.File) error {
-		if ext == ".asc" {
-			return terrain.WriteASC(f, g)
-		}
-		return terrain.GeoTIFFWriter{Description: "glidereach: " + what + ". " + reach.Caution}.Write(f, g)
-	})
+	if ext != ".asc" {
+		return writeFileAtomic(path, func(f *os.File) error {
+			return terrain.GeoTIFFWriter{Description: "glidereach: " + what + ". " + reach.Caution}.Write(f, g)
+		})
+	}
+	prj, err := terrain.PRJ(g.CRS)
+	if err != nil {
+		return err
+	}
+	if st, err := os.Stat(path); err == nil && !st.Mode().IsRegular() {
+		// A device or pipe (--raster /dev/stdout): no sidecars beside it.
+		return writeFileAtomic(path, func(f *os.File) error { return terrain.WriteASC(f, g) })
+	}
+	prjPath, auxPath := ascSidecarNames(path)
+	if err := writeFileAtomic(prjPath, func(f *os.File) error { _, err := f.WriteString(prj + "\n"); return err }); err != nil {
+		return err
+	}
+	if err := writeFileAtomic(auxPath, func(f *os.File) error { _, err := f.WriteString(pamMetadata(what)); return err }); err != nil {
+		os.Remove(prjPath)
+		return err
+	}
+	if err := writeFileAtomic(path, func(f *os.File) error { return terrain.WriteASC(f, g) }); err != nil {
+		os.Remove(prjPath)
+		os.Remove(auxPath)
+		return err
+	}
+	return nil
+}
+
+// ascSidecarNames are the files writeRaster writes beside an .asc grid:
+// its CRS (NAME.prj, the grid's name without .asc) and GDAL's metadata
+// (NAME.asc.aux.xml).
+func ascSidecarNames(grid string) (prj, aux string) {
+	return strings.TrimSuffix(grid, filepath.Ext(grid)) + ".prj", grid + ".aux.xml"
+}
+
+// pamMetadata is the GDAL auxiliary metadata (.aux.xml, a PAMDataset) of a
+// raster the tool writes: the value's meaning as the band description and
+// as dataset metadata, the unit (m), the no-data value WriteASC uses, and
+// the caution.
+func pamMetadata(what string) string {
+	esc := func(s string) string {
+		var b strings.Builder
+		xml.EscapeText(&b, []byte(s))
+		return b.String()
+	}
+	return "<PAMDataset>\n  <Metadata>\n" +
+		"    <MDI key=\"DESCRIPTION\">glidereach: " + esc(what) + "</MDI>\n" +
+		"    <MDI key=\"CAUTION\">" + esc(reach.Caution) + "</MDI>\n" +
+		"  </Metadata>\n  <PAMRasterBand band=\"1\">\n" +
+		"    <Description>" + esc(what) + "</Description>\n" +
+		"    <NoDataValue>-9999</NoDataValue>\n" +
+		"    <UnitType>m</UnitType>\n" +
+		"  </PAMRasterBand>\n</PAMDataset>\n"
 }
 
 // reachScene builds the map scene of a reach run.
 func reachScene(run *reachRun) *render.Scene {
 	s := &render.Scene{
 		Title:      fmt.Sprintf("Glide reach from %.0f m MSL - %s", run.startAlt, run.setup.Aircraft.Name),
-		Terrain:    run.res.Ground,
+		Terrain:    displayTerrain(run.res.Ground, run.ground),
 		DataSource: "terrain: " + run.ground.describe(),
 		Caution:    reach.Caution,
+		FieldsFrom: "from the start",
+	}
+	s.WindLayers, s.WindSource = windMarks(run.setup)
+	if run.edge != nil {
+		s.Warnings = append(s.Warnings, "Footprint cut off by the edge of the terrain data ("+run.edge.where()+"): reach beyond not computed")
 	}
 	for _, lv := range run.levels {
 		s.Levels = append(s.Levels, render.Level{ArrivalAGL: lv.ArrivalAGL, Polygons: lv.Polygons,
@@ -335,7 +402,7 @@ func drawReach(run *reachRun, mapPath, reportPath string) error {
 				if f.Reachable {
 					r = "yes"
 				}
-				t.Rows = append(t.Rows, []string{f.Name, r, fmtM(f.ArrivalAGLM), fmtM(f.MarginM), fmtM(f.RequiredMSL), fmt.Sprintf("%.1f", f.DistanceM/1000), fmt.Sprintf("%03.0f", f.BearingDeg)})
+				t.Rows = append(t.Rows, []string{f.Name, r, fmtMDown(f.ArrivalAGLM), fmtMDown(f.MarginM), fmtMUp(f.RequiredMSL), fmt.Sprintf("%.1f", f.DistanceM/1000), fmt.Sprintf("%03.0f", f.BearingDeg)})
 			}
 			rep.Tables = append(rep.Tables, t)
 		}
@@ -394,4 +461,12 @@ func drawMap(scene *render.Scene, mapPath string) ([]byte, error) {
 		}
 	}
 	return data, nil
+}
+
+// edgeNote is the JSON value of terrain_edge_note: the warning, or null.
+func edgeNote(e *edgeCut) any {
+	if e == nil {
+		return nil
+	}
+	return e.text()
 }

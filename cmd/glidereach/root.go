@@ -37,8 +37,8 @@ terrain into the ground that can still be reached with a reserve height.
 		Version:       buildVersion(),
 		SilenceUsage:  true,
 		SilenceErrors: true,
-		Example: `  glidereach demo --out demo-out
-  glidereach polar --aircraft trainer --alt 5000ft`,
+		Example: `  glidereach polar --aircraft trainer --alt 5000ft
+  glidereach reach --from -0.5,-24.5 --alt 1500m --aircraft trainer`,
 	}
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
 		return &input.UsageError{Err: err}
@@ -46,16 +46,12 @@ terrain into the ground that can still be reached with a reserve height.
 	for _, newCmd := range commands {
 		root.AddCommand(newCmd())
 	}
-	// cobra's own commands get examples too.
-	root.InitDefaultCompletionCmd()
+	root.CompletionOptions.DisableDefaultCmd = true
+	root.AddCommand(newCompletionCmd(root))
+	// cobra's own help command gets examples too.
 	root.InitDefaultHelpCmd()
 	for _, c := range root.Commands() {
-		switch c.Name() {
-		case "completion":
-			c.Example = `  glidereach completion bash > /etc/bash_completion.d/glidereach
-  source <(glidereach completion bash)
-  glidereach completion zsh > "${fpath[1]}/_glidereach"`
-		case "help":
+		if c.Name() == "help" {
 			c.Example = `  glidereach help reach
   glidereach help final`
 			// cobra's help prints "Unknown help topic" and succeeds; an

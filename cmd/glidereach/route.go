@@ -8,6 +8,7 @@ import (
 	"io"
 	"math"
 
+	"github.com/paulmach/orb"
 	"github.com/spf13/cobra"
 
 	"glidereach/cmd/glidereach/input"
@@ -75,8 +76,10 @@ reserve; a margin of +200 m arrives with about reserve + 200 m.
 
 ` + cautionText,
 		Example: `  glidereach route --route testdata/routes/demo-route.gpx --fields testdata/fields/demo-fields.geojson --alt 4500ft
-  glidereach route --route plan.geojson --fields fields.geojson --agl 2000ft --terrain dem/ --format csv --out profile.csv
-  glidereach route --route plan.gpx --fields fields.geojson --format geojson --out route.geojson --map route.png --report route.html`,
+  glidereach route --route testdata/routes/fixture-route.gpx --fields testdata/fields/fixture-fields.geojson --agl 600m \
+      --terrain testdata/geotiff/geo_int16_strip_none.tif --format csv --out profile.csv
+  glidereach route --route testdata/routes/demo-route.geojson --fields testdata/fields/demo-fields.geojson --alt 2400m \
+      --format geojson --out route.geojson --map route.png --report route.html`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			return runRoute(cmd.Context(), o, cmd.OutOrStdout(), cmd.ErrOrStderr())
@@ -179,6 +182,19 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 	rt, err := input.LoadRouteNamed(o.route, o.routeName)
 	if err != nil {
 		return err
+	}
+	var rb orb.Bound
+	for i, p := range rt.Points {
+		if q := (orb.Point{p.Lon, p.Lat}); i == 0 {
+			rb = orb.Bound{Min: q, Max: q}
+		} else {
+			rb = rb.Extend(q)
+		}
+	}
+	if len(rt.Points) > 0 {
+		for _, w := range farWarnings("route", rb, fields, "--fields", src) {
+			fmt.Fprintln(stderr, "glidereach: warning:", w)
+		}
 	}
 	run := &routeRun{setup: setup, ground: ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}, file: o.route, name: rt.Name, step: o.step.Value, fail: fstate}
 	prog := newProgress(stderr, "route")

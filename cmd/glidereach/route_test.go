@@ -115,7 +115,7 @@ func TestRouteJSONGapsFlat(t *testing.T) {
 	if len(res.Samples) < int(L/step) {
 		t.Errorf("%d samples, want at least %d", len(res.Samples), int(L/step))
 	}
-	for _, k := range []string{"dist_m", "planned_msl_m", "terrain_m", "least_msl_m", "margin_above_reserve_m", "best_field", "covered"} {
+	for _, k := range []string{"distance_m", "planned_msl_m", "terrain_m", "least_msl_m", "margin_above_reserve_m", "best_field", "covered"} {
 		if _, ok := res.Samples[0][k]; !ok {
 			t.Errorf("sample lacks %q", k)
 		}
@@ -181,7 +181,7 @@ func TestRouteOutputsAndCaution(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if rows[0][0] != "dist_m" || !strings.Contains(rows[1][len(rows[1])-1], "PLANNING AID ONLY") {
+	if rows[0][0] != "distance_m" || !strings.Contains(rows[1][len(rows[1])-1], "PLANNING AID ONLY") {
 		t.Errorf("CSV header %v, first notes %q", rows[0], rows[1][len(rows[1])-1])
 	}
 	if len(rows) < 230 {
@@ -322,7 +322,7 @@ type routeDoc struct {
 		Elev *float64 `json:"elevation_m"`
 	} `json:"fields"`
 	Samples []struct {
-		Dist    float64  `json:"dist_m"`
+		Dist    float64  `json:"distance_m"`
 		Lat     float64  `json:"lat"`
 		Lon     float64  `json:"lon"`
 		Planned float64  `json:"planned_msl_m"`

@@ -44,7 +44,7 @@ func (run *routeRun) gapClose(g reach.RouteGap) string {
 	if math.IsNaN(g.CloseAlt) {
 		return fmt.Sprintf("not below %.0f m", run.ceiling)
 	}
-	return fmt.Sprintf("%.0f m (%.0f ft)", g.CloseAlt, g.CloseAlt/0.3048)
+	return fmt.Sprintf("%s m (%s ft)", fmtMUp(g.CloseAlt), fmtMUp(g.CloseAlt/0.3048))
 }
 
 // writeRouteText prints the human summary.
@@ -59,7 +59,7 @@ func writeRouteText(w io.Writer, run *routeRun) {
 	fmt.Fprintf(w, "Aircraft: %s   Wind: %s\n", run.setup.Aircraft.Name, run.setup.WindText)
 	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.describe())
 	fmt.Fprintf(w, "A field is in reach with the %.0f m reserve along %.1f %% of the route (%.1f of %.1f km).\n",
-		run.setup.Reserve, p.CoveredFraction*100, p.CoveredFraction*p.Length/1000, p.Length/1000)
+		run.setup.Reserve, pctDown(p.CoveredFraction), math.Floor(p.CoveredFraction*p.Length/100+1e-9)/10, p.Length/1000)
 	if len(p.Gaps) == 0 {
 		fmt.Fprintln(w, "No gaps: some field stays in reach everywhere along the route.")
 	} else {
@@ -81,15 +81,16 @@ func writeRouteText(w io.Writer, run *routeRun) {
 	}
 	if worst >= 0 {
 		s := p.Samples[worst]
-		fmt.Fprintf(w, "Smallest margin while covered: %.0f m at %.1f km (best field %s)\n", s.Margin, s.Dist/1000, run.bestName(s.Best))
+		fmt.Fprintf(w, "Smallest margin while covered: %s m at %.1f km (best field %s)\n", fmtMDown(s.Margin), s.Dist/1000, run.bestName(s.Best))
 	}
 	fmt.Fprintln(w)
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-	fmt.Fprintln(tw, "FIELD\tELEV m\tBEST ALONG km\tNOTE\t")
+	fmt.Fprintln(tw, "FIELD\tELEV m\tBEST FOR km OF ROUTE\tNOTE\t")
 	for _, f := range run.fields {
-		fmt.Fprintf(tw, "%s\t%s\t%.1f\t%s\t\n", f.Name, fmtM(f.Elev), f.BestM/1000, f.Note)
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t\n", f.Name, fmtM(f.Elev), bestForKm(f.BestM), f.Note)
 	}
 	tw.Flush()
+	fmt.Fprintln(w, "BEST FOR km OF ROUTE: the length of route along which the field is the best one (reached from the lowest altitude); - where it never is.")
 	// A short profile: about 12 rows.
 	fmt.Fprintln(w)
 	every := max(1, len(p.Samples)/12)
@@ -103,7 +104,7 @@ func writeRouteText(w io.Writer, run *routeRun) {
 		if s.Covered {
 			c = "yes"
 		}
-		fmt.Fprintf(tw, "%.1f\t%.0f\t%s\t%s\t%s\t%s\t%s\t\n", s.Dist/1000, s.Alt, fmtM(s.Terrain), fmtM(s.Least), fmtM(s.Margin), run.bestName(s.Best), c)
+		fmt.Fprintf(tw, "%.1f\t%.0f\t%s\t%s\t%s\t%s\t%s\t\n", s.Dist/1000, s.Alt, fmtM(s.Terrain), fmtMUp(s.Least), fmtMDown(s.Margin), run.bestName(s.Best), c)
 	}
 	tw.Flush()
 	fmt.Fprintln(w, "\nMARGIN = planned - least altitude; the least altitude includes the reserve (0 = arrive with exactly the reserve).")
@@ -121,14 +122,14 @@ func gapJSON(run *routeRun, g reach.RouteGap) map[string]any {
 	return map[string]any{
 		"start_m": num(g.Start), "end_m": num(g.End), "length_m": num(g.Length()),
 		"start_lat": round6(g.StartLat), "start_lon": round6(g.StartLon), "end_lat": round6(g.EndLat), "end_lon": round6(g.EndLon),
-		"close_msl_m": num(g.CloseAlt), "searched_to_msl_m": num(run.ceiling),
+		"close_msl_m": numUp(g.CloseAlt), "searched_to_msl_m": num(run.ceiling),
 	}
 }
 
 func sampleJSON(run *routeRun, s reach.RouteSample) map[string]any {
 	m := map[string]any{
-		"dist_m": num(s.Dist), "lat": round6(s.Lat), "lon": round6(s.Lon), "planned_msl_m": num(s.Alt),
-		"terrain_m": num(s.Terrain), "least_msl_m": num(s.Least), "margin_above_reserve_m": num(s.Margin), "covered": s.Covered,
+		"distance_m": num(s.Dist), "lat": round6(s.Lat), "lon": round6(s.Lon), "planned_msl_m": num(s.Alt),
+		"terrain_m": num(s.Terrain), "least_msl_m": numUp(s.Least), "margin_above_reserve_m": numDown(s.Margin), "covered": s.Covered,
 	}
 	if n := run.bestName(s.Best); n != "" {
 		m["best_field"] = n
@@ -168,7 +169,7 @@ func routeJSON(run *routeRun) ([]byte, error) {
 		"clearance_m":       run.setup.Clearance,
 		"terrain":           run.ground.describe(),
 		"searched_to_msl_m": num(run.ceiling),
-		"covered_fraction":  math.Round(p.CoveredFraction*1e4) / 1e4,
+		"covered_fraction":  fractionDown(p.CoveredFraction),
 		"gaps":              gaps,
 		"fields":            fields,
 		"samples":           samples,
@@ -189,12 +190,20 @@ func routeCSV(run *routeRun) []byte {
 	notes := append([]string{"CAUTION: " + reach.Caution, marginNote}, run.assumptions()...)
 	notes = append(notes, run.notes...)
 	w := csv.NewWriter(&b)
-	w.Write([]string{"dist_m", "lat", "lon", "planned_msl_m", "terrain_m", "least_msl_m", "margin_above_reserve_m", "best_field", "covered", "notes"})
+	w.Write([]string{"distance_m", "lat", "lon", "planned_msl_m", "terrain_m", "least_msl_m", "margin_above_reserve_m", "best_field", "covered", "notes"})
 	f := func(v float64) string {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
 			return ""
 		}
 		return strconv.FormatFloat(math.Round(v*10)/10, 'f', -1, 64)
+	}
+	// Required altitudes up, margins down (see numUp).
+	fRound := func(v float64, r func(float64) any) string {
+		x, ok := r(v).(float64)
+		if !ok {
+			return ""
+		}
+		return strconv.FormatFloat(x, 'f', -1, 64)
 	}
 	for i, s := range run.prof.Samples {
 		note := ""
@@ -202,7 +211,7 @@ func routeCSV(run *routeRun) []byte {
 			note = notes[i]
 		}
 		w.Write([]string{f(s.Dist), strconv.FormatFloat(round6(s.Lat), 'f', -1, 64), strconv.FormatFloat(round6(s.Lon), 'f', -1, 64),
-			f(s.Alt), f(s.Terrain), f(s.Least), f(s.Margin), run.bestName(s.Best), strconv.FormatBool(s.Covered), note})
+			f(s.Alt), f(s.Terrain), fRound(s.Least, numUp), fRound(s.Margin, numDown), run.bestName(s.Best), strconv.FormatBool(s.Covered), note})
 	}
 	// A route shorter than its notes: the rest on rows of their own.
 	for i := len(run.prof.Samples); i < len(notes); i++ {
@@ -273,7 +282,7 @@ func routeGeoJSON(run *routeRun) ([]byte, error) {
 	fc.ExtraMembers = geojson.Properties{"caution": reach.Caution}
 	st := geojson.NewFeature(orb.Point{round6(p.Samples[0].Lon), round6(p.Samples[0].Lat)})
 	st.Properties = map[string]any{
-		"kind": "route_start", "caution": reach.Caution, "name": run.name, "covered_fraction": math.Round(p.CoveredFraction*1e4) / 1e4,
+		"kind": "route_start", "caution": reach.Caution, "name": run.name, "covered_fraction": fractionDown(p.CoveredFraction),
 		"length_m": num(p.Length), "gaps": len(p.Gaps), "aircraft": run.setup.Aircraft.Name, "wind": run.setup.WindText,
 		"reserve_m": run.setup.Reserve, "clearance_m": run.setup.Clearance, "terrain": run.ground.describe(),
 		"planned_altitude": run.altMode, "margin_note": marginNote, "assumptions": run.assumptions(), "planning_only": true,
@@ -282,7 +291,7 @@ func routeGeoJSON(run *routeRun) ([]byte, error) {
 	for _, pc := range routePieces(p) {
 		f := geojson.NewFeature(pc.line)
 		f.Properties = map[string]any{"kind": "route_piece", "covered": pc.covered, "start_m": num(pc.start), "end_m": num(pc.end),
-			"length_m": num(pc.end - pc.start), "min_margin_above_reserve_m": num(pc.minMargin)}
+			"length_m": num(pc.end - pc.start), "min_margin_above_reserve_m": numDown(pc.minMargin)}
 		fc.Append(f)
 	}
 	for i, g := range p.Gaps {
@@ -319,10 +328,12 @@ func routeScene(run *routeRun) *render.Scene {
 	p := run.prof
 	s := &render.Scene{
 		Title:      fmt.Sprintf("Landing options along %s - %s", orDefault(run.name, "the route"), run.setup.Aircraft.Name),
-		Terrain:    run.res.Ground,
+		Terrain:    displayTerrain(run.res.Ground, run.ground),
 		DataSource: "terrain: " + run.ground.describe(),
 		Caution:    reach.Caution,
+		FieldsFrom: "from the route (planned altitude)",
 	}
+	s.WindLayers, s.WindSource = windMarks(run.setup)
 	for _, pc := range routePieces(p) {
 		s.Route = append(s.Route, render.RoutePiece{Line: pc.line, Covered: pc.covered})
 	}
@@ -343,7 +354,7 @@ func routeScene(run *routeRun) *render.Scene {
 		"Planned: " + shortAltMode(run),
 		"Wind: " + run.setup.WindText,
 		fmt.Sprintf("Reserve: %.0f m, clearance %.0f m", run.setup.Reserve, run.setup.Clearance),
-		fmt.Sprintf("Covered: %.1f %% of %.1f km", p.CoveredFraction*100, p.Length/1000),
+		fmt.Sprintf("Covered: %.1f %% of %.1f km", pctDown(p.CoveredFraction), p.Length/1000),
 	}
 	return s
 }
@@ -398,7 +409,7 @@ func drawRoute(run *routeRun, mapPath, reportPath string) error {
 		Scene:    scene,
 		Caution:  reach.Caution,
 		Summary: []string{
-			fmt.Sprintf("A field is in reach with the %.0f m reserve along %.1f %% of the route.", run.setup.Reserve, p.CoveredFraction*100),
+			fmt.Sprintf("A field is in reach with the %.0f m reserve along %.1f %% of the route.", run.setup.Reserve, pctDown(p.CoveredFraction)),
 			fmt.Sprintf("%d gap(s) with no field in reach.", len(p.Gaps)),
 			"Margin = planned - least altitude; the least altitude includes the reserve.",
 		},
@@ -430,11 +441,20 @@ func drawRoute(run *routeRun, mapPath, reportPath string) error {
 	if len(gt.Rows) == 0 {
 		gt.Note = "No gaps."
 	}
-	ft := render.Table{Title: "Landing fields", Header: []string{"Field", "Elevation (m)", "Best along (km)", "Note"}}
+	ft := render.Table{Title: "Landing fields", Header: []string{"Field", "Elevation (m)", "Best field for (km of route)", "Note"}}
 	for _, f := range run.fields {
-		ft.Rows = append(ft.Rows, []string{f.Name, fmtM(f.Elev), fmt.Sprintf("%.1f", f.BestM/1000), f.Note})
+		ft.Rows = append(ft.Rows, []string{f.Name, fmtM(f.Elev), bestForKm(f.BestM), f.Note})
 	}
 	rep.Tables = append(rep.Tables, gt, ft, render.Table{Title: "Assumptions", Header: []string{"Input"}, Rows: rowsOf(run.assumptions())})
 	rep.MapPNG = pngData
 	return writeFileAtomic(reportPath, func(f *os.File) error { return render.WriteReport(f, rep) })
+}
+
+// bestForKm prints the length of route (m) along which a field is the best
+// one, in km, or "-" when it never is: "0.0" read as "best at km 0".
+func bestForKm(m float64) string {
+	if !(m > 0) {
+		return "-"
+	}
+	return fmt.Sprintf("%.1f", m/1000)
 }

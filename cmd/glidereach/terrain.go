@@ -82,10 +82,10 @@ An ESRI ASCII grid needs its CRS: from a .prj file beside it, or --crs. The
 tool does not guess from the numbers.
 
 ` + cautionText,
-		Example: `  glidereach terrain S01W025.hgt
-  glidereach terrain tiles/ --at -0.75,-24.25
-  glidereach terrain dem.tif --format json
-  glidereach terrain grid.asc --crs EPSG:32727 --voids fill`,
+		Example: `  glidereach terrain testdata/geotiff/utm32626_int16_tiled_deflate.tif
+  glidereach terrain testdata/asc/geo_corner.asc --at -0.1,-24.2
+  glidereach terrain testdata/geotiff/geo_int16_strip_none.tif testdata/geotiff/geo_float32_strip_packbits.tif --format json
+  glidereach terrain testdata/asc/noprj.asc --crs EPSG:4326 --voids fill`,
 		Args: cobra.MinimumNArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if format != "text" && format != "json" {
@@ -267,8 +267,35 @@ func crsLabel(c terrain.CRS) string {
 	return "unknown"
 }
 
+// roundTerrainJSON rounds the report's metre figures for JSON: the
+// interpolated elevation at --at to 0.1 m (a bilinear value printed to 13
+// digits, 293.7300000000067, claims a precision no DEM has), the stored
+// extremes to 1 mm (a float32 sample's own precision at these heights, and
+// what gdalinfo prints) and cell sizes to 1 cm. Degrees stay as the file
+// gives them.
+func roundTerrainJSON(r *terrainReport) *terrainReport {
+	c := *r
+	r1 := func(v float64) float64 { return math.Round(v*10) / 10 }
+	r2 := func(v float64) float64 { return math.Round(v*100) / 100 }
+	r3 := func(v float64) float64 { return math.Round(v*1000) / 1000 }
+	ptr := func(v *float64, round func(float64) float64) *float64 {
+		if v == nil {
+			return nil
+		}
+		x := round(*v)
+		return &x
+	}
+	c.CellEastM, c.CellNorthM, c.ResolutionM = r2(c.CellEastM), r2(c.CellNorthM), r2(c.ResolutionM)
+	if c.CellUnit == "m" {
+		c.CellX, c.CellY = r2(c.CellX), r2(c.CellY)
+	}
+	c.MinM, c.MaxM, c.ElevationM = ptr(c.MinM, r3), ptr(c.MaxM, r3), ptr(c.ElevationM, r1)
+	return &c
+}
+
 func writeTerrainReport(w io.Writer, r *terrainReport, format string) error {
 	if format == "json" {
+		r = roundTerrainJSON(r)
 		enc := json.NewEncoder(w)
 		enc.SetIndent("", "  ")
 		return enc.Encode(r)

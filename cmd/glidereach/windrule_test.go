@@ -50,7 +50,7 @@ func TestRouteAndCoverageShareTheWindRule(t *testing.T) {
 	os.WriteFile(fields, []byte(`{"type":"FeatureCollection","features":[`+feats+`]}`), 0o644)
 	os.WriteFile(route, []byte(`{"type":"Feature","properties":{},"geometry":{"type":"LineString","coordinates":[[-24.5,-0.505],[-24.5,-0.495]]}}`), 0o644)
 	routeArgs := []string{"route", "--route", route, "--fields", fields, "--alt", "1500m"}
-	covArgs := []string{"coverage", "--area", "-24.5005,-0.505,-24.4995,-0.495", "--fields", fields, "--alt", "1500m"}
+	covArgs := []string{"coverage", "--box", "-0.505,-24.5005,-0.495,-24.4995", "--fields", fields, "--alt", "1500m"}
 	for _, w := range []string{"360/15kt", "270/15kt", "090/15kt"} {
 		r := coveredFraction(t, append(routeArgs, "--wind", w)...)
 		cv := coveredFraction(t, append(covArgs, "--wind", w)...)

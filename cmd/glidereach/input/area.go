@@ -21,10 +21,10 @@ type Zone interface {
 	Bounds() orb.Bound
 }
 
-// Region is an area given as a lon/lat box or as GeoJSON polygons (the
-// --area of the coverage command; named Region because Area is the Kind of
-// square-metre quantities). Regions do
-// not cross the antimeridian (a box with minlon > maxlon is refused; a
+// Region is an area given as a latitude/longitude box (--box, ParseBox) or
+// as GeoJSON polygons (--area, ParseArea) of the coverage command; named
+// Region because Area is the Kind of square-metre quantities. Regions do
+// not cross the antimeridian (a box wider than 180° of longitude is refused; a
 // GeoJSON area that crosses it must be split per RFC 7946 §3.1.9, and is then
 // treated as two separate polygons, which is what it is).
 type Region struct {
@@ -64,23 +64,29 @@ func (a *Region) Contains(lat, lon float64) bool {
 	return false
 }
 
-// ParseArea reads the value of an area flag: either a box
-// "minlon,minlat,maxlon,maxlat" in decimal degrees (the order of a GeoJSON
-// bbox, RFC 7946 §5) or the path of a GeoJSON file holding a Polygon or
-// MultiPolygon, as a bare geometry, a Feature or a FeatureCollection of such
-// features (their union). Errors are *UsageError naming "--area" for a box
-// and the file (with feature and line) for a file.
+// ParseArea reads the value of --area: the path of a GeoJSON file holding a
+// Polygon or MultiPolygon, as a bare geometry, a Feature or a
+// FeatureCollection of such features (their union). A typed box is refused
+// with a message pointing to --box (ParseBox): the flag once took a box
+// minlon,minlat,maxlon,maxlat, and that old longitude-first order must fail
+// loudly instead of meaning another place. Errors are *UsageError naming
+// "--area" for a value that is not a file and the file (with feature and
+// line) for a file.
 func ParseArea(s string) (*Region, error) {
 	t := strings.TrimSpace(s)
 	if looksLikeBox(t) {
-		a, err := parseBox(t)
-		if err != nil {
-			return nil, &UsageError{Where: "--area", Err: err}
+		if _, err := os.Stat(t); err != nil {
+			v := strings.Split(t, ",")
+			for i := range v {
+				v[i] = strings.TrimSpace(v[i])
+			}
+			return nil, Usagef("--area", "%q is a typed box, but --area takes a GeoJSON file only; type a box as --box LAT,LON,LAT,LON "+
+				"(two opposite corners, latitude first, like --from), e.g. --box %s,%s,%s,%s if you meant the old minlon,minlat,maxlon,maxlat order",
+				s, v[1], v[0], v[3], v[2])
 		}
-		return a, nil
 	}
 	if _, err := os.Stat(t); err != nil {
-		return nil, Usagef("--area", "%q is neither minlon,minlat,maxlon,maxlat nor a readable GeoJSON file", s)
+		return nil, Usagef("--area", "%q is not a readable GeoJSON file (a typed box goes in --box LAT,LON,LAT,LON)", s)
 	}
 	data, err := readInputFile(t)
 	if err != nil {
@@ -95,7 +101,7 @@ func ParseArea(s string) (*Region, error) {
 }
 
 // looksLikeBox reports whether s is four comma-separated parts that start
-// like numbers, so that a mistyped box gets a box error, not "no such file".
+// like numbers.
 func looksLikeBox(s string) bool {
 	parts := strings.Split(s, ",")
 	if len(parts) != 4 {
@@ -109,32 +115,53 @@ func looksLikeBox(s string) bool {
 	return true
 }
 
+// ParseBox reads the value of --box: "LAT,LON,LAT,LON", two opposite
+// corners of a latitude/longitude box in decimal degrees, latitude first
+// like every position typed on the command line (--from, --to, --at). The
+// corners may be given in either order (south-west and north-east, or
+// north-west and south-east, …): the box spans from the lower to the higher
+// latitude and from the lower to the higher longitude. A box across the
+// antimeridian cannot be written (its west corner would have the higher
+// longitude); split it at 180° into two runs, as the terrain windows cannot
+// cross it either. Errors are *UsageError naming "--box".
+func ParseBox(s string) (*Region, error) {
+	a, err := parseBox(strings.TrimSpace(s))
+	if err != nil {
+		return nil, &UsageError{Where: "--box", Err: err}
+	}
+	return a, nil
+}
+
 func parseBox(s string) (*Region, error) {
 	parts := strings.Split(s, ",")
+	if len(parts) != 4 {
+		return nil, fmt.Errorf("%q: want four numbers LAT,LON,LAT,LON (two opposite corners, latitude first)", s)
+	}
 	var v [4]float64
 	for i, p := range parts {
 		f, err := strconv.ParseFloat(strings.TrimSpace(p), 64)
 		if err != nil || math.IsNaN(f) || math.IsInf(f, 0) {
-			return nil, fmt.Errorf("%q: part %d %q is not a number (want minlon,minlat,maxlon,maxlat)", s, i+1, strings.TrimSpace(p))
+			return nil, fmt.Errorf("%q: part %d %q is not a number (want LAT,LON,LAT,LON)", s, i+1, strings.TrimSpace(p))
 		}
 		v[i] = f
 	}
-	minLon, minLat, maxLon, maxLat := v[0], v[1], v[2], v[3]
-	for _, lon := range []float64{minLon, maxLon} {
-		if lon < -180 || lon > 180 {
-			return nil, fmt.Errorf("%q: longitude %v out of range -180..180 (order is minlon,minlat,maxlon,maxlat)", s, lon)
-		}
-	}
-	for _, lat := range []float64{minLat, maxLat} {
+	for _, lat := range []float64{v[0], v[2]} {
 		if lat < -90 || lat > 90 {
-			return nil, fmt.Errorf("%q: latitude %v out of range -90..90 (order is minlon,minlat,maxlon,maxlat)", s, lat)
+			return nil, fmt.Errorf("%q: latitude %v out of range -90..90 (order is LAT,LON,LAT,LON: latitude first)", s, lat)
 		}
 	}
-	if minLon >= maxLon {
-		return nil, fmt.Errorf("%q: minlon %v is not below maxlon %v (boxes across the antimeridian are not supported)", s, minLon, maxLon)
+	for _, lon := range []float64{v[1], v[3]} {
+		if lon < -180 || lon > 180 {
+			return nil, fmt.Errorf("%q: longitude %v out of range -180..180 (order is LAT,LON,LAT,LON)", s, lon)
+		}
 	}
-	if minLat >= maxLat {
-		return nil, fmt.Errorf("%q: minlat %v is not below maxlat %v", s, minLat, maxLat)
+	minLat, maxLat := math.Min(v[0], v[2]), math.Max(v[0], v[2])
+	minLon, maxLon := math.Min(v[1], v[3]), math.Max(v[1], v[3])
+	if minLat == maxLat || minLon == maxLon {
+		return nil, fmt.Errorf("%q: the corners share a latitude or a longitude, so the box is empty", s)
+	}
+	if maxLon-minLon > 180 {
+		return nil, fmt.Errorf("%q: the box would span %.1f° of longitude; a box across the antimeridian (180°) cannot be typed: split it at 180° into two runs", s, maxLon-minLon)
 	}
 	ring := orb.Ring{{minLon, minLat}, {maxLon, minLat}, {maxLon, maxLat}, {minLon, maxLat}, {minLon, minLat}}
 	return &Region{

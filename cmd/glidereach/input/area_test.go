@@ -23,38 +23,58 @@ func writeTemp(t testing.TB, name, content string) string {
 
 const demoArea = "../../../testdata/areas/demo-area.geojson"
 
-func TestParseAreaBox(t *testing.T) {
-	// RFC 7946 §5: bbox order is west, south, east, north.
-	a, err := ParseArea(" -24.8, -0.8 ,-24.2,-0.2")
-	if err != nil {
-		t.Fatal(err)
-	}
-	if b := a.Bounds(); b.Min != (orb.Point{-24.8, -0.8}) || b.Max != (orb.Point{-24.2, -0.2}) {
-		t.Errorf("bounds %v", b)
-	}
-	for _, c := range []struct {
-		lat, lon float64
-		in       bool
-	}{{-0.5, -24.5, true}, {-0.8, -24.8, true}, {-0.1, -24.5, false}, {-0.5, -24.1, false}, {math.NaN(), -24.5, false}} {
-		if got := a.Contains(c.lat, c.lon); got != c.in {
-			t.Errorf("Contains(%v, %v) = %v", c.lat, c.lon, got)
+func TestParseBox(t *testing.T) {
+	// --box is LAT,LON,LAT,LON, two opposite corners, latitude first like
+	// --from; any pair of opposite corners gives the same box.
+	for _, in := range []string{" -0.8, -24.8 ,-0.2,-24.2", "-0.2,-24.2,-0.8,-24.8", "-0.2,-24.8,-0.8,-24.2"} {
+		a, err := ParseBox(in)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if b := a.Bounds(); b.Min != (orb.Point{-24.8, -0.8}) || b.Max != (orb.Point{-24.2, -0.2}) {
+			t.Errorf("%q: bounds %v", in, b)
+		}
+		for _, c := range []struct {
+			lat, lon float64
+			in       bool
+		}{{-0.5, -24.5, true}, {-0.8, -24.8, true}, {-0.1, -24.5, false}, {-0.5, -24.1, false}, {math.NaN(), -24.5, false}} {
+			if got := a.Contains(c.lat, c.lon); got != c.in {
+				t.Errorf("%q: Contains(%v, %v) = %v", in, c.lat, c.lon, got)
+			}
+		}
+		if ringArea(a.Polygons[0][0]) <= 0 {
+			t.Error("box ring is not counter-clockwise (RFC 7946 §3.1.6)")
 		}
 	}
-	if ringArea(a.Polygons[0][0]) <= 0 {
-		t.Error("box ring is not counter-clockwise (RFC 7946 §3.1.6)")
+}
+
+func TestParseBoxErrors(t *testing.T) {
+	cases := []struct{ in, want string }{
+		{"-0.8,-24.8,-0.2", "want four numbers LAT,LON,LAT,LON"},
+		{"1,2,3,4e", `part 4 "4e" is not a number`},
+		{"-0.8,-24.8,-0.8,-24.2", "share a latitude or a longitude"},
+		// The old lon-first order: a longitude beyond ±90 read as a latitude.
+		{"-124.8,-0.8,-124.2,-0.2", "latitude -124.8 out of range -90..90 (order is LAT,LON,LAT,LON: latitude first)"},
+		{"0,-190,1,1", "longitude -190 out of range"},
+		{"10,170,20,-170", "a box across the antimeridian (180°) cannot be typed"},
+	}
+	for _, c := range cases {
+		_, err := ParseBox(c.in)
+		var ue *UsageError
+		if !errors.As(err, &ue) || ue.Where != "--box" || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("ParseBox(%q) = %v; want --box: …%s", c.in, err, c.want)
+		}
 	}
 }
 
 func TestParseAreaErrors(t *testing.T) {
 	cases := []struct{ in, where, want string }{
-		{"-24.8,-0.8,-24.2", "--area", "neither minlon,minlat,maxlon,maxlat nor a readable GeoJSON file"},
-		{"1,2,3,x", "--area", "neither"},
-		{"1,2,3,4e", "--area", `part 4 "4e" is not a number`},
-		{"-24.2,-0.8,-24.8,-0.2", "--area", "minlon -24.2 is not below maxlon -24.8"},
-		{"-24.8,-0.2,-24.2,-0.8", "--area", "minlat -0.2 is not below maxlat -0.8"},
-		// Swapped lat/lon: the latitude check catches it.
-		{"-0.8,-24.8,-0.2,100", "--area", "latitude 100 out of range"},
-		{"-190,0,1,1", "--area", "longitude -190 out of range"},
+		// A typed box in --area fails loudly and points to --box, with the
+		// old minlon,minlat,maxlon,maxlat order turned round.
+		{"-24.85,-0.8,-24.15,-0.15", "--area", "--area takes a GeoJSON file only; type a box as --box LAT,LON,LAT,LON"},
+		{"-24.85,-0.8,-24.15,-0.15", "--area", "e.g. --box -0.8,-24.85,-0.15,-24.15 if you meant the old"},
+		{"-0.8,-24.85,-0.15,-24.15", "--area", "is a typed box"},
+		{"-24.8,-0.8,-24.2", "--area", "is not a readable GeoJSON file"},
 	}
 	for _, c := range cases {
 		_, err := ParseArea(c.in)

@@ -45,16 +45,16 @@ func ExampleLoadRoute() {
 	//  58089 m  -0.3000, -24.3600  track  42°  planned 1400 m
 }
 
-func ExampleParseArea() {
-	a, err := input.ParseArea("-24.8,-0.8,-24.2,-0.2")
+func ExampleParseBox() {
+	a, err := input.ParseBox("-0.8,-24.8,-0.2,-24.2")
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
 	fmt.Println(a.Contains(-0.5, -24.5), a.Contains(-0.1, -24.5))
-	_, err = input.ParseArea("-24.2,-0.8,-24.8,-0.2")
+	_, err = input.ParseArea("-24.8,-0.8,-24.2,-0.2")
 	fmt.Println(err)
 	// Output:
 	// true false
-	// --area: "-24.2,-0.8,-24.8,-0.2": minlon -24.2 is not below maxlon -24.8 (boxes across the antimeridian are not supported)
+	// --area: "-24.8,-0.8,-24.2,-0.2" is a typed box, but --area takes a GeoJSON file only; type a box as --box LAT,LON,LAT,LON (two opposite corners, latitude first, like --from), e.g. --box -0.8,-24.8,-0.2,-24.2 if you meant the old minlon,minlat,maxlon,maxlat order
 }

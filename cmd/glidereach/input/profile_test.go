@@ -15,7 +15,7 @@ const kt = 1852.0 / 3600
 
 func TestLoadAircraftFiles(t *testing.T) {
 	dir := filepath.Join("..", "..", "..", "testdata", "aircraft")
-	// testdata/aircraft/trainer.yaml is the DESIGN.md sample profile.
+	// testdata/aircraft/trainer.yaml is the README's sample profile.
 	ac, err := LoadAircraft(filepath.Join(dir, "trainer.yaml"))
 	if err != nil {
 		t.Fatal(err)

@@ -30,6 +30,7 @@ const (
 	lgProposed
 	lgTurn
 	lgBelowReserve
+	lgAreaHole
 )
 
 type legendItem struct {
@@ -93,15 +94,19 @@ func (r *renderer) legendItems() []legendItem {
 			out = true
 		}
 	}
+	from := s.FieldsFrom
+	if from == "" {
+		from = "from the start"
+	}
 	if reach {
-		t := "Field in reach"
+		t := "Field in reach " + from
 		if arrival {
 			t += " (arrival height above it)"
 		}
 		it = append(it, legendItem{kind: lgReachable, text: t})
 	}
 	if out {
-		it = append(it, legendItem{kind: lgUnreachable, text: "Field out of reach"})
+		it = append(it, legendItem{kind: lgUnreachable, text: "Field out of reach " + from})
 	}
 	if proposed {
 		it = append(it, legendItem{kind: lgProposed, text: "Proposed field (not yet a landing option)"})
@@ -145,6 +150,13 @@ func (r *renderer) legendItems() []legendItem {
 		}
 		if len(cv.Area) > 0 {
 			it = append(it, legendItem{kind: lgArea, text: "Area analysed"})
+			holes := false
+			for _, p := range cv.Area {
+				holes = holes || len(p) > 1
+			}
+			if holes {
+				it = append(it, legendItem{kind: lgAreaHole, text: "Hole in the area (not analysed)"})
+			}
 		}
 	}
 	l := s.Terrain
@@ -258,6 +270,11 @@ func (r *renderer) legendSymbol(it legendItem, x, y, sw float64) {
 			c.addStroke(d, px(2), false)
 		}
 		c.paint(colText)
+	case lgAreaHole:
+		for _, d := range dashes(rect(x, y-h/2, x+sw, y+h/2), px(2.5), px(4.5)) {
+			c.addStroke(d, px(2.2), false)
+		}
+		c.paint(colTextMuted)
 	case lgTerrain:
 		if r.s.Terrain.Flat {
 			c.fillRect(x, y-h/2, x+sw, y+h/2, colFlat)
@@ -295,6 +312,20 @@ func (r *renderer) inputLines(width float64) []string {
 	}
 	out = append(out, "\x01Terrain data")
 	out = append(out, wrap(r.f.legend, s.sourceText(), width)...)
+	if len(s.WindLayers) > 0 {
+		src := s.WindSource
+		if src == "" {
+			src = "as given"
+		}
+		out = append(out, "\x01Wind")
+		out = append(out, wrap(r.f.legend, "Arrows on the map point where the air goes; source: "+src, width)...)
+	}
+	if len(s.Warnings) > 0 {
+		out = append(out, "\x01Limits of this result")
+		for _, w := range s.Warnings {
+			out = append(out, wrap(r.f.legend, w, width)...)
+		}
+	}
 	return out
 }
 

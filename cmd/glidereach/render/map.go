@@ -120,6 +120,7 @@ type renderer struct {
 	px  func(float64) float64 // design pixels at 1600 px width → pixels
 
 	z                   []float32 // the DEM resampled to the map's pixels (sampleTerrain)
+	shade               []float32 // hillshade per map pixel when the DEM is coarser than the pixels; nil: shade z
 	state               []uint8   // pxGround, pxVoid or pxOff per map pixel
 	voidShown, offShown bool      // some map pixel is void / off the raster
 }
@@ -302,17 +303,29 @@ func (r *renderer) drawOverlays() {
 	}
 
 	if cv := s.Coverage; cv != nil {
-		for _, p := range lo.polys(cv.Area) {
-			for _, rg := range p {
-				if len(rg) == 0 {
-					continue
-				}
-				for _, d := range dashes(append(rg, rg[0]), px(10), px(6)) {
-					c.addStroke(d, px(2), false)
+		// The outline long-dashed; a hole (not part of the area) dotted in
+		// grey, so it does not read as more outline.
+		for hole := 0; hole < 2; hole++ {
+			for _, p := range lo.polys(cv.Area) {
+				for k, rg := range p {
+					if len(rg) == 0 || (k > 0) != (hole == 1) {
+						continue
+					}
+					on, off, w := px(10), px(6), px(2)
+					if hole == 1 {
+						on, off, w = px(2.5), px(4.5), px(2.2)
+					}
+					for _, d := range dashes(append(rg, rg[0]), on, off) {
+						c.addStroke(d, w, false)
+					}
 				}
 			}
+			if hole == 0 {
+				c.paint(colText)
+			} else {
+				c.paint(colTextMuted)
+			}
 		}
-		c.paint(colText)
 	}
 
 	for _, g := range s.Gaps {
@@ -482,8 +495,16 @@ func (r *renderer) drawOverlays() {
 	pl.reserve(sb)
 	nb := r.drawNorthArrow()
 	pl.reserve(nb)
+	above := nb
 	if s.Wind != nil {
-		pl.reserve(r.drawWindArrow(nb, *s.Wind))
+		above = r.drawWindArrow(nb, *s.Wind)
+		pl.reserve(above)
+	}
+	if len(s.WindLayers) > 0 {
+		pl.reserve(r.drawWindPanel(above))
+	}
+	if len(s.Warnings) > 0 {
+		pl.reserve(r.drawWarnings())
 	}
 
 	pad := px(3)

@@ -38,6 +38,7 @@ var (
 	colCovered       = okBluishGreen // coverage fill
 	colUncovered     = okVermillion  // coverage hatch
 	colStart         = okBlack
+	colWind          = okReddishPurpl // wind arrows in the wind panel
 	colCautionBorder = okOrange
 	colText          = color.RGBA{0x1a, 0x1a, 0x1a, 0xff}
 	colTextMuted     = color.RGBA{0x44, 0x44, 0x44, 0xff}

@@ -28,8 +28,8 @@ func (r *renderer) drawTerrain() {
 	z, state := r.z, r.state
 	lowE, highE := elevRange(l)
 	span := math.Max(highE-lowE, 300)
-	var shade []float32
-	if !l.Flat {
+	shade := r.shade
+	if shade == nil && !l.Flat {
 		shade = shadeGrid(z, mw, mh, lo.mpp, r.s.Hillshade)
 	}
 	_, alt, _ := r.s.Hillshade.resolved()
@@ -52,7 +52,11 @@ func (r *renderer) drawTerrain() {
 				continue
 			}
 			cr, cg, cb := tint((float64(z[k]) - lowE) / span)
-			f := float64(shade[k]) / flatShade // 1 on flat ground, 0 … √2 at 45°
+			sv := float64(shade[k])
+			if sv != sv { // a ground pixel whose shade cells are all void
+				sv = flatShade
+			}
+			f := sv / flatShade // 1 on flat ground, 0 … √2 at 45°
 			if f < 1 {
 				m := 0.38 + 0.62*f
 				cr, cg, cb = cr*m, cg*m, cb*m
@@ -232,4 +236,39 @@ func (r *renderer) sampleTerrain() {
 		}
 	}
 	r.z, r.state = z, state
+
+	// A DEM coarser than the map's pixels: a bilinear surface has a slope
+	// that jumps at every cell edge, and the hillshade of the pixel-sampled
+	// surface draws those edges as a grid (moiré on resampled windows,
+	// stair-steps on 1 km cells). Shade the DEM at its own resolution
+	// instead and interpolate the shading, which is then smooth across
+	// cells; voids stay void (a shade cell that is void drops out of the
+	// mean, as for the elevation above).
+	if !l.Flat && src.Cell > 1.5*lo.mpp {
+		sh := shadeGrid(src.Elev, src.Cols, src.Rows, src.Cell, r.s.Hillshade)
+		out := make([]float32, mw*mh)
+		for j, ty := range ys {
+			for i, tx := range xs {
+				k := j*mw + i
+				if state[k] != pxGround || ty.off || tx.off {
+					out[k] = nan
+					continue
+				}
+				var sw, sv float32
+				for _, q := range [4][3]float32{
+					{sh[ty.i0*src.Cols+tx.i0], (1 - tx.t) * (1 - ty.t)}, {sh[ty.i0*src.Cols+tx.i1], tx.t * (1 - ty.t)},
+					{sh[ty.i1*src.Cols+tx.i0], (1 - tx.t) * ty.t}, {sh[ty.i1*src.Cols+tx.i1], tx.t * ty.t}} {
+					if q[0] == q[0] {
+						sw += q[1]
+						sv += q[1] * q[0]
+					}
+				}
+				out[k] = nan
+				if sw > 0 {
+					out[k] = sv / sw
+				}
+			}
+		}
+		r.shade = out
+	}
 }

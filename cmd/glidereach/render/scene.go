@@ -42,6 +42,24 @@ type Scene struct {
 	// Fields are landing options, marked reachable or not.
 	Fields []FieldMark
 
+	// FieldsFrom says from where "in reach" is judged, for the legend:
+	// "from the start", "from some point of the route at the planned
+	// altitude", … Empty means "from the start".
+	FieldsFrom string
+
+	// WindLayers is the wind by altitude, drawn on the map as a panel of
+	// arrows pointing where the air goes (one per layer, highest first),
+	// under the north arrow and the single Wind arrow when there is one;
+	// empty draws no panel. WindSource names where it comes from
+	// ("--wind", "coded forecast", "worst of 9 winds of --wind-error").
+	WindLayers []WindMark
+	WindSource string
+
+	// Warnings are limits of the result the reader must see (a footprint
+	// cut off by the edge of the terrain data, …): drawn in bold on the map
+	// and listed beside the inputs.
+	Warnings []string
+
 	// Route is the planned route, in pieces coloured by whether a field is
 	// in reach along them, in flying order: the first point of the first
 	// piece is labelled "route start", the last point of the last piece
@@ -89,6 +107,16 @@ type Scene struct {
 type WindArrow struct {
 	FromDeg float64
 	Label   string
+}
+
+// WindMark is the wind of one layer.
+type WindMark struct {
+	AltMSL  float64 // m MSL
+	FromDeg float64 // degrees true the wind blows from
+	Speed   float64 // m/s; 0 is calm
+	// Text labels the arrow ("1500 m 270°/20 kt"); empty means it is made
+	// from the numbers.
+	Text string
 }
 
 // Level is one footprint level.
