@@ -39,6 +39,17 @@ func TestDemoWritesFiles(t *testing.T) {
 		}
 	}
 	checkKeysListed(t, dir)
+	// The trainer's footprint starts from an engine failure in cruise
+	// (issue 12: reach from the aircraft's state), the sailplane's from a
+	// glide already on its way (it has no engine to lose).
+	tr, _ := os.ReadFile(filepath.Join(dir, "reach-trainer.geojson"))
+	sp, _ := os.ReadFile(filepath.Join(dir, "reach-sailplane.geojson"))
+	if !strings.Contains(string(tr), "engine failure on heading 250° at 100 kt IAS") {
+		t.Errorf("the demo trainer's footprint is not from the failure state")
+	}
+	if strings.Contains(string(sp), "engine failure on heading") {
+		t.Errorf("the demo sailplane's footprint claims an engine failure")
+	}
 	for _, want := range []string{"polar-trainer.txt", "polar-trainer.json", "polar-sailplane.txt"} {
 		if !seen[want] {
 			t.Errorf("demo did not write %s", want)

@@ -6,6 +6,8 @@ import (
 	"io"
 	"path/filepath"
 	"sync"
+
+	"glidereach/cmd/glidereach/input"
 )
 
 func init() {
@@ -19,14 +21,20 @@ type demoFootprint struct {
 	lat, lon float64
 	agl      float64 // m above the ground at the start
 	heading  float64 // degrees true
+	// speedKt > 0 starts the footprint from an engine failure on heading
+	// at that indicated airspeed (knots), as reach --heading --speed does;
+	// 0 keeps the heading for drawing only (the sailplane has no engine
+	// to lose: it is already gliding at its speed to fly).
+	speedKt float64
 }
 
 var demoFootprintRuns = []demoFootprint{
-	{name: "reach-trainer", aircraft: "trainer", lat: -0.5, lon: -24.5, agl: 1200, heading: 250},
+	{name: "reach-trainer", aircraft: "trainer", lat: -0.5, lon: -24.5, agl: 1200, heading: 250, speedKt: 100},
 	{name: "reach-sailplane", aircraft: "sailplane", lat: -0.42, lon: -24.62, agl: 900, heading: 100},
 }
 
-// demoFootprints computes a footprint for the trainer and the sailplane in
+// demoFootprints computes a footprint for the trainer (from an engine
+// failure in cruise) and the sailplane (already gliding) in
 // the demo's layered wind, judges the invented fields and writes GeoJSON,
 // an arrival-height raster, a map and a report for each.
 func demoFootprints(ctx context.Context, d *demoRun) error {
@@ -53,7 +61,13 @@ func demoFootprints(ctx context.Context, d *demoRun) error {
 			pos := newPositionFlags()
 			pos.from.Lat, pos.from.Lon, pos.from.Given = r.lat, r.lon, true
 			pos.agl.Value, pos.agl.Given = r.agl, true
-			runs[i], errs[i] = computeReach(ctx, setup, ground{src: sc.src}, pos, sc.fields, []float64{0, 150}, io.Discard)
+			var fs *failureState
+			if r.speedKt > 0 {
+				ff := newFailureFlags()
+				fs = &failureState{HeadingDeg: r.heading, IAS: r.speedKt * input.Knot,
+					Reaction: ff.reaction, Efficiency: ff.efficiency, Bank: ff.bank.Value}
+			}
+			runs[i], errs[i] = computeReachFrom(ctx, setup, ground{src: sc.src}, pos, sc.fields, []float64{0, 150}, io.Discard, fs)
 		}(i, r)
 	}
 	wg.Wait()

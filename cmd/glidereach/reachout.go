@@ -14,6 +14,7 @@ import (
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
 
+	"glidereach/cmd/glidereach/input"
 	"glidereach/cmd/glidereach/render"
 	"glidereach/reach"
 	"glidereach/terrain"
@@ -369,6 +370,13 @@ func reachScene(run *reachRun) *render.Scene {
 		fmt.Sprintf("Start: %.0f m MSL (%.0f m AGL)", run.startAlt, run.startAlt-run.startElev),
 		"Wind: " + run.setup.WindText,
 		fmt.Sprintf("Reserve: %.0f m, clearance %.0f m", run.setup.Reserve, run.setup.Clearance),
+	}
+	if run.fail != nil {
+		sp := "at the speed to fly"
+		if run.fail.IAS > 0 {
+			sp = fmt.Sprintf("at %.0f kt IAS", run.fail.IAS/input.Knot)
+		}
+		s.Inputs = append(s.Inputs, fmt.Sprintf("Engine failure on heading %03.0f° %s: reach after the reaction, speed change and turn", run.fail.HeadingDeg, sp))
 	}
 	return s
 }
