@@ -117,23 +117,11 @@ func (r *RequiredResult) Route(points []RoutePoint, ceiling float64) (*RouteProf
 		}
 		if a, best, ok := r.RequiredAt(pt.Lat, pt.Lon); ok {
 			s.Least, s.Best = a, best
-			s.Margin = pt.Alt - a
-			s.Covered = s.Margin >= 0
 		}
 		p.Samples[i] = s
 	}
 	p.Length = points[len(points)-1].Dist - points[0].Dist
-	p.Gaps = routeGaps(p.Samples)
-	gapLen := 0.0
-	for _, gp := range p.Gaps {
-		gapLen += gp.Length()
-	}
-	switch {
-	case p.Length > 0:
-		p.CoveredFraction = math.Max(0, math.Min(1, 1-gapLen/p.Length))
-	case len(p.Gaps) == 0:
-		p.CoveredFraction = 1
-	}
+	p.Recompute() // margins, gaps and the covered fraction from Least
 	return p, nil
 }
 

@@ -122,15 +122,9 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 	if o.area == "" && o.box == "" && o.corridor == "" {
 		return input.Usagef("--area", "give the area to analyse: --area FILE, --box LAT,LON,LAT,LON or --corridor ROUTE,WIDTH")
 	}
-	if o.agl.Given && o.ind.altInd.Given {
-		return input.Usagef("--agl", "give --agl or --alt-indicated, not both")
-	}
-	note, err := o.ind.apply(o.alt)
+	note, err := o.ind.altitudeFlown(o.alt, o.agl)
 	if err != nil {
 		return err
-	}
-	if note == "" && o.alt.Given {
-		note = "altitude --alt taken as true altitude MSL (no altimeter temperature correction)"
 	}
 	if !o.alt.Given && !o.agl.Given {
 		return input.Usagef("--alt", "give the altitude flown: --alt (true MSL), --agl (above the terrain) or --alt-indicated")

@@ -509,6 +509,23 @@ func (f *indicatedFlags) apply(alt *input.Quantity) (string, error) {
 	return note, err
 }
 
+// altitudeFlown is apply for the altitude flown over a route or an area
+// (route and coverage): --agl and --alt-indicated exclude each other, and
+// a plain --alt is said to be the true altitude.
+func (f *indicatedFlags) altitudeFlown(alt, agl *input.Quantity) (string, error) {
+	if agl.Given && f.altInd.Given {
+		return "", input.Usagef("--agl", "give --agl or --alt-indicated, not both")
+	}
+	note, err := f.apply(alt)
+	if err != nil {
+		return "", err
+	}
+	if note == "" && alt.Given {
+		note = "altitude --alt taken as true altitude MSL (no altimeter temperature correction)"
+	}
+	return note, nil
+}
+
 func (f *indicatedFlags) convert(alt *input.Quantity) (string, error) {
 	if !f.altInd.Given {
 		if f.stationElev.Given || f.stationTemp != "" {

@@ -154,15 +154,9 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 		return err
 	}
 	setup.printWarnings(stderr)
-	if o.agl.Given && o.ind.altInd.Given {
-		return input.Usagef("--agl", "give --agl or --alt-indicated, not both")
-	}
-	note, err := o.ind.apply(o.alt)
+	note, err := o.ind.altitudeFlown(o.alt, o.agl)
 	if err != nil {
 		return err
-	}
-	if note == "" && o.alt.Given {
-		note = "altitude --alt taken as true altitude MSL (no altimeter temperature correction)"
 	}
 	if note != "" {
 		setup.Notes = append(setup.Notes, note)
