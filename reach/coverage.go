@@ -227,19 +227,23 @@ func (c *CoverageResult) countZone() {
 		c.Areas = c.Ground.CellAreas()
 	}
 	c.ZoneCells, c.CoveredCells, c.ZoneArea, c.CoveredArea = 0, 0, 0, 0
-	for i := range c.Count {
-		if !c.inZone(i) {
-			continue
-		}
-		a := c.Areas.At(i)
-		c.ZoneCells++
-		c.ZoneArea += a
-		if c.Count[i] > 0 {
-			c.CoveredCells++
-			c.CoveredArea += a
-		}
-		if c.Count[i] == 1 && c.only != nil && c.only[i] >= 0 {
-			c.Exclusive[c.only[i]] += a
+	cols := c.Ground.Cols
+	for r := 0; r < c.Ground.Rows; r++ {
+		for cc := 0; cc < cols; cc++ {
+			i := r*cols + cc
+			if !c.inZone(i) {
+				continue
+			}
+			a := c.Areas.AtCell(cc, r)
+			c.ZoneCells++
+			c.ZoneArea += a
+			if c.Count[i] > 0 {
+				c.CoveredCells++
+				c.CoveredArea += a
+			}
+			if c.Count[i] == 1 && c.only != nil && c.only[i] >= 0 {
+				c.Exclusive[c.only[i]] += a
+			}
 		}
 	}
 	c.CoveredFraction = 0
@@ -359,7 +363,7 @@ func (c *CoverageResult) fieldCover(ctx context.Context, t Target, models []Loss
 			cells = append(cells, int32(i))
 			vals = append(vals, v)
 			if float64(v) <= c.altAt(i) && c.inZone(i) {
-				covers += c.Areas.At(i)
+				covers += c.Areas.AtCell(c0+cc, r0+r)
 			}
 		}
 	}

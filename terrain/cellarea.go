@@ -50,10 +50,11 @@ func (l *Local) CellAreas() *CellAreas {
 }
 
 // At returns the area (m²) of cell i (index r·Cols + c).
-func (a *CellAreas) At(i int) float64 {
-	r, c := i/a.cols, i%a.cols
-	return a.w[(r/areaBlock)*a.bcols+c/areaBlock]
-}
+func (a *CellAreas) At(i int) float64 { return a.AtCell(i%a.cols, i/a.cols) }
+
+// AtCell returns the area (m²) of cell (c, r), for loops that already walk
+// columns and rows.
+func (a *CellAreas) AtCell(c, r int) float64 { return a.w[(r/areaBlock)*a.bcols+c/areaBlock] }
 
 // upCos is n̂ · û at frame point (x, y): the cosine of the angle between
 // the ellipsoid's normal there and the frame's up direction. It is clamped
