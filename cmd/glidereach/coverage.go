@@ -366,7 +366,7 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 	res, err := reach.Coverage(ctx, l, ts, tab, opts)
 	if errors.Is(err, reach.ErrNoTargets) {
 		run.notes = append(run.notes, "no existing field lies within reach of the area")
-		res, err = emptyCoverage(l, opts, len(ts))
+		res, err = reach.NewEmptyCoverage(l, opts, len(ts)), nil
 	}
 	if err != nil {
 		return err
@@ -388,12 +388,6 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 	cov, unc, ca, ua := res.Polygons()
 	run.covered, run.uncovered, run.coveredArea, run.uncoveredArea = cov, unc, ca, ua
 	return nil
-}
-
-// emptyCoverage is the coverage with no field on the window: nothing is
-// covered (a CoverageResult with the zone counted, for the writers).
-func emptyCoverage(l *terrain.Local, opts reach.CoverageOptions, nFields int) (*reach.CoverageResult, error) {
-	return reach.NewEmptyCoverage(l, opts, nFields), nil
 }
 
 // writeLeastRaster writes the least altitude (m MSL) on the DEM's lattice
