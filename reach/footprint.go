@@ -58,6 +58,7 @@ type FootprintResult struct {
 	// footprints of a FootprintFromState result (nil otherwise).
 	sectors       []SectorStart
 	sectorMembers []*FootprintResult
+	sectorOffsets [][2]int // first column and row of each member's window in Ground
 }
 
 // ErrStartBelowGround is returned when the start altitude is not above the
@@ -127,20 +128,45 @@ func Footprint(ctx context.Context, ground *terrain.Local, start Start, model Lo
 	if start.Alt <= te {
 		return nil, fmt.Errorf("%w (terrain %.0f m, start %.0f m MSL)", ErrStartBelowGround, te, start.Alt)
 	}
+	return footprintOn(ctx, ground, start, sx, sy, model, opts, footprintBottom(lowestGround(ground), opts))
+}
+
+// lowestGround returns the lowest elevation (m MSL) of l, +Inf when l is
+// all voids.
+func lowestGround(l *terrain.Local) float64 {
 	lo := math.Inf(1)
-	for _, e := range ground.Elev {
+	for _, e := range l.Elev {
 		if e == e && float64(e) < lo {
 			lo = float64(e)
 		}
 	}
+	return lo
+}
+
+// footprintBottom returns the lowest altitude (m MSL) a footprint's descent
+// table covers over ground whose lowest point is lo: 200 m below the
+// lowest level asked for there, so contours at that level can be
+// interpolated between cells.
+func footprintBottom(lo float64, opts FootprintOptions) float64 {
+	return lo + minFootprintLevel(opts) - 200
+}
+
+// minFootprintLevel is the lowest height above ground (m) a footprint keeps
+// values for: the reserve, the lowest extra level, and 0.
+func minFootprintLevel(opts FootprintOptions) float64 {
 	minLevel := opts.Reserve
 	for _, l := range opts.Levels {
 		minLevel = math.Min(minLevel, l)
 	}
-	minLevel = math.Min(minLevel, 0)
-	// The table reaches below the lowest ground so contours at the lowest
-	// level can be interpolated between cells.
-	hBot := lo + minLevel - 200
+	return math.Min(minLevel, 0)
+}
+
+// footprintOn is Footprint from start at (sx, sy) (cell units of ground)
+// with the descent table tabulated down to hBot (m MSL); a footprint on a
+// crop of a larger window passes the larger window's hBot so its table,
+// and so its values, are the larger window's.
+func footprintOn(ctx context.Context, ground *terrain.Local, start Start, sx, sy float64, model LossModel, opts FootprintOptions, hBot float64) (*FootprintResult, error) {
+	minLevel := minFootprintLevel(opts)
 	d, err := newDescentFor(model, hBot, start.Alt+1)
 	if err != nil {
 		return nil, err
@@ -201,7 +227,7 @@ func (f *FootprintResult) ArrivalAtField(lat, lon, elev float64) (alt float64, o
 		return low, true
 	}
 	if f.sectorMembers != nil {
-		return f.sectorArrivalAt(lat, lon)
+		return f.sectorArrivalAt(lat, lon, elev)
 	}
 	x, y := f.Ground.Frame.Forward(lat, lon)
 	gx, gy := (x-f.Ground.X0)/f.Ground.Cell, (y-f.Ground.Y0)/f.Ground.Cell

@@ -3,6 +3,7 @@ package reach
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"sync"
 
@@ -40,7 +41,22 @@ func FootprintFromState(ctx context.Context, ground *terrain.Local, failure Star
 	if len(sectors) == 0 {
 		return nil, errors.New("reach: FootprintFromState needs at least one sector")
 	}
+	if ground == nil || ground.Cols < 2 || ground.Rows < 2 {
+		return nil, errors.New("reach: footprint needs a terrain window of at least 2×2 cells")
+	}
+	// One descent table range for every sector: the whole window's, so a
+	// sector run on a crop gives the values a run on the window would.
+	hBot := footprintBottom(lowestGround(ground), opts)
+	top := math.Inf(-1)
+	for _, s := range sectors {
+		top = math.Max(top, s.Start.Alt)
+	}
+	radius, err := ReachRadius(model, top, hBot)
+	if err != nil {
+		return nil, err
+	}
 	members := make([]*FootprintResult, len(sectors))
+	offsets := make([][2]int, len(sectors))
 	errs := make([]error, len(sectors))
 	var wg sync.WaitGroup
 	sem := make(chan struct{}, 2)
@@ -52,11 +68,11 @@ func FootprintFromState(ctx context.Context, ground *terrain.Local, failure Star
 			defer func() { <-sem }()
 			o := opts
 			o.Progress = nil
-			m, err := Footprint(ctx, ground, sectors[k].Start, model, o)
+			m, off, err := sectorFootprint(ctx, ground, sectors[k], radius, model, o, hBot)
 			if errors.Is(err, ErrStartBelowGround) || errors.Is(err, ErrStartOffGround) {
 				return // this sector reaches nothing
 			}
-			members[k], errs[k] = m, err
+			members[k], offsets[k], errs[k] = m, off, err
 			if opts.Progress != nil {
 				opts.Progress(float64(k+1) / float64(len(sectors)))
 			}
@@ -71,7 +87,7 @@ func FootprintFromState(ctx context.Context, ground *terrain.Local, failure Star
 	g := ground
 	x, y := g.Frame.Forward(failure.Lat, failure.Lon)
 	out := &FootprintResult{Ground: g, Start: failure, Reserve: opts.Reserve,
-		StartX: (x - g.X0) / g.Cell, StartY: (y - g.Y0) / g.Cell, sectors: sectors, sectorMembers: members}
+		StartX: (x - g.X0) / g.Cell, StartY: (y - g.Y0) / g.Cell, sectors: sectors, sectorMembers: members, sectorOffsets: offsets}
 	out.Arrival = make([]float32, len(g.Elev))
 	nan := float32(math.NaN())
 	for i := range out.Arrival {
@@ -82,10 +98,11 @@ func FootprintFromState(ctx context.Context, ground *terrain.Local, failure Star
 			continue
 		}
 		s := sectors[k]
-		for r := 0; r < g.Rows; r++ {
-			for c := 0; c < g.Cols; c++ {
-				i := r*g.Cols + c
-				a := m.Arrival[i]
+		c0, r0 := offsets[k][0], offsets[k][1]
+		mg := m.Ground
+		for r := 0; r < mg.Rows; r++ {
+			for c := 0; c < mg.Cols; c++ {
+				a := m.Arrival[r*mg.Cols+c]
 				if a != a {
 					continue
 				}
@@ -93,6 +110,7 @@ func FootprintFromState(ctx context.Context, ground *terrain.Local, failure Star
 				if dx == 0 && dy == 0 || !s.inCone(math.Atan2(dx, dy)*180/math.Pi) {
 					continue
 				}
+				i := (r0+r)*g.Cols + c0 + c
 				if cur := out.Arrival[i]; cur != cur || a > cur {
 					out.Arrival[i] = a
 				}
@@ -102,9 +120,78 @@ func FootprintFromState(ctx context.Context, ground *terrain.Local, failure Star
 	return out, nil
 }
 
-// sectorArrivalAt is ArrivalAt for a FootprintFromState result: the best
-// of the sectors whose cone holds the point.
-func (f *FootprintResult) sectorArrivalAt(lat, lon float64) (float64, bool) {
+// coneBoxPad is the widening of a sector's box beyond its cone, as a
+// fraction of the longest straight glide (plus two cells): room for the
+// glides that bend around terrain near the cone's edges. With it the demo's
+// failure-state footprint is cell for cell the one of whole-window runs
+// (checked when it was chosen; TestFootprintFromStateCropIsConservative
+// checks the synthetic landscape).
+const coneBoxPad = 0.05
+
+// sectorFootprint runs the footprint of sector s on the part of ground its
+// cone can hold: the bounding box of the cone's apex (the sector's start)
+// and its arc at radius (m, the longest straight glide of the table),
+// widened by coneBoxPad, when the cone is convex (HalfDeg < 90); the whole
+// window otherwise. A cone narrower than a half-plane is convex, so every
+// straight glide from its apex to a cell in it stays over the box; a glide
+// that bends around terrain and leaves the box is not searched, so the crop
+// can only lower an arrival, never raise it (never optimistic). It costs a
+// sector about the box's share of the window instead of the whole window
+// (a quarter of the CPU time on BenchmarkFootprintFromState). off is the
+// crop's first column and row in ground; hBot is the window's table bottom.
+func sectorFootprint(ctx context.Context, ground *terrain.Local, s SectorStart, radius float64, model LossModel, opts FootprintOptions, hBot float64) (m *FootprintResult, off [2]int, err error) {
+	x, y := ground.Frame.Forward(s.Start.Lat, s.Start.Lon)
+	sx, sy := (x-ground.X0)/ground.Cell, (y-ground.Y0)/ground.Cell
+	if sx < 0 || sy < 0 || sx > float64(ground.Cols-1) || sy > float64(ground.Rows-1) {
+		return nil, off, ErrStartOffGround
+	}
+	crop := ground
+	if s.HalfDeg < 90 {
+		c0, r0, c1, r1 := coneBox(sx, sy, s.TrackDeg, s.HalfDeg, radius/ground.Cell, 2+int(coneBoxPad*radius/ground.Cell))
+		c0, r0 = max(c0, 0), max(r0, 0)
+		c1, r1 = min(c1, ground.Cols-1), min(r1, ground.Rows-1)
+		if c1-c0 >= 1 && r1-r0 >= 1 && (c1-c0+1)*(r1-r0+1) < ground.Cols*ground.Rows {
+			crop = ground.CropCells(c0, r0, c1, r1)
+			off = [2]int{c0, r0}
+		}
+	}
+	te, ok := ground.Sample(x, y)
+	if !ok {
+		return nil, off, ErrStartOffGround
+	}
+	if s.Start.Alt <= te {
+		return nil, off, fmt.Errorf("%w (terrain %.0f m, start %.0f m MSL)", ErrStartBelowGround, te, s.Start.Alt)
+	}
+	m, err = footprintOn(ctx, crop, s.Start, sx-float64(off[0]), sy-float64(off[1]), model, opts, hBot)
+	return m, off, err
+}
+
+// coneBox returns the cell bounding box (inclusive) of the cone with apex
+// (sx, sy) (cell units, rows increasing north), centre bearing trackDeg
+// and half-angle halfDeg (< 90, degrees true) out to radius r (cells),
+// widened by pad cells: the apex, the two edge points of the arc, and the
+// arc's extreme points at the cardinal bearings the cone holds.
+func coneBox(sx, sy, trackDeg, halfDeg, r float64, pad int) (c0, r0, c1, r1 int) {
+	minX, maxX, minY, maxY := sx, sx, sy, sy
+	add := func(b float64) {
+		px, py := sx+r*math.Sin(b*math.Pi/180), sy+r*math.Cos(b*math.Pi/180)
+		minX, maxX = math.Min(minX, px), math.Max(maxX, px)
+		minY, maxY = math.Min(minY, py), math.Max(maxY, py)
+	}
+	add(trackDeg - halfDeg)
+	add(trackDeg + halfDeg)
+	for b := 0.0; b < 360; b += 90 {
+		if d := math.Mod(b-trackDeg+540, 360) - 180; math.Abs(d) <= halfDeg {
+			add(b)
+		}
+	}
+	return int(math.Floor(minX)) - pad, int(math.Floor(minY)) - pad, int(math.Ceil(maxX)) + pad, int(math.Ceil(maxY)) + pad
+}
+
+// sectorArrivalAt is ArrivalAtField for a FootprintFromState result: the
+// best of the sectors whose cone holds the point, with the landing
+// elevation elev (m MSL) for the terrain floor.
+func (f *FootprintResult) sectorArrivalAt(lat, lon, elev float64) (float64, bool) {
 	best, ok := math.Inf(-1), false
 	x, y := f.Ground.Frame.Forward(lat, lon)
 	for k, m := range f.sectorMembers {
@@ -115,7 +202,7 @@ func (f *FootprintResult) sectorArrivalAt(lat, lon float64) (float64, bool) {
 		if !f.sectors[k].inCone(math.Atan2(x-sx, y-sy) * 180 / math.Pi) {
 			continue
 		}
-		if a, aok := m.ArrivalAt(lat, lon); aok && a > best {
+		if a, aok := m.ArrivalAtField(lat, lon, elev); aok && a > best {
 			best, ok = a, true
 		}
 	}
@@ -128,14 +215,20 @@ func (f *FootprintResult) sectorArrivalAt(lat, lon float64) (float64, bool) {
 // sectorPath is Path for a FootprintFromState result: the path of the
 // sector that gives the cell its arrival.
 func (f *FootprintResult) sectorPath(c, r int) ([][2]float64, bool) {
-	i := r*f.Ground.Cols + c
-	want := f.Arrival[i]
+	want := f.Arrival[r*f.Ground.Cols+c]
 	if want != want {
 		return nil, false
 	}
-	for _, m := range f.sectorMembers {
-		if m != nil && m.Arrival[i] == want {
-			return m.Path(c, r)
+	for k, m := range f.sectorMembers {
+		if m == nil {
+			continue
+		}
+		mc, mr := c-f.sectorOffsets[k][0], r-f.sectorOffsets[k][1]
+		if mc < 0 || mr < 0 || mc >= m.Ground.Cols || mr >= m.Ground.Rows {
+			continue
+		}
+		if m.Arrival[mr*m.Ground.Cols+mc] == want {
+			return m.Path(mc, mr)
 		}
 	}
 	return nil, false

@@ -76,6 +76,38 @@ func TestFootprintFromStateNoLossEqualsFootprint(t *testing.T) {
 	}
 }
 
+// A field lower than the ground the grid has there (a quarry floor, a
+// surveyed field elevation): the terrain floor takes the field's elevation
+// for a footprint from a failure state as for a plain one. Where the glide
+// is below the 100 m clearance, a landing 50 m below the grid's ground is
+// not reached by a glide whose low part is over that ground (DEVELOPERS.md
+// "Reserve and clearance").
+func TestFootprintFromStateFieldBelowGround(t *testing.T) {
+	l := flatWindow(0, 0, 301, 60, 0)
+	st := Start{Lat: 0, Lon: 0, Alt: 1000}
+	opts := FootprintOptions{Reserve: 0, Clearance: 100}
+	plain, err := Footprint(context.Background(), l, st, ConstantLoss(9), opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	secs := []SectorStart{{TrackDeg: 90, HalfDeg: 180, Start: st}}
+	got, err := FootprintFromState(context.Background(), l, st, secs, ConstantLoss(9), opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lat, lon := l.Frame.Inverse((1000-60)*9, 0) // 60 m above the flat ground
+	for _, tc := range []struct {
+		elev float64
+		ok   bool
+	}{{0, true}, {-50, false}} {
+		a, aok := plain.ArrivalAtField(lat, lon, tc.elev)
+		b, bok := got.ArrivalAtField(lat, lon, tc.elev)
+		if aok != tc.ok || bok != tc.ok || aok && math.Abs(a-b) > 1e-3 {
+			t.Errorf("field at %.0f m: from the state %.1f m (%v), plain %.1f m (%v); want reached %v", tc.elev, b, bok, a, aok, tc.ok)
+		}
+	}
+}
+
 // A failure heading north in calm air over flat ground: the reach behind
 // (south) is today's less exactly the turn's loss (the half turn, plus the
 // half-sector charge) times the glide ratio and the displacement of the
@@ -185,5 +217,122 @@ func TestTurnBackAfterTakeOff(t *testing.T) {
 	}
 	if possible(need - 5) {
 		t.Errorf("turn back possible from %.0f m (needs %.0f m)", need-5, need)
+	}
+}
+
+// BenchmarkFootprintFromState: the footprint from a failure state (24
+// tracks each way, as the command builds them) on a 600×600 window of the
+// synthetic landscape in layered wind. Each sector runs on the box its
+// cone can hold, not on the whole window.
+func BenchmarkFootprintFromState(b *testing.B) {
+	const n = 600
+	l, tab := benchSetup(b, n)
+	v := 45.0
+	f := transition.Failure{Heading: 250 * math.Pi / 180, FailTAS: v, FailSink: 1.2, GlideTAS: 30, GlideSink: 0.8, ReactionTime: 3, Efficiency: 0.5, Bank: 30}
+	ss, err := f.Sectors(24, 0, 0)
+	if err != nil {
+		b.Fatal(err)
+	}
+	st := Start{Lat: terrain.SyntheticLat, Lon: terrain.SyntheticLon, Alt: 1200}
+	secs := stateSectors(l, st.Lat, st.Lon, st.Alt, ss)
+	b.ReportAllocs()
+	b.ResetTimer()
+	stop := cpuMeter(b, n*n)
+	for i := 0; i < b.N; i++ {
+		if _, err := FootprintFromState(context.Background(), l, st, secs, tab, FootprintOptions{Reserve: 300, Clearance: 100}); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.StopTimer()
+	stop()
+	b.ReportMetric(float64(len(secs)), "sectors")
+}
+
+// fullWindowFromState is FootprintFromState as it was first written, each
+// sector run on the whole window: the reference the cropped runs are
+// checked against.
+func fullWindowFromState(t *testing.T, l *terrain.Local, secs []SectorStart, model LossModel, opts FootprintOptions) []float32 {
+	t.Helper()
+	out := make([]float32, len(l.Elev))
+	for i := range out {
+		out[i] = float32(math.NaN())
+	}
+	for _, s := range secs {
+		m, err := Footprint(context.Background(), l, s.Start, model, opts)
+		if err != nil {
+			continue
+		}
+		for r := 0; r < l.Rows; r++ {
+			for c := 0; c < l.Cols; c++ {
+				i := r*l.Cols + c
+				a := m.Arrival[i]
+				dx, dy := float64(c)-m.StartX, float64(r)-m.StartY
+				if a != a || dx == 0 && dy == 0 || !s.inCone(math.Atan2(dx, dy)*180/math.Pi) {
+					continue
+				}
+				if cur := out[i]; cur != cur || a > cur {
+					out[i] = a
+				}
+			}
+		}
+	}
+	return out
+}
+
+// Each sector runs on the box its cone can hold (speed); that may only
+// lower an arrival, never raise one, and on flat ground (straight glides
+// only) it changes nothing. The reference is the same sectors run on the
+// whole window.
+func TestFootprintFromStateCropIsConservative(t *testing.T) {
+	f := transition.Failure{Heading: 250 * math.Pi / 180, FailTAS: 50, FailSink: 2, GlideTAS: 33, GlideSink: 33.0 / 9, ReactionTime: 3, Efficiency: 0.5, Bank: 30}
+	ss, err := f.Sectors(24, 0, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	opts := FootprintOptions{Reserve: 100, Clearance: 100}
+	for _, tc := range []struct {
+		name  string
+		l     *terrain.Local
+		alt   float64
+		exact bool
+	}{
+		{"flat", flatWindow(-0.5, -24.5, 181, 60, 0), 800, true},
+		{"hills", hillyWindow(181, 60, 3), 900, false},
+	} {
+		lat, lon := tc.l.Frame.Inverse(tc.l.X0+90*60, tc.l.Y0+90*60)
+		st := Start{Lat: lat, Lon: lon, Alt: tc.alt}
+		secs := stateSectors(tc.l, lat, lon, tc.alt, ss)
+		got, err := FootprintFromState(context.Background(), tc.l, st, secs, ConstantLoss(9), opts)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := fullWindowFromState(t, tc.l, secs, ConstantLoss(9), opts)
+		same, n := 0, 0
+		for i := range want {
+			w, g := want[i], got.Arrival[i]
+			if w != w {
+				if g == g {
+					t.Fatalf("%s: cell %d reached (%.1f m) where whole-window runs reach nothing", tc.name, i, g)
+				}
+				continue
+			}
+			n++
+			if g == g && g > w {
+				t.Fatalf("%s: cell %d arrives at %.2f m, above the whole-window runs' %.2f m", tc.name, i, g, w)
+			}
+			if g == w {
+				same++
+			}
+		}
+		if n == 0 {
+			t.Fatalf("%s: nothing reached", tc.name)
+		}
+		if tc.exact && same != n {
+			t.Errorf("%s: %d of %d cells differ from the whole-window runs", tc.name, n-same, n)
+		}
+		if !tc.exact && float64(same) < 0.999*float64(n) {
+			t.Errorf("%s: only %d of %d cells equal the whole-window runs", tc.name, same, n)
+		}
+		t.Logf("%s: %d of %d reached cells equal the whole-window runs", tc.name, same, n)
 	}
 }
