@@ -245,7 +245,16 @@ func (r *renderer) sampleTerrain() {
 	// cells; voids stay void (a shade cell that is void drops out of the
 	// mean, as for the elevation above).
 	if !l.Flat && src.Cell > 1.5*lo.mpp {
-		sh := shadeGrid(src.Elev, src.Cols, src.Rows, src.Cell, r.s.Hillshade)
+		// shadeGrid wants row 0 north; the Local's row 0 is south.
+		north := make([]float32, len(src.Elev))
+		for rr := 0; rr < src.Rows; rr++ {
+			copy(north[(src.Rows-1-rr)*src.Cols:(src.Rows-rr)*src.Cols], src.Elev[rr*src.Cols:(rr+1)*src.Cols])
+		}
+		flipped := shadeGrid(north, src.Cols, src.Rows, src.Cell, r.s.Hillshade)
+		sh := make([]float32, len(flipped))
+		for rr := 0; rr < src.Rows; rr++ {
+			copy(sh[rr*src.Cols:(rr+1)*src.Cols], flipped[(src.Rows-1-rr)*src.Cols:(src.Rows-rr)*src.Cols])
+		}
 		out := make([]float32, mw*mh)
 		for j, ty := range ys {
 			for i, tx := range xs {

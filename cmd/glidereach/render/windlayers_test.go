@@ -142,3 +142,40 @@ func TestCoarseTerrainShadesSmoothly(t *testing.T) {
 		t.Errorf("brightness kinks by %.0f (sum of RGB) between neighbouring pixels: seams at cell edges", worst)
 	}
 }
+
+// TestCoarseAndFineTerrainShadeAlike draws the same plane, rising 10 % to
+// the south (so facing north, half toward the default light from the
+// north-west, azimuth 315°), once on cells far coarser than the map's
+// pixels (shaded at the DEM's resolution, then interpolated) and once on
+// cells finer than them (shaded per pixel). The two must show the same
+// brightness: the light comes from the same side whatever the DEM's
+// resolution (geometry, common practice, no source). Local rows run south
+// to north and the shading wants north first; passing the rows as they
+// were lit the coarse DEM from the south-west.
+func TestCoarseAndFineTerrainShadeAlike(t *testing.T) {
+	plane := func(cell float64) *terrain.Local {
+		n := int(20000/cell) + 1
+		l := &terrain.Local{Frame: sampleFrame, X0: -10000, Y0: -10000, Cell: cell, Cols: n, Rows: n, Elev: make([]float32, n*n)}
+		for r := 0; r < n; r++ {
+			for c := 0; c < n; c++ {
+				_, y := l.XY(c, r)
+				l.Elev[r*n+c] = float32(2000 - 0.1*y)
+			}
+		}
+		return l
+	}
+	centre := func(l *terrain.Local) [3]float64 {
+		img, lo, err := render(&Scene{Terrain: l}, 1000)
+		if err != nil {
+			t.Fatal(err)
+		}
+		c := img.RGBAAt((lo.mapRect.Min.X+lo.mapRect.Max.X)/2, (lo.mapRect.Min.Y+lo.mapRect.Max.Y)/2)
+		return [3]float64{float64(c.R), float64(c.G), float64(c.B)}
+	}
+	coarse, fine := centre(plane(1000)), centre(plane(10))
+	for k := range coarse {
+		if math.Abs(coarse[k]-fine[k]) > 3 {
+			t.Fatalf("centre pixel %v on 1 km cells, %v on 10 m cells: the light comes from different sides", coarse, fine)
+		}
+	}
+}
