@@ -83,6 +83,14 @@ type propagation struct {
 	// stop, if not nil, is asked after each expansion whether the run may
 	// end early (the cells a caller needs are final).
 	stop func(cell int) bool
+	// prune (backward, RequiredFrom): when pruneOn, a cell is not offered
+	// a value v with v + pruneK·|cell − (pruneX, pruneY)| > pruneT, where
+	// pruneK (m per cell unit) is the least height any glide loses per cell
+	// of ground: no glide from the point (pruneX, pruneY) needing at most
+	// pruneT passes through such a value (see RequiredFrom).
+	pruneOn        bool
+	pruneX, pruneY float64
+	pruneK, pruneT float64
 }
 
 func newPropagation(l *terrain.Local, d *descent, backward bool) *propagation {
@@ -532,6 +540,12 @@ func (p *propagation) offer(q int, pi int32, v float64, prev float32, srcIdx uin
 	vf := float32(v)
 	if p.backward && v > p.ceiling {
 		return
+	}
+	if p.pruneOn {
+		dx, dy := float64(q%p.cols)-p.pruneX, float64(q/p.cols)-p.pruneY
+		if v+p.pruneK*math.Sqrt(dx*dx+dy*dy) > p.pruneT {
+			return
+		}
 	}
 	if !p.better(vf, p.val[q]) {
 		return

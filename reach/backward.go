@@ -366,6 +366,19 @@ func bilinearRequired(v [4]float32, bestOf [4]int16, tx, ty float64) (alt float6
 // propagation from the target that ends as soon as the cells around the
 // point are final. ok is false when the target cannot be reached from there
 // below the ceiling.
+//
+// The propagation first runs pruned: a cell whose value v could only lie on
+// a glide from the point needing more than T — v + d/E_max > T, with d the
+// cell's distance from the point and E_max the table's best ground distance
+// per metre of height (no glide loses less) — is not searched, T being the
+// straight-line figure from the point plus a margin (the bound of an A*
+// search, used as a cut, not as an order: the cells that are searched are
+// searched in the same order). The pruned figure is kept when every cell
+// around the point closed at a value at least a slack below T (six cells of
+// the table's steepest descent plus 20 m: room for the neighbours whose
+// lines of sight gave the path its bends); otherwise the propagation runs
+// again unpruned. TestRequiredFromPrunedEqualsFull checks that the two give
+// the same figures.
 func RequiredFrom(ctx context.Context, ground *terrain.Local, target Target, model LossModel, opts RequiredOptions, lat, lon float64) (alt float64, ok bool, err error) {
 	g := ground
 	x, y := g.Frame.Forward(lat, lon)
@@ -373,18 +386,52 @@ func RequiredFrom(ctx context.Context, ground *terrain.Local, target Target, mod
 	if fx < 0 || fy < 0 || fx > float64(g.Cols-1) || fy > float64(g.Rows-1) {
 		return math.NaN(), false, ErrStartOffGround
 	}
+	opts.Workers = 1
+	if requiredFromPruned {
+		for _, m := range pruneMargins {
+			alt, ok, decided, err := requiredFromRun(ctx, ground, target, model, opts, fx, fy, m)
+			if err != nil || decided {
+				return alt, ok, err
+			}
+		}
+	}
+	alt, ok, _, err = requiredFromRun(ctx, ground, target, model, opts, fx, fy, nil)
+	return alt, ok, err
+}
+
+// pruneMargin is a margin above the straight-line figure for a pruned run
+// of RequiredFrom: Abs metres plus Rel of the straight figure's height
+// above the field.
+type pruneMargin struct{ Abs, Rel float64 }
+
+// pruneMargins are the margins RequiredFrom tries in turn before the
+// unpruned run: a tight one (most glides need little more than the straight
+// line), then a wide one (detours).
+var pruneMargins = []*pruneMargin{{Abs: 40, Rel: 0.05}, {Abs: 250, Rel: 0.3}}
+var pruneSlackCells = 3.0
+
+// requiredFromPruned switches RequiredFrom's pruned first run (tests turn
+// it off to compare).
+var requiredFromPruned = true
+
+// requiredFromRun is one propagation of RequiredFrom for the point (fx, fy)
+// (cell units of ground), pruned or not; decided is false when a pruned run
+// cannot vouch for its figure (RequiredFrom then runs unpruned).
+func requiredFromRun(ctx context.Context, ground *terrain.Local, target Target, model LossModel, opts RequiredOptions, fx, fy float64, prune *pruneMargin) (alt float64, ok, decided bool, err error) {
+	g := ground
 	c0, r0 := min(int(fx), g.Cols-2), min(int(fy), g.Rows-2)
 	need := []int{r0*g.Cols + c0, r0*g.Cols + c0 + 1, (r0+1)*g.Cols + c0, (r0+1)*g.Cols + c0 + 1}
-	opts.Workers = 1
 	// The run's values are read at the point's four cells only (as
 	// RequiredAt does), not merged into a raster of the whole window.
 	var run *propagation
 	var rc0, rr0 int
+	var in []int
+	beyond, allClosed := false, false
+	slack := 0.0
 	_, err = required(ctx, ground, []Target{target}, model, opts, func(p *propagation, wc0, wr0 int) {
 		run, rc0, rr0 = p, wc0, wr0
 		// The point's cells in the run's window; those outside it are
 		// beyond reach from the ceiling and never close.
-		var in []int
 		for _, q := range need {
 			c, r := q%g.Cols-wc0, q/g.Cols-wr0
 			if c >= 0 && r >= 0 && c < p.cols && r < p.rows {
@@ -392,6 +439,7 @@ func RequiredFrom(ctx context.Context, ground *terrain.Local, target Target, mod
 			} else if g.Elev[q] == g.Elev[q] {
 				// Beyond any glide from the ceiling: the point is out of
 				// reach, which the run would find only at its end.
+				beyond = true
 				p.stop = func(int) bool { return true }
 				return
 			}
@@ -402,11 +450,31 @@ func RequiredFrom(ctx context.Context, ground *terrain.Local, target Target, mod
 					return false
 				}
 			}
+			allClosed = true
 			return true
+		}
+		if prune != nil {
+			px, py := fx-float64(wc0), fy-float64(wr0)
+			s := p.srcs[0]
+			straight := math.Inf(-1)
+			for _, q := range in {
+				straight = math.Max(straight, p.segment(s.X, s.Y, s.Alt, q%p.cols, q/p.cols))
+			}
+			worst := p.desc.minRatio()
+			if math.IsInf(straight, 0) || math.IsNaN(straight) || !(worst > 0) || !(p.desc.maxRatio > 0) {
+				return // no bound to cut with: the run is the unpruned one
+			}
+			slack = pruneSlackCells*p.cell/worst + 10
+			if slack > 500 {
+				return
+			}
+			p.pruneOn, p.pruneX, p.pruneY = true, px, py
+			p.pruneK = p.cell / p.desc.maxRatio
+			p.pruneT = straight + prune.Abs + prune.Rel*math.Max(straight-s.Alt, 0) + slack
 		}
 	}, false)
 	if err != nil {
-		return math.NaN(), false, err
+		return math.NaN(), false, false, err
 	}
 	var v [4]float32
 	for k, q := range need {
@@ -416,8 +484,17 @@ func RequiredFrom(ctx context.Context, ground *terrain.Local, target Target, mod
 			v[k] = run.val[r*run.cols+c]
 		}
 	}
+	decided = true
+	if run.pruneOn && !beyond {
+		decided = allClosed
+		for _, q := range in {
+			if run.l.Elev[q] == run.l.Elev[q] && !(float64(run.val[q]) <= run.pruneT-slack) {
+				decided = false
+			}
+		}
+	}
 	a, _, ok := bilinearRequired(v, [4]int16{}, fx-float64(c0), fy-float64(r0))
-	return a, ok, nil
+	return a, ok, decided, nil
 }
 
 // RequiredForward returns the least start altitude (m MSL) at the point

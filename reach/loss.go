@@ -61,6 +61,23 @@ type descent struct {
 	env []float64
 }
 
+// minRatio returns the least ground distance per metre of height (m/m)
+// over the table's rows and directions: the steepest descent any glide of
+// the table makes; 0 where some direction makes no headway.
+func (t *descent) minRatio() float64 {
+	m := math.Inf(1)
+	for d := 0; d < t.nDir; d++ {
+		col := t.dist[d*t.nh : (d+1)*t.nh]
+		for i := 0; i+1 < len(col); i++ {
+			m = math.Min(m, (col[i]-col[i+1])/t.dh)
+		}
+	}
+	if math.IsInf(m, 1) || m < 0 {
+		return 0
+	}
+	return m
+}
+
 // errNoGlide reports a model that gives no finite ground distance anywhere.
 var errNoGlide = errors.New("reach: the aircraft makes no headway in any direction")
 
