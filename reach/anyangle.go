@@ -84,13 +84,14 @@ type propagation struct {
 	// end early (the cells a caller needs are final).
 	stop func(cell int) bool
 	// prune (backward, RequiredFrom): when pruneOn, a cell is not offered
-	// a value v with v + pruneK·|cell − (pruneX, pruneY)| > pruneT, where
-	// pruneK (m per cell unit) is the least height any glide loses per cell
-	// of ground: no glide from the point (pruneX, pruneY) needing at most
-	// pruneT passes through such a value (see RequiredFrom).
+	// a value v with v + pruneB(cell − (pruneX, pruneY)) > pruneT, pruneB
+	// being the least height any glide loses over that displacement: no
+	// glide from the point (pruneX, pruneY) needing at most pruneT passes
+	// through such a value (see RequiredFrom).
 	pruneOn        bool
 	pruneX, pruneY float64
-	pruneK, pruneT float64
+	pruneB         *displacementBound
+	pruneT         float64
 }
 
 func newPropagation(l *terrain.Local, d *descent, backward bool) *propagation {
@@ -543,7 +544,7 @@ func (p *propagation) offer(q int, pi int32, v float64, prev float32, srcIdx uin
 	}
 	if p.pruneOn {
 		dx, dy := float64(q%p.cols)-p.pruneX, float64(q/p.cols)-p.pruneY
-		if v+p.pruneK*math.Sqrt(dx*dx+dy*dy) > p.pruneT {
+		if v+p.pruneB.height(dx*p.cell, dy*p.cell) > p.pruneT {
 			return
 		}
 	}

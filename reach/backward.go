@@ -85,6 +85,17 @@ func Required(ctx context.Context, ground *terrain.Local, targets []Target, mode
 // table, the same queue bounds, the same cells). No two workers sweep the
 // same cells.
 func required(ctx context.Context, ground *terrain.Local, targets []Target, model LossModel, opts RequiredOptions, hook func(p *propagation, c0, r0 int), merge bool) (*RequiredResult, error) {
+	return requiredWith(ctx, ground, targets, model, opts, nil, nil, hook, merge)
+}
+
+// requiredWith is required with the descent table pre when it is not nil:
+// the table an earlier run with the same ground, targets, model and
+// ceiling built (the caller's promise).
+//
+// clip, when not nil, is called with the table and the source sets before
+// the runs, and may narrow the sets' boxes (to cells no other cell's search
+// needs: RequiredFrom's cut).
+func requiredWith(ctx context.Context, ground *terrain.Local, targets []Target, model LossModel, opts RequiredOptions, pre *descent, clip func(d *descent, sets []*sourceSet), hook func(p *propagation, c0, r0 int), merge bool) (*RequiredResult, error) {
 	if ground == nil || ground.Cols < 2 || ground.Rows < 2 {
 		return nil, errors.New("reach: backward reach needs a terrain window of at least 2×2 cells")
 	}
@@ -122,11 +133,17 @@ func required(ctx context.Context, ground *terrain.Local, targets []Target, mode
 	if !(ceiling > lo) {
 		return nil, fmt.Errorf("reach: ceiling %.0f m is not above the lowest field or ground (%.0f m)", ceiling, lo)
 	}
-	d, err := newDescentFor(model, lo-10, ceiling+10)
-	if err != nil {
-		return nil, err
+	d := pre
+	var err error
+	if d == nil {
+		if d, err = newDescentFor(model, lo-10, ceiling+10); err != nil {
+			return nil, err
+		}
 	}
 	sets := sourceSets(ground, d, srcs, ceiling)
+	if clip != nil {
+		clip(d, sets)
+	}
 	workers := opts.Workers
 	if workers <= 0 {
 		workers = 2
@@ -387,15 +404,17 @@ func RequiredFrom(ctx context.Context, ground *terrain.Local, target Target, mod
 		return math.NaN(), false, ErrStartOffGround
 	}
 	opts.Workers = 1
+	var pre *descent
+	var bound *displacementBound
 	if requiredFromPruned {
 		for _, m := range pruneMargins {
-			alt, ok, decided, err := requiredFromRun(ctx, ground, target, model, opts, fx, fy, m)
+			alt, ok, decided, err := requiredFromRun(ctx, ground, target, model, opts, fx, fy, m, &pre, &bound)
 			if err != nil || decided {
 				return alt, ok, err
 			}
 		}
 	}
-	alt, ok, _, err = requiredFromRun(ctx, ground, target, model, opts, fx, fy, nil)
+	alt, ok, _, err = requiredFromRun(ctx, ground, target, model, opts, fx, fy, nil, &pre, &bound)
 	return alt, ok, err
 }
 
@@ -417,7 +436,10 @@ var requiredFromPruned = true
 // requiredFromRun is one propagation of RequiredFrom for the point (fx, fy)
 // (cell units of ground), pruned or not; decided is false when a pruned run
 // cannot vouch for its figure (RequiredFrom then runs unpruned).
-func requiredFromRun(ctx context.Context, ground *terrain.Local, target Target, model LossModel, opts RequiredOptions, fx, fy float64, prune *pruneMargin) (alt float64, ok, decided bool, err error) {
+//
+// pre and bound carry the descent table and its displacement bound from
+// one run to the next (the same for every run of one RequiredFrom).
+func requiredFromRun(ctx context.Context, ground *terrain.Local, target Target, model LossModel, opts RequiredOptions, fx, fy float64, prune *pruneMargin, pre **descent, bound **displacementBound) (alt float64, ok, decided bool, err error) {
 	g := ground
 	c0, r0 := min(int(fx), g.Cols-2), min(int(fy), g.Rows-2)
 	need := []int{r0*g.Cols + c0, r0*g.Cols + c0 + 1, (r0+1)*g.Cols + c0, (r0+1)*g.Cols + c0 + 1}
@@ -427,8 +449,57 @@ func requiredFromRun(ctx context.Context, ground *terrain.Local, target Target, 
 	var rc0, rr0 int
 	var in []int
 	beyond, allClosed := false, false
-	slack := 0.0
-	_, err = required(ctx, ground, []Target{target}, model, opts, func(p *propagation, wc0, wr0 int) {
+	cut, slack, limit := false, 0.0, 0.0
+	clip := func(d *descent, sets []*sourceSet) {
+		*pre = d
+		if prune == nil || len(sets) != 1 || len(sets[0].srcs) != 1 {
+			return
+		}
+		st, src := sets[0], sets[0].srcs[0]
+		// The straight-line figure at the point's cells (as segment).
+		straight := math.Inf(-1)
+		for _, q := range need {
+			c, r := q%g.Cols, q/g.Cols
+			dx, dy := float64(c)-src.X, float64(r)-src.Y
+			straight = math.Max(straight, d.departVec(src.Alt, -dx, -dy, math.Hypot(dx, dy)*g.Cell))
+		}
+		worst := d.minRatio()
+		if math.IsInf(straight, 0) || math.IsNaN(straight) || !(worst > 0) {
+			return // no bound to cut with: the run is the uncut one
+		}
+		slack = pruneSlackCells*g.Cell/worst + 10
+		if slack > 500 {
+			return
+		}
+		if *bound == nil {
+			*bound = newDisplacementBound(d)
+		}
+		b := *bound
+		limit = straight + prune.Abs + prune.Rel*math.Max(straight-src.Alt, 0) + slack
+		// Every searched cell q has B(q − point) ≤ limit − base and
+		// B(field − q) ≤ limit − base (its value is at least the field's
+		// base plus the bound of the glide from q to the field): the
+		// intersection of two boxes, three cells wider for the cells
+		// beside the lines of sight.
+		H := (limit - src.Alt) / g.Cell
+		const pad = 3
+		c0 := int(math.Floor(math.Max(fx+H*b.minX, src.X-H*b.maxX))) - pad
+		c1 := int(math.Ceil(math.Min(fx+H*b.maxX, src.X-H*b.minX))) + pad
+		r0 := int(math.Floor(math.Max(fy+H*b.minY, src.Y-H*b.maxY))) - pad
+		r1 := int(math.Ceil(math.Min(fy+H*b.maxY, src.Y-H*b.minY))) + pad
+		c0, r0 = max(c0, st.c0, 0), max(r0, st.r0, 0)
+		c1, r1 = min(c1, st.c1, g.Cols-1), min(r1, st.r1, g.Rows-1)
+		for _, q := range need { // the point's cells stay in
+			c, r := q%g.Cols, q/g.Cols
+			c0, c1, r0, r1 = min(c0, c), max(c1, c), min(r0, r), max(r1, r)
+		}
+		if c1-c0 < 1 || r1-r0 < 1 {
+			return
+		}
+		st.c0, st.r0, st.c1, st.r1 = c0, r0, c1, r1
+		cut = true
+	}
+	_, err = requiredWith(ctx, ground, []Target{target}, model, opts, *pre, clip, func(p *propagation, wc0, wr0 int) {
 		run, rc0, rr0 = p, wc0, wr0
 		// The point's cells in the run's window; those outside it are
 		// beyond reach from the ceiling and never close.
@@ -453,24 +524,9 @@ func requiredFromRun(ctx context.Context, ground *terrain.Local, target Target, 
 			allClosed = true
 			return true
 		}
-		if prune != nil {
-			px, py := fx-float64(wc0), fy-float64(wr0)
-			s := p.srcs[0]
-			straight := math.Inf(-1)
-			for _, q := range in {
-				straight = math.Max(straight, p.segment(s.X, s.Y, s.Alt, q%p.cols, q/p.cols))
-			}
-			worst := p.desc.minRatio()
-			if math.IsInf(straight, 0) || math.IsNaN(straight) || !(worst > 0) || !(p.desc.maxRatio > 0) {
-				return // no bound to cut with: the run is the unpruned one
-			}
-			slack = pruneSlackCells*p.cell/worst + 10
-			if slack > 500 {
-				return
-			}
-			p.pruneOn, p.pruneX, p.pruneY = true, px, py
-			p.pruneK = p.cell / p.desc.maxRatio
-			p.pruneT = straight + prune.Abs + prune.Rel*math.Max(straight-s.Alt, 0) + slack
+		if cut {
+			p.pruneOn, p.pruneX, p.pruneY = true, fx-float64(wc0), fy-float64(wr0)
+			p.pruneB, p.pruneT = *bound, limit
 		}
 	}, false)
 	if err != nil {
@@ -485,7 +541,10 @@ func requiredFromRun(ctx context.Context, ground *terrain.Local, target Target, 
 		}
 	}
 	decided = true
-	if run.pruneOn && !beyond {
+	if prune != nil && !cut {
+		decided = false // nothing to cut with: the uncut run decides
+	}
+	if cut && !beyond {
 		decided = allClosed
 		for _, q := range in {
 			if run.l.Elev[q] == run.l.Elev[q] && !(float64(run.val[q]) <= run.pruneT-slack) {

@@ -98,9 +98,11 @@ func TestInvariantRequiredFromPrunedEqualsFull(t *testing.T) {
 			t.Errorf("case %d: pruned %.4f m (%v), unpruned %.4f m (%v)", k, a, aok, b, bok)
 		}
 		x, y := l.Frame.Forward(slat, slon)
+		var pre *descent
+		var bound *displacementBound
 		for _, m := range pruneMargins {
 			if _, _, d, err := requiredFromRun(context.Background(), l, target, tab, RequiredOptions{Clearance: 100, Ceiling: elev + 3500, Workers: 1},
-				(x-l.X0)/l.Cell, (y-l.Y0)/l.Cell, m); err == nil && d {
+				(x-l.X0)/l.Cell, (y-l.Y0)/l.Cell, m, &pre, &bound); err == nil && d {
 				decidedByCut++
 				break
 			}
