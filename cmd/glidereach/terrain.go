@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"glidereach/reach/plan"
 	"io"
 	"math"
 	"strconv"
@@ -198,7 +199,7 @@ func terrainSummary(opts terrain.OpenOptions, fill int, paths []string, at *inpu
 	rep.Warnings = []string{}
 	if lo, hi, ok := g.ElevationRange(); ok && !math.IsInf(lo, 0) && !math.IsInf(hi, 0) {
 		rep.MinM, rep.MaxM = &lo, &hi
-		if w := implausibleElevations(lo, hi); w != "" {
+		if w := plan.ImplausibleElevations(lo, hi); w != "" {
 			rep.Warnings = append(rep.Warnings, w)
 		}
 	}
@@ -209,45 +210,13 @@ func terrainSummary(opts terrain.OpenOptions, fill int, paths []string, at *inpu
 		}
 		if v, ok := g.Elevation(at.Lat, at.Lon); ok {
 			rep.ElevationM = &v
-		} else if inside(g, at.Lat, at.Lon) {
+		} else if plan.Inside(g, at.Lat, at.Lon) {
 			rep.At.Void = true
 		} else {
 			return nil, input.Usagef("--at", "%s is outside the terrain's cells (though inside its lon/lat extent, a box wider than a projected grid's outline)", at.String())
 		}
 	}
 	return rep, nil
-}
-
-// Land on Earth lies between about −430 m (the Dead Sea shore) and 8849 m
-// (the highest summit); both figures from memory, widened to round numbers.
-const (
-	plausibleLowM  = -500
-	plausibleHighM = 9000
-)
-
-// implausibleElevations returns a warning when lo..hi (m) goes beyond the
-// elevations of land: sea-floor data, or a no-data value the file does not
-// declare (−32768, −9999, …) or samples misread. Such cells count as ground,
-// not voids, so the user must know.
-func implausibleElevations(lo, hi float64) string {
-	if lo >= plausibleLowM && hi <= plausibleHighM {
-		return ""
-	}
-	return fmt.Sprintf("elevations go beyond %d..%d m, the range of land: unless this is sea-floor data, "+
-		"the file may hold a no-data value it does not declare (such as -32768 or -9999) or be misread; "+
-		"those cells are taken as ground, not as voids", plausibleLowM, plausibleHighM)
-}
-
-// inside reports whether lat, lon lies within the grid's cells, in the
-// grid's own CRS (so that a failed sample there means a void, not the edge
-// of the data: a UTM grid's lon/lat box holds corners outside its cells).
-func inside(g *terrain.Grid, lat, lon float64) bool {
-	x, y := lon, lat
-	if zone, south, ok := terrain.UTMZone(g.CRS.EPSG); ok {
-		x, y = terrain.UTM(zone, south).Forward(lat, lon)
-	}
-	return x >= g.X0-g.DX/2 && x <= g.X0+(float64(g.Cols)-0.5)*g.DX &&
-		y <= g.Y0+g.DY/2 && y >= g.Y0-(float64(g.Rows)-0.5)*g.DY
 }
 
 func crsLabel(c terrain.CRS) string {
