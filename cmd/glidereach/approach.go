@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"glidereach/reach/plan"
 	"io"
 	"math"
 	"os"
@@ -101,7 +102,7 @@ with an optional --landing-dir. Pattern defaults follow the profile's kind
 // approachRun is everything a plan produced, for the writers.
 type approachRun struct {
 	setup     *glideSetup
-	ground    ground
+	ground    plan.Ground
 	fail      *failureState
 	field     input.Field
 	fieldFrom string
@@ -219,7 +220,7 @@ func runApproach(ctx context.Context, o *approachOptions, stdout io.Writer) erro
 	if err != nil {
 		return err
 	}
-	run.ground = ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(os.Stderr)}
+	run.ground = plan.Ground{Src: src, Flat: o.terr.ground.Value, Warn: warnOnce(os.Stderr)}
 	run.startLat, run.startLon = o.pos.from.Lat, o.pos.from.Lon
 	dist, _, _, err := geodesy.Inverse(geodesy.LatLon{Lat: run.startLat, Lon: run.startLon}, geodesy.LatLon{Lat: run.field.Lat, Lon: run.field.Lon})
 	if err != nil {
@@ -435,8 +436,8 @@ func (s *approachSampler) field(lat, lon float64) (float64, bool) {
 // the next field that works), 10 km beyond them:
 // room for the pattern, a long straight-in and the holding.
 func approachTerrain(run *approachRun, all []input.Field) (*approachSampler, error) {
-	if run.ground.src == nil {
-		return &approachSampler{flat: run.ground.flat, step: 50}, nil
+	if run.ground.Src == nil {
+		return &approachSampler{flat: run.ground.Flat, step: 50}, nil
 	}
 	w, e := math.Min(run.startLon, run.field.Lon), math.Max(run.startLon, run.field.Lon)
 	s, n := math.Min(run.startLat, run.field.Lat), math.Max(run.startLat, run.field.Lat)
@@ -451,13 +452,13 @@ func approachTerrain(run *approachRun, all []input.Field) (*approachSampler, err
 	const padM = 10000.0
 	dLat := padM / 111000
 	dLon := padM / (111000 * math.Max(0.1, math.Cos(run.field.Lat*math.Pi/180)))
-	grid, err := run.ground.src.Window(w-dLon, s-dLat, e+dLon, n+dLat)
+	grid, err := run.ground.Src.Window(w-dLon, s-dLat, e+dLon, n+dLat)
 	if err != nil {
 		if errors.Is(err, terrain.ErrOutside) {
-			return nil, input.Usagef("--from", "the aircraft and the field lie outside the terrain data (%s)", run.ground.src.Describe())
+			return nil, input.Usagef("--from", "the aircraft and the field lie outside the terrain data (%s)", run.ground.Src.Describe())
 		}
 		return nil, &input.UsageError{Where: "--terrain", Err: err}
 	}
-	step := math.Max(10, math.Min(50, run.ground.src.Resolution()))
+	step := math.Max(10, math.Min(50, run.ground.Src.Resolution()))
 	return &approachSampler{grid: grid, step: step}, nil
 }

@@ -123,7 +123,7 @@ func approachAssumptions(run *approachRun) []string {
 		"the pattern replaces the reserve: --reserve is not used by approach",
 		run.fail.assumption(),
 		"field elevation from " + run.fieldFrom,
-		"terrain: " + run.ground.describe(),
+		"terrain: " + run.ground.Describe(),
 		"gate heights are to be reached on arrival at the gate, before the turn there; legs are straight between gates (the rounded path flown is shorter)",
 	}
 	if s.Cond.Mass > 0 {
@@ -455,12 +455,12 @@ func approachScene(run *approachRun) (*render.Scene, error) {
 			radius = math.Max(radius, s)
 		}
 	}
-	l, _, err := run.ground.window(c[1], c[0], radius*1.15+1500)
+	l, _, err := run.ground.Window(c[1], c[0], radius*1.15+1500)
 	if err != nil {
-		return nil, err
+		return nil, usage(err)
 	}
 	s := &render.Scene{Title: approachTitle(run), Terrain: l, Bounds: mapBounds(l, run.ground),
-		DataSource: "terrain: " + run.ground.describe(), Caution: reach.Caution, HeightFeet: run.units.feet}
+		DataSource: "terrain: " + run.ground.Describe(), Caution: reach.Caution, HeightFeet: run.units.feet}
 	gl := &render.GlideLine{LowestClearance: math.NaN(), LineLabel: "Planned path: failure, pattern, touchdown", TurnLabel: "Gate (height above the field)"}
 	for _, p := range r.Path {
 		gl.Line = append(gl.Line, orb.Point{p.Lon, p.Lat})
@@ -544,7 +544,7 @@ func drawApproach(run *approachRun, mapPath, reportPath string) error {
 	r := run.res
 	u := run.units
 	rep := &render.Report{Title: scene.Title,
-		Subtitle: fmt.Sprintf("From %.5f, %.5f at %s MSL - %s", run.startLat, run.startLon, u.h(run.startAlt), run.ground.describe()),
+		Subtitle: fmt.Sprintf("From %.5f, %.5f at %s MSL - %s", run.startLat, run.startLon, u.h(run.startAlt), run.ground.Describe()),
 		Scene:    scene, Caution: reach.Caution, Summary: strings.Split(approachStatus(run), "\n")}
 	if len(r.Path) >= 2 {
 		rep.Profile = approachProfile(run)

@@ -14,6 +14,7 @@ import (
 
 	"glidereach/cmd/glidereach/input"
 	"glidereach/reach"
+	"glidereach/reach/plan"
 	"glidereach/terrain"
 )
 
@@ -95,7 +96,7 @@ by one, each choice taking the one that adds most to what is covered.
 // coverageRun is everything a coverage computation produced.
 type coverageRun struct {
 	setup    *glideSetup
-	ground   ground
+	ground   plan.Ground
 	zone     input.Zone
 	zoneText string
 	altMode  string
@@ -164,7 +165,7 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 			return err
 		}
 	}
-	run := &coverageRun{setup: setup, ground: ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}}
+	run := &coverageRun{setup: setup, ground: plan.Ground{Src: src, Flat: o.terr.ground.Value, Warn: warnOnce(stderr)}}
 	if o.area != "" {
 		reg, err := input.ParseArea(o.area)
 		if err != nil {
@@ -228,8 +229,8 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 	// plus --agl (read from a first window over the zone alone).
 	top := o.alt.Value
 	if o.agl.Given {
-		top = run.ground.flat + o.agl.Value
-		if run.ground.src != nil {
+		top = run.ground.Flat + o.agl.Value
+		if run.ground.Src != nil {
 			l0, _, err := areaWindow(run.ground, minLat, minLon, maxLat, maxLon, 0, flag)
 			if err != nil {
 				return err
@@ -255,40 +256,21 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 	const margin = 300.0 // the least altitudes are computed this far above the highest altitude flown
 	ceiling := math.Min(top+margin, 19500)
 	bottom := 0.0
-	if run.ground.src == nil {
-		bottom = run.ground.flat
+	if run.ground.Src == nil {
+		bottom = run.ground.Flat
 	}
-	var l *terrain.Local
-	var grid *terrain.Grid
-	for pass := 0; pass < 2; pass++ {
-		radius := 0.0
-		for _, w := range run.setup.Winds {
-			tab, err := run.setup.tableFor(w, bottom-60, ceiling+60)
-			if err != nil {
-				return &input.UsageError{Where: "--aircraft", Err: err}
-			}
-			r, err := reach.ReachRadius(tab, ceiling, bottom)
-			if err != nil {
-				return &input.UsageError{Err: err}
-			}
-			radius = math.Max(radius, r)
-		}
-		var err error
-		l, grid, err = areaWindow(run.ground, minLat, minLon, maxLat, maxLon, radius*1.02+1000, flag)
-		if err != nil {
-			return err
-		}
-		lo := lowest(l)
-		if math.IsInf(lo, 1) {
-			return input.Usagef("--terrain", "the terrain around the %s is all voids", flag[2:])
-		}
-		if lo >= bottom-1 {
-			break
-		}
-		bottom = lo
+	l, grid, err := run.setup.SizeWindow(plan.WindowSize{Top: ceiling, TableTop: ceiling + 60, Bottom: bottom, Below: 60},
+		func(radius float64) (*terrain.Local, *terrain.Grid, error) {
+			return areaWindow(run.ground, minLat, minLon, maxLat, maxLon, radius*1.02+1000, flag)
+		})
+	if err != nil {
+		return usage(err)
+	}
+	if math.IsInf(plan.Lowest(l), 1) {
+		return input.Usagef("--terrain", "the terrain around the %s is all voids", flag[2:])
 	}
 	run.grid = grid
-	lo := lowest(l)
+	lo := plan.Lowest(l)
 	if lo >= top {
 		return input.Usagef("--alt", "%.0f m MSL is not above the lowest ground (%.0f m)", top, lo)
 	}
@@ -312,7 +294,7 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 		var rf []routeField
 		var ts []reach.Target
 		for _, f := range fs {
-			te, on := pointElevation(l, grid, f.Lat, f.Lon)
+			te, on := plan.PointElevation(l, grid, f.Lat, f.Lon)
 			r := routeField{Field: f, Elev: te, Target: len(ts)}
 			if f.HasElevation {
 				r.Elev = f.Elevation
@@ -335,7 +317,7 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 	var ts, cs []reach.Target
 	run.fields, ts = toTargets(fields)
 	run.cands, cs = toTargets(cands)
-	tab, err := run.setup.table(lo-60, ceiling+60)
+	tab, err := run.setup.Table(lo-60, ceiling+60)
 	if err != nil {
 		return &input.UsageError{Where: "--aircraft", Err: err}
 	}
@@ -343,7 +325,7 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 	// tables go in as CoverageOptions.Also.
 	var also []reach.LossModel
 	for _, w := range run.setup.Winds[1:] {
-		t, err := run.setup.tableFor(w, lo-60, ceiling+60)
+		t, err := run.setup.TableFor(w, lo-60, ceiling+60)
 		if err != nil {
 			return &input.UsageError{Where: "--aircraft", Err: err}
 		}
@@ -442,7 +424,7 @@ func demoCoverage(ctx context.Context, d *demoRun) error {
 	}
 	o := &coverageOptions{alt: input.NewQuantity(input.Length, demoCoverageAlt), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), pick: 2, area: "demo-area.geojson"}
 	o.alt.Given = true
-	run := &coverageRun{setup: setup, ground: ground{src: sc.src}, zone: reg, zoneText: "area demo-area.geojson (invented)"}
+	run := &coverageRun{setup: setup, ground: plan.Ground{Src: sc.src}, zone: reg, zoneText: "area demo-area.geojson (invented)"}
 	if err := computeCoverage(ctx, run, o, sc.fields, demoCandidates, func(float64) {}); err != nil {
 		return err
 	}

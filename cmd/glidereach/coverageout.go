@@ -24,7 +24,7 @@ func (run *coverageRun) assumptions() []string {
 		fmt.Sprintf("least altitudes computed up to %.0f m MSL (raster empty above)", run.res.Ceiling),
 		fmt.Sprintf("solver grid %d×%d cells of %.0f m (%.4f km² each in its tangent plane; areas are summed with each cell's area on the WGS84 ellipsoid)", l.Cols, l.Rows, l.Cell, run.res.CellArea/1e6),
 		"analysed: "+run.zoneText,
-		"terrain: "+run.ground.describe())
+		"terrain: "+run.ground.Describe())
 	return a
 }
 
@@ -38,7 +38,7 @@ func writeCoverageText(w io.Writer, run *coverageRun) {
 	fmt.Fprintf(w, "Coverage of the %s\n", run.zoneText)
 	fmt.Fprintf(w, "Altitude flown: %s\n", run.altMode)
 	fmt.Fprintf(w, "Aircraft: %s   Wind: %s\n", run.setup.Aircraft.Name, run.setup.WindText)
-	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.describe())
+	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.Describe())
 	fmt.Fprintf(w, "A field is in reach with the %.0f m reserve from %.1f %% of the area (%.1f of %.1f km²).\n",
 		run.setup.Reserve, pctDown(r.CoveredFraction), math.Floor(km2(r.CoveredArea)*10+1e-9)/10, km2(run.zoneArea()))
 	// Covered figures round down, uncovered ones up.
@@ -119,7 +119,7 @@ func coverageJSON(run *coverageRun) ([]byte, error) {
 		"wind":              run.setup.WindText,
 		"reserve_m":         run.setup.Reserve,
 		"clearance_m":       run.setup.Clearance,
-		"terrain":           run.ground.describe(),
+		"terrain":           run.ground.Describe(),
 		"covered_fraction":  fractionDown(r.CoveredFraction),
 		"area_m2":           math.Round(run.zoneArea()),
 		"covered_m2":        math.Round(r.CoveredArea),
@@ -163,7 +163,7 @@ func coverageGeoJSON(run *coverageRun) ([]byte, error) {
 	cov.Properties = map[string]any{"kind": "covered", "caution": reach.Caution, "covered_fraction": fractionDown(r.CoveredFraction),
 		"area_m2": math.Round(r.CoveredArea), "contour_area_m2": math.Round(run.coveredArea),
 		"altitude_flown": run.altMode, "aircraft": run.setup.Aircraft.Name, "wind": run.setup.WindText,
-		"reserve_m": run.setup.Reserve, "clearance_m": run.setup.Clearance, "terrain": run.ground.describe(),
+		"reserve_m": run.setup.Reserve, "clearance_m": run.setup.Clearance, "terrain": run.ground.Describe(),
 		"assumptions": run.assumptions(), "planning_only": true}
 	fc.Append(cov)
 	unc := geojson.NewFeature(multiGeometry(run.uncovered))
@@ -212,7 +212,7 @@ func coverageScene(run *coverageRun) *render.Scene {
 	s := &render.Scene{
 		Title:      fmt.Sprintf("Field coverage at %s - %s", shortCoverageAlt(run), run.setup.Aircraft.Name),
 		Terrain:    displayTerrain(r.Ground, run.ground),
-		DataSource: "terrain: " + run.ground.describe(),
+		DataSource: "terrain: " + run.ground.Describe(),
 		Caution:    reach.Caution,
 		Coverage:   &render.Coverage{Area: run.zonePolygons(), Covered: run.covered, Uncovered: run.uncovered},
 		FieldsFrom: "from the area",
@@ -260,7 +260,7 @@ func drawCoverage(run *coverageRun, mapPath, reportPath string) error {
 	r := run.res
 	rep := &render.Report{
 		Title:    scene.Title,
-		Subtitle: fmt.Sprintf("%s - %s", run.zoneText, run.ground.describe()),
+		Subtitle: fmt.Sprintf("%s - %s", run.zoneText, run.ground.Describe()),
 		Scene:    scene,
 		Caution:  reach.Caution,
 		Summary: []string{

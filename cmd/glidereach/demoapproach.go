@@ -3,6 +3,7 @@ package main
 import (
 	"context"
 	"fmt"
+	"glidereach/reach/plan"
 	"math"
 
 	"glidereach/cmd/glidereach/input"
@@ -42,7 +43,7 @@ func demoApproach(ctx context.Context, d *demoRun) error {
 	ff := newFailureFlags()
 	fs := &failureState{HeadingDeg: demoFailure.heading, IAS: demoFailure.speedKt * input.Knot,
 		Reaction: ff.reaction, Efficiency: ff.efficiency, Bank: ff.bank.Value}
-	run := &approachRun{setup: setup, ground: ground{src: sc.src}, fail: fs, startLat: demoFailure.from[0], startLon: demoFailure.from[1],
+	run := &approachRun{setup: setup, ground: plan.Ground{Src: sc.src}, fail: fs, startLat: demoFailure.from[0], startLon: demoFailure.from[1],
 		startAlt: demoFailure.alt, variation: math.NaN(), units: unitSets["m-kt"]}
 	var best *approachRun
 	for _, f := range sc.fields {

@@ -3,6 +3,7 @@ package main
 import (
 	"context"
 	"fmt"
+	"glidereach/reach/plan"
 	"io"
 	"path/filepath"
 	"sync"
@@ -67,7 +68,7 @@ func demoFootprints(ctx context.Context, d *demoRun) error {
 				fs = &failureState{HeadingDeg: r.heading, IAS: r.speedKt * input.Knot,
 					Reaction: ff.reaction, Efficiency: ff.efficiency, Bank: ff.bank.Value}
 			}
-			runs[i], errs[i] = computeReachFrom(ctx, setup, ground{src: sc.src}, pos, sc.fields, []float64{0, 150}, io.Discard, fs)
+			runs[i], errs[i] = computeReachFrom(ctx, setup, plan.Ground{Src: sc.src}, pos, sc.fields, []float64{0, 150}, io.Discard, fs)
 		}(i, r)
 	}
 	wg.Wait()

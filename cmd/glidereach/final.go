@@ -13,6 +13,7 @@ import (
 	"glidereach/cmd/glidereach/input"
 	"glidereach/reach"
 	"glidereach/reach/geodesy"
+	"glidereach/reach/plan"
 	"glidereach/terrain"
 	"glidereach/wind"
 )
@@ -120,7 +121,7 @@ func parseFinalPoint(s string) (finalPoint, error) {
 // finalRun is everything a final-glide computation produced, for the writers.
 type finalRun struct {
 	setup     *glideSetup
-	ground    ground
+	ground    plan.Ground
 	startLat  float64
 	startLon  float64
 	startElev float64 // ground at the start, m MSL
@@ -230,9 +231,9 @@ func runFinal(ctx context.Context, o *finalOptions, stdout, stderr io.Writer) er
 	if err != nil {
 		return err
 	}
-	run.setup, run.ground = setup, ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}
+	run.setup, run.ground = setup, plan.Ground{Src: src, Flat: o.terr.ground.Value, Warn: warnOnce(stderr)}
 	run.startLat, run.startLon = o.pos.from.Lat, o.pos.from.Lon
-	elev, ok, err := run.ground.elevationAt(run.startLat, run.startLon)
+	elev, ok, err := run.ground.ElevationAt(run.startLat, run.startLon)
 	if err != nil {
 		return &input.UsageError{Where: "--terrain", Err: err}
 	}
@@ -263,7 +264,7 @@ func runFinal(ctx context.Context, o *finalOptions, stdout, stderr io.Writer) er
 		if o.field != "" {
 			flag = "--field"
 		}
-		e, ok, err := run.ground.elevationAt(goal.Lat, goal.Lon)
+		e, ok, err := run.ground.ElevationAt(goal.Lat, goal.Lon)
 		if err != nil {
 			return &input.UsageError{Where: "--terrain", Err: err}
 		}
@@ -280,7 +281,7 @@ func runFinal(ctx context.Context, o *finalOptions, stdout, stderr io.Writer) er
 	if goal.HasElev && src != nil {
 		// A goal elevation far from the DEM's makes the clearance near the
 		// goal meaningless; say so rather than guess which is right.
-		if e, ok, err := run.ground.elevationAt(goal.Lat, goal.Lon); err == nil && ok && math.Abs(e-goal.Elev) > 30 {
+		if e, ok, err := run.ground.ElevationAt(goal.Lat, goal.Lon); err == nil && ok && math.Abs(e-goal.Elev) > 30 {
 			run.goalNote = fmt.Sprintf("the terrain data give %.0f m at the goal, %+.0f m from the %.0f m used", e, e-goal.Elev, goal.Elev)
 		}
 	}
@@ -330,12 +331,12 @@ func finalOutput(run *finalRun, format string) ([]byte, error) {
 func computeFinal(ctx context.Context, run *finalRun, route []geodesy.LatLon, startAlt, goalElev float64, step *input.Quantity) (*reach.FinalGlideResult, error) {
 	s := run.setup
 	opts := reach.FinalGlideOptions{GoalElev: goalElev, Reserve: s.Reserve, Clearance: s.Clearance}
-	if run.ground.src == nil {
-		flat := run.ground.flat
+	if run.ground.Src == nil {
+		flat := run.ground.Flat
 		opts.Terrain = func(lat, lon float64) (float64, bool) { return flat, true }
 		opts.Step = reach.DefaultFinalStep
 	} else {
-		cell := run.ground.src.Resolution()
+		cell := run.ground.Src.Resolution()
 		if !(cell > 0) || math.IsInf(cell, 0) {
 			cell = 30
 		}
@@ -358,11 +359,11 @@ func computeFinal(ctx context.Context, run *finalRun, route []geodesy.LatLon, st
 	// terrain reader (lineTerrain keeps its current window), then judged in
 	// the winds' order, so the result does not depend on the cores.
 	results := make([]*reach.FinalGlideResult, len(winds))
-	err := forEach(ctx, len(winds), 2, func(i int) error {
+	err := plan.ForEach(ctx, len(winds), 2, func(i int) error {
 		o := opts
 		var lt *lineTerrain
-		if run.ground.src != nil {
-			lt = &lineTerrain{src: run.ground.src}
+		if run.ground.Src != nil {
+			lt = &lineTerrain{src: run.ground.Src}
 			o.Terrain = lt.sample
 		}
 		perf := reach.Performance{Aircraft: s.Aircraft, Atm: s.Atm, Wind: winds[i], Cond: s.Cond}
@@ -487,14 +488,14 @@ func demoFinal(ctx context.Context, d *demoRun) error {
 	if err != nil {
 		return err
 	}
-	run := &finalRun{setup: setup, ground: ground{src: sc.src}, startLat: demoFinalRun.from[0], startLon: demoFinalRun.from[1],
+	run := &finalRun{setup: setup, ground: plan.Ground{Src: sc.src}, startLat: demoFinalRun.from[0], startLon: demoFinalRun.from[1],
 		altGiven: true, goalName: f.Name, goalFrom: "terrain"}
-	elev, ok, err := run.ground.elevationAt(run.startLat, run.startLon)
+	elev, ok, err := run.ground.ElevationAt(run.startLat, run.startLon)
 	if err != nil || !ok {
 		return fmt.Errorf("demo final glide: no terrain at the start (%v)", err)
 	}
 	run.startElev = elev
-	goalElev, ok, err := run.ground.elevationAt(f.Lat, f.Lon)
+	goalElev, ok, err := run.ground.ElevationAt(f.Lat, f.Lon)
 	if err != nil || !ok {
 		return fmt.Errorf("demo final glide: no terrain at %s (%v)", f.Name, err)
 	}

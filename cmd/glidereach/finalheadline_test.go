@@ -3,6 +3,7 @@ package main
 import (
 	"context"
 	"encoding/json"
+	"glidereach/reach/plan"
 	"math"
 	"os"
 	"path/filepath"
@@ -124,9 +125,9 @@ func TestFinalBlockedHeadlineMapAndReport(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	run := &finalRun{setup: setup, ground: ground{src: src}, startLat: 0, startLon: -25.04, altGiven: true, goalName: "goal", goalFrom: "terrain"}
-	run.startElev, _, _ = run.ground.elevationAt(0, -25.04)
-	goalElev, _, _ := run.ground.elevationAt(-0.03, -24.96)
+	run := &finalRun{setup: setup, ground: plan.Ground{Src: src}, startLat: 0, startLon: -25.04, altGiven: true, goalName: "goal", goalFrom: "terrain"}
+	run.startElev, _, _ = run.ground.ElevationAt(0, -25.04)
+	goalElev, _, _ := run.ground.ElevationAt(-0.03, -24.96)
 	route := []geodesy.LatLon{{Lat: 0, Lon: -25.04}, {Lat: -0.03, Lon: -24.96}}
 	run.res, err = computeFinal(context.Background(), run, route, 1800, goalElev, newTerrainFlags().ground)
 	if err != nil {

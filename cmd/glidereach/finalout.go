@@ -139,7 +139,7 @@ func writeFinalText(w io.Writer, run *finalRun) {
 		fmt.Fprintln(w, "NOTE:", run.goalNote)
 	}
 	fmt.Fprintf(w, "Aircraft: %s   Wind: %s   MacCready %.1f m/s\n", s.Aircraft.Name, s.WindText, s.Cond.MacCready)
-	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.describe())
+	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.Describe())
 
 	legs := r.Legs
 	if run.fromRequired != nil {
@@ -265,7 +265,7 @@ func clearArrivalAGL(r *reach.FinalGlideResult) (float64, bool) {
 func finalAssumptions(run *finalRun) []string {
 	a := run.setup.assumptions()
 	a = append(a, "each leg flown on its geodesic track at the speed to fly for the MacCready setting, altitude integrated through the wind and density layers",
-		"terrain: "+run.ground.describe())
+		"terrain: "+run.ground.Describe())
 	if run.worstWind != "" {
 		a = append(a, "figures for the wind of the --wind-error set that needs the most altitude: "+run.worstWind)
 	}
@@ -392,7 +392,7 @@ func finalSummary(run *finalRun) map[string]any {
 		"legs":                           legs,
 		"aircraft":                       s.Aircraft.Name,
 		"wind":                           s.WindText,
-		"terrain":                        run.ground.describe(),
+		"terrain":                        run.ground.Describe(),
 		"assumptions":                    finalAssumptions(run),
 	}
 	if run.worstWind != "" {
@@ -547,15 +547,15 @@ func finalScene(run *finalRun) (*render.Scene, error) {
 			radius = math.Max(radius, s)
 		}
 	}
-	l, _, err := run.ground.window(c[1], c[0], radius*1.15+3000)
+	l, _, err := run.ground.Window(c[1], c[0], radius*1.15+3000)
 	if err != nil {
-		return nil, err
+		return nil, usage(err)
 	}
 	s := &render.Scene{
 		Title:      fmt.Sprintf("Final glide to %s - %s", run.goalName, run.setup.Aircraft.Name),
 		Terrain:    displayTerrain(l, run.ground),
 		Bounds:     mapBounds(l, run.ground),
-		DataSource: "terrain: " + run.ground.describe(),
+		DataSource: "terrain: " + run.ground.Describe(),
 		Caution:    reach.Caution,
 	}
 	s.WindLayers, s.WindSource = windMarks(run.setup)
@@ -687,7 +687,7 @@ func drawFinal(run *finalRun, mapPath, reportPath string) error {
 	r := run.res
 	rep := &render.Report{
 		Title:    scene.Title,
-		Subtitle: fmt.Sprintf("From %.5f, %.5f at %.0f m MSL - %s", run.startLat, run.startLon, r.StartAlt, run.ground.describe()),
+		Subtitle: fmt.Sprintf("From %.5f, %.5f at %.0f m MSL - %s", run.startLat, run.startLon, r.StartAlt, run.ground.Describe()),
 		Scene:    scene,
 		Caution:  reach.Caution,
 		Summary:  []string{finalStatusText(run)},

@@ -12,6 +12,7 @@ import (
 	"glidereach/cmd/glidereach/input"
 	"glidereach/cmd/glidereach/render"
 	"glidereach/reach"
+	"glidereach/reach/plan"
 	"glidereach/terrain"
 	"glidereach/wind"
 )
@@ -20,8 +21,8 @@ import (
 // arrival, and least height above terrain en route. An aircraft profile may
 // set its own; a flag overrides both.
 const (
-	defaultReserve   = 300.0
-	defaultClearance = 100.0
+	defaultReserve   = plan.DefaultReserve
+	defaultClearance = plan.DefaultClearance
 )
 
 // Settings below these draw a warning on stderr and in every output's
@@ -63,14 +64,14 @@ type glideFlags struct {
 // highest summit 8849 m; light-aircraft and glider flight stays below
 // 19 km), so a value outside is a typing or unit error.
 const (
-	minAltMSL, maxAltMSL = -400.0, 19000.0 // --alt, m MSL
-	maxAGL               = 10000.0         // --agl, m above the ground
-	minGround, maxGround = -500.0, 9000.0  // --ground and DEM samples at the start, m MSL
-	maxMargin            = 3000.0          // --reserve, --clearance, m
-	maxMass              = 10000.0         // --mass, kg (0 = the profile's)
-	maxVSpeed            = 10.0            // --mc, --air-sink, m/s
-	maxISADev            = 60.0            // --isa-dev, K either side of ISA
-	maxBugs              = 2.0             // --bugs, sink factor 1 + f
+	minAltMSL, maxAltMSL = -400.0, 19000.0                // --alt, m MSL
+	maxAGL               = 10000.0                        // --agl, m above the ground
+	minGround, maxGround = plan.MinGround, plan.MaxGround // --ground and DEM samples at the start, m MSL
+	maxMargin            = 3000.0                         // --reserve, --clearance, m
+	maxMass              = 10000.0                        // --mass, kg (0 = the profile's)
+	maxVSpeed            = 10.0                           // --mc, --air-sink, m/s
+	maxISADev            = 60.0                           // --isa-dev, K either side of ISA
+	maxBugs              = 2.0                            // --bugs, sink factor 1 + f
 )
 
 func newGlideFlags() *glideFlags {
@@ -121,18 +122,12 @@ func (g *glideFlags) flagGiven(flag string) bool {
 	return g.clearance.Given
 }
 
-// glideSetup is the resolved form of glideFlags.
+// glideSetup is the resolved form of glideFlags: the library's
+// plan.Setup (aircraft, conditions, atmosphere, winds, margins) and what the
+// command line says about it.
 type glideSetup struct {
-	Aircraft *reach.Aircraft
-	Cond     reach.Conditions
-	Atm      reach.Atmosphere
-	Wind     *wind.Profile // never nil; calm when no wind was given
-	// Winds are the wind scenarios a conservative result must hold for:
-	// Wind alone, or Wind and its --wind-error perturbations (Wind first).
-	Winds     []*wind.Profile
-	Reserve   float64
-	Clearance float64
-	WindText  string
+	plan.Setup
+	WindText string
 	// WindSource says where the wind came from, for maps: "--wind",
 	// "--wind-aloft (coded forecast)" or "none given: calm", and the
 	// --wind-error set when there is one.
@@ -182,34 +177,15 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 	if w == nil {
 		w = wind.Calm()
 	}
-	s := &glideSetup{Aircraft: ac, Wind: w}
-	s.Cond = reach.Conditions{Mass: g.mass.Value, Bugs: g.bugs.Value, AirSink: g.airSink.Value, MacCready: g.mc.Value}
-	// Check each condition alone so the error names its flag.
-	for _, c := range []struct {
-		flag string
-		cond reach.Conditions
-	}{
-		{"--mass", reach.Conditions{Mass: s.Cond.Mass}},
-		{"--bugs", reach.Conditions{Bugs: s.Cond.Bugs}},
-		{"--air-sink", reach.Conditions{AirSink: s.Cond.AirSink}},
-		{"--mc", reach.Conditions{MacCready: s.Cond.MacCready}},
-	} {
-		if err := c.cond.Validate(); err != nil {
-			return nil, &input.UsageError{Where: c.flag, Err: err}
-		}
-	}
-	if err := ac.Check(s.Cond); err != nil {
-		return nil, &input.UsageError{Where: "--mass", Err: err}
-	}
 	dev := g.isaDev.Value
+	ps, err := plan.NewSetup(ac, reach.Conditions{Mass: g.mass.Value, Bugs: g.bugs.Value, AirSink: g.airSink.Value, MacCready: g.mc.Value}, dev, w, math.NaN(), math.NaN())
+	if err != nil {
+		return nil, usage(err)
+	}
 	if math.Abs(dev) > maxISADev {
 		return nil, input.Usagef("--isa-dev", "%v K is not a plausible deviation from ISA (-60..60)", dev)
 	}
-	s.Atm = reach.Atmosphere{ISADev: dev}
-	if w.HasTemperatures() {
-		s.Atm.Temp = func(h float64) (float64, bool) { return w.Temperature(h, dev) }
-	}
-	s.Reserve, s.Clearance = defaultReserve, defaultClearance
+	s := &glideSetup{Setup: *ps}
 	resFrom, clrFrom := "the default", "the default"
 	if ac.HasReserve || ac.Reserve > 0 {
 		s.Reserve, resFrom = ac.Reserve, "the aircraft profile"
@@ -253,7 +229,7 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 		if err != nil {
 			return nil, input.FlagError("--wind-error", g.windError, err)
 		}
-		s.Winds = wind.Perturb(w, d, sp)
+		s.WithWindError(d, sp)
 		if len(s.Winds) > 1 {
 			s.WindText += fmt.Sprintf(" (±%.0f°, ±%.0f kt: worst of %d winds)", d, sp/input.Knot, len(s.Winds))
 			s.WindSource += fmt.Sprintf("; the figures hold for the worst of %d winds (--wind-error %s), the arrows show the forecast", len(s.Winds), g.windError)
@@ -292,21 +268,6 @@ func minSpeedWarning(ac *reach.Aircraft) string {
 			ac.MinIAS/input.Knot, ac.MinIAS/ac.StallIAS, ac.StallIAS/input.Knot, warnMinSpeed)
 	}
 	return ""
-}
-
-// table builds the speed-to-fly table for altitudes lo..hi (m MSL).
-func (s *glideSetup) table(lo, hi float64) (*reach.Table, error) {
-	return s.tableFor(s.Wind, lo, hi)
-}
-
-// tableFor builds the table in wind w (one of Winds).
-func (s *glideSetup) tableFor(w *wind.Profile, lo, hi float64) (*reach.Table, error) {
-	atm := s.Atm
-	if w.HasTemperatures() {
-		dev := atm.ISADev
-		atm.Temp = func(h float64) (float64, bool) { return w.Temperature(h, dev) }
-	}
-	return reach.NewTable(s.Aircraft, atm, w, s.Cond, math.Max(lo, -4900), math.Min(hi, 19900))
 }
 
 // assumptions lists the inputs a result rests on, for every output.

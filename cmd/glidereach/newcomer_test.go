@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"encoding/xml"
 	"fmt"
+	"glidereach/reach/plan"
 	"io"
 	"math"
 	"os"
@@ -375,7 +376,7 @@ func computeReachForTest(args []string) (*reachRun, error) {
 	if err != nil {
 		return nil, err
 	}
-	return computeReach(context.Background(), setup, ground{src: src, flat: o.terr.ground.Value}, o.pos, nil, nil, io.Discard)
+	return computeReach(context.Background(), setup, plan.Ground{Src: src, Flat: o.terr.ground.Value}, o.pos, nil, nil, io.Discard)
 }
 
 // TestMapTerrainIsTheDEM checks that maps are drawn over the DEM resampled

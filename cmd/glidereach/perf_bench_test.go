@@ -3,6 +3,7 @@ package main
 import (
 	"context"
 	"fmt"
+	"glidereach/reach/plan"
 	"io"
 	"math"
 	"testing"
@@ -18,10 +19,10 @@ func benchmarkDemoReach(b *testing.B, fields []input.Field, windError string) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	benchmarkReach(b, ground{src: sc.src}, fields, windError)
+	benchmarkReach(b, plan.Ground{Src: sc.src}, fields, windError)
 }
 
-func benchmarkReach(b *testing.B, gr ground, fields []input.Field, windError string) {
+func benchmarkReach(b *testing.B, gr plan.Ground, fields []input.Field, windError string) {
 	r := demoFootprintRuns[1]
 	b.ReportAllocs()
 	b.ResetTimer()
@@ -73,5 +74,5 @@ func BenchmarkReach1000FieldsFlat(b *testing.B) {
 		lon := math.Mod(float64(i)*137.50776, 360) - 180
 		fields = append(fields, input.Field{Name: fmt.Sprintf("far %d", i), Lat: lat, Lon: lon})
 	}
-	benchmarkReach(b, ground{}, fields, "")
+	benchmarkReach(b, plan.Ground{}, fields, "")
 }

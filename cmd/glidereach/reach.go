@@ -15,6 +15,7 @@ import (
 	"glidereach/cmd/glidereach/input"
 	"glidereach/reach"
 	"glidereach/reach/geodesy"
+	"glidereach/reach/plan"
 	"glidereach/terrain"
 )
 
@@ -116,7 +117,7 @@ type fieldResult struct {
 // reachRun is everything a reach computation produced, for the writers.
 type reachRun struct {
 	setup      *glideSetup
-	ground     ground
+	ground     plan.Ground
 	startLat   float64
 	startLon   float64
 	startAlt   float64
@@ -178,7 +179,7 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 	if err != nil {
 		return err
 	}
-	run, err := computeReachFrom(ctx, setup, ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}, o.pos, fields, extra, stderr, fstate)
+	run, err := computeReachFrom(ctx, setup, plan.Ground{Src: src, Flat: o.terr.ground.Value, Warn: warnOnce(stderr)}, o.pos, fields, extra, stderr, fstate)
 	if err != nil {
 		return err
 	}
@@ -196,15 +197,15 @@ func runReach(ctx context.Context, o *reachOptions, stdout, stderr io.Writer) er
 }
 
 // computeReach runs the footprint and judges the fields.
-func computeReach(ctx context.Context, setup *glideSetup, gr ground, pos *positionFlags, fields []input.Field, extraLevels []float64, stderr io.Writer) (*reachRun, error) {
+func computeReach(ctx context.Context, setup *glideSetup, gr plan.Ground, pos *positionFlags, fields []input.Field, extraLevels []float64, stderr io.Writer) (*reachRun, error) {
 	return computeReachFrom(ctx, setup, gr, pos, fields, extraLevels, stderr, nil)
 }
 
 // computeReachFrom is computeReach from an engine failure's state (nil:
 // already gliding at the speed to fly, as computeReach).
-func computeReachFrom(ctx context.Context, setup *glideSetup, gr ground, pos *positionFlags, fields []input.Field, extraLevels []float64, stderr io.Writer, fstate *failureState) (*reachRun, error) {
+func computeReachFrom(ctx context.Context, setup *glideSetup, gr plan.Ground, pos *positionFlags, fields []input.Field, extraLevels []float64, stderr io.Writer, fstate *failureState) (*reachRun, error) {
 	lat, lon := pos.from.Lat, pos.from.Lon
-	elev, ok, err := gr.elevationAt(lat, lon)
+	elev, ok, err := gr.ElevationAt(lat, lon)
 	if err != nil {
 		return nil, &input.UsageError{Where: "--terrain", Err: err}
 	}
@@ -243,34 +244,15 @@ func computeReachFrom(ctx context.Context, setup *glideSetup, gr ground, pos *po
 
 	// Size the window from the best downwind glide down to the lowest ground
 	// it meets (a first guess below the start's ground, then corrected).
-	bottom := math.Min(elev-300, 0)
-	var l *terrain.Local
-	var grid *terrain.Grid
-	for pass := 0; pass < 2; pass++ {
-		radius := 0.0
-		for _, w := range setup.Winds {
-			tab, err := setup.tableFor(w, bottom-50, alt+50+topExtra)
-			if err != nil {
-				return nil, &input.UsageError{Where: "--aircraft", Err: err}
-			}
-			r, err := reach.ReachRadius(tab, alt+topExtra, bottom)
-			if err != nil {
-				return nil, &input.UsageError{Err: err}
-			}
-			radius = math.Max(radius, r)
-		}
-		l, grid, err = gr.window(lat, lon, radius*1.02+1000+pad)
-		if err != nil {
-			return nil, err
-		}
-		lo := lowest(l)
-		if math.IsInf(lo, 1) || lo >= bottom-1 {
-			break
-		}
-		bottom = lo
+	l, grid, err := setup.SizeWindow(plan.WindowSize{Top: alt + topExtra, TableTop: alt + 50 + topExtra, Bottom: math.Min(elev-300, 0), Below: 50},
+		func(radius float64) (*terrain.Local, *terrain.Grid, error) {
+			return gr.Window(lat, lon, radius*1.02+1000+pad)
+		})
+	if err != nil {
+		return nil, usage(err)
 	}
 	run.grid = grid
-	lo := lowest(l)
+	lo := plan.Lowest(l)
 	if math.IsInf(lo, 1) {
 		return nil, input.Usagef("--terrain", "the terrain around the start is all voids")
 	}
@@ -285,8 +267,8 @@ func computeReachFrom(ctx context.Context, setup *glideSetup, gr ground, pos *po
 	members := make([]*reach.FootprintResult, len(setup.Winds))
 	shares := make([]float64, len(setup.Winds))
 	var shareMu sync.Mutex
-	err = forEach(ctx, len(setup.Winds), 2, func(k int) error {
-		tab, err := setup.tableFor(setup.Winds[k], lo+math.Min(minLevel, 0)-260, alt+60+topExtra)
+	err = plan.ForEach(ctx, len(setup.Winds), 2, func(k int) error {
+		tab, err := setup.TableFor(setup.Winds[k], lo+math.Min(minLevel, 0)-260, alt+60+topExtra)
 		if err != nil {
 			return &input.UsageError{Where: "--aircraft", Err: err}
 		}
@@ -364,7 +346,7 @@ func computeReachFrom(ctx context.Context, setup *glideSetup, gr ground, pos *po
 	}
 	// One table per wind for every field: from the lowest ground of the
 	// window or field to the highest ceiling.
-	flo, fhi := lowest(l), math.Inf(-1)
+	flo, fhi := plan.Lowest(l), math.Inf(-1)
 	for _, j := range jobs {
 		if j != nil {
 			flo, fhi = math.Min(flo, j.target.Elev), math.Max(fhi, j.ceiling)
@@ -483,14 +465,14 @@ func prepareField(run *reachRun, f input.Field, l *terrain.Local) (fieldResult, 
 	if err == nil {
 		fr.DistanceM, fr.BearingDeg = s, math.Mod(az+360, 360)
 	}
-	te, onWindow := pointElevation(l, run.grid, f.Lat, f.Lon)
+	te, onWindow := plan.PointElevation(l, run.grid, f.Lat, f.Lon)
 	switch {
 	case f.HasElevation:
 		fr.ElevationM = f.Elevation
 	case onWindow:
 		fr.ElevationM = te
 	default:
-		e, ok, err := run.ground.elevationAt(f.Lat, f.Lon)
+		e, ok, err := run.ground.ElevationAt(f.Lat, f.Lon)
 		if err != nil {
 			return fr, nil, &input.UsageError{Where: "--terrain", Err: err}
 		}
@@ -568,14 +550,14 @@ func placeField(run *reachRun, l *terrain.Local, fr *fieldResult, j *fieldJob, b
 	j.win = l
 	if !j.onWindow {
 		midLat, midLon := (j.fromLat+j.target.Lat)/2, (j.fromLon+j.target.Lon)/2
-		w, _, err := run.ground.window(midLat, midLon, j.dist/2*1.3+2000)
+		w, _, err := run.ground.Window(midLat, midLon, j.dist/2*1.3+2000)
 		if err != nil {
-			fr.Note = "required altitude not computed: " + err.Error()
+			fr.Note = "required altitude not computed: " + usage(err).Error()
 			return false, nil
 		}
 		j.win = w
 	}
-	j.lo = math.Min(lowest(j.win), j.target.Elev)
+	j.lo = math.Min(plan.Lowest(j.win), j.target.Elev)
 	return true, nil
 }
 
@@ -606,7 +588,7 @@ func judgeFields(ctx context.Context, run *reachRun, l *terrain.Local, jobs []*f
 			return err
 		}
 	}
-	return forEach(ctx, len(work), 2, func(w int) error {
+	return plan.ForEach(ctx, len(work), 2, func(w int) error {
 		j, k := jobs[work[w].f], work[w].k
 		tab := tabs[k]
 		r, rok, err := reach.RequiredFrom(ctx, j.win, j.target, tab,
@@ -633,56 +615,8 @@ func judgeFields(ctx context.Context, run *reachRun, l *terrain.Local, jobs []*f
 // fieldTables builds the speed-to-fly table of every wind over lo..hi (m
 // MSL), two at a time.
 func fieldTables(ctx context.Context, run *reachRun, lo, hi float64) ([]*reach.Table, error) {
-	tabs := make([]*reach.Table, len(run.setup.Winds))
-	err := forEach(ctx, len(tabs), 2, func(k int) error {
-		t, err := run.setup.tableFor(run.setup.Winds[k], lo, hi)
-		if err != nil {
-			return &input.UsageError{Where: "--aircraft", Err: err}
-		}
-		tabs[k] = t
-		return nil
-	})
-	return tabs, err
-}
-
-// forEach runs fn(k) for k in 0..n−1 on at most w goroutines and returns
-// the first error (by index, so the same error whatever the timing); it
-// stops handing out work after an error or when ctx is done.
-func forEach(ctx context.Context, n, w int, fn func(k int) error) error {
-	errs := make([]error, n)
-	next := make(chan int)
-	var wg sync.WaitGroup
-	var failed sync.Once
-	stop := make(chan struct{})
-	for g := 0; g < min(w, n); g++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for k := range next {
-				if errs[k] = fn(k); errs[k] != nil {
-					failed.Do(func() { close(stop) })
-				}
-			}
-		}()
-	}
-loop:
-	for k := 0; k < n; k++ {
-		select {
-		case next <- k:
-		case <-stop:
-			break loop
-		case <-ctx.Done():
-			break loop
-		}
-	}
-	close(next)
-	wg.Wait()
-	for _, err := range errs {
-		if err != nil {
-			return err
-		}
-	}
-	return ctx.Err()
+	tabs, err := run.setup.Tables(ctx, lo, hi)
+	return tabs, usage(err)
 }
 
 // reconcile makes the required altitude r of wind k agree with the forward

@@ -17,6 +17,7 @@ import (
 	"glidereach/cmd/glidereach/input"
 	"glidereach/cmd/glidereach/render"
 	"glidereach/reach"
+	"glidereach/reach/plan"
 	"glidereach/terrain"
 )
 
@@ -117,7 +118,7 @@ func startProps(run *reachRun) map[string]any {
 		"wind":                 run.setup.WindText,
 		"reserve_m":            run.setup.Reserve,
 		"clearance_m":          run.setup.Clearance,
-		"terrain":              run.ground.describe(),
+		"terrain":              run.ground.Describe(),
 		"farthest_m":           num(run.farthest),
 		"farthest_bearing_deg": num(run.farBearing),
 		"farthest_lat":         farCoord(run, 1),
@@ -162,7 +163,7 @@ func reachJSON(run *reachRun) ([]byte, error) {
 		"wind":                 run.setup.WindText,
 		"reserve_m":            run.setup.Reserve,
 		"clearance_m":          run.setup.Clearance,
-		"terrain":              run.ground.describe(),
+		"terrain":              run.ground.Describe(),
 		"levels":               lv,
 		"farthest_m":           num(run.farthest),
 		"farthest_bearing_deg": num(run.farBearing),
@@ -201,7 +202,7 @@ func writeReachText(w io.Writer, run *reachRun) {
 	fmt.Fprintf(w, "Reach from %.5f, %.5f at %.0f m MSL (%.0f m above the ground, %.0f ft)\n",
 		run.startLat, run.startLon, run.startAlt, run.startAlt-run.startElev, run.startAlt/0.3048)
 	fmt.Fprintf(w, "Aircraft: %s   Wind: %s\n", run.setup.Aircraft.Name, run.setup.WindText)
-	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.describe())
+	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.Describe())
 	for _, lv := range run.levels {
 		tag := ""
 		switch {
@@ -341,7 +342,7 @@ func reachScene(run *reachRun) *render.Scene {
 	s := &render.Scene{
 		Title:      fmt.Sprintf("Glide reach from %.0f m MSL - %s", run.startAlt, run.setup.Aircraft.Name),
 		Terrain:    displayTerrain(run.res.Ground, run.ground),
-		DataSource: "terrain: " + run.ground.describe(),
+		DataSource: "terrain: " + run.ground.Describe(),
 		Caution:    reach.Caution,
 		FieldsFrom: "from the start",
 	}
@@ -391,7 +392,7 @@ func drawReach(run *reachRun, mapPath, reportPath string) error {
 	if reportPath != "" {
 		rep := &render.Report{
 			Title:    scene.Title,
-			Subtitle: fmt.Sprintf("Start %.5f, %.5f - %s", run.startLat, run.startLon, run.ground.describe()),
+			Subtitle: fmt.Sprintf("Start %.5f, %.5f - %s", run.startLat, run.startLon, run.ground.Describe()),
 			Scene:    scene,
 			MapPNG:   pngData,
 			Caution:  reach.Caution,
@@ -433,12 +434,12 @@ func rowsOf(lines []string) [][]string {
 // mapBounds is the part of the window that has terrain data: the map need
 // not show the empty margin beyond a DEM's edge. Empty (the whole window)
 // on flat ground.
-func mapBounds(l *terrain.Local, gr ground) orb.Bound {
-	if gr.src == nil {
+func mapBounds(l *terrain.Local, gr plan.Ground) orb.Bound {
+	if gr.Src == nil {
 		return orb.Bound{}
 	}
 	w, s, e, n := terrain.LocalExtent(l.Frame, l.X0, l.Y0, l.Cell, l.Cols, l.Rows)
-	dw, ds, de, dn := gr.src.Extent()
+	dw, ds, de, dn := gr.Src.Extent()
 	b := orb.Bound{Min: orb.Point{math.Max(w, dw), math.Max(s, ds)}, Max: orb.Point{math.Min(e, de), math.Min(n, dn)}}
 	if b.Min[0] >= b.Max[0] || b.Min[1] >= b.Max[1] {
 		return orb.Bound{}

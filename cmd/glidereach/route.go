@@ -7,12 +7,14 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strings"
 
 	"github.com/paulmach/orb"
 	"github.com/spf13/cobra"
 
 	"glidereach/cmd/glidereach/input"
 	"glidereach/reach"
+	"glidereach/reach/plan"
 	"glidereach/terrain"
 	"glidereach/wind"
 )
@@ -22,14 +24,10 @@ func init() {
 	registerDemoStep(40, "forced-landing gaps along the demo route", demoRoute)
 }
 
-// Route and area windows. The least-altitude raster is computed on one Local
-// covering the route's (or area's) bounding box plus the reach radius; it is
-// kept under maxAreaCells cells by coarsening the cell. Flat ground needs
-// no detail (the solver is exact there) and gets at most flatAreaCells.
+// Route windows: the least-altitude raster is computed on one Local
+// covering the route's bounding box plus the reach radius
+// (plan.Ground.AreaWindow).
 const (
-	maxAreaCells  = 2001 * 2001
-	flatAreaCells = 1000 * 1000
-	minFlatCell   = 25.0 // m
 	// routeSearchAbove is how far above the highest planned altitude the
 	// least altitudes are searched (m), so that the altitude that closes
 	// a gap is found when it is up to that much higher.
@@ -107,7 +105,7 @@ reserve; a margin of +200 m arrives with about reserve + 200 m.
 // routeRun is everything a route computation produced, for the writers.
 type routeRun struct {
 	setup     *glideSetup
-	ground    ground
+	ground    plan.Ground
 	file      string
 	name      string
 	step      float64
@@ -190,7 +188,7 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 			fmt.Fprintln(stderr, "glidereach: warning:", w)
 		}
 	}
-	run := &routeRun{setup: setup, ground: ground{src: src, flat: o.terr.ground.Value, warn: warnOnce(stderr)}, file: o.route, name: rt.Name, step: o.step.Value, fail: fstate}
+	run := &routeRun{setup: setup, ground: plan.Ground{Src: src, Flat: o.terr.ground.Value, Warn: warnOnce(stderr)}, file: o.route, name: rt.Name, step: o.step.Value, fail: fstate}
 	prog := newProgress(stderr, "route")
 	err = computeRoute(ctx, run, rt, fields, o, prog.set)
 	prog.done()
@@ -226,12 +224,12 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 		return &input.UsageError{Where: run.file, Err: err}
 	}
 	var dem *terrain.Grid // DEM around the route, for --agl
-	if o.agl.Given && run.ground.src != nil {
+	if o.agl.Given && run.ground.Src != nil {
 		b := boundsOfSamples(samples)
-		dem, err = run.ground.src.Window(b[0]-0.01, b[1]-0.01, b[2]+0.01, b[3]+0.01)
+		dem, err = run.ground.Src.Window(b[0]-0.01, b[1]-0.01, b[2]+0.01, b[3]+0.01)
 		if err != nil {
 			if errors.Is(err, terrain.ErrOutside) {
-				return input.Usagef("--route", "the route lies outside the terrain data (%s)", run.ground.describe())
+				return input.Usagef("--route", "the route lies outside the terrain data (%s)", run.ground.Describe())
 			}
 			return &input.UsageError{Where: "--terrain", Err: err}
 		}
@@ -243,7 +241,7 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 		case o.alt.Given:
 			p.Alt = o.alt.Value
 		case o.agl.Given:
-			e := run.ground.flat
+			e := run.ground.Flat
 			if dem != nil {
 				v, ok := dem.Elevation(s.Lat, s.Lon)
 				if !ok {
@@ -296,13 +294,13 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 		return input.Usagef("--route", "%s crosses the antimeridian, which is not supported", run.file)
 	}
 	bottom := 0.0
-	if run.ground.src == nil {
-		bottom = run.ground.flat
+	if run.ground.Src == nil {
+		bottom = run.ground.Flat
 	}
 	var l *terrain.Local
 	var grid *terrain.Grid
 	for pass := 0; pass < 2; pass++ {
-		tab, err := run.setup.table(bottom-60, run.ceiling+60)
+		tab, err := run.setup.Table(bottom-60, run.ceiling+60)
 		if err != nil {
 			return &input.UsageError{Where: "--aircraft", Err: err}
 		}
@@ -314,7 +312,7 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 		if err != nil {
 			return err
 		}
-		lo := lowest(l)
+		lo := plan.Lowest(l)
 		if math.IsInf(lo, 1) {
 			return input.Usagef("--terrain", "the terrain around the route is all voids")
 		}
@@ -323,12 +321,12 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 		}
 		bottom = lo
 	}
-	lo := lowest(l)
+	lo := plan.Lowest(l)
 
 	// Fields.
 	for _, f := range fields {
 		rf := routeField{Field: f, Target: -1, Elev: math.NaN()}
-		te, on := pointElevation(l, grid, f.Lat, f.Lon)
+		te, on := plan.PointElevation(l, grid, f.Lat, f.Lon)
 		switch {
 		case !on:
 			rf.Note = "beyond the computed window (too far from the route to matter) or on unknown ground"
@@ -366,7 +364,7 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 		winds = nil
 	}
 	for k, w := range winds {
-		tab, err := run.setup.tableFor(w, lo-60, run.ceiling+60)
+		tab, err := run.setup.TableFor(w, lo-60, run.ceiling+60)
 		if err != nil {
 			return &input.UsageError{Where: "--aircraft", Err: err}
 		}
@@ -433,7 +431,7 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 func sameFieldRequired(ctx context.Context, run *routeRun, l *terrain.Local, lo float64, winds []*wind.Profile, progress func(float64)) (*reach.RequiredResult, error) {
 	models := make([]reach.LossModel, 0, len(winds))
 	for _, w := range winds {
-		tab, err := run.setup.tableFor(w, lo-60, run.ceiling+60)
+		tab, err := run.setup.TableFor(w, lo-60, run.ceiling+60)
 		if err != nil {
 			return nil, &input.UsageError{Where: "--aircraft", Err: err}
 		}
@@ -493,64 +491,12 @@ func boundsOfSamples(s []input.RouteSample) [4]float64 {
 	return b
 }
 
-// areaWindow returns a Local on a frame centred on the lat/lon box, covering
-// the box plus margin metres on every side: resampled from the DEM at its
-// resolution, coarsened to keep under maxAreaCells cells, or flat (at most
-// flatAreaCells cells, cells of at least minFlatCell). The DEM Grid read is
-// returned too (nil for flat ground). flag names the input the box came from
-// in errors.
-func areaWindow(g ground, minLat, minLon, maxLat, maxLon, margin float64, flag string) (*terrain.Local, *terrain.Grid, error) {
-	f := terrain.NewFrame((minLat+maxLat)/2, (minLon+maxLon)/2)
-	x0, y0, x1, y1 := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
-	corners := [][2]float64{{minLat, minLon}, {minLat, maxLon}, {maxLat, minLon}, {maxLat, maxLon}, {minLat, (minLon + maxLon) / 2}, {maxLat, (minLon + maxLon) / 2}}
-	// Far corners would fold back onto the plane (orthographic): measure
-	// them on the sphere first.
-	for _, ll := range corners {
-		if d := arcDistance(f.Lat0, f.Lon0, ll[0], ll[1]); d > maxPlaneRadius {
-			return nil, nil, input.Usagef(flag, "the %s spans %.0f km from its centre, more than the %.0f km one local plane represents within 0.31 %%; split the area (an area across the antimeridian cannot be analysed in one piece)", flag[2:], d/1000, maxPlaneRadius/1000)
-		}
-	}
-	for _, ll := range corners {
-		x, y := f.Forward(ll[0], ll[1])
-		x0, x1 = math.Min(x0, x), math.Max(x1, x)
-		y0, y1 = math.Min(y0, y), math.Max(y1, y)
-	}
-	x0, y0, x1, y1 = x0-margin, y0-margin, x1+margin, y1+margin
-	if err := checkPlane(flag, f, x0, y0, x1, y1); err != nil {
-		return nil, nil, err
-	}
-	w, h := x1-x0, y1-y0
-	cell, capCells := minFlatCell, float64(flatAreaCells)
-	if g.src != nil {
-		cell, capCells = g.src.Resolution(), float64(maxAreaCells)
-		if !(cell > 0) {
-			cell = 30
-		}
-	}
-	if (w/cell+1)*(h/cell+1) > capCells {
-		cell = math.Sqrt(w*h/capCells) * 1.01
-		for (math.Ceil(w/cell)+1)*(math.Ceil(h/cell)+1) > capCells {
-			cell *= 1.01
-		}
-	}
-	cols, rows := int(math.Ceil(w/cell))+1, int(math.Ceil(h/cell))+1
-	if g.src == nil {
-		l := terrain.NewFlat(f, x0, y0, cell, cols, rows, g.flat)
-		l.Source = g.describe()
-		return l, nil, nil
-	}
-	ww, s, e, n := terrain.LocalExtent(f, x0, y0, cell, cols, rows)
-	grid, err := g.src.Window(ww, s, e, n)
-	if err != nil {
-		if errors.Is(err, terrain.ErrOutside) {
-			return nil, nil, input.Usagef(flag, "lies outside the terrain data (%s)", g.src.Describe())
-		}
-		return nil, nil, &input.UsageError{Where: "--terrain", Err: err}
-	}
-	// Obstacle surface: the highest DEM sample per cell (see ground.window).
-	l := terrain.ResampleHigh(grid, f, x0, y0, cell, cols, rows)
-	l.Source = g.src.Describe()
-	return l, grid, nil
+// areaWindow is plan.Ground.AreaWindow with its errors in the command's
+// words, naming flag ("--route", "--area", "--box", "--corridor").
+func areaWindow(g plan.Ground, minLat, minLon, maxLat, maxLon, margin float64, flag string) (*terrain.Local, *terrain.Grid, error) {
+	field := strings.ToUpper(flag[2:3]) + flag[3:]
+	l, grid, err := g.AreaWindow(minLat, minLon, maxLat, maxLon, margin, field)
+	return l, grid, usage(err)
 }
 
 // demoRouteAlt is the planned altitude of the demo route (m MSL): high
@@ -581,7 +527,7 @@ func demoRoute(ctx context.Context, d *demoRun) error {
 	}
 	o := &routeOptions{alt: input.NewQuantity(input.Length, demoRouteAlt), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), step: input.NewQuantity(input.Length, 250)}
 	o.alt.Given = true
-	run := &routeRun{setup: setup, ground: ground{src: sc.src}, file: "demo-route.gpx", name: rt.Name, step: o.step.Value}
+	run := &routeRun{setup: setup, ground: plan.Ground{Src: sc.src}, file: "demo-route.gpx", name: rt.Name, step: o.step.Value}
 	if err := computeRoute(ctx, run, rt, sc.fields, o, nil); err != nil {
 		return err
 	}

@@ -35,7 +35,7 @@ func (run *routeRun) assumptions() []string {
 		fmt.Sprintf("route sampled every %.0f m; gap ends interpolated between samples where the margin changes sign", run.step),
 		fmt.Sprintf("least altitudes searched up to %.0f m MSL; a gap not closed below that shows no closing altitude", run.ceiling),
 		fmt.Sprintf("solver grid %d×%d cells of %.0f m", run.res.Ground.Cols, run.res.Ground.Rows, run.res.Ground.Cell),
-		"terrain: "+run.ground.describe())
+		"terrain: "+run.ground.Describe())
 	return a
 }
 
@@ -57,7 +57,7 @@ func writeRouteText(w io.Writer, run *routeRun) {
 	fmt.Fprintf(w, "Route %q (%s): %.1f km (%.1f nm), %d points every %.0f m\n", name, run.file, p.Length/1000, p.Length/1852, len(p.Samples), run.step)
 	fmt.Fprintf(w, "Planned altitude: %s\n", run.altMode)
 	fmt.Fprintf(w, "Aircraft: %s   Wind: %s\n", run.setup.Aircraft.Name, run.setup.WindText)
-	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.describe())
+	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.Describe())
 	fmt.Fprintf(w, "A field is in reach with the %.0f m reserve along %.1f %% of the route (%.1f of %.1f km).\n",
 		run.setup.Reserve, pctDown(p.CoveredFraction), math.Floor(p.CoveredFraction*p.Length/100+1e-9)/10, p.Length/1000)
 	if len(p.Gaps) == 0 {
@@ -167,7 +167,7 @@ func routeJSON(run *routeRun) ([]byte, error) {
 		"wind":              run.setup.WindText,
 		"reserve_m":         run.setup.Reserve,
 		"clearance_m":       run.setup.Clearance,
-		"terrain":           run.ground.describe(),
+		"terrain":           run.ground.Describe(),
 		"searched_to_msl_m": num(run.ceiling),
 		"covered_fraction":  fractionDown(p.CoveredFraction),
 		"gaps":              gaps,
@@ -284,7 +284,7 @@ func routeGeoJSON(run *routeRun) ([]byte, error) {
 	st.Properties = map[string]any{
 		"kind": "route_start", "caution": reach.Caution, "name": run.name, "covered_fraction": fractionDown(p.CoveredFraction),
 		"length_m": num(p.Length), "gaps": len(p.Gaps), "aircraft": run.setup.Aircraft.Name, "wind": run.setup.WindText,
-		"reserve_m": run.setup.Reserve, "clearance_m": run.setup.Clearance, "terrain": run.ground.describe(),
+		"reserve_m": run.setup.Reserve, "clearance_m": run.setup.Clearance, "terrain": run.ground.Describe(),
 		"planned_altitude": run.altMode, "margin_note": marginNote, "assumptions": run.assumptions(), "planning_only": true,
 	}
 	fc.Append(st)
@@ -329,7 +329,7 @@ func routeScene(run *routeRun) *render.Scene {
 	s := &render.Scene{
 		Title:      fmt.Sprintf("Landing options along %s - %s", orDefault(run.name, "the route"), run.setup.Aircraft.Name),
 		Terrain:    displayTerrain(run.res.Ground, run.ground),
-		DataSource: "terrain: " + run.ground.describe(),
+		DataSource: "terrain: " + run.ground.Describe(),
 		Caution:    reach.Caution,
 		FieldsFrom: "from the route (planned altitude)",
 	}
@@ -405,7 +405,7 @@ func drawRoute(run *routeRun, mapPath, reportPath string) error {
 	p := run.prof
 	rep := &render.Report{
 		Title:    scene.Title,
-		Subtitle: fmt.Sprintf("%s - %.1f km, planned %s - %s", run.file, p.Length/1000, shortAltMode(run), run.ground.describe()),
+		Subtitle: fmt.Sprintf("%s - %.1f km, planned %s - %s", run.file, p.Length/1000, shortAltMode(run), run.ground.Describe()),
 		Scene:    scene,
 		Caution:  reach.Caution,
 		Summary: []string{

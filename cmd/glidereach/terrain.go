@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"glidereach/reach/plan"
 	"io"
 	"math"
 	"strconv"
@@ -198,7 +199,7 @@ func terrainSummary(opts terrain.OpenOptions, fill int, paths []string, at *inpu
 	rep.Warnings = []string{}
 	if lo, hi, ok := g.ElevationRange(); ok && !math.IsInf(lo, 0) && !math.IsInf(hi, 0) {
 		rep.MinM, rep.MaxM = &lo, &hi
-		if w := implausibleElevations(lo, hi); w != "" {
+		if w := plan.ImplausibleElevations(lo, hi); w != "" {
 			rep.Warnings = append(rep.Warnings, w)
 		}
 	}
@@ -216,26 +217,6 @@ func terrainSummary(opts terrain.OpenOptions, fill int, paths []string, at *inpu
 		}
 	}
 	return rep, nil
-}
-
-// Land on Earth lies between about −430 m (the Dead Sea shore) and 8849 m
-// (the highest summit); both figures from memory, widened to round numbers.
-const (
-	plausibleLowM  = -500
-	plausibleHighM = 9000
-)
-
-// implausibleElevations returns a warning when lo..hi (m) goes beyond the
-// elevations of land: sea-floor data, or a no-data value the file does not
-// declare (−32768, −9999, …) or samples misread. Such cells count as ground,
-// not voids, so the user must know.
-func implausibleElevations(lo, hi float64) string {
-	if lo >= plausibleLowM && hi <= plausibleHighM {
-		return ""
-	}
-	return fmt.Sprintf("elevations go beyond %d..%d m, the range of land: unless this is sea-floor data, "+
-		"the file may hold a no-data value it does not declare (such as -32768 or -9999) or be misread; "+
-		"those cells are taken as ground, not as voids", plausibleLowM, plausibleHighM)
 }
 
 // inside reports whether lat, lon lies within the grid's cells, in the
