@@ -11,6 +11,8 @@ import (
 	"sync/atomic"
 	"testing"
 
+	"github.com/paulmach/orb"
+
 	"glidereach/reach"
 	"glidereach/terrain"
 	"glidereach/wind"
@@ -191,6 +193,40 @@ func TestTiledMatchesSingleGrid(t *testing.T) {
 			t.Fatalf("cell %d: %v with 64-cell tiles, %v in one tile", i, tiled[i], one[i])
 		}
 	}
+	// The outputs do not see the tiling: the same COG bytes, the same
+	// polygons, vertex for vertex.
+	var cog64, cog1 bytes.Buffer
+	if err := WriteCOG(&cog64, p, res, "test"); err != nil {
+		t.Fatal(err)
+	}
+	if err := WriteCOG(&cog1, p1, res1, "test"); err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(cog64.Bytes(), cog1.Bytes()) {
+		t.Error("the COG of 64-cell tiles differs from that of one tile")
+	}
+	cov64, unc64, ca64, ua64, err := Contour(p, res)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cov1, unc1, ca1, ua1, err := Contour(p1, res1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !orb.Equal(cov64, cov1) || !orb.Equal(unc64, unc1) || ca64 != ca1 || ua64 != ua1 {
+		t.Errorf("polygons differ: 64-cell tiles %d covered / %d uncovered parts, one tile %d / %d", len(cov64), len(unc64), len(cov1), len(unc1))
+	}
+	// The contoured areas and the counted cells agree (two paths to the
+	// same area): covered + uncovered is the zone, within a cell row
+	// around the edge (the contour runs between cell centres).
+	zoneArea := res.Totals.ZoneArea
+	t.Logf("contoured covered %.4g m², uncovered %.4g m², counted covered %.4g of %.4g m²", ca64, ua64, res.Totals.CoveredArea, zoneArea)
+	if d := math.Abs(ca64 - res.Totals.CoveredArea); d > 0.02*res.Totals.CoveredArea {
+		t.Errorf("contoured covered area %.4g m², counted %.4g m²", ca64, res.Totals.CoveredArea)
+	}
+	if d := math.Abs(ca64 + ua64 - zoneArea); d > 0.02*zoneArea {
+		t.Errorf("contoured covered + uncovered %.4g m², zone %.4g m²", ca64+ua64, zoneArea)
+	}
 	if res.Totals.CoveredArea != res1.Totals.CoveredArea && math.Abs(res.Totals.CoveredArea-res1.Totals.CoveredArea) > 1e-9*res1.Totals.CoveredArea {
 		t.Errorf("covered %.9g m² with 64-cell tiles, %.9g in one tile", res.Totals.CoveredArea, res1.Totals.CoveredArea)
 	}
@@ -331,6 +367,16 @@ func TestResumeAndWorkersByteIdentical(t *testing.T) {
 		if !bytes.Equal(b, want[i]) {
 			t.Fatalf("tile %d differs after a resume", i)
 		}
+	}
+	var a, b bytes.Buffer
+	if err := WriteCOG(&a, p, serial, ""); err != nil {
+		t.Fatal(err)
+	}
+	if err := WriteCOG(&b, p, res, ""); err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(a.Bytes(), b.Bytes()) {
+		t.Error("the COG after a resume differs from the serial run's")
 	}
 	if res.Totals.CoveredArea != serial.Totals.CoveredArea {
 		t.Errorf("covered %v after resume, %v serial", res.Totals.CoveredArea, serial.Totals.CoveredArea)
