@@ -96,6 +96,13 @@ func DecodeTileResult(data []byte) (*TileResult, error) {
 		(t.Flown != nil && len(t.Flown) != n) || (t.Mask != nil && len(t.Mask) != (n+7)/8) || len(t.BlockAreas) != bc*br {
 		return nil, fmt.Errorf("tiling: tile result %v has arrays that do not match its %d×%d cells", t.Tile, t.Cols, t.Rows)
 	}
+	for _, g := range t.Gains {
+		for _, i := range g.Cells {
+			if i < 0 || int(i) >= n {
+				return nil, fmt.Errorf("tiling: tile result %v names cell %d of %d", t.Tile, i, n)
+			}
+		}
+	}
 	return &t, nil
 }
 
