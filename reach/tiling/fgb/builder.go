@@ -150,7 +150,10 @@ func (b *builder) refVec(offs []int) int {
 // end.
 func (b *builder) start() { b.fields = b.fields[:0]; b.tstart = b.off() }
 
-func (b *builder) fieldU8(id int, v uint8) { b.u8(v); b.fields = append(b.fields, fieldOff{id, b.off()}) }
+func (b *builder) fieldU8(id int, v uint8) {
+	b.u8(v)
+	b.fields = append(b.fields, fieldOff{id, b.off()})
+}
 func (b *builder) fieldU16(id int, v uint16) {
 	b.u16(v)
 	b.fields = append(b.fields, fieldOff{id, b.off()})
