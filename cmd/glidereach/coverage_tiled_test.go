@@ -137,3 +137,56 @@ func TestCoverageTiledBadValues(t *testing.T) {
 		t.Errorf("files left behind: %v", ents)
 	}
 }
+
+func TestCoverageTiledCandidatesAndWindError(t *testing.T) {
+	// Candidates: the tiled ranking and greedy choice agree with the single
+	// grid's (two paths to the same figures): the same order, gains within
+	// 3 % (the conservative read takes about a cell's width off each
+	// boundary). --wind-error: every wind of the set must hold, so the
+	// covered share can only fall (never optimistic).
+	fields := writeTestFields(t, -0.5, -24.5, []float64{0}, []float64{0})
+	cands := writeTestFields(t, -0.5, -24.5, []float64{9000, 16000}, []float64{90, 270})
+	args := []string{"--fields", fields, "--candidates", cands, "--pick", "2", "--box", "-0.62,-24.66,-0.38,-24.34", "--alt", "1000m", "--aircraft", "trainer", "--wind", "270/15kt"}
+	type doc struct {
+		CoveredFraction float64 `json:"covered_fraction"`
+		Candidates      []struct {
+			Name string  `json:"name"`
+			Adds float64 `json:"adds_m2"`
+		} `json:"candidates"`
+		Picks []struct {
+			Name string  `json:"name"`
+			Adds float64 `json:"adds_m2"`
+		} `json:"picks"`
+	}
+	get := func(extra ...string) doc {
+		code, out, stderr := runCLI(t, append(append([]string{"coverage", "--format", "json"}, args...), extra...)...)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, stderr)
+		}
+		var d doc
+		if err := json.Unmarshal([]byte(out), &d); err != nil {
+			t.Fatal(err)
+		}
+		return d
+	}
+	single, tiled := get(), get("--tiled", "--tile", "128")
+	if len(single.Candidates) != 2 || len(tiled.Candidates) != 2 || len(tiled.Picks) != len(single.Picks) {
+		t.Fatalf("single %+v, tiled %+v", single, tiled)
+	}
+	for i := range single.Candidates {
+		a, b := tiled.Candidates[i], single.Candidates[i]
+		if a.Name != b.Name || math.Abs(a.Adds-b.Adds) > 0.03*b.Adds {
+			t.Errorf("rank %d: tiled %s adds %.4g m², single %s adds %.4g m²", i+1, a.Name, a.Adds, b.Name, b.Adds)
+		}
+	}
+	for i := range single.Picks {
+		if tiled.Picks[i].Name != single.Picks[i].Name {
+			t.Errorf("pick %d: tiled %s, single %s", i+1, tiled.Picks[i].Name, single.Picks[i].Name)
+		}
+	}
+	werr := get("--tiled", "--tile", "128", "--wind-error", "20deg,5kt")
+	if werr.CoveredFraction > tiled.CoveredFraction {
+		t.Errorf("covered %.4f with --wind-error, %.4f without", werr.CoveredFraction, tiled.CoveredFraction)
+	}
+	t.Logf("covered: single %.4f, tiled %.4f, tiled with --wind-error %.4f", single.CoveredFraction, tiled.CoveredFraction, werr.CoveredFraction)
+}
