@@ -19,6 +19,7 @@ import (
 	"glidereach/reach"
 	"glidereach/reach/tiling"
 	"glidereach/reach/tiling/fgb"
+	"glidereach/terrain"
 )
 
 // tiledFlags are coverage's flags of the tiled path.
@@ -177,6 +178,9 @@ func computeTiled(ctx context.Context, run *coverageRun, o *coverageOptions, fie
 			la0, lo0, _ := g.FromCRS(g.X0+float64(c0)*g.DX, g.Y0-float64(r0)*g.DY)
 			la1, lo1, _ := g.FromCRS(g.X0+float64(c0+cols-1)*g.DX, g.Y0-float64(r0+rows-1)*g.DY)
 			dem, err := src.Window(math.Min(lo0, lo1), math.Min(la0, la1), math.Max(lo0, lo1), math.Max(la0, la1))
+			if errors.Is(err, terrain.ErrOutside) {
+				continue // a tile off the DEM: unknown ground
+			}
 			if err != nil {
 				return nil, &input.UsageError{Where: "--terrain", Err: err}
 			}

@@ -190,3 +190,20 @@ func TestCoverageTiledCandidatesAndWindError(t *testing.T) {
 	}
 	t.Logf("covered: single %.4f, tiled %.4f, tiled with --wind-error %.4f", single.CoveredFraction, tiled.CoveredFraction, werr.CoveredFraction)
 }
+
+func TestCoverageTiledAGLOnDEM(t *testing.T) {
+	// --agl over a DEM (the GDAL-made fixture of 3 arc-seconds, about 92 m,
+	// the corridor reaching off its edge): both paths fly 600 m above the
+	// DEM at each cell. The tiled path's conservative read (the highest of
+	// four solver cells) costs more where the terrain is steep at 92 m
+	// cells: its covered share may be lower by up to 3 points, never higher
+	// by more than rounding.
+	args := []string{"--fields", "../../testdata/fields/fixture-fields.geojson", "--corridor", "../../testdata/routes/fixture-route.gpx,2km",
+		"--agl", "600m", "--terrain", "../../testdata/geotiff/geo_int16_strip_none.tif"}
+	single := coverageJSONOf(t, args...)
+	tiled := coverageJSONOf(t, append(args, "--tiled", "--tile", "64")...)
+	t.Logf("covered fraction single %.4f, tiled %.4f", single.CoveredFraction, tiled.CoveredFraction)
+	if d := tiled.CoveredFraction - single.CoveredFraction; d > 0.002 || d < -0.03 {
+		t.Errorf("covered fraction tiled %.4f, single grid %.4f", tiled.CoveredFraction, single.CoveredFraction)
+	}
+}

@@ -3,6 +3,7 @@ package tiling
 import (
 	"bytes"
 	"encoding/gob"
+	"errors"
 	"fmt"
 	"math"
 	"slices"
@@ -164,6 +165,13 @@ func flownAGL(src terrain.Source, p *Plan, job *TileJob) ([]float32, error) {
 		pad = 2 * math.Max(g.DX, g.DY) / 111000
 	}
 	dem, err := src.Window(w-pad, s-pad, e+pad, nn+pad)
+	if errors.Is(err, terrain.ErrOutside) {
+		// The tile lies off the DEM: unknown ground, no altitude flown.
+		for i := range out {
+			out[i] = float32(math.NaN())
+		}
+		return out, nil
+	}
 	if err != nil {
 		return nil, err
 	}
