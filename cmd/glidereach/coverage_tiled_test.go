@@ -207,3 +207,50 @@ func TestCoverageTiledAGLOnDEM(t *testing.T) {
 		t.Errorf("covered fraction tiled %.4f, single grid %.4f", tiled.CoveredFraction, single.CoveredFraction)
 	}
 }
+
+// TestCoverageTiledKeysListed checks that every key of the tiled JSON and
+// GeoJSON is listed in the README's Output keys (as checkKeysListed does
+// for the demo's files, which have no tiled run).
+func TestCoverageTiledKeysListed(t *testing.T) {
+	readme, err := os.ReadFile(filepath.Join("..", "..", "README.md"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	sec := string(readme)
+	sec = sec[strings.Index(sec, "## Output keys")+3:]
+	sec = sec[:strings.Index(sec, "\n## ")]
+	listed := map[string]bool{"type": true, "features": true, "geometry": true, "coordinates": true, "properties": true, "bbox": true}
+	for _, part := range strings.Split(sec, "`")[1:] {
+		listed[part] = true
+	}
+	fields := writeTestFields(t, -0.5, -24.5, []float64{0}, []float64{0})
+	cands := writeTestFields(t, -0.5, -24.5, []float64{9000}, []float64{90})
+	for _, format := range []string{"json", "geojson"} {
+		code, out, stderr := runCLI(t, "coverage", "--fields", fields, "--candidates", cands, "--box", "-0.6,-24.6,-0.4,-24.4", "--alt", "900m",
+			"--aircraft", "trainer", "--tiled", "--format", format)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, stderr)
+		}
+		var v any
+		if err := json.Unmarshal([]byte(out), &v); err != nil {
+			t.Fatal(err)
+		}
+		var walk func(v any)
+		walk = func(v any) {
+			switch x := v.(type) {
+			case map[string]any:
+				for k, sub := range x {
+					if !listed[k] {
+						t.Errorf("%s: key %q is not listed in the README's Output keys", format, k)
+					}
+					walk(sub)
+				}
+			case []any:
+				for _, sub := range x {
+					walk(sub)
+				}
+			}
+		}
+		walk(v)
+	}
+}
