@@ -121,7 +121,7 @@ func approachAssumptions(run *approachRun) []string {
 			r.Params.FinalLength, r.Params.FinalHeight, r.Params.Margin*100, r.Params.Spacing, r.Params.Bank),
 		fmt.Sprintf("landing direction limits: crosswind %.0f kt, tailwind %.0f kt", r.Params.MaxCrosswind/input.Knot, r.Params.MaxTailwind/input.Knot),
 		"the pattern replaces the reserve: --reserve is not used by approach",
-		run.fail.assumption(),
+		failureAssumption(run.fail),
 		"field elevation from " + run.fieldFrom,
 		"terrain: " + run.ground.Describe(),
 		"gate heights are to be reached on arrival at the gate, before the turn there; legs are straight between gates (the rounded path flown is shorter)",
@@ -490,7 +490,7 @@ func approachScene(run *approachRun) (*render.Scene, error) {
 		fm.Note = fmt.Sprintf("landing %s°, %s", fmtDeg(r.LandingDir), r.Variant)
 	}
 	s.Fields = append(s.Fields, fm)
-	s.Inputs = []string{"wind: " + run.setup.WindText, run.fail.assumption()}
+	s.Inputs = []string{"wind: " + run.setup.WindText, failureAssumption(run.fail)}
 	if we, wn := run.setup.Wind.At(run.field.Elevation); math.Hypot(we, wn) > 0.05 {
 		from := math.Mod(math.Atan2(-we, -wn)*180/math.Pi+360, 360)
 		s.Wind = &render.WindArrow{FromDeg: from, Label: fmt.Sprintf("wind %s°/%s at the field", fmtDeg(from), run.units.v(math.Hypot(we, wn)))}

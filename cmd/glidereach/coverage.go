@@ -321,7 +321,7 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 		var ts []reach.Target
 		for _, f := range fs {
 			te, on := plan.PointElevation(l, grid, f.Lat, f.Lon)
-			r := routeField{Field: f, Elev: te, Target: len(ts)}
+			r := routeField{Field: plan.Field(f), Elev: te, Target: len(ts)}
 			if f.HasElevation {
 				r.Elev = f.Elevation
 			}

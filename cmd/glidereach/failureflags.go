@@ -7,9 +7,8 @@ import (
 	"github.com/spf13/pflag"
 
 	"glidereach/cmd/glidereach/input"
-	"glidereach/reach"
+	"glidereach/reach/plan"
 	"glidereach/reach/transition"
-	"glidereach/terrain"
 )
 
 // failureFlags give the aircraft's state at an engine failure: heading,
@@ -76,14 +75,9 @@ func (f *failureFlags) resolveCourse() (*failureState, error) {
 	return s, nil
 }
 
-// failureState is the resolved state; nil when no --heading was given.
-type failureState struct {
-	HeadingDeg float64
-	IAS        float64 // m/s; 0 = at the speed to fly
-	Reaction   float64 // s
-	Efficiency float64
-	Bank       float64 // degrees
-}
+// failureState is the resolved state (the library's plan.Failure); nil
+// when no --heading was given.
+type failureState = plan.Failure
 
 // resolve checks the flags: --speed alone is refused (a speed without a
 // heading says nothing about the turn), ranges are named by flag.
@@ -118,7 +112,7 @@ func (f *failureFlags) resolve() (*failureState, error) {
 }
 
 // assumption describes the state for the assumptions list.
-func (s *failureState) assumption() string {
+func failureAssumption(s *failureState) string {
 	if s == nil {
 		return "no failure state given (--heading/--speed): the glide starts at the speed to fly, already on its track, with no reaction time, energy credit or turn"
 	}
@@ -132,78 +126,4 @@ func (s *failureState) assumption() string {
 	}
 	return fmt.Sprintf("engine failure %s %s; %.0f s reaction on the heading; turns at %.0f° bank at the same lift coefficient (speed × √n, sink × n^1.5)",
 		hd, sp, s.Reaction, s.Bank)
-}
-
-// credit returns the most height the energy trade can give at altitude
-// alt (m), for sizing tables, and refuses a failure speed far above the
-// profile's maximum (a typing error: 1.5 × max_speed).
-func (s *failureState) credit(setup *glideSetup, alt float64) (float64, error) {
-	ac := setup.Aircraft
-	if s.IAS > 1.5*ac.MaxIAS {
-		return 0, input.Usagef("--speed", "%.0f kt is far above the profile's maximum speed %.0f kt", s.IAS/input.Knot, ac.MaxIAS/input.Knot)
-	}
-	if s.IAS > 0 && s.IAS < ac.StallIASAt(setup.Cond) {
-		return 0, input.Usagef("--speed", "%.0f kt is below the stall speed %.0f kt", s.IAS/input.Knot, ac.StallIASAt(setup.Cond)/input.Knot)
-	}
-	rho := setup.Atm.Density(alt)
-	sigma := rho / reach.ISADensity0
-	fig := ac.Figures(rho, setup.Cond)
-	return math.Max(0, transition.EnergyCredit(reach.TAS(s.IAS, sigma), fig.BestGlideTAS, s.Efficiency)), nil
-}
-
-// failureSectorCount is the number of centre tracks of a footprint from a
-// failure state (every 15°; each turned both ways where useful): the
-// one-spacing turn charged per sector is then about 10 m for the trainer.
-const failureSectorCount = 24
-
-// failureSectors returns the sector starts of a footprint from the
-// failure state s at (lat, lon, alt) in wind w, on the frame of l. The
-// glide after the turn is the still-air best glide at alt (the speed a
-// pilot settles on), the failure speed's sink is the polar's there.
-func failureSectors(setup *glideSetup, w reach.WindField, l *terrain.Local, lat, lon, alt float64, s *failureState) ([]reach.SectorStart, error) {
-	ac, c := setup.Aircraft, setup.Cond
-	atm := setup.Atm
-	rho := atm.Density(alt)
-	fig := ac.Figures(rho, c)
-	tf := transition.Failure{Heading: s.HeadingDeg * math.Pi / 180, GlideTAS: fig.BestGlideTAS, GlideSink: fig.BestGlideSink + c.AirSink,
-		ReactionTime: s.Reaction, Efficiency: s.Efficiency, Bank: s.Bank}
-	tf.FailTAS, tf.FailSink = tf.GlideTAS, tf.GlideSink
-	if s.IAS > 0 {
-		tf.FailTAS = reach.TAS(s.IAS, rho/reach.ISADensity0)
-		tf.FailSink = ac.Sink(tf.FailTAS, rho, c) + c.AirSink
-	}
-	var we, wn float64
-	if w != nil {
-		we, _ = w.Components(alt, 90)
-		wn, _ = w.Components(alt, 0)
-	}
-	if err := tf.Validate(); err != nil {
-		return nil, &input.UsageError{Where: "--speed", Err: err}
-	}
-	ss, err := tf.Sectors(failureSectorCount, we, wn)
-	if err != nil {
-		return nil, err
-	}
-	x0, y0 := l.Frame.Forward(lat, lon)
-	out := make([]reach.SectorStart, len(ss))
-	for i, q := range ss {
-		la, lo := l.Frame.Inverse(x0+q.East, y0+q.North)
-		out[i] = reach.SectorStart{TrackDeg: q.TrackDeg, HalfDeg: q.HalfDeg, Start: reach.Start{Lat: la, Lon: lo, Alt: alt - q.Height}}
-	}
-	return out, nil
-}
-
-// sectorFor returns, of the sector starts whose cone holds the point, the
-// one with the highest start: where the glide to the point begins.
-func sectorFor(l *terrain.Local, secs []reach.SectorStart, lat, lon float64) (reach.SectorStart, bool) {
-	x, y := l.Frame.Forward(lat, lon)
-	best, ok := reach.SectorStart{}, false
-	for _, s := range secs {
-		sx, sy := l.Frame.Forward(s.Start.Lat, s.Start.Lon)
-		b := math.Atan2(x-sx, y-sy) * 180 / math.Pi
-		if d := math.Mod(b-s.TrackDeg+540, 360) - 180; math.Abs(d) <= s.HalfDeg && (!ok || s.Start.Alt > best.Start.Alt) {
-			best, ok = s, true
-		}
-	}
-	return best, ok
 }

@@ -2,7 +2,6 @@ package main
 
 import (
 	"context"
-	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -14,8 +13,6 @@ import (
 	"glidereach/reach"
 	"glidereach/reach/geodesy"
 	"glidereach/reach/plan"
-	"glidereach/terrain"
-	"glidereach/wind"
 )
 
 func init() {
@@ -289,24 +286,14 @@ func runFinal(ctx context.Context, o *finalOptions, stdout, stderr io.Writer) er
 	if err != nil {
 		return err
 	}
-	var res *reach.FinalGlideResult
-	if fstate != nil {
-		if !run.altGiven {
-			return input.Usagef("--heading", "the failure state needs the altitude at the failure (--alt or --agl)")
-		}
-		res, err = computeFinalFrom(ctx, run, route, startAlt, goal.Elev, o.step, fstate)
-	} else {
-		setup.State = fstate.assumption()
-		res, err = computeFinal(ctx, run, route, startAlt, goal.Elev, o.step)
+	if fstate != nil && !run.altGiven {
+		return input.Usagef("--heading", "the failure state needs the altitude at the failure (--alt or --agl)")
 	}
-	if err != nil {
+	if fstate == nil {
+		setup.State = failureAssumption(fstate)
+	}
+	if err := computeFinalFrom(ctx, run, route, startAlt, goal.Elev, o.step, fstate); err != nil {
 		return err
-	}
-	run.res = res
-	if res.Status == reach.FinalShort && run.altGiven && res.Required <= 19000 {
-		if need, err := computeFinal(ctx, run, route, math.Ceil(res.Required), goal.Elev, o.step); err == nil && len(need.Legs) == len(res.Legs) {
-			run.fromRequired = need
-		}
 	}
 
 	// Files first, so that a failure leaves nothing half-written and stdout
@@ -327,135 +314,48 @@ func finalOutput(run *finalRun, format string) ([]byte, error) {
 	return finalGeoJSON(run)
 }
 
-// computeFinal runs the glide with the terrain along the line.
+// computeFinal runs the glide with the terrain along the line
+// (plan.FinalGlide) from startAlt (NaN: from the altitude it requires) and
+// returns it; it sets run.worstWind.
 func computeFinal(ctx context.Context, run *finalRun, route []geodesy.LatLon, startAlt, goalElev float64, step *input.Quantity) (*reach.FinalGlideResult, error) {
-	s := run.setup
-	opts := reach.FinalGlideOptions{GoalElev: goalElev, Reserve: s.Reserve, Clearance: s.Clearance}
-	if run.ground.Src == nil {
-		flat := run.ground.Flat
-		opts.Terrain = func(lat, lon float64) (float64, bool) { return flat, true }
-		opts.Step = reach.DefaultFinalStep
-	} else {
-		cell := run.ground.Src.Resolution()
-		if !(cell > 0) || math.IsInf(cell, 0) {
-			cell = 30
-		}
-		opts.Step = cell
-	}
-	if step.Given {
-		if step.Value > opts.Step*1.0001 {
-			return nil, input.Usagef("--step", "%.0f m is coarser than the terrain's cell size (%.1f m); a ridge could fall between samples", step.Value, opts.Step)
-		}
-		opts.Step = step.Value
-	}
-	// With --wind-error every wind of the set is flown and the one that
-	// needs the most altitude (no headway first) is reported, whole: its
-	// legs, arrival, terrain check and MacCready figures belong together.
-	winds := s.Winds
-	if len(winds) == 0 {
-		winds = []*wind.Profile{s.Wind}
-	}
-	// The winds are independent glides: two at a time, each with its own
-	// terrain reader (lineTerrain keeps its current window), then judged in
-	// the winds' order, so the result does not depend on the cores.
-	results := make([]*reach.FinalGlideResult, len(winds))
-	err := plan.ForEach(ctx, len(winds), 2, func(i int) error {
-		o := opts
-		var lt *lineTerrain
-		if run.ground.Src != nil {
-			lt = &lineTerrain{src: run.ground.Src}
-			o.Terrain = lt.sample
-		}
-		perf := reach.Performance{Aircraft: s.Aircraft, Atm: s.Atm, Wind: winds[i], Cond: s.Cond}
-		res, err := reach.FinalGlide(ctx, route, startAlt, perf, o)
-		if lt != nil && lt.err != nil {
-			return &input.UsageError{Where: "--terrain", Err: lt.err}
-		}
-		switch {
-		case errors.Is(err, reach.ErrFinalTooHigh):
-			return &input.UsageError{Where: "--to", Err: fmt.Errorf("the goal is far out of reach: %w", err)}
-		case err != nil:
-			return err
-		}
-		results[i] = res
-		return nil
-	})
-	if err != nil {
+	if err := computeFinalFrom(ctx, run, route, startAlt, goalElev, step, nil); err != nil {
 		return nil, err
 	}
-	var worst *reach.FinalGlideResult
-	for i, res := range results {
-		if worst == nil || finalWorse(res, worst) {
-			worst = res
-			if len(winds) > 1 {
-				run.worstWind = windText(winds[i])
-				if i == 0 {
-					run.worstWind += " (the nominal wind)"
-				}
-			}
+	return run.res, nil
+}
+
+// computeFinalFrom is computeFinal from an engine failure's state fs (nil:
+// already gliding at the speed to fly): it sets run.res, run.fromRequired
+// (the legs as flown from the required altitude, when the glide is short),
+// run.worstWind and the state's assumption.
+func computeFinalFrom(ctx context.Context, run *finalRun, route []geodesy.LatLon, startAlt, goalElev float64, step *input.Quantity, fs *failureState) error {
+	s := run.setup
+	req := plan.FinalRequest{Setup: &s.Setup, Ground: run.ground, Route: route, Alt: startAlt, GoalElev: goalElev, Failure: fs}
+	if step.Given {
+		req.Step = step.Value
+	}
+	out, err := plan.FinalGlide(ctx, req)
+	if err != nil {
+		return usage(err)
+	}
+	if seq := out.Before; seq != nil {
+		s.State = failureAssumption(fs) + fmt.Sprintf("; before the glide: %.0f m lost (negative: gained) in %.0f s, turn %.0f°, the glide starting %.0f m from the failure point (the failure's own path is not checked against the terrain)",
+			seq.Height, seq.Time, seq.TurnAngle*180/math.Pi, math.Hypot(seq.East, seq.North))
+	}
+	run.res, run.fromRequired = out.Glide, out.FromRequired
+	// The wind named is that of the last glide flown (the one from the
+	// required altitude when it was flown), as the legs shown are.
+	worst := out.Worst
+	if out.FromRequiredWorst >= 0 {
+		worst = out.FromRequiredWorst
+	}
+	if winds := s.Winds; len(winds) > 1 {
+		run.worstWind = windText(winds[worst])
+		if worst == 0 {
+			run.worstWind += " (the nominal wind)"
 		}
 	}
-	return worst, nil
-}
-
-// finalWorse reports whether a is the more demanding glide: no headway, or
-// a higher required altitude, or (equal) a lower arrival.
-func finalWorse(a, b *reach.FinalGlideResult) bool {
-	an, bn := a.Status == reach.FinalNoHeadway, b.Status == reach.FinalNoHeadway
-	switch {
-	case an != bn:
-		return an
-	case an:
-		return false
-	case a.Required != b.Required:
-		return a.Required > b.Required
-	}
-	return a.Arrival < b.Arrival
-}
-
-// lineTerrain samples a DEM along a line through small windows read as the
-// line goes (about 11 km square each), so a long line never reads the whole
-// box around it.
-type lineTerrain struct {
-	src  terrain.Source
-	grid *terrain.Grid
-	box  [4]float64 // west, south, east, north of the current window (or of the last miss)
-	miss bool       // the current box lies outside the data
-	err  error      // a read failure other than "outside"
-}
-
-// lineWindow is the half-size (degrees) of the windows lineTerrain reads.
-const lineWindow = 0.05
-
-func (t *lineTerrain) sample(lat, lon float64) (float64, bool) {
-	if t.err != nil {
-		return math.NaN(), false
-	}
-	in := func() bool {
-		// Keep a margin of a tenth of the window so bilinear sampling never
-		// needs cells beyond it.
-		m := lineWindow / 10
-		return lon >= t.box[0]+m && lat >= t.box[1]+m && lon <= t.box[2]-m && lat <= t.box[3]-m
-	}
-	if (t.grid == nil && !t.miss) || !in() {
-		t.box = [4]float64{lon - lineWindow, lat - lineWindow, lon + lineWindow, lat + lineWindow}
-		g, err := t.src.Window(t.box[0], t.box[1], t.box[2], t.box[3])
-		switch {
-		case errors.Is(err, terrain.ErrOutside):
-			t.grid, t.miss = nil, true
-		case err != nil:
-			t.err = err
-			return math.NaN(), false
-		default:
-			t.grid, t.miss = g, false
-		}
-	}
-	if t.grid == nil {
-		return math.NaN(), false
-	}
-	// The obstacle height: the highest DEM sample around the point, so a
-	// ridge crest between samples is not cut down (see terrain.ResampleHigh).
-	return t.grid.HighAround(lat, lon)
+	return nil
 }
 
 // demoFinalRun is the demo's final glide: the sailplane from south-east of
@@ -500,11 +400,9 @@ func demoFinal(ctx context.Context, d *demoRun) error {
 		return fmt.Errorf("demo final glide: no terrain at %s (%v)", f.Name, err)
 	}
 	route := []geodesy.LatLon{{Lat: run.startLat, Lon: run.startLon}, {Lat: demoFinalRun.turn[0], Lon: demoFinalRun.turn[1]}, {Lat: f.Lat, Lon: f.Lon}}
-	res, err := computeFinal(ctx, run, route, demoFinalRun.alt, goalElev, input.NewQuantity(input.Length, 0))
-	if err != nil {
+	if err := computeFinalFrom(ctx, run, route, demoFinalRun.alt, goalElev, input.NewQuantity(input.Length, 0), nil); err != nil {
 		return err
 	}
-	run.res = res
 	for _, out := range []struct{ name, format string }{{"final-sailplane.geojson", "geojson"}, {"final-sailplane.json", "json"}} {
 		data, err := finalOutput(run, out.format)
 		if err != nil {

@@ -219,7 +219,7 @@ func writeReachText(w io.Writer, run *reachRun) {
 		fmt.Fprintln(w, "No ground is reachable with the reserve from here.")
 	}
 	if run.edge != nil {
-		fmt.Fprintln(w, "NOTE: "+run.edge.text())
+		fmt.Fprintln(w, "NOTE: "+edgeText(run.edge))
 	}
 	if len(run.fields) > 0 {
 		fmt.Fprintln(w)
@@ -348,7 +348,7 @@ func reachScene(run *reachRun) *render.Scene {
 	}
 	s.WindLayers, s.WindSource = windMarks(run.setup)
 	if run.edge != nil {
-		s.Warnings = append(s.Warnings, "Footprint cut off by the edge of the terrain data ("+run.edge.where()+"): reach beyond not computed")
+		s.Warnings = append(s.Warnings, "Footprint cut off by the edge of the terrain data ("+edgeWhere(run.edge)+"): reach beyond not computed")
 	}
 	for _, lv := range run.levels {
 		s.Levels = append(s.Levels, render.Level{ArrivalAGL: lv.ArrivalAGL, Polygons: lv.Polygons,
@@ -477,5 +477,5 @@ func edgeNote(e *edgeCut) any {
 	if e == nil {
 		return nil
 	}
-	return e.text()
+	return edgeText(e)
 }

@@ -16,23 +16,12 @@ import (
 	"glidereach/reach"
 	"glidereach/reach/plan"
 	"glidereach/terrain"
-	"glidereach/wind"
 )
 
 func init() {
 	register(newRouteCmd)
 	registerDemoStep(40, "forced-landing gaps along the demo route", demoRoute)
 }
-
-// Route windows: the least-altitude raster is computed on one Local
-// covering the route's bounding box plus the reach radius
-// (plan.Ground.AreaWindow).
-const (
-	// routeSearchAbove is how far above the highest planned altitude the
-	// least altitudes are searched (m), so that the altitude that closes
-	// a gap is found when it is up to that much higher.
-	routeSearchAbove = 1500.0
-)
 
 // routeOptions are the route command's flags.
 type routeOptions struct {
@@ -120,14 +109,9 @@ type routeRun struct {
 	fail      *failureState // --speed: a failure on the course at each point
 }
 
-// routeField is a landing field as the route command used it.
-type routeField struct {
-	input.Field
-	Elev   float64 // m MSL, from the file or the terrain
-	Target int     // index into run.targets; −1 when not used
-	Note   string
-	BestM  float64 // m of route along which it is the best field and in reach
-}
+// routeField is a landing field as the route and coverage commands used
+// it.
+type routeField = plan.RouteField
 
 func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) error {
 	switch o.format {
@@ -274,211 +258,28 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 	default:
 		run.altMode = "the elevations of the route file, interpolated between its points"
 	}
-	hi := math.Inf(-1)
 	for _, p := range pts {
 		if p.Alt < -400 || p.Alt > 19000 {
 			return input.Usagef(run.file, "planned altitude %.0f m at %.1f km is outside -400..19000 m", p.Alt, p.Dist/1000)
 		}
-		hi = math.Max(hi, p.Alt)
 	}
-	run.ceiling = math.Min(hi+routeSearchAbove, 19000)
-
-	// Window: the samples' box plus the reach radius from the ceiling down
-	// to the lowest ground (a first guess of 0 m, then corrected once).
-	minLat, minLon, maxLat, maxLon := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
+	minLon, maxLon := math.Inf(1), math.Inf(-1)
 	for _, p := range pts {
-		minLat, maxLat = math.Min(minLat, p.Lat), math.Max(maxLat, p.Lat)
 		minLon, maxLon = math.Min(minLon, p.Lon), math.Max(maxLon, p.Lon)
 	}
 	if maxLon-minLon > 180 {
 		return input.Usagef("--route", "%s crosses the antimeridian, which is not supported", run.file)
 	}
-	bottom := 0.0
-	if run.ground.Src == nil {
-		bottom = run.ground.Flat
-	}
-	var l *terrain.Local
-	var grid *terrain.Grid
-	for pass := 0; pass < 2; pass++ {
-		tab, err := run.setup.Table(bottom-60, run.ceiling+60)
-		if err != nil {
-			return &input.UsageError{Where: "--aircraft", Err: err}
-		}
-		radius, err := reach.ReachRadius(tab, run.ceiling, bottom)
-		if err != nil {
-			return &input.UsageError{Err: err}
-		}
-		l, grid, err = areaWindow(run.ground, minLat, minLon, maxLat, maxLon, radius*1.02+1000, "--route")
-		if err != nil {
-			return err
-		}
-		lo := plan.Lowest(l)
-		if math.IsInf(lo, 1) {
-			return input.Usagef("--terrain", "the terrain around the route is all voids")
-		}
-		if lo >= bottom-1 {
-			break
-		}
-		bottom = lo
-	}
-	lo := plan.Lowest(l)
-
-	// Fields.
-	for _, f := range fields {
-		rf := routeField{Field: f, Target: -1, Elev: math.NaN()}
-		te, on := plan.PointElevation(l, grid, f.Lat, f.Lon)
-		switch {
-		case !on:
-			rf.Note = "beyond the computed window (too far from the route to matter) or on unknown ground"
-		case f.HasElevation:
-			rf.Elev = f.Elevation
-		default:
-			rf.Elev = te
-		}
-		if on {
-			rf.Target = len(run.targets)
-			run.targets = append(run.targets, reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: rf.Elev, Reserve: run.setup.Reserve})
-			run.targetFld = append(run.targetFld, len(run.fields))
-			lo = math.Min(lo, rf.Elev)
-		}
-		run.fields = append(run.fields, rf)
-	}
-	if lo >= run.ceiling {
-		return input.Usagef("--alt", "the planned altitude is below the lowest ground or field (%.0f m)", lo)
-	}
-	// With --wind-error every wind of the set is flown and a cell counts
-	// only from the least altitude at which ONE field is in reach in every
-	// wind of the set — the rule coverage uses (see DEVELOPERS.md, "Wind
-	// uncertainty"): per field the highest least altitude over the winds,
-	// then the lowest over the fields (reach.Coverage with Also).
-	winds := run.setup.Winds
-	if len(winds) == 0 {
-		winds = []*wind.Profile{run.setup.Wind}
-	}
-	var res *reach.RequiredResult
-	if len(winds) > 1 {
-		var err error
-		if res, err = sameFieldRequired(ctx, run, l, lo, winds, progress); err != nil {
-			return err
-		}
-		winds = nil
-	}
-	for k, w := range winds {
-		tab, err := run.setup.TableFor(w, lo-60, run.ceiling+60)
-		if err != nil {
-			return &input.UsageError{Where: "--aircraft", Err: err}
-		}
-		opts := reach.RequiredOptions{Clearance: run.setup.Clearance, Ceiling: run.ceiling}
-		if progress != nil {
-			n := float64(len(winds))
-			opts.Progress = func(d float64) { progress((float64(k) + d) / n) }
-		}
-		r, err := reach.Required(ctx, l, run.targets, tab, opts)
-		if err != nil {
-			res = nil
-			if errors.Is(err, reach.ErrNoTargets) {
-				break
-			}
-			return err
-		}
-		res = worstRequired(res, r)
-	}
-	if res == nil {
-		res = emptyRequired(l)
-		run.notes = append(run.notes, "no landing field lies within reach of the route: all of it is a gap")
-	}
-	if grid != nil {
-		res.Elevation = grid.Elevation // report the DEM's own ground, not the obstacle surface
-	}
-	run.res = res
-	if run.step > 2.5*l.Cell && run.step > 250 {
-		// The headline (covered fraction, gaps) is judged at the samples
-		// only: say so when they are much sparser than the solver grid.
-		run.notes = append(run.notes, fmt.Sprintf("WARNING: the route is judged every %.0f m on a %.0f m solver grid: a gap shorter than the step can fall between two samples and be missed (the covered fraction may then be too high); use --step %.0f m or less",
-			run.step, l.Cell, math.Max(250, math.Floor(2.5*l.Cell))))
-	}
-	prof, err := res.Route(pts, run.ceiling)
+	res, err := plan.Route(ctx, plan.RouteRequest{Setup: &run.setup.Setup, Ground: run.ground, Points: pts, Fields: planFields(fields),
+		Step: run.step, Failure: run.fail, Progress: progress})
 	if err != nil {
-		return err
+		return usage(err)
 	}
-	run.setup.State = run.fail.assumption()
-	if run.fail != nil {
-		if err := routeFromState(ctx, run, prof); err != nil {
-			return err
-		}
-	}
-	run.prof = prof
-	// Length of route along which each field is the best one in reach.
-	for i := 1; i < len(prof.Samples); i++ {
-		a, b := prof.Samples[i-1], prof.Samples[i]
-		if a.Covered && b.Covered && a.Best == b.Best && a.Best >= 0 {
-			run.fields[run.targetFld[a.Best]].BestM += b.Dist - a.Dist
-		}
-	}
-	for _, s := range prof.Samples {
-		if !math.IsNaN(s.Terrain) && s.Alt < s.Terrain+run.setup.Clearance {
-			run.notes = append(run.notes, fmt.Sprintf("the planned altitude is below the clearance above the terrain at %.1f km (%.0f m MSL over %.0f m terrain)", s.Dist/1000, s.Alt, s.Terrain))
-			break
-		}
-	}
+	run.setup.State = failureAssumption(run.fail)
+	run.ceiling, run.res, run.prof = res.Ceiling, res.Required, res.Profile
+	run.fields, run.targets, run.targetFld = res.Fields, res.Targets, res.TargetField
+	run.notes = append(run.notes, res.Notes...)
 	return nil
-}
-
-// sameFieldRequired is the least altitude per cell from which one field is
-// in reach with its reserve in every wind of winds (nil when no field lies
-// on the window): reach.Coverage's Least with the other winds as Also,
-// searched up to run.ceiling.
-func sameFieldRequired(ctx context.Context, run *routeRun, l *terrain.Local, lo float64, winds []*wind.Profile, progress func(float64)) (*reach.RequiredResult, error) {
-	models := make([]reach.LossModel, 0, len(winds))
-	for _, w := range winds {
-		tab, err := run.setup.TableFor(w, lo-60, run.ceiling+60)
-		if err != nil {
-			return nil, &input.UsageError{Where: "--aircraft", Err: err}
-		}
-		models = append(models, tab)
-	}
-	const margin = 300.0
-	opts := reach.CoverageOptions{Alt: run.ceiling - margin, Margin: margin, Clearance: run.setup.Clearance, Also: models[1:]}
-	if progress != nil {
-		opts.Progress = progress
-	}
-	cov, err := reach.Coverage(ctx, l, run.targets, models[0], opts)
-	switch {
-	case errors.Is(err, reach.ErrNoTargets):
-		return nil, nil
-	case err != nil:
-		return nil, err
-	}
-	return &reach.RequiredResult{Ground: l, Targets: run.targets, Required: cov.Least, Best: cov.Best}, nil
-}
-
-// worstRequired folds b into a (nil on the first wind): each cell keeps the
-// higher least altitude and that wind's best field; NaN (no field in reach
-// below the ceiling) in either wind stays NaN.
-func worstRequired(a, b *reach.RequiredResult) *reach.RequiredResult {
-	if a == nil {
-		return b
-	}
-	for i, v := range b.Required {
-		switch {
-		case a.Required[i] != a.Required[i]:
-		case v != v:
-			a.Required[i], a.Best[i] = v, -1
-		case v > a.Required[i]:
-			a.Required[i], a.Best[i] = v, b.Best[i]
-		}
-	}
-	return a
-}
-
-// emptyRequired is a RequiredResult with no field in reach anywhere.
-func emptyRequired(l *terrain.Local) *reach.RequiredResult {
-	n := l.Cols * l.Rows
-	r := &reach.RequiredResult{Ground: l, Required: make([]float32, n), Best: make([]int16, n)}
-	for i := range r.Required {
-		r.Required[i], r.Best[i] = float32(math.NaN()), -1
-	}
-	return r
 }
 
 // boundsOfSamples returns west, south, east, north of route samples.

@@ -210,25 +210,13 @@ func terrainSummary(opts terrain.OpenOptions, fill int, paths []string, at *inpu
 		}
 		if v, ok := g.Elevation(at.Lat, at.Lon); ok {
 			rep.ElevationM = &v
-		} else if inside(g, at.Lat, at.Lon) {
+		} else if plan.Inside(g, at.Lat, at.Lon) {
 			rep.At.Void = true
 		} else {
 			return nil, input.Usagef("--at", "%s is outside the terrain's cells (though inside its lon/lat extent, a box wider than a projected grid's outline)", at.String())
 		}
 	}
 	return rep, nil
-}
-
-// inside reports whether lat, lon lies within the grid's cells, in the
-// grid's own CRS (so that a failed sample there means a void, not the edge
-// of the data: a UTM grid's lon/lat box holds corners outside its cells).
-func inside(g *terrain.Grid, lat, lon float64) bool {
-	x, y := lon, lat
-	if zone, south, ok := terrain.UTMZone(g.CRS.EPSG); ok {
-		x, y = terrain.UTM(zone, south).Forward(lat, lon)
-	}
-	return x >= g.X0-g.DX/2 && x <= g.X0+(float64(g.Cols)-0.5)*g.DX &&
-		y <= g.Y0+g.DY/2 && y >= g.Y0-(float64(g.Rows)-0.5)*g.DY
 }
 
 func crsLabel(c terrain.CRS) string {
