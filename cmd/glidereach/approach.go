@@ -8,7 +8,6 @@ import (
 	"io"
 	"math"
 	"os"
-	"sort"
 	"strconv"
 	"strings"
 
@@ -16,8 +15,6 @@ import (
 
 	"glidereach/cmd/glidereach/input"
 	"glidereach/reach/approach"
-	"glidereach/reach/geodesy"
-	"glidereach/terrain"
 )
 
 func init() { register(newApproachCmd) }
@@ -115,7 +112,7 @@ type approachRun struct {
 	worstWind string
 	variation float64 // degrees, east positive; NaN when not given
 	units     displayUnits
-	sampler   *approachSampler
+	sampler   *plan.ApproachTerrain
 	searched  bool // the other fields of the file were tried
 }
 
@@ -222,19 +219,15 @@ func runApproach(ctx context.Context, o *approachOptions, stdout io.Writer) erro
 	}
 	run.ground = plan.Ground{Src: src, Flat: o.terr.ground.Value, Warn: warnOnce(os.Stderr)}
 	run.startLat, run.startLon = o.pos.from.Lat, o.pos.from.Lon
-	dist, _, _, err := geodesy.Inverse(geodesy.LatLon{Lat: run.startLat, Lon: run.startLon}, geodesy.LatLon{Lat: run.field.Lat, Lon: run.field.Lon})
-	if err != nil {
-		return input.Usagef("--from", "%v", err)
+	if err := plan.CheckApproachDistance(run.startLat, run.startLon, plan.Field(run.field)); err != nil {
+		return usage(err)
 	}
-	if dist > 150e3 {
-		return input.Usagef("--from", "the field is %.0f km away; an approach plan is for fields within 150 km", dist/1000)
-	}
-	sampler, err := approachTerrain(run, all)
+	sampler, err := plan.ReadApproachTerrain(run.ground, run.startLat, run.startLon, plan.Field(run.field), planFields(all))
 	if err != nil {
-		return err
+		return usage(err)
 	}
 	run.sampler = sampler
-	elev, ok := sampler.at(run.startLat, run.startLon)
+	elev, ok := sampler.Elevation(run.startLat, run.startLon)
 	if !ok {
 		return input.Usagef("--from", "%.5f,%.5f lies off the terrain data or on a void (unknown ground)", run.startLat, run.startLon)
 	}
@@ -242,42 +235,21 @@ func runApproach(ctx context.Context, o *approachOptions, stdout io.Writer) erro
 	if run.startAlt, err = o.pos.startAlt(elev); err != nil {
 		return err
 	}
-	if run.startAlt <= elev {
-		return input.Usagef("--alt", "%.0f m MSL is not above the terrain at the aircraft (%.0f m)", run.startAlt, elev)
+	req := plan.ApproachRequest{Setup: &setup.Setup, Terrain: sampler, Lat: run.startLat, Lon: run.startLon, Alt: run.startAlt,
+		Field: plan.Field(run.field), LandingDir: math.NaN(), Side: o.side, ApproachIAS: o.appSpeed.Value, Gust: o.gust.Value, Failure: fs}
+	if len(all) > 1 {
+		req.Others = planFields(all)
+	}
+	if o.landingDir.Given {
+		req.LandingDir = o.landingDir.Value
+	}
+	if err := planApproach(ctx, run, req, fieldFlag(o)); err != nil {
+		return err
 	}
 	if !goalElevGiven {
-		e, ok := sampler.field(run.field.Lat, run.field.Lon)
-		if !ok {
-			return input.Usagef(fieldFlag(o), "the field %.5f,%.5f lies off the terrain data or on a void; give its elevation", run.field.Lat, run.field.Lon)
-		}
-		run.field.Elevation = e
 		run.fieldFrom = "terrain"
 		if src == nil {
 			run.fieldFrom = "--ground"
-		}
-	}
-	base := approach.Request{
-		Aircraft: setup.Aircraft, Cond: setup.Cond, Atm: setup.Atm, Wind: setup.Wind, Ground: sampler.high,
-		Clearance: setup.Clearance, Lat: run.startLat, Lon: run.startLon, Alt: run.startAlt,
-		LandingDir: math.NaN(), Side: o.side, ApproachIAS: o.appSpeed.Value, Gust: o.gust.Value, Step: sampler.step,
-	}
-	if o.landingDir.Given {
-		base.LandingDir = o.landingDir.Value
-	}
-	if fs != nil {
-		base.Failure = &approach.Failure{HeadingDeg: fs.HeadingDeg, IAS: fs.IAS, ReactionTime: fs.Reaction, Efficiency: fs.Efficiency, Bank: fs.Bank}
-	}
-	req := base
-	req.Field = approachField(run.field)
-	res, err := planWorst(ctx, run, req)
-	if err != nil {
-		return err
-	}
-	run.res = res
-	if !res.Feasible && len(all) > 1 {
-		run.searched = true
-		if run.next, err = nextField(ctx, run, base, all); err != nil {
-			return err
 		}
 	}
 	return deliver(ctx, stdout, results{out: o.out, format: o.format, mapPNG: o.mapPNG, report: o.report,
@@ -315,150 +287,31 @@ func approachErr(err error) error {
 	return err
 }
 
-// planWorst plans in the nominal wind and, with --wind-error, checks the
-// same landing direction in every other wind: the plan holds only when it
-// holds in all of them.
-func planWorst(ctx context.Context, run *approachRun, req approach.Request) (*approach.Result, error) {
-	res, err := approach.Plan(ctx, req)
+// planApproach plans the approach of req (plan.Approach) into run: the
+// plan, the field with its elevation, the next field that works, and the
+// wind of the --wind-error set that breaks the plan, in the command's
+// words. fieldFlag names the flag the field came from.
+func planApproach(ctx context.Context, run *approachRun, req plan.ApproachRequest, fieldFlag string) error {
+	out, err := plan.Approach(ctx, req)
 	if err != nil {
-		return nil, approachErr(err)
-	}
-	if !res.Feasible || len(run.setup.Winds) < 2 {
-		return res, nil
-	}
-	for k, w := range run.setup.Winds[1:] {
-		r2 := req
-		r2.Wind = w
-		r2.LandingDir = res.LandingDir
-		alt, err := approach.Plan(ctx, r2)
-		if err != nil {
-			return nil, approachErr(err)
+		var ie *plan.InputError
+		if errors.As(err, &ie) && ie.Field == "Field" {
+			return &input.UsageError{Where: fieldFlag, Err: ie.Err}
 		}
-		if !alt.Feasible {
-			res.Feasible = false
-			res.Reason = fmt.Sprintf("in the wind %s (--wind-error case %d): %s", windText(w), k+2, alt.Reason)
-			run.worstWind = windText(w)
-			return res, nil
-		}
+		return approachErr(usage(err))
 	}
-	return res, nil
-}
-
-// approachField converts a field of the input layer.
-func approachField(f input.Field) approach.Field {
-	af := approach.Field{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: f.Elevation, Directions: f.LandingDirs, Side: f.PatternSide}
-	if len(f.Strip) == 2 {
-		af.Strip = &[2]geodesy.LatLon{{Lat: f.Strip[0][1], Lon: f.Strip[0][0]}, {Lat: f.Strip[1][1], Lon: f.Strip[1][0]}}
+	run.res, run.startElev = out.Plan, out.StartElev
+	run.field.Elevation = out.Field.Elevation
+	winds := run.setup.Winds
+	if k := out.FailedWind; k >= 0 {
+		run.res.Reason = fmt.Sprintf("in the wind %s (--wind-error case %d): %s", windText(winds[k]), k+1, out.WindReason)
 	}
-	return af
-}
-
-// nextField plans the other fields of the file, nearest first (at most
-// ten), and names the first that works.
-func nextField(ctx context.Context, run *approachRun, base approach.Request, all []input.Field) (string, error) {
-	type cand struct {
-		f input.Field
-		d float64
+	if k := out.LastFailedWind; k >= 0 {
+		run.worstWind = windText(winds[k])
 	}
-	var cs []cand
-	for _, f := range all {
-		if strings.EqualFold(f.Name, run.field.Name) {
-			continue
-		}
-		s, _, _, err := geodesy.Inverse(geodesy.LatLon{Lat: run.startLat, Lon: run.startLon}, geodesy.LatLon{Lat: f.Lat, Lon: f.Lon})
-		if err != nil || s > 150e3 {
-			continue
-		}
-		cs = append(cs, cand{f, s})
+	run.searched = out.Searched
+	if n := out.Next; n != nil {
+		run.next = fmt.Sprintf("%s (%.1f km, %s landing %03.0f°)", n.Field.Name, n.DistanceM/1000, n.Plan.Variant, n.Plan.LandingDir)
 	}
-	sort.Slice(cs, func(i, j int) bool { return cs[i].d < cs[j].d })
-	if len(cs) > 10 {
-		cs = cs[:10]
-	}
-	sampler := run.sampler
-	for _, c := range cs {
-		f := c.f
-		if !f.HasElevation {
-			e, ok := sampler.field(f.Lat, f.Lon)
-			if !ok {
-				continue
-			}
-			f.Elevation = e
-		}
-		if !(base.Alt > f.Elevation) {
-			continue
-		}
-		req := base
-		req.LandingDir = math.NaN()
-		req.Field = approachField(f)
-		res, err := planWorst(ctx, run, req)
-		if err != nil {
-			var ue *input.UsageError
-			if errors.As(err, &ue) {
-				continue // that field's own data do not fit; not this run's fault
-			}
-			return "", err
-		}
-		if res.Feasible {
-			return fmt.Sprintf("%s (%.1f km, %s landing %03.0f°)", f.Name, c.d/1000, res.Variant, res.LandingDir), nil
-		}
-	}
-	return "", nil
-}
-
-// approachSampler gives the terrain of a plan: the highest DEM sample
-// around a point for clearances (the obstacle surface the solvers use) and
-// the DEM's bilinear value for a field's elevation.
-type approachSampler struct {
-	grid *terrain.Grid // nil on flat ground
-	flat float64
-	step float64 // m
-}
-
-func (s *approachSampler) high(lat, lon float64) (float64, bool) {
-	if s.grid == nil {
-		return s.flat, true
-	}
-	return s.grid.HighAround(lat, lon)
-}
-
-func (s *approachSampler) at(lat, lon float64) (float64, bool) { return s.field(lat, lon) }
-
-func (s *approachSampler) field(lat, lon float64) (float64, bool) {
-	if s.grid == nil {
-		return s.flat, true
-	}
-	return s.grid.Elevation(lat, lon)
-}
-
-// approachTerrain reads one DEM window around the aircraft and the field
-// (and the other fields within 30 km of the aircraft, for the search of
-// the next field that works), 10 km beyond them:
-// room for the pattern, a long straight-in and the holding.
-func approachTerrain(run *approachRun, all []input.Field) (*approachSampler, error) {
-	if run.ground.Src == nil {
-		return &approachSampler{flat: run.ground.Flat, step: 50}, nil
-	}
-	w, e := math.Min(run.startLon, run.field.Lon), math.Max(run.startLon, run.field.Lon)
-	s, n := math.Min(run.startLat, run.field.Lat), math.Max(run.startLat, run.field.Lat)
-	// Fields within 30 km of the aircraft, for the search of the next
-	// field that works.
-	for _, f := range all {
-		if d, _, _, err := geodesy.Inverse(geodesy.LatLon{Lat: run.startLat, Lon: run.startLon}, geodesy.LatLon{Lat: f.Lat, Lon: f.Lon}); err == nil && d < 30e3 {
-			w, e = math.Min(w, f.Lon), math.Max(e, f.Lon)
-			s, n = math.Min(s, f.Lat), math.Max(n, f.Lat)
-		}
-	}
-	const padM = 10000.0
-	dLat := padM / 111000
-	dLon := padM / (111000 * math.Max(0.1, math.Cos(run.field.Lat*math.Pi/180)))
-	grid, err := run.ground.Src.Window(w-dLon, s-dLat, e+dLon, n+dLat)
-	if err != nil {
-		if errors.Is(err, terrain.ErrOutside) {
-			return nil, input.Usagef("--from", "the aircraft and the field lie outside the terrain data (%s)", run.ground.Src.Describe())
-		}
-		return nil, &input.UsageError{Where: "--terrain", Err: err}
-	}
-	step := math.Max(10, math.Min(50, run.ground.Src.Resolution()))
-	return &approachSampler{grid: grid, step: step}, nil
+	return nil
 }

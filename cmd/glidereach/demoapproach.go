@@ -7,7 +7,6 @@ import (
 	"math"
 
 	"glidereach/cmd/glidereach/input"
-	"glidereach/reach/approach"
 	"glidereach/reach/geodesy"
 )
 
@@ -49,32 +48,29 @@ func demoApproach(ctx context.Context, d *demoRun) error {
 	for _, f := range sc.fields {
 		r := *run
 		r.field = f
-		sampler, err := approachTerrain(&r, nil)
+		sampler, err := plan.ReadApproachTerrain(r.ground, r.startLat, r.startLon, plan.Field(f), nil)
 		if err != nil {
-			return err
+			return usage(err)
 		}
 		r.sampler = sampler
-		elev, ok := sampler.at(r.startLat, r.startLon)
-		if !ok {
+		if _, ok := sampler.Elevation(r.startLat, r.startLon); !ok {
 			return fmt.Errorf("demo approach: no terrain at the failure point")
 		}
-		r.startElev = elev
-		fe, ok := sampler.field(f.Lat, f.Lon)
+		fe, ok := sampler.Elevation(f.Lat, f.Lon)
 		if !ok {
 			continue
 		}
-		r.field.Elevation, r.fieldFrom = fe, "terrain"
+		// The demo takes every field's elevation from its terrain.
+		r.field.Elevation, r.field.HasElevation, r.fieldFrom = fe, true, "terrain"
 		if s, _, _, err := geodesy.Inverse(geodesy.LatLon{Lat: r.startLat, Lon: r.startLon}, geodesy.LatLon{Lat: f.Lat, Lon: f.Lon}); err != nil || s > 60e3 {
 			continue
 		}
-		req := approach.Request{Field: approachField(r.field), Aircraft: setup.Aircraft, Cond: setup.Cond, Atm: setup.Atm, Wind: setup.Wind,
-			Ground: sampler.high, Clearance: setup.Clearance, Lat: r.startLat, Lon: r.startLon, Alt: r.startAlt, LandingDir: math.NaN(),
-			Step: sampler.step, Failure: &approach.Failure{HeadingDeg: fs.HeadingDeg, IAS: fs.IAS, ReactionTime: fs.Reaction, Efficiency: fs.Efficiency, Bank: fs.Bank}}
-		res, err := approach.Plan(ctx, req)
-		if err != nil {
+		req := plan.ApproachRequest{Setup: &setup.Setup, Terrain: sampler, Lat: r.startLat, Lon: r.startLon, Alt: r.startAlt,
+			Field: plan.Field(r.field), LandingDir: math.NaN(), Failure: fs}
+		if err := planApproach(ctx, &r, req, "demo"); err != nil {
 			return err
 		}
-		r.res = res
+		res := r.res
 		status := "no plan holds"
 		if res.Feasible {
 			status = fmt.Sprintf("%s landing %03.0f°, %.0f m in hand", res.Variant, res.LandingDir, res.Excess)
