@@ -2,10 +2,8 @@ package main
 
 import (
 	"context"
-	"errors"
 	"fmt"
 	"io"
-	"math"
 	"path/filepath"
 	"strings"
 
@@ -238,35 +236,13 @@ func coverageOutput(run *coverageRun, format string) ([]byte, error) {
 // computeCoverage builds the window, the mask of the zone, runs the
 // coverage and the candidates.
 func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, fields, cands []input.Field, progress func(float64)) error {
-	b := run.zone.Bounds()
-	minLon, minLat, maxLon, maxLat := b.Min[0], b.Min[1], b.Max[0], b.Max[1]
 	flag := "--area"
 	if o.corridor != "" {
 		flag = "--corridor"
 	} else if o.box != "" {
 		flag = "--box"
 	}
-	// The highest altitude flown: --alt, or the highest terrain of the zone
-	// plus --agl (read from a first window over the zone alone).
-	top := o.alt.Value
 	if o.agl.Given {
-		top = run.ground.Flat + o.agl.Value
-		if run.ground.Src != nil {
-			l0, _, err := areaWindow(run.ground, minLat, minLon, maxLat, maxLon, 0, flag)
-			if err != nil {
-				return err
-			}
-			hi := math.Inf(-1)
-			for _, e := range l0.Elev {
-				if e == e {
-					hi = math.Max(hi, float64(e))
-				}
-			}
-			if math.IsInf(hi, -1) {
-				return input.Usagef("--terrain", "the terrain over the %s is all voids", flag[2:])
-			}
-			top = hi + o.agl.Value
-		}
 		run.altMode = fmt.Sprintf("%.0f m (%.0f ft) above the terrain at each cell (--agl)", o.agl.Value, o.agl.Value/0.3048)
 	} else {
 		run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) everywhere (--alt)", o.alt.Value, o.alt.Value/0.3048)
@@ -274,127 +250,24 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 			run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) true everywhere (--alt-indicated %.0f m, corrected for the temperature)", o.alt.Value, o.alt.Value/0.3048, o.ind.altInd.Value)
 		}
 	}
-	const margin = 300.0 // the least altitudes are computed this far above the highest altitude flown
-	ceiling := math.Min(top+margin, 19500)
-	bottom := 0.0
-	if run.ground.Src == nil {
-		bottom = run.ground.Flat
+	req := plan.CoverageRequest{Setup: &run.setup.Setup, Ground: run.ground, Zone: run.zone, ZoneField: strings.ToUpper(flag[2:3]) + flag[3:],
+		Alt: o.alt.Value, Fields: planFields(fields), Candidates: planFields(cands), Pick: o.pick, Progress: progress}
+	if o.agl.Given {
+		req.Alt, req.AGL = o.agl.Value, true
 	}
-	l, grid, err := run.setup.SizeWindow(plan.WindowSize{Top: ceiling, TableTop: ceiling + 60, Bottom: bottom, Below: 60},
-		func(radius float64) (*terrain.Local, *terrain.Grid, error) {
-			return areaWindow(run.ground, minLat, minLon, maxLat, maxLon, radius*1.02+1000, flag)
-		})
+	res, err := plan.Coverage(ctx, req)
 	if err != nil {
 		return usage(err)
 	}
-	if math.IsInf(plan.Lowest(l), 1) {
-		return input.Usagef("--terrain", "the terrain around the %s is all voids", flag[2:])
-	}
-	run.grid = grid
-	if run.ground.Src != nil {
-		if dem := run.ground.Src.Resolution(); dem > 0 && l.Cell > 1.05*dem {
-			run.notes = append(run.notes, fmt.Sprintf("solved on %.0f m cells, coarser than the DEM's %.0f m (one solver grid holds at most %d × %d cells); --tiled solves at the DEM's resolution", l.Cell, dem, plan.MaxWindowSide, plan.MaxWindowSide))
+	run.grid, run.res, run.rank = res.Grid, res.Coverage, res.Ranking
+	run.fields, run.cands = res.Fields, res.Candidates
+	run.notes = append(run.notes, res.Notes...)
+	if run.ground.Src != nil && res.Coverage != nil {
+		if dem, cell := run.ground.Src.Resolution(), res.Coverage.Ground.Cell; dem > 0 && cell > 1.05*dem {
+			run.notes = append(run.notes, fmt.Sprintf("solved on %.0f m cells, coarser than the DEM's %.0f m (one solver grid holds at most %d × %d cells); --tiled solves at the DEM's resolution", cell, dem, plan.MaxWindowSide, plan.MaxWindowSide))
 		}
 	}
-	lo := plan.Lowest(l)
-	if lo >= top {
-		return input.Usagef("--alt", "%.0f m MSL is not above the lowest ground (%.0f m)", top, lo)
-	}
-	// Mask of the zone: each cell centre tested.
-	mask := make([]bool, l.Cols*l.Rows)
-	inZone := 0
-	for r := 0; r < l.Rows; r++ {
-		for c := 0; c < l.Cols; c++ {
-			x, y := l.XY(c, r)
-			lat, lon := l.Frame.Inverse(x, y)
-			if run.zone.Contains(lat, lon) {
-				mask[r*l.Cols+c] = true
-				inZone++
-			}
-		}
-	}
-	if inZone == 0 {
-		return input.Usagef(flag, "the %s holds no cell of the %.0f m solver grid", flag[2:], l.Cell)
-	}
-	toTargets := func(fs []input.Field) ([]routeField, []reach.Target) {
-		var rf []routeField
-		var ts []reach.Target
-		for _, f := range fs {
-			te, on := plan.PointElevation(l, grid, f.Lat, f.Lon)
-			r := routeField{Field: plan.Field(f), Elev: te, Target: len(ts)}
-			if f.HasElevation {
-				r.Elev = f.Elevation
-			}
-			if !on {
-				r.Elev = math.NaN()
-				if f.HasElevation {
-					r.Elev = f.Elevation
-				}
-				r.Note = "beyond the computed window (too far to matter) or on unknown ground"
-			}
-			ts = append(ts, reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: r.Elev, Reserve: run.setup.Reserve})
-			if !math.IsNaN(r.Elev) {
-				lo = math.Min(lo, r.Elev)
-			}
-			rf = append(rf, r)
-		}
-		return rf, ts
-	}
-	var ts, cs []reach.Target
-	run.fields, ts = toTargets(fields)
-	run.cands, cs = toTargets(cands)
-	tab, err := run.setup.Table(lo-60, ceiling+60)
-	if err != nil {
-		return &input.UsageError{Where: "--aircraft", Err: err}
-	}
-	// With --wind-error every wind of the set must hold: the other winds'
-	// tables go in as CoverageOptions.Also.
-	var also []reach.LossModel
-	for _, w := range run.setup.Winds[1:] {
-		t, err := run.setup.TableFor(w, lo-60, ceiling+60)
-		if err != nil {
-			return &input.UsageError{Where: "--aircraft", Err: err}
-		}
-		also = append(also, t)
-	}
-	share := 1.0
-	if len(cs) > 0 {
-		share = float64(len(ts)) / float64(len(ts)+len(cs))
-	}
-	opts := reach.CoverageOptions{Alt: o.alt.Value, Clearance: run.setup.Clearance, Mask: mask, Margin: margin, Also: also,
-		Progress: func(d float64) { progress(d * share) }}
-	if o.agl.Given {
-		opts.Alt, opts.AGL = o.agl.Value, true
-		if grid != nil {
-			// The height flown is measured from the DEM's own ground; l holds
-			// the obstacle surface (highest sample per cell).
-			opts.AGLGround = terrain.Resample(grid, l.Frame, l.X0, l.Y0, l.Cell, l.Cols, l.Rows).Elev
-		}
-	}
-	res, err := reach.Coverage(ctx, l, ts, tab, opts)
-	if errors.Is(err, reach.ErrNoTargets) {
-		run.notes = append(run.notes, "no existing field lies within reach of the area")
-		res, err = reach.NewEmptyCoverage(l, opts, len(ts)), nil
-	}
-	if err != nil {
-		return err
-	}
-	for i := range run.fields {
-		if res.Skipped[i] && run.fields[i].Note == "" {
-			run.fields[i].Note = "off the computed window"
-		}
-	}
-	run.res = res
-	if len(cs) > 0 {
-		res.Opts.Progress = func(d float64) { progress(share + d*(1-share)) }
-		rk, err := res.Candidates(ctx, cs, tab, o.pick)
-		if err != nil {
-			return err
-		}
-		run.rank = rk
-	}
-	cov, unc, ca, ua := res.Polygons()
-	run.covered, run.uncovered, run.coveredArea, run.uncoveredArea = cov, unc, ca, ua
+	run.covered, run.uncovered, run.coveredArea, run.uncoveredArea = res.Covered, res.Uncovered, res.CoveredArea, res.UncoveredArea
 	return nil
 }
 
