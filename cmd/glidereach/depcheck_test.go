@@ -6,9 +6,11 @@ import (
 	"testing"
 )
 
-// TestDependencyDirection keeps the layering of DESIGN.md: cmd → reach →
-// {terrain, wind}; terrain and wind import neither each other nor reach, and
-// no library package imports cobra (the command line) or the input edge.
+// TestDependencyDirection keeps the layering of DESIGN.md: cmd → reach/plan
+// (the use cases) → reach → {terrain, wind}; terrain and wind import
+// neither each other nor reach, reach does not import the use cases above
+// it, and no library package imports cobra or pflag (the command line) or
+// the input edge.
 func TestDependencyDirection(t *testing.T) {
 	if _, err := exec.LookPath("go"); err != nil {
 		t.Skip("go tool not on PATH")
@@ -16,7 +18,8 @@ func TestDependencyDirection(t *testing.T) {
 	forbidden := map[string][]string{
 		"glidereach/terrain":       {"glidereach/wind", "glidereach/reach", "glidereach/reach/", "glidereach/cmd/", "github.com/spf13/cobra"},
 		"glidereach/wind":          {"glidereach/terrain", "glidereach/reach", "glidereach/reach/", "glidereach/cmd/", "github.com/spf13/cobra"},
-		"glidereach/reach":         {"glidereach/cmd/", "github.com/spf13/cobra", "github.com/tidwall/geojson"},
+		"glidereach/reach":         {"glidereach/cmd/", "github.com/spf13/cobra", "github.com/tidwall/geojson", "glidereach/reach/plan"},
+		"glidereach/reach/plan":    {"glidereach/cmd/", "github.com/spf13/cobra", "github.com/spf13/pflag", "github.com/tidwall/geojson"},
 		"glidereach/reach/geodesy": {"glidereach/cmd/", "github.com/spf13/cobra", "glidereach/terrain", "glidereach/wind"},
 	}
 	for pkg, bad := range forbidden {
