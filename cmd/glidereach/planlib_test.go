@@ -3,8 +3,11 @@ package main
 import (
 	"context"
 	"encoding/json"
+	"errors"
 	"fmt"
+	"io"
 	"math"
+	"strings"
 	"testing"
 
 	"glidereach/cmd/glidereach/input"
@@ -116,4 +119,30 @@ func deref(p *float64) any {
 		return nil
 	}
 	return *p
+}
+
+// A bad request names a request field in plan; the command names its flag
+// (the flags of --help, cmd/glidereach/*.go), with exit status 2.
+func TestPlanErrorsNameFlags(t *testing.T) {
+	for field, flag := range map[string]string{
+		"From": "--from", "Alt": "--alt", "AltIndicated": "--alt-indicated", "AirSink": "--air-sink",
+		"MacCready": "--mc", "Terrain": "--terrain", "Aircraft": "--aircraft", "": "",
+	} {
+		if got := flagOf(field); got != flag {
+			t.Errorf("flagOf(%q) = %q, want %q", field, got, flag)
+		}
+	}
+	err := usage(&plan.InputError{Field: "Alt", Err: fmt.Errorf("400 m MSL is not above the terrain")})
+	var ue *input.UsageError
+	if !errors.As(err, &ue) || ue.Where != "--alt" || exitStatus(err) != exitUsage {
+		t.Errorf("usage(InputError Alt) = %#v (exit %d), want a UsageError for --alt, exit 2", err, exitStatus(err))
+	}
+	// Through a command: a start below the ground.
+	root := newRootCmd()
+	root.SetArgs([]string{"reach", "--from", "0,0", "--alt", "100m", "--ground", "500m"})
+	root.SetErr(io.Discard)
+	err = execute(context.Background(), root, io.Discard)
+	if exitStatus(err) != exitUsage || err == nil || !strings.HasPrefix(err.Error(), "--alt: ") {
+		t.Errorf("error %v (exit %d); want exit 2 naming --alt", err, exitStatus(err))
+	}
 }
