@@ -15,6 +15,21 @@
 //
 // # What is where
 //
+// The use cases, each a function of a typed request:
+//
+//   - reach.go: Reach, the footprint from a start with its fields judged
+//     (ReachRequest, ReachResult, StartElevation).
+//   - final.go: FinalGlide, the final glide along a line (FinalRequest,
+//     FinalResult, FinalWorse).
+//   - route.go: Route, the forced-landing options along a planned route
+//     (RouteRequest, RouteResult, RouteField).
+//   - coverage.go: Coverage, the field coverage of an area or corridor on
+//     one grid (CoverageRequest, CoverageResult, Zone).
+//   - approach.go: Approach, the pattern to one field (ApproachRequest,
+//     ApproachResult, ReadApproachTerrain, CheckApproachDistance).
+//
+// Their shared pieces:
+//
 //   - setup.go: Setup, the aircraft and the air of a run (profile,
 //     conditions, atmosphere, the forecast wind and the winds a
 //     conservative result must hold for, reserve and clearance); its
@@ -28,6 +43,9 @@
 //     worst-of-winds rule and corrected once for the lowest ground read.
 //   - field.go: Field (a landing field of a request) and FieldResult (a
 //     field judged from a start).
+//   - failure.go: Failure, the state at an engine failure (its energy
+//     credit and the footprint's sector starts).
+//   - edge.go: TerrainEdge, where a footprint is cut off by the data's edge.
 //   - foreach.go: ForEach, the two-at-a-time runner of independent solver
 //     runs.
 //   - errors.go: InputError, an error the request caused, naming its field.
