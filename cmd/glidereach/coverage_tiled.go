@@ -17,6 +17,7 @@ import (
 
 	"glidereach/cmd/glidereach/input"
 	"glidereach/reach"
+	"glidereach/reach/plan"
 	"glidereach/reach/tiling"
 	"glidereach/reach/tiling/fgb"
 	"glidereach/terrain"
@@ -212,7 +213,7 @@ func computeTiled(ctx context.Context, run *coverageRun, o *coverageOptions, fie
 		var rf []routeField
 		var ts []reach.Target
 		for _, f := range fs {
-			r := routeField{Field: f, Target: len(ts)}
+			r := routeField{Field: plan.Field(f), Target: len(ts)}
 			if f.HasElevation {
 				r.Elev = f.Elevation
 			} else {
