@@ -39,10 +39,12 @@ type coverageOptions struct {
 	out        string
 	mapPNG     string
 	report     string
+	tiledOpts  *tiledFlags
 }
 
 func newCoverageCmd() *cobra.Command {
-	o := &coverageOptions{glide: newGlideFlags(), terr: newTerrainFlags(), alt: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), agl: input.NewQuantity(input.Length, 0).Within(0, maxAGL), ind: newIndicatedFlags(), pick: 3}
+	o := &coverageOptions{glide: newGlideFlags(), terr: newTerrainFlags(), alt: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), agl: input.NewQuantity(input.Length, 0).Within(0, maxAGL), ind: newIndicatedFlags(), pick: 3,
+		tiledOpts: &tiledFlags{cell: input.NewQuantity(input.Length, 0)}}
 	cmd := &cobra.Command{
 		Use:   "coverage --fields FILE (--area FILE | --box LAT,LON,LAT,LON | --corridor ROUTE,WIDTH) (--alt ALT|--agl HEIGHT)",
 		Short: "How much of an area or corridor has a landing field in reach, and which new field helps most",
@@ -56,6 +58,14 @@ cell (--raster, GeoTIFF or ESRI ASCII grid), and for every field the area it
 covers and the area only it covers. With --candidates it ranks candidate
 fields by the area each would add and chooses the best --pick of them one
 by one, each choice taking the one that adds most to what is covered.
+
+One solver grid holds at most 2001 × 2001 cells: a larger area is solved
+on coarser cells (the output says so). --tiled solves it at the DEM's own
+resolution whatever its size: each field on its own window, merged tile by
+tile on the DEM's lattice, on all cores (--workers), with work files in
+--work-dir so a stopped run continues where it was; --cog writes the least
+altitude as a cloud-optimised GeoTIFF, --fgb the covered and uncovered
+parts as FlatGeobuf. --work-dir, --cog, --fgb and --cell imply --tiled.
 
 ` + cautionText,
 		Example: `  glidereach coverage --fields testdata/fields/demo-fields.geojson --box -0.8,-24.85,-0.15,-24.15 --alt 1500m
@@ -86,6 +96,14 @@ by one, each choice taking the one that adds most to what is covered.
 	fs.StringVar(&o.out, "out", "", "write the result to this file in --format (text summary still printed)")
 	fs.StringVar(&o.mapPNG, "map", "", "draw a map of the coverage to this PNG file")
 	fs.StringVar(&o.report, "report", "", "write a self-contained HTML report to this file")
+	t := o.tiledOpts
+	fs.BoolVar(&t.tiled, "tiled", false, "solve at the DEM's resolution tile by tile, for areas larger than one solver grid")
+	fs.StringVar(&t.workDir, "work-dir", "", "with --tiled: directory of the work files; a stopped run given it again continues (default: a temporary one)")
+	fs.IntVar(&t.workers, "workers", 0, "with --tiled: field runs at a time (0: all cores)")
+	fs.IntVar(&t.tile, "tile", 0, "with --tiled: output tile side in cells, a multiple of 16 (0: 1024)")
+	fs.StringVar(&t.cog, "cog", "", "with --tiled: write the least altitude (m MSL) as a cloud-optimised GeoTIFF (.tif)")
+	fs.StringVar(&t.fgb, "fgb", "", "with --tiled: write the covered and uncovered parts and the fields as FlatGeobuf (.fgb)")
+	fs.Var(t.cell, "cell", t.cell.Help("with --tiled: solver cell coarser than the DEM's (m); the output says so"))
 	cmd.MarkFlagsMutuallyExclusive("alt", "agl")
 	cmd.MarkFlagsMutuallyExclusive("area", "box", "corridor")
 	return cmd
@@ -187,6 +205,9 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 	for _, w := range farWarnings(strings.Fields(run.zoneText)[0], run.zone.Bounds(), fields, "--fields", src) {
 		fmt.Fprintln(stderr, "glidereach: warning:", w)
 	}
+	if o.tiledOpts != nil && o.tiledOpts.wanted() {
+		return runCoverageTiled(ctx, run, o, fields, cands, stdout, stderr)
+	}
 	prog := newProgress(stderr, "coverage")
 	err = computeCoverage(ctx, run, o, fields, cands, prog.set)
 	prog.done()
@@ -241,6 +262,11 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 	run.grid, run.res, run.rank = res.Grid, res.Coverage, res.Ranking
 	run.fields, run.cands = res.Fields, res.Candidates
 	run.notes = append(run.notes, res.Notes...)
+	if run.ground.Src != nil && res.Coverage != nil {
+		if dem, cell := run.ground.Src.Resolution(), res.Coverage.Ground.Cell; dem > 0 && cell > 1.05*dem {
+			run.notes = append(run.notes, fmt.Sprintf("solved on %.0f m cells, coarser than the DEM's %.0f m (one solver grid holds at most %d × %d cells); --tiled solves at the DEM's resolution", cell, dem, plan.MaxWindowSide, plan.MaxWindowSide))
+		}
+	}
 	run.covered, run.uncovered, run.coveredArea, run.uncoveredArea = res.Covered, res.Uncovered, res.CoveredArea, res.UncoveredArea
 	return nil
 }

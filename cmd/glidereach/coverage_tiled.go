@@ -1,0 +1,554 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/paulmach/orb"
+	"github.com/paulmach/orb/geojson"
+
+	"glidereach/cmd/glidereach/input"
+	"glidereach/reach"
+	"glidereach/reach/plan"
+	"glidereach/reach/tiling"
+	"glidereach/reach/tiling/fgb"
+	"glidereach/terrain"
+)
+
+// tiledFlags are coverage's flags of the tiled path.
+type tiledFlags struct {
+	tiled   bool
+	workDir string
+	workers int
+	tile    int
+	cog     string
+	fgb     string
+	cell    *input.Quantity
+}
+
+// wanted reports whether the tiled path was asked for: --tiled, or a flag
+// only it has.
+func (t *tiledFlags) wanted() bool {
+	return t.tiled || t.workDir != "" || t.cog != "" || t.fgb != "" || t.cell.Given
+}
+
+// tiledRun is what a tiled coverage produced.
+type tiledRun struct {
+	*coverageRun
+	plan                       *tiling.Plan
+	res                        *tiling.Result
+	rank                       *tiling.Ranking
+	workers                    int
+	demCell                    float64
+	coveredArea, uncoveredArea float64
+	covered, uncovered         orb.MultiPolygon
+}
+
+// checkTiled refuses bad values of the tiled flags and the outputs the
+// tiled path has not (exit status 2).
+func checkTiled(o *coverageOptions) error {
+	t := o.tiledOpts
+	if t.workers < 0 || t.workers > 1024 {
+		return input.Usagef("--workers", "%d is outside 1..1024 (0: all cores)", t.workers)
+	}
+	if t.tile != 0 && (t.tile < 64 || t.tile > 8192 || t.tile%16 != 0) {
+		return input.Usagef("--tile", "%d cells is not a multiple of 16 in 64..8192", t.tile)
+	}
+	if t.cell.Given && !(t.cell.Value >= 1 && t.cell.Value <= 1000) {
+		return input.Usagef("--cell", "%v m is outside 1..1000 m", t.cell.Value)
+	}
+	if o.mapPNG != "" || o.report != "" {
+		flag := "--map"
+		if o.mapPNG == "" {
+			flag = "--report"
+		}
+		return input.Usagef(flag, "a map or report is drawn from one solver grid; the tiled path (--tiled, --work-dir, --cog, --fgb, --cell) writes --cog, --fgb, --raster and --out instead")
+	}
+	if t.cog != "" {
+		if err := checkOutputPath("--cog", t.cog); err != nil {
+			return err
+		}
+		if e := strings.ToLower(filepath.Ext(t.cog)); e != ".tif" && e != ".tiff" {
+			return input.Usagef("--cog", "%q: a cloud-optimised GeoTIFF is written to a .tif file", t.cog)
+		}
+	}
+	if t.fgb != "" {
+		if err := checkOutputPath("--fgb", t.fgb); err != nil {
+			return err
+		}
+		if !strings.EqualFold(filepath.Ext(t.fgb), ".fgb") {
+			return input.Usagef("--fgb", "%q: FlatGeobuf is written to a .fgb file", t.fgb)
+		}
+	}
+	if t.workDir != "" {
+		if fi, err := os.Stat(t.workDir); err == nil && !fi.IsDir() {
+			return input.Usagef("--work-dir", "%q is a file, not a directory", t.workDir)
+		}
+	}
+	return nil
+}
+
+// runCoverageTiled is runCoverage's tiled path: check, compute, write.
+func runCoverageTiled(ctx context.Context, run *coverageRun, o *coverageOptions, fields, cands []input.Field, stdout, stderr io.Writer) error {
+	if err := checkTiled(o); err != nil {
+		return err
+	}
+	prog := newProgress(stderr, "coverage (tiled)")
+	tr, err := computeTiled(ctx, run, o, fields, cands, prog.set, stderr)
+	prog.done()
+	if err != nil {
+		return err
+	}
+	var wrote []string
+	for _, p := range []string{o.raster, o.tiledOpts.cog, o.tiledOpts.fgb} {
+		if p != "" {
+			wrote = append(wrote, p)
+		}
+	}
+	document := func(format string) ([]byte, error) {
+		switch format {
+		case "geojson":
+			return tiledGeoJSON(tr)
+		case "json":
+			return tiledJSON(tr)
+		}
+		var b strings.Builder
+		writeTiledText(&b, tr)
+		return []byte(b.String()), nil
+	}
+	return deliver(ctx, stdout, results{out: o.out, format: o.format, document: document,
+		text: func(w io.Writer) {
+			writeTiledText(w, tr)
+			if len(wrote) > 0 {
+				fmt.Fprintln(w)
+			}
+			for _, p := range wrote {
+				fmt.Fprintf(w, "wrote %s\n", p)
+			}
+		}})
+}
+
+// computeTiled runs the tiled coverage: the DEM's lattice over the zone,
+// one field run per field at the DEM's resolution, merged tile by tile.
+func computeTiled(ctx context.Context, run *coverageRun, o *coverageOptions, fields, cands []input.Field, progress func(float64), stderr io.Writer) (*tiledRun, error) {
+	t := o.tiledOpts
+	b := run.zone.Bounds()
+	flag := zoneFlag(o)
+	src := run.ground.Src
+	demCell := 30.0
+	if src != nil {
+		demCell = src.Resolution()
+		if !(demCell > 0) {
+			demCell = 30
+		}
+	}
+	cell := demCell
+	tr := &tiledRun{coverageRun: run, demCell: demCell}
+	if t.cell.Given {
+		if src != nil && t.cell.Value < demCell*0.999 {
+			return nil, input.Usagef("--cell", "%.1f m is finer than the DEM's %.1f m: the solver works at the DEM's resolution or coarser", t.cell.Value, demCell)
+		}
+		cell = t.cell.Value
+		if src != nil && cell > demCell*1.001 {
+			run.notes = append(run.notes, fmt.Sprintf("solver cell %.1f m as asked (--cell), coarser than the DEM's %.1f m: terrain detail between cells is taken as the highest DEM sample of each cell", cell, demCell))
+		}
+	}
+	lat, err := tiling.LatticeFor(src, b.Min[0], b.Min[1], b.Max[0], b.Max[1], cell)
+	if err != nil {
+		return nil, &input.UsageError{Where: flag, Err: err}
+	}
+	if int64(lat.Cols)*int64(lat.Rows) > 4e9 {
+		return nil, input.Usagef(flag, "the %s holds %d × %d cells of the DEM's lattice, more than 4×10⁹", flag[2:], lat.Cols, lat.Rows)
+	}
+	// The altitude flown, and the lowest ground known (for the tables).
+	top := o.alt.Value
+	lo, hi := math.Inf(1), math.Inf(-1)
+	if src != nil {
+		p0 := &tiling.Plan{Lattice: lat, Tile: 1024}
+		for _, id := range p0.Tiles() {
+			c0, r0, cols, rows := p0.TileBox(id)
+			g := lat.Grid()
+			la0, lo0, _ := g.FromCRS(g.X0+float64(c0)*g.DX, g.Y0-float64(r0)*g.DY)
+			la1, lo1, _ := g.FromCRS(g.X0+float64(c0+cols-1)*g.DX, g.Y0-float64(r0+rows-1)*g.DY)
+			dem, err := src.Window(math.Min(lo0, lo1), math.Min(la0, la1), math.Max(lo0, lo1), math.Max(la0, la1))
+			if errors.Is(err, terrain.ErrOutside) {
+				continue // a tile off the DEM: unknown ground
+			}
+			if err != nil {
+				return nil, &input.UsageError{Where: "--terrain", Err: err}
+			}
+			if a, z, ok := dem.ElevationRange(); ok {
+				lo, hi = math.Min(lo, a), math.Max(hi, z)
+			}
+		}
+		if math.IsInf(hi, -1) {
+			return nil, input.Usagef("--terrain", "the terrain over the %s is all voids", flag[2:])
+		}
+	} else {
+		lo, hi = run.ground.Flat, run.ground.Flat
+	}
+	if o.agl.Given {
+		top = hi + o.agl.Value
+		run.altMode = fmt.Sprintf("%.0f m (%.0f ft) above the terrain at each cell (--agl)", o.agl.Value, o.agl.Value/0.3048)
+	} else {
+		run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) everywhere (--alt)", o.alt.Value, o.alt.Value/0.3048)
+		if o.ind.altInd.Given {
+			run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) true everywhere (--alt-indicated %.0f m, corrected for the temperature)", o.alt.Value, o.alt.Value/0.3048, o.ind.altInd.Value)
+		}
+		if lo >= top {
+			return nil, input.Usagef("--alt", "%.0f m MSL is not above the lowest ground of the %s (%.0f m)", top, flag[2:], lo)
+		}
+	}
+	const margin = 300.0
+	ceiling := math.Min(top+margin, 19500)
+	toTargets := func(fs []input.Field) ([]routeField, []reach.Target, error) {
+		var rf []routeField
+		var ts []reach.Target
+		for _, f := range fs {
+			r := routeField{Field: plan.Field(f), Target: len(ts)}
+			if f.HasElevation {
+				r.Elev = f.Elevation
+			} else {
+				e, ok, err := run.ground.ElevationAt(f.Lat, f.Lon)
+				if err != nil {
+					return nil, nil, usage(err)
+				}
+				r.Elev = e
+				if !ok {
+					r.Elev = math.NaN()
+					r.Note = "on unknown ground or off the terrain data"
+				}
+			}
+			if !math.IsNaN(r.Elev) {
+				lo = math.Min(lo, r.Elev)
+			}
+			ts = append(ts, reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: r.Elev, Reserve: run.setup.Reserve})
+			rf = append(rf, r)
+		}
+		return rf, ts, nil
+	}
+	var ts, cs []reach.Target
+	if run.fields, ts, err = toTargets(fields); err != nil {
+		return nil, err
+	}
+	if run.cands, cs, err = toTargets(cands); err != nil {
+		return nil, err
+	}
+	// The tables reach 1000 m below the lowest ground of the zone and the
+	// fields (windows reach beyond the zone; below the table the lowest
+	// row is used).
+	tabLo := math.Max(-500, lo-1000)
+	var models []tiling.LossGrid
+	for _, w := range run.setup.Winds {
+		tab, err := run.setup.TableFor(w, tabLo, ceiling+60)
+		if err != nil {
+			return nil, &input.UsageError{Where: "--aircraft", Err: err}
+		}
+		hMin, hMax := tab.Range()
+		lg, err := tiling.SampleLoss(tab, hMin, hMax)
+		if err != nil {
+			return nil, err
+		}
+		models = append(models, lg)
+	}
+	p := &tiling.Plan{Lattice: lat, Tile: t.tile, Fields: ts, Candidates: cs, Models: models, Clearance: run.setup.Clearance,
+		Alt: o.alt.Value, AGL: o.agl.Given, Ceiling: ceiling, Cell: cell, Flat: run.ground.Flat, Notes: run.notes}
+	if o.agl.Given {
+		p.Alt = o.agl.Value
+	}
+	tr.plan = p
+	dir := t.workDir
+	if dir == "" {
+		d, err := os.MkdirTemp("", "glidereach-coverage-*")
+		if err != nil {
+			return nil, err
+		}
+		defer os.RemoveAll(d)
+		dir = d
+	} else if err := os.MkdirAll(dir, 0o755); err != nil {
+		return nil, input.Usagef("--work-dir", "%v", err)
+	}
+	tr.workers = t.workers
+	if tr.workers == 0 {
+		tr.workers = runtime.NumCPU()
+	}
+	res, err := tiling.Run(ctx, src, p, tiling.RunOptions{Workers: tr.workers, WorkDir: dir, Zone: run.zone.Contains, Progress: progress})
+	if errors.Is(err, tiling.ErrOtherPlan) {
+		return nil, &input.UsageError{Where: "--work-dir", Err: err}
+	}
+	if err != nil {
+		if ctx.Err() != nil && t.workDir != "" {
+			fmt.Fprintf(stderr, "glidereach: stopped; the finished tiles are kept in %s: run the same command again to continue\n", t.workDir)
+		}
+		return nil, err
+	}
+	tr.res = res
+	if res.Totals.ZoneCells == 0 {
+		return nil, input.Usagef(flag, "the %s holds no cell of the DEM's lattice", flag[2:])
+	}
+	for i := range run.fields {
+		if res.Skipped[i] && run.fields[i].Note == "" {
+			run.fields[i].Note = "too far to reach the area from the altitude flown, or on unknown ground"
+		}
+	}
+	for j := range run.cands {
+		if res.Skipped[len(run.fields)+j] && run.cands[j].Note == "" {
+			run.cands[j].Note = "too far to reach the area from the altitude flown, or on unknown ground"
+		}
+	}
+	if len(cs) > 0 {
+		tr.rank = res.Totals.Rank(o.pick)
+	}
+	tr.covered, tr.uncovered, tr.coveredArea, tr.uncoveredArea, err = tiling.Contour(p, res)
+	if err != nil {
+		return nil, err
+	}
+	// Outputs that need the work files are written now, before a
+	// temporary work directory goes.
+	if t.cog != "" {
+		if err := writeFileAtomic(t.cog, func(f *os.File) error {
+			return tiling.WriteCOG(f, p, res, "glidereach: least altitude (m MSL) from which a landing field is reached with the reserve; NaN where none below the ceiling; overviews hold the highest value of the cells they cover. "+reach.Caution)
+		}); err != nil {
+			return nil, err
+		}
+	}
+	if o.raster != "" {
+		g, err := tiling.LeastGrid(p, res)
+		if err != nil {
+			return nil, err
+		}
+		g.Name = "least altitude to reach a landing field with the reserve, m MSL"
+		if err := writeRaster(o.raster, g, "least altitude (m MSL) from which a landing field is reached with the reserve; NaN where none is below the ceiling"); err != nil {
+			return nil, err
+		}
+	}
+	if t.fgb != "" {
+		if err := writeFileAtomic(t.fgb, func(f *os.File) error { return writeTiledFGB(f, tr) }); err != nil {
+			return nil, err
+		}
+	}
+	return tr, nil
+}
+
+func zoneFlag(o *coverageOptions) string {
+	if o.corridor != "" {
+		return "--corridor"
+	} else if o.box != "" {
+		return "--box"
+	}
+	return "--area"
+}
+
+func (tr *tiledRun) assumptions() []string {
+	a := tr.setup.assumptions()
+	p := tr.plan
+	l := p.Lattice
+	a = append(a, "altitude flown: "+tr.altMode,
+		"a cell is covered when some field is reached from its centre with the reserve; shares and areas count cells of the DEM's lattice, each with its area on the WGS84 ellipsoid",
+		fmt.Sprintf("least altitudes computed up to %.0f m MSL (raster empty above)", p.Ceiling),
+		fmt.Sprintf("tiled: output lattice %d × %d cells (EPSG:%d), %d tiles of %d cells; each field solved on its own window at %s; a cell's value is the highest of the four solver cells around it (conservative)", l.Cols, l.Rows, l.EPSG, len(p.Tiles()), p.TileSide(), tr.cellText()),
+		"analysed: "+tr.zoneText,
+		"terrain: "+tr.ground.Describe())
+	return a
+}
+
+// cellText says what the solver cell is against the DEM's.
+func (tr *tiledRun) cellText() string {
+	switch {
+	case tr.ground.Src == nil:
+		return fmt.Sprintf("%.1f m cells on flat ground (--cell sets them)", tr.plan.Cell)
+	case tr.plan.Cell > 1.001*tr.demCell:
+		return fmt.Sprintf("%.1f m as asked with --cell, coarser than the DEM's %.1f m", tr.plan.Cell, tr.demCell)
+	}
+	return fmt.Sprintf("the DEM's resolution, %.1f m", tr.plan.Cell)
+}
+
+func writeTiledText(w io.Writer, tr *tiledRun) {
+	t := tr.res.Totals
+	fmt.Fprintf(w, "Coverage of the %s (tiled)\n", tr.zoneText)
+	fmt.Fprintf(w, "Altitude flown: %s\n", tr.altMode)
+	fmt.Fprintf(w, "Aircraft: %s   Wind: %s\n", tr.setup.Aircraft.Name, tr.setup.WindText)
+	fmt.Fprintf(w, "Terrain: %s\n\n", tr.ground.Describe())
+	fmt.Fprintf(w, "A field is in reach with the %.0f m reserve from %.1f %% of the area (%.1f of %.1f km²).\n",
+		tr.setup.Reserve, pctDown(t.CoveredFraction), math.Floor(km2(t.CoveredArea)*10+1e-9)/10, km2(t.ZoneArea))
+	fmt.Fprintf(w, "Uncovered: %.1f km² in %d part(s).\n\n", math.Ceil(km2(t.ZoneArea-t.CoveredArea)*10-1e-9)/10, len(tr.uncovered))
+	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+	fmt.Fprintln(tw, "FIELD\tELEV m\tCOVERS km²\tONLY IT km²\tNOTE\t")
+	for i, f := range tr.fields {
+		fmt.Fprintf(tw, "%s\t%s\t%.1f\t%.1f\t%s\t\n", f.Name, fmtM(f.Elev), km2(t.Covers[i]), km2(t.Exclusive[i]), f.Note)
+	}
+	tw.Flush()
+	if rk := tr.rank; rk != nil {
+		fmt.Fprintln(w, "\nCandidates by the area each would add alone:")
+		tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+		fmt.Fprintln(tw, "RANK\tCANDIDATE\tADDS km²\tNOTE\t")
+		for k, i := range rk.Order {
+			fmt.Fprintf(tw, "%d\t%s\t%.1f\t%s\t\n", k+1, tr.cands[i].Name, km2(rk.Gain[i]), tr.cands[i].Note)
+		}
+		tw.Flush()
+		fmt.Fprintf(w, "\nGreedy choice (each step adds the candidate that adds most to what is covered so far):\n")
+		if len(rk.Steps) == 0 {
+			fmt.Fprintln(w, "  no candidate adds any covered area")
+		}
+		for k, s := range rk.Steps {
+			fmt.Fprintf(w, "  %d. %s: +%.1f km², covered %.1f %%\n", k+1, tr.cands[s.Candidate].Name, km2(s.Added), pctDown(s.CoveredFraction))
+		}
+	}
+	for _, n := range tr.notes {
+		fmt.Fprintln(w, "NOTE:", n)
+	}
+	fmt.Fprintf(w, "\nRun: %d field jobs on %d workers, %d of %d tiles taken from the work directory.\n", tr.res.Ran, tr.workers, tr.res.Resumed, len(tr.plan.Tiles()))
+	fmt.Fprintln(w, "\nAssumptions:")
+	for _, a := range tr.assumptions() {
+		fmt.Fprintln(w, "  -", a)
+	}
+	fmt.Fprintln(w, "\nCAUTION:", reach.Caution)
+}
+
+func (tr *tiledRun) fieldsJSON() []map[string]any {
+	t := tr.res.Totals
+	out := make([]map[string]any, 0, len(tr.fields))
+	for i, f := range tr.fields {
+		m := map[string]any{"name": f.Name, "lat": f.Lat, "lon": f.Lon, "elevation_m": num(f.Elev),
+			"covers_m2": math.Round(t.Covers[i]), "exclusive_m2": math.Round(t.Exclusive[i])}
+		if f.Note != "" {
+			m["note"] = f.Note
+		}
+		out = append(out, m)
+	}
+	return out
+}
+
+func (tr *tiledRun) candidatesJSON() (ranking, steps []map[string]any) {
+	rk := tr.rank
+	if rk == nil {
+		return nil, nil
+	}
+	for k, i := range rk.Order {
+		c := tr.cands[i]
+		m := map[string]any{"rank": k + 1, "name": c.Name, "lat": c.Lat, "lon": c.Lon, "elevation_m": num(c.Elev), "adds_m2": math.Round(rk.Gain[i])}
+		if c.Note != "" {
+			m["note"] = c.Note
+		}
+		ranking = append(ranking, m)
+	}
+	steps = []map[string]any{}
+	for k, s := range rk.Steps {
+		steps = append(steps, map[string]any{"step": k + 1, "name": tr.cands[s.Candidate].Name, "adds_m2": math.Round(s.Added),
+			"covered_fraction": fractionDown(s.CoveredFraction)})
+	}
+	return ranking, steps
+}
+
+func tiledJSON(tr *tiledRun) ([]byte, error) {
+	t := tr.res.Totals
+	l := tr.plan.Lattice
+	out := map[string]any{
+		"caution":           reach.Caution,
+		"analysed":          tr.zoneText,
+		"altitude_flown":    tr.altMode,
+		"aircraft":          tr.setup.Aircraft.Name,
+		"wind":              tr.setup.WindText,
+		"reserve_m":         tr.setup.Reserve,
+		"clearance_m":       tr.setup.Clearance,
+		"terrain":           tr.ground.Describe(),
+		"covered_fraction":  fractionDown(t.CoveredFraction),
+		"area_m2":           math.Round(t.ZoneArea),
+		"covered_m2":        math.Round(t.CoveredArea),
+		"uncovered_parts":   len(tr.uncovered),
+		"cell_size_m":       num(tr.plan.Cell),
+		"dem_cell_size_m":   num(tr.demCell),
+		"computed_to_msl_m": num(tr.plan.Ceiling),
+		"tiled": map[string]any{"lattice_cols": l.Cols, "lattice_rows": l.Rows, "epsg": l.EPSG, "tile_cells": tr.plan.TileSide(),
+			"tiles": len(tr.plan.Tiles()), "field_jobs": tr.res.Ran, "tiles_resumed": tr.res.Resumed, "workers": tr.workers},
+		"fields":      tr.fieldsJSON(),
+		"notes":       append([]string{}, tr.notes...),
+		"assumptions": tr.assumptions(),
+	}
+	if tr.rank != nil {
+		out["candidates"], out["picks"] = tr.candidatesJSON()
+	}
+	return jsonDoc(out, "  ")
+}
+
+func tiledGeoJSON(tr *tiledRun) ([]byte, error) {
+	t := tr.res.Totals
+	fc := geojson.NewFeatureCollection()
+	fc.ExtraMembers = geojson.Properties{"caution": reach.Caution}
+	cov := geojson.NewFeature(multiGeometry(tr.covered))
+	cov.Properties = map[string]any{"kind": "covered", "caution": reach.Caution, "covered_fraction": fractionDown(t.CoveredFraction),
+		"area_m2": math.Round(t.CoveredArea), "contour_area_m2": math.Round(tr.coveredArea),
+		"altitude_flown": tr.altMode, "aircraft": tr.setup.Aircraft.Name, "wind": tr.setup.WindText,
+		"reserve_m": tr.setup.Reserve, "clearance_m": tr.setup.Clearance, "terrain": tr.ground.Describe(),
+		"assumptions": tr.assumptions(), "planning_only": true}
+	fc.Append(cov)
+	unc := geojson.NewFeature(multiGeometry(tr.uncovered))
+	unc.Properties = map[string]any{"kind": "uncovered", "caution": reach.Caution, "area_m2": math.Round(t.ZoneArea - t.CoveredArea),
+		"contour_area_m2": math.Round(tr.uncoveredArea), "parts": len(tr.uncovered)}
+	fc.Append(unc)
+	if zp := tr.zonePolygons(); len(zp) > 0 {
+		z := geojson.NewFeature(zp)
+		z.Properties = map[string]any{"kind": "area", "analysed": tr.zoneText, "area_m2": math.Round(t.ZoneArea)}
+		fc.Append(z)
+	}
+	for _, f := range tr.fieldsJSON() {
+		ff := geojson.NewFeature(orb.Point{round6(f["lon"].(float64)), round6(f["lat"].(float64))})
+		delete(f, "lat")
+		delete(f, "lon")
+		f["kind"] = "field"
+		ff.Properties = f
+		fc.Append(ff)
+	}
+	ranking, _ := tr.candidatesJSON()
+	picked := map[int]int{}
+	if tr.rank != nil {
+		for k, s := range tr.rank.Steps {
+			picked[s.Candidate] = k + 1
+		}
+	}
+	for k, c := range ranking {
+		ff := geojson.NewFeature(orb.Point{round6(c["lon"].(float64)), round6(c["lat"].(float64))})
+		delete(c, "lat")
+		delete(c, "lon")
+		c["kind"] = "candidate"
+		c["picked_step"] = nil
+		if s, ok := picked[tr.rank.Order[k]]; ok {
+			c["picked_step"] = s
+		}
+		ff.Properties = c
+		fc.Append(ff)
+	}
+	return jsonDoc(fc, " ")
+}
+
+// writeTiledFGB writes the covered and uncovered parts and the fields as
+// FlatGeobuf (EPSG:4326, lon/lat), with the caution on every feature.
+func writeTiledFGB(w io.Writer, tr *tiledRun) error {
+	t := tr.res.Totals
+	h := fgb.Header{Name: "coverage", Title: "glidereach coverage of the " + tr.zoneText, EPSG: 4326,
+		Description: strings.Join(tr.assumptions(), "; ") + ". " + reach.Caution,
+		Columns: []fgb.Column{{Name: "kind", Type: fgb.String}, {Name: "name", Type: fgb.String}, {Name: "area_m2", Type: fgb.Double},
+			{Name: "covered_fraction", Type: fgb.Double}, {Name: "exclusive_m2", Type: fgb.Double}, {Name: "caution", Type: fgb.String}}}
+	fs := []fgb.Feature{
+		{Geometry: tr.covered, Properties: []any{"covered", nil, math.Round(t.CoveredArea), fractionDown(t.CoveredFraction), nil, reach.Caution}},
+		{Geometry: tr.uncovered, Properties: []any{"uncovered", nil, math.Round(t.ZoneArea - t.CoveredArea), nil, nil, reach.Caution}},
+	}
+	if fs[0].Geometry == nil {
+		fs[0].Geometry = orb.MultiPolygon{}
+	}
+	if fs[1].Geometry == nil {
+		fs[1].Geometry = orb.MultiPolygon{}
+	}
+	for i, f := range tr.fields {
+		fs = append(fs, fgb.Feature{Geometry: orb.Point{f.Lon, f.Lat}, Properties: []any{"field", f.Name, math.Round(t.Covers[i]), nil, math.Round(t.Exclusive[i]), reach.Caution}})
+	}
+	return fgb.Write(w, h, fs)
+}
