@@ -55,6 +55,7 @@ type descent struct {
 	dist           []float64 // dist[d*nh+i] = D_d(h_i); non-increasing in i
 	isotropic      bool      // every direction has the same column: one lookup suffices
 	maxRatio       float64   // largest ground distance per metre of height in the table
+	leastRatio     float64   // smallest (0 where some track makes no headway)
 	// env[i] is the envelope Σ_{k ≥ i} max_d (D_d(h_k) − D_d(h_k+1)): the
 	// most ground any glide can cover descending from hTop to h_i, whatever
 	// track it holds at each altitude (see rangeBound).
@@ -76,6 +77,21 @@ func (t *descent) minRatio() float64 {
 		return 0
 	}
 	return m
+}
+
+// lossRange returns the least and the largest height lost per metre of
+// ground anywhere in the table, 1/maxRatio and 1/leastRatio (+Inf where some
+// track makes no headway): every straight segment of the solver loses
+// height at a rate between them.
+func (t *descent) lossRange() (lo, hi float64) {
+	lo, hi = 0, math.Inf(1)
+	if t.maxRatio > 0 {
+		lo = 1 / t.maxRatio
+	}
+	if t.leastRatio > 0 {
+		hi = 1 / t.leastRatio
+	}
+	return lo, hi
 }
 
 // errNoGlide reports a model that gives no finite ground distance anywhere.
@@ -140,9 +156,12 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 	if !finite {
 		return nil, errNoGlide
 	}
+	t.leastRatio = math.Inf(1)
 	for k := 0; k+1 < len(t.dist); k++ {
 		if (k+1)%nh != 0 {
-			t.maxRatio = math.Max(t.maxRatio, (t.dist[k]-t.dist[k+1])/dh)
+			r := (t.dist[k] - t.dist[k+1]) / dh
+			t.maxRatio = math.Max(t.maxRatio, r)
+			t.leastRatio = math.Min(t.leastRatio, r)
 		}
 	}
 	t.env = make([]float64, nh)
