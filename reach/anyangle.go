@@ -394,9 +394,14 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			if endOnly && p.state[q] == cellEndDone {
 				continue
 			}
-			// Straight on from s's parent, if the line of sight holds.
-			v := p.segment(px, py, pv, qc, qr)
-			if p.wants(q, v, endOnly) {
+			// Straight on from s's parent, if the line of sight holds. A
+			// cell that already holds a value from that parent would get
+			// the same value again: nothing to do.
+			if p.par[q] == pi && p.state[q] != cellUntouched {
+				if !endOnly {
+					continue
+				}
+			} else if v := p.segment(px, py, pv, qc, qr); p.wants(q, v, endOnly) {
 				if top, ok := p.sightFrom(pi, px, py, pv, qc, qr, q, v, srcIdx, endOnly); ok {
 					p.offer(q, pi, v, srcIdx, top, endOnly)
 					if !endOnly {
@@ -408,7 +413,7 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			}
 			// Otherwise the path bends at s (an end value is tried bent at
 			// s as well: a glide below the clearance may end either way).
-			v = p.segment(float64(sc), float64(sr), sv, qc, qr)
+			v := p.segment(float64(sc), float64(sr), sv, qc, qr)
 			if !p.wants(q, v, endOnly) {
 				continue
 			}

@@ -666,7 +666,7 @@ func TestInvariantMonotone(t *testing.T) {
 	ctx := context.Background()
 	cases := propCases(8)
 	bad := map[string]int{}
-	band, pessimistic := 0, 0
+	band, pessimistic, endSearch := 0, 0, 0
 	for k := 0; k < cases; k++ {
 		n := 31 + 2*rng.Intn(6)
 		cell := 100 + rng.Float64()*150
@@ -763,6 +763,27 @@ func TestInvariantMonotone(t *testing.T) {
 						bad[what+" gained a cell on a path that does not re-fly"]++
 						t.Logf("case %d %s: cell %d,%d: re-flown %.2f m (claimed %.2f m), %.2f m below the floor", k, what, c, r, arr, claimed, floor)
 					case !(ref.AGL(c, r) >= reserve-0.05*(alt-l.At(c, r)-reserve)):
+						// Beyond the 5 % band the reference must have
+						// missed the path for the one reason the search
+						// has (DEVELOPERS.md "Optimality"): end values
+						// (glides below the clearance) are tried straight
+						// and bent at every end cell, values above the
+						// clearance bent only where a line of sight fails.
+						// A run with more clearance, more sink or
+						// contamination has more end cells, so a wider
+						// search there. Checked: the gaining path bends at
+						// a cell that is an end cell in the gaining run
+						// and above the clearance (closed) in the
+						// reference, and re-flown in the reference's own
+						// conditions it keeps the reference's floor and
+						// arrives with its reserve — a path the reference
+						// could have flown and did not find (pessimistic).
+						rarr, rfloor := refly(l, pts, alt, func(h, deg float64) float64 { return stfLoss(ac, Atmosphere{}, w, Conditions{}, h, deg) }, clearance, l.At(c, r))
+						if endBendMissed(ref, s.f, pts) && rfloor <= 1 && rarr-l.At(c, r) >= reserve-(0.002*(alt-rarr)+0.3) {
+							endSearch++
+							t.Logf("case %d %s: cell %d,%d reached %.2f m above ground bending at an end cell; the reference run found %.2f m (its search does not bend there; the path re-flies in its conditions arriving %.2f m above ground)", k, what, c, r, s.f.AGL(c, r), ref.AGL(c, r), rarr-l.At(c, r))
+							continue
+						}
 						bad[what+" gained a cell beyond the 5 % band"]++
 						t.Logf("case %d %s: cell %d,%d reached %.2f m above ground, before %.2f m", k, what, c, r, s.f.AGL(c, r), ref.AGL(c, r))
 					default:
@@ -789,7 +810,7 @@ func TestInvariantMonotone(t *testing.T) {
 			}
 		}
 	}
-	t.Logf("cells within the 1 %% near-optimality band: %d; beyond it on the pessimistic side (re-flown, within 5 %%): %d", band, pessimistic)
+	t.Logf("cells within the 1 %% near-optimality band: %d; beyond it on the pessimistic side (re-flown, within 5 %%): %d; beyond 5 %% where the reference's search does not bend at the gaining path's end-cell bend (re-flown in its conditions): %d", band, pessimistic, endSearch)
 	for what, count := range bad {
 		t.Errorf("%s: %d times", what, count)
 	}
@@ -899,4 +920,33 @@ func TestSightThinFeatureBetweenNeighbourLines(t *testing.T) {
 			}
 		})
 	}
+}
+
+// endBendMissed reports whether the path pts (frame metres, start first)
+// of footprint gain bends at a cell that gain reached below its clearance
+// (an end cell, searched straight and bent) and ref reached above its own
+// (a closed cell, where ref bends only where a line of sight fails).
+func endBendMissed(ref, gain *FootprintResult, pts [][2]float64) bool {
+	prop := func(f *FootprintResult) *propagation {
+		if f.members != nil {
+			return f.members[0].prop
+		}
+		return f.prop
+	}
+	rp, gp := prop(ref), prop(gain)
+	if rp == nil || gp == nil {
+		return false
+	}
+	l := ref.Ground
+	for _, v := range pts[1 : len(pts)-1] {
+		c, r, ok := l.CellOf(v[0], v[1])
+		if !ok {
+			continue
+		}
+		i := r*l.Cols + c
+		if st := gp.state[i]; (st == cellEnd || st == cellEndDone) && rp.state[i] == cellClosed {
+			return true
+		}
+	}
+	return false
 }
