@@ -37,8 +37,9 @@ import (
 //	h(τ) ≥ max(pv + τ·L·λmin, v − (1−τ)·L·λmax),
 //
 // where L is the segment's ground length and λmin, λmax the least and the
-// largest height lost per metre of ground anywhere in the descent table
-// (1/maxRatio, 1/minRatio). Over a square the lowest point of the interval
+// largest height lost per metre of ground at any altitude of the descent
+// table's two direction columns the segment is blended from
+// (lossRangeDir). Over a square the lowest point of the interval
 // the segment spends in it counts (forward its far end, backward its near
 // end). Only where that bound fails is the altitude worked out exactly, by
 // the descent table over the partial segment (the value the solver would
@@ -141,7 +142,14 @@ func (p *propagation) sight(px, py, pv float64, qc, qr int, v float64, allow, to
 		return top, true
 	}
 	w := sightWalk{p: p, pv: pv, v: v, L: math.Hypot(dx, dy) * p.cell, allow: float64(allow), top: top, dx: dx, dy: dy}
-	w.lamMin, w.lamMax = p.desc.lossRange()
+	// The direction of flight: forward toward the cell, backward toward
+	// the parent.
+	if p.backward {
+		w.d0, w.d1, w.wt = p.desc.vecIndex(-dx, -dy)
+	} else {
+		w.d0, w.d1, w.wt = p.desc.vecIndex(dx, dy)
+	}
+	w.lamMin, w.lamMax = p.desc.lossRangeDir(w.d0, w.d1)
 	var qa, qb int
 	if math.Abs(dx) >= math.Abs(dy) {
 		w.pa, w.pb, w.da, w.db, qa, qb = px, py, dx, dy, qc, qr
@@ -174,10 +182,12 @@ type sightWalk struct {
 	lamMin, lamMax float64
 	allow          float64
 	top            float32
-	// exact-altitude lookup, set on first use
-	exactSet bool
-	d0, d1   int
-	wt       float64
+	// the descent table's columns of the direction of flight (vecIndex)
+	d0, d1 int
+	wt     float64
+	// the current slab's lowest end (fraction) and the lower bound and
+	// exact altitude there (slabEx NaN until needed)
+	slabTau, slabLB, slabEx float64
 }
 
 // lowBound is the lower bound of the glide's altitude at fraction tau.
@@ -205,14 +215,6 @@ func (w *sightWalk) exact(tau float64) float64 {
 		return w.pv
 	}
 	d := w.p.desc
-	if !w.exactSet {
-		w.exactSet = true
-		if w.p.backward {
-			w.d0, w.d1, w.wt = d.vecIndex(-w.dx, -w.dy)
-		} else {
-			w.d0, w.d1, w.wt = d.vecIndex(w.dx, w.dy)
-		}
-	}
 	if w.p.backward {
 		return d.departBlend(w.d0, w.d1, w.wt, w.pv, tau*w.L)
 	}
@@ -240,8 +242,10 @@ func (w *sightWalk) squaresOf(t0, t1 float64) (int, int) {
 }
 
 // ground checks ground t under the glide over the fraction interval
-// [t0, t1]: false when it blocks; otherwise it records t in top when the
-// glide passes it below the clearance.
+// [t0, t1] of a square in the current slab: false when it blocks;
+// otherwise it records t in top when the glide passes it below the
+// clearance. The slab's lowest bound and exact altitude (at its lowest
+// end, slabTau) are tried first, then the square's own lowest point.
 func (w *sightWalk) ground(t float32, t0, t1 float64) bool {
 	if t <= w.top {
 		return true // no higher than ground already passed (top ≤ allow)
@@ -249,19 +253,44 @@ func (w *sightWalk) ground(t float32, t0, t1 float64) bool {
 	if t != t {
 		return false
 	}
+	c := float64(w.p.clearance)
+	tf := float64(t)
+	if tf <= w.slabLB-c {
+		return true
+	}
+	if w.slabEx != w.slabEx {
+		w.slabEx = w.exact(w.slabTau)
+	}
+	if tf <= w.slabEx-c {
+		return true
+	}
 	tl := t0 // backward the glide is lowest toward the parent
 	if !w.p.backward {
 		tl = t1
 	}
+	if tl != w.slabTau && tf <= w.exact(tl)-c {
+		return true
+	}
+	return w.flag(t)
+}
+
+// groundAt is ground for a single point at fraction tau.
+func (w *sightWalk) groundAt(t float32, tau float64) bool {
+	if t <= w.top {
+		return true
+	}
 	c := float64(w.p.clearance)
 	tf := float64(t)
-	if tf <= w.lowBound(tl)-c {
+	if tf <= w.lowBound(tau)-c || tf <= w.exact(tau)-c {
 		return true
 	}
-	if tf <= w.exact(tl)-c {
-		return true
-	}
-	if tf > w.allow {
+	return w.flag(t)
+}
+
+// flag records ground t passed below the clearance, or reports that it
+// blocks (above allow).
+func (w *sightWalk) flag(t float32) bool {
+	if float64(t) > w.allow {
 		return false
 	}
 	w.top = max(w.top, t)
@@ -270,7 +299,8 @@ func (w *sightWalk) ground(t float32, t0, t1 float64) bool {
 
 // blockClear reports whether the run of slabs k..kEnd lies over blocks of
 // level li whose highest ground the glide's lower bound over the run clears
-// (or that lie no higher than top: nothing to record there).
+// (or that lie no higher than top: nothing to record there); where the
+// bound does not, the exact altitude at the run's lowest end is tried.
 func (w *sightWalk) blockClear(li int, k, kEnd int) bool {
 	t0, t1 := w.tauIn(k), w.tauOut(kEnd)
 	m0, m1 := w.squaresOf(t0, t1)
@@ -280,28 +310,51 @@ func (w *sightWalk) blockClear(li int, k, kEnd int) bool {
 	sh := pyrShifts[li]
 	lv := &w.p.pyr.lv[li]
 	ka := k >> sh
+	bm := float32(math.Inf(-1))
+	for mb := m0 >> sh; mb <= m1>>sh; mb++ {
+		if w.swapped {
+			bm = max(bm, lv.max[ka*lv.bc+mb])
+		} else {
+			bm = max(bm, lv.max[mb*lv.bc+ka])
+		}
+	}
+	if bm <= w.top {
+		return true
+	}
+	if math.IsInf(float64(bm), 1) {
+		return false // a void
+	}
 	tl := t0
 	if !w.p.backward {
 		tl = t1
 	}
-	h := w.lowBound(tl) - float64(w.p.clearance)
-	lim := float32(h)
-	if float64(lim) > h { // round down: the limit may only be lower
-		lim = float32(math.Nextafter32(lim, float32(math.Inf(-1))))
+	c := float64(w.p.clearance)
+	if float64(bm) <= w.lowBound(tl)-c {
+		return true
 	}
-	lim = max(lim, w.top)
-	for mb := m0 >> sh; mb <= m1>>sh; mb++ {
-		var m float32
-		if w.swapped {
-			m = lv.max[ka*lv.bc+mb]
-		} else {
-			m = lv.max[mb*lv.bc+ka]
-		}
-		if !(m <= lim) {
-			return false
-		}
+	if float64(bm) > w.highBound(tl)-c {
+		return false // not even the highest the glide can be clears it
 	}
-	return true
+	return float64(bm) <= w.exact(tl)-c
+}
+
+// highBound is an upper bound of the glide's altitude at fraction tau,
+// the mirror of lowBound (the least loss from the upper end, the largest
+// from the lower end).
+func (w *sightWalk) highBound(tau float64) float64 {
+	if w.p.backward {
+		h := w.v - (1-tau)*w.L*w.lamMin
+		if !math.IsInf(w.lamMax, 1) {
+			// The table starts a climb-back from below its bottom there.
+			h = math.Min(h, math.Max(w.pv, w.p.desc.hBot)+tau*w.L*w.lamMax)
+		}
+		return h
+	}
+	h := w.pv - tau*w.L*w.lamMin
+	if !math.IsInf(w.lamMax, 1) {
+		h = math.Min(h, w.v+(1-tau)*w.L*w.lamMax)
+	}
+	return h
 }
 
 // run walks the slabs from the parent's to the cell's.
@@ -348,6 +401,11 @@ func (w *sightWalk) run() bool {
 			return false
 		}
 		t0, t1 := w.tauIn(k), w.tauOut(k)
+		w.slabTau = t0
+		if !p.backward {
+			w.slabTau = t1
+		}
+		w.slabLB, w.slabEx = w.lowBound(w.slabTau), math.NaN()
 		m0, m1 := w.squaresOf(t0, t1)
 		for m := m0; m <= m1; m++ {
 			if k == w.qa && m == w.qb {
@@ -383,7 +441,7 @@ func (w *sightWalk) run() bool {
 					// Linear between the two, kept within them (no float32
 					// residue above equal neighbours).
 					g := min(max(ea*float32(1-u)+eb*float32(u), min(ea, eb)), max(ea, eb))
-					if !w.ground(g, tc, tc) {
+					if !w.groundAt(g, tc) {
 						return false
 					}
 				}
