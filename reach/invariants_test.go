@@ -330,10 +330,9 @@ func TestInvariantReflyPathsAndRings(t *testing.T) {
 	// integrator and speed-to-fly optimisation), which must keep the terrain
 	// floor and arrive at least as high as claimed: within 0.2 % of the
 	// height lost + 0.3 m (RK2 and table interpolation), and the floor
-	// within 1 m at the crossings (the XDraw line of sight is decided from
-	// the two cells beside the line one step back, so it can differ from
-	// the line's own crossing by a fraction of the height change across a
-	// cell). No arrival is above the physics bound (progressBound, one-sided,
+	// within 1 m at the crossings (the solver's line of sight is exact on
+	// a ground model at least as strict as refly's, sightline.go; the 1 m
+	// is for the float32 altitudes and the integrators). No arrival is above the physics bound (progressBound, one-sided,
 	// exact up to 1e-6 relative). A cell whose centre lies inside a ring is
 	// reached with at least the ring's level (a cell counts as inside when
 	// its centre is; the rings are simplified inward only); coordinates are
