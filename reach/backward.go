@@ -198,7 +198,7 @@ func requiredWith(ctx context.Context, ground *terrain.Local, targets []Target, 
 			return err
 		}
 		// Keep only what the merge needs.
-		p.obs, p.par, p.queue, p.state = nil, nil, nil, nil
+		p.par, p.queue, p.state = nil, nil, nil
 		results[k] = p
 		return nil
 	})

@@ -18,6 +18,16 @@ import (
 // counter-clockwise and holes clockwise, as RFC 7946 §3.1.6 asks of
 // exteriors and holes. Saddles are resolved by the mean of the four corners.
 func contourRings(v func(c, r int) float64, cols, rows int, level float64) []orb.Ring {
+	return contourRingsMargin(v, cols, rows, level, 0)
+}
+
+// contourRingsMargin is contourRings with every ring point kept at least
+// margin (cell units, < 0.5) from the end of its edge that is below the
+// level, toward the end above it: the region shrinks by at most margin,
+// and a cell below the level stays at least margin outside every ring (a
+// hole around a cell just below the level is not narrower than the
+// rounding of the output coordinates, which would put its centre inside).
+func contourRingsMargin(v func(c, r int) float64, cols, rows int, level, margin float64) []orb.Ring {
 	low := level - 1e4
 	val := func(c, r int) float64 {
 		if c < 0 || r < 0 || c >= cols || r >= rows {
@@ -54,6 +64,12 @@ func contourRings(v func(c, r int) float64, cols, rows int, level float64) []orb
 			t = (level - a) / (b - a)
 		}
 		t = math.Max(0, math.Min(1, t))
+		switch {
+		case a < level && b >= level:
+			t = math.Max(t, margin)
+		case a >= level && b < level:
+			t = math.Min(t, 1-margin)
+		}
 		if horizontal {
 			point[id] = orb.Point{float64(c) + t, float64(r)}
 		} else {
@@ -292,7 +308,9 @@ func simplifyInward(r orb.Ring, tol float64) orb.Ring {
 // ContourPolygons traces the region of Local g where v(c, r) ≥ level by
 // marching squares (NaN counts as below), simplifies the rings inward
 // only (simplifyInward) to at most half a cell of error, drops regions smaller
-// than one cell but keeps every hole (see polygonsFromRings), nests holes
+// than one cell but keeps every hole (see polygonsFromRings), keeps every
+// ring point at least 1 m (or a tenth of a cell) away from a cell below the
+// level (contourRingsMargin), nests holes
 // in their outer rings, and returns the polygons
 // in lon/lat degrees (RFC 7946 winding: exteriors counter-clockwise, holes
 // clockwise; coordinates rounded to 6 decimals) with their total area in m²
@@ -301,7 +319,12 @@ func simplifyInward(r orb.Ring, tol float64) orb.Ring {
 // feature on the ellipsoid finds the same figure. It is the contouring the
 // footprint rings use, for any raster laid out like g.Elev.
 func ContourPolygons(g *terrain.Local, v func(c, r int) float64, level float64) (orb.MultiPolygon, float64) {
-	polys := polygonsFromRings(contourRings(v, g.Cols, g.Rows, level), 0.5, 1)
+	// Ring points at least 1 m from a cell below the level: ten times the
+	// 0.11 m of the 6-decimal rounding below, so a cell just below the level
+	// is never inside a ring as written (issue 11: a hole 0.04 m wide
+	// around a cell 0.24 m below the level vanished in the rounding).
+	margin := math.Min(0.1, 1/g.Cell)
+	polys := polygonsFromRings(contourRingsMargin(v, g.Cols, g.Rows, level, margin), 0.5, 1)
 	mp := make(orb.MultiPolygon, 0, len(polys))
 	area := 0.0
 	var ll [][2]float64

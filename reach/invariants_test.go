@@ -330,10 +330,9 @@ func TestInvariantReflyPathsAndRings(t *testing.T) {
 	// integrator and speed-to-fly optimisation), which must keep the terrain
 	// floor and arrive at least as high as claimed: within 0.2 % of the
 	// height lost + 0.3 m (RK2 and table interpolation), and the floor
-	// within 1 m at the crossings (the XDraw line of sight is decided from
-	// the two cells beside the line one step back, so it can differ from
-	// the line's own crossing by a fraction of the height change across a
-	// cell). No arrival is above the physics bound (progressBound, one-sided,
+	// within 1 m at the crossings (the solver's line of sight is exact on
+	// a ground model at least as strict as refly's, sightline.go; the 1 m
+	// is for the float32 altitudes and the integrators). No arrival is above the physics bound (progressBound, one-sided,
 	// exact up to 1e-6 relative). A cell whose centre lies inside a ring is
 	// reached with at least the ring's level (a cell counts as inside when
 	// its centre is; the rings are simplified inward only); coordinates are
@@ -666,7 +665,7 @@ func TestInvariantMonotone(t *testing.T) {
 	ctx := context.Background()
 	cases := propCases(8)
 	bad := map[string]int{}
-	band, pessimistic := 0, 0
+	band, pessimistic, endSearch := 0, 0, 0
 	for k := 0; k < cases; k++ {
 		n := 31 + 2*rng.Intn(6)
 		cell := 100 + rng.Float64()*150
@@ -763,6 +762,27 @@ func TestInvariantMonotone(t *testing.T) {
 						bad[what+" gained a cell on a path that does not re-fly"]++
 						t.Logf("case %d %s: cell %d,%d: re-flown %.2f m (claimed %.2f m), %.2f m below the floor", k, what, c, r, arr, claimed, floor)
 					case !(ref.AGL(c, r) >= reserve-0.05*(alt-l.At(c, r)-reserve)):
+						// Beyond the 5 % band the reference must have
+						// missed the path for the one reason the search
+						// has (DEVELOPERS.md "Optimality"): end values
+						// (glides below the clearance) are tried straight
+						// and bent at every end cell, values above the
+						// clearance bent only where a line of sight fails.
+						// A run with more clearance, more sink or
+						// contamination has more end cells, so a wider
+						// search there. Checked: the gaining path bends at
+						// a cell that is an end cell in the gaining run
+						// and above the clearance (closed) in the
+						// reference, and re-flown in the reference's own
+						// conditions it keeps the reference's floor and
+						// arrives with its reserve — a path the reference
+						// could have flown and did not find (pessimistic).
+						rarr, rfloor := refly(l, pts, alt, func(h, deg float64) float64 { return stfLoss(ac, Atmosphere{}, w, Conditions{}, h, deg) }, clearance, l.At(c, r))
+						if endBendMissed(ref, s.f, pts) && rfloor <= 1 && rarr-l.At(c, r) >= reserve-(0.002*(alt-rarr)+0.3) {
+							endSearch++
+							t.Logf("case %d %s: cell %d,%d reached %.2f m above ground bending at an end cell; the reference run found %.2f m (its search does not bend there; the path re-flies in its conditions arriving %.2f m above ground)", k, what, c, r, s.f.AGL(c, r), ref.AGL(c, r), rarr-l.At(c, r))
+							continue
+						}
 						bad[what+" gained a cell beyond the 5 % band"]++
 						t.Logf("case %d %s: cell %d,%d reached %.2f m above ground, before %.2f m", k, what, c, r, s.f.AGL(c, r), ref.AGL(c, r))
 					default:
@@ -789,8 +809,143 @@ func TestInvariantMonotone(t *testing.T) {
 			}
 		}
 	}
-	t.Logf("cells within the 1 %% near-optimality band: %d; beyond it on the pessimistic side (re-flown, within 5 %%): %d", band, pessimistic)
+	t.Logf("cells within the 1 %% near-optimality band: %d; beyond it on the pessimistic side (re-flown, within 5 %%): %d; beyond 5 %% where the reference's search does not bend at the gaining path's end-cell bend (re-flown in its conditions): %d", band, pessimistic, endSearch)
 	for what, count := range bad {
 		t.Errorf("%s: %d times", what, count)
 	}
+}
+
+// squareDeficit flies the bend points pts (frame metres, start first) from
+// h0 at the constant loss 1/ratio and samples every segment every 1/64 of
+// a cell, reading the ground of the cell whose square holds the sample (a
+// cell's value covers its whole square: the "RasterPixelIsArea" convention
+// of the OGC GeoTIFF standard). It returns the worst deficit below the
+// terrain floor t + min(clearance, h − eDest) of the samples, +Inf where a
+// sample lies over a void or off the window. The cell squares of the
+// segments' ends are left out (the solver checks a cell at its own value).
+func squareDeficit(l *terrain.Local, pts [][2]float64, h0, ratio, clearance, eDest float64) float64 {
+	worst := math.Inf(-1)
+	h := h0
+	for k := 0; k+1 < len(pts); k++ {
+		ax, ay := (pts[k][0]-l.X0)/l.Cell, (pts[k][1]-l.Y0)/l.Cell
+		bx, by := (pts[k+1][0]-l.X0)/l.Cell, (pts[k+1][1]-l.Y0)/l.Cell
+		L := math.Hypot(bx-ax, by-ay)
+		steps := int(math.Ceil(L * 64))
+		ac, ar := int(math.Round(ax)), int(math.Round(ay))
+		bc, br := int(math.Round(bx)), int(math.Round(by))
+		for i := 1; i < steps; i++ {
+			f := float64(i) / float64(steps)
+			x, y := ax+(bx-ax)*f, ay+(by-ay)*f
+			c, r := int(math.Round(x)), int(math.Round(y))
+			if (c == ac && r == ar) || (c == bc && r == br) {
+				continue
+			}
+			hh := h - f*L*l.Cell/ratio
+			if c < 0 || r < 0 || c >= l.Cols || r >= l.Rows || l.Elev[r*l.Cols+c] != l.Elev[r*l.Cols+c] {
+				return math.Inf(1)
+			}
+			t := float64(l.Elev[r*l.Cols+c])
+			worst = math.Max(worst, t+math.Min(clearance, hh-eDest)-hh)
+		}
+		h -= L * l.Cell / ratio
+	}
+	return worst
+}
+
+func TestSightThinFeatureBetweenNeighbourLines(t *testing.T) {
+	// Regression (issue 11): the O(1) line-of-sight test that read the two
+	// cells beside a line one step back toward its parent (the "XDraw"
+	// scheme) let straight lines thread a feature one cell thick lying
+	// between the lines those cells were checked along: a single void cell,
+	// a wall of five cells nearly parallel to the line, a diagonal wall of
+	// four. These geometries were found by a search on that code; each
+	// gave a straight glide from the start across the feature's square
+	// (the void one: to cell 0,5 across void cell 13,15). Flat ground at
+	// 100 m, 41 × 41 cells of 200 m, start 1500 m MSL at the centre, glide
+	// ratio 30, reserve and clearance 100 m. Every reached cell's path must
+	// keep the floor, re-flown by refly (ground linear between cell centres
+	// at the crossings) and by squareDeficit (each cell's ground over its
+	// whole square), within 1 m (float rounding of the bend points).
+	nan := math.NaN()
+	for _, tc := range []struct {
+		name  string
+		cells [][2]int
+		elev  float64
+	}{
+		{"one void cell", [][2]int{{13, 15}}, nan},
+		{"one wall cell", [][2]int{{30, 6}}, 1600},
+		{"wall nearly along the line", [][2]int{{19, 26}, {19, 27}, {19, 28}, {19, 29}, {19, 30}}, 1600},
+		{"diagonal wall", [][2]int{{30, 16}, {29, 17}, {28, 18}, {27, 19}}, 1600},
+		{"diagonal void", [][2]int{{29, 20}, {28, 21}, {27, 22}}, nan},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			const n, cell, ratio, h0, clearance = 41, 200.0, 30.0, 1500.0, 100.0
+			l := flatWindow(-0.5, -24.5, n, cell, 100)
+			l.Flat = false
+			for _, c := range tc.cells {
+				l.Elev[c[1]*n+c[0]] = float32(tc.elev)
+			}
+			f, err := Footprint(context.Background(), l, Start{Lat: -0.5, Lon: -24.5, Alt: h0}, ConstantLoss(ratio), FootprintOptions{Reserve: 100, Clearance: clearance})
+			if err != nil {
+				t.Fatal(err)
+			}
+			sx, sy := l.XY(n/2, n/2)
+			reached, bad := 0, 0
+			for i := range f.Arrival {
+				c, r := i%n, i/n
+				if !(f.AGL(c, r) >= 0) {
+					continue
+				}
+				reached++
+				pts, ok := f.Path(c, r)
+				if !ok {
+					t.Fatalf("cell %d,%d reached without a path", c, r)
+				}
+				pts[0] = [2]float64{sx, sy}
+				_, lin := refly(l, pts, h0, func(h, deg float64) float64 { return 1 / ratio }, clearance, l.At(c, r))
+				sq := squareDeficit(l, pts, h0, ratio, clearance, l.At(c, r))
+				if lin > 1 || sq > 1 {
+					bad++
+					if bad <= 3 {
+						t.Errorf("cell %d,%d: path %v passes %.1f m (linear ground) / %.1f m (cell squares) below the floor", c, r, pts, lin, sq)
+					}
+				}
+			}
+			if bad > 0 {
+				t.Errorf("%d of %d reached cells on paths below the floor", bad, reached)
+			}
+			if reached < n*n/2 {
+				t.Errorf("only %d of %d cells reached", reached, n*n)
+			}
+		})
+	}
+}
+
+// endBendMissed reports whether the path pts (frame metres, start first)
+// of footprint gain bends at a cell that gain reached below its clearance
+// (an end cell, searched straight and bent) and ref reached above its own
+// (a closed cell, where ref bends only where a line of sight fails).
+func endBendMissed(ref, gain *FootprintResult, pts [][2]float64) bool {
+	prop := func(f *FootprintResult) *propagation {
+		if f.members != nil {
+			return f.members[0].prop
+		}
+		return f.prop
+	}
+	rp, gp := prop(ref), prop(gain)
+	if rp == nil || gp == nil {
+		return false
+	}
+	l := ref.Ground
+	for _, v := range pts[1 : len(pts)-1] {
+		c, r, ok := l.CellOf(v[0], v[1])
+		if !ok {
+			continue
+		}
+		i := r*l.Cols + c
+		if st := gp.state[i]; (st == cellEnd || st == cellEndDone) && rp.state[i] == cellClosed {
+			return true
+		}
+	}
+	return false
 }

@@ -55,6 +55,7 @@ type descent struct {
 	dist           []float64 // dist[d*nh+i] = D_d(h_i); non-increasing in i
 	isotropic      bool      // every direction has the same column: one lookup suffices
 	maxRatio       float64   // largest ground distance per metre of height in the table
+	dirMax, dirMin []float64 // largest and smallest ratio of each direction's column
 	// env[i] is the envelope Σ_{k ≥ i} max_d (D_d(h_k) − D_d(h_k+1)): the
 	// most ground any glide can cover descending from hTop to h_i, whatever
 	// track it holds at each altitude (see rangeBound).
@@ -76,6 +77,22 @@ func (t *descent) minRatio() float64 {
 		return 0
 	}
 	return m
+}
+
+// lossRangeDir returns the least and the largest height lost per metre of
+// ground (1/ratio) at any altitude of the table in direction columns d0
+// and d1 (vecIndex; +Inf where a column has a row without headway): a
+// segment blended from the two columns loses height at a rate between
+// them, since a blend of the two columns' altitudes lies between them.
+func (t *descent) lossRangeDir(d0, d1 int) (lo, hi float64) {
+	lo, hi = 0, math.Inf(1)
+	if r := math.Max(t.dirMax[d0], t.dirMax[d1]); r > 0 {
+		lo = 1 / r
+	}
+	if r := math.Min(t.dirMin[d0], t.dirMin[d1]); r > 0 {
+		hi = 1 / r
+	}
+	return lo, hi
 }
 
 // errNoGlide reports a model that gives no finite ground distance anywhere.
@@ -140,10 +157,16 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 	if !finite {
 		return nil, errNoGlide
 	}
-	for k := 0; k+1 < len(t.dist); k++ {
-		if (k+1)%nh != 0 {
-			t.maxRatio = math.Max(t.maxRatio, (t.dist[k]-t.dist[k+1])/dh)
+	t.dirMax, t.dirMin = make([]float64, nDir), make([]float64, nDir)
+	for d := 0; d < nDir; d++ {
+		row := t.dist[d*nh : (d+1)*nh]
+		lo, hi := math.Inf(1), 0.0
+		for i := 0; i+1 < nh; i++ {
+			r := (row[i] - row[i+1]) / dh
+			lo, hi = math.Min(lo, r), math.Max(hi, r)
 		}
+		t.dirMax[d], t.dirMin[d] = hi, lo
+		t.maxRatio = math.Max(t.maxRatio, hi)
 	}
 	t.env = make([]float64, nh)
 	for i := nh - 2; i >= 0; i-- {

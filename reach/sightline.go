@@ -1,0 +1,454 @@
+package reach
+
+import (
+	"math"
+
+	"glidereach/terrain"
+)
+
+// The exact line-of-sight test of the any-angle propagation.
+//
+// A straight glide segment from a bend point P (the parent, value pv) to a
+// cell centre Q (value v) is accepted only when the glide keeps the terrain
+// floor over every cell square the segment crosses (a supercover: a square
+// touched at a corner or along an edge counts), and, where the segment
+// crosses a line of cell centres along its major axis, over the ground
+// interpolated linearly between the two centres it passes between. The
+// ground of a cell is its elevation over its whole square (the terrain
+// window holds the highest DEM sample of each cell); a void or a square off
+// the window blocks. Both ground models are applied, so the test is at least
+// as strict as either.
+//
+// The squares are visited in order from P to Q, column by column of the
+// major axis (a slab of one cell's width, in which the line crosses at most
+// three squares): the traversal of
+//
+//	Amanatides, J. and Woo, A. (1987). A Fast Voxel Traversal Algorithm
+//	for Ray Tracing. Eurographics '87, pp. 3–10,
+//
+// made inclusive at the square boundaries. The glide's altitude along the
+// segment is bounded from below without integrating it: forward (the
+// aircraft flies P → Q, losing height) at a fraction τ of the way
+//
+//	h(τ) ≥ max(v + (1−τ)·L·λmin, pv − τ·L·λmax),
+//
+// backward (it flies Q → P, arriving at P with pv)
+//
+//	h(τ) ≥ max(pv + τ·L·λmin, v − (1−τ)·L·λmax),
+//
+// where L is the segment's ground length and λmin, λmax the least and the
+// largest height lost per metre of ground at any altitude of the descent
+// table's two direction columns the segment is blended from
+// (lossRangeDir). Over a square the lowest point of the interval
+// the segment spends in it counts (forward its far end, backward its near
+// end). Only where that bound fails is the altitude worked out exactly, by
+// the descent table over the partial segment (the value the solver would
+// give that point). So the test errs only toward refusing a line.
+//
+// A hierarchical pyramid of the ground (groundPyramid: blocks of 8×8, 64×64
+// and 512×512 cells holding the highest ground of the block and of the cells
+// one beyond it, +Inf where any is a void) lets the walk pass a whole run of
+// slabs at once where even the lowest bound of the glide over the run
+// clears the highest ground of every block the run touches. The walk stops
+// at the first obstruction.
+//
+// The floor: the glide must be at least terrain + clearance high, except
+// over ground no higher than allow (the landing cell's elevation forward for
+// an end value, the field's backward), where it may be lower: a square of
+// ground t under a glide at altitude h blocks when t > max(h − clearance,
+// allow) (DEVELOPERS.md "Reserve and clearance"). A square where
+// t > h − clearance but t ≤ allow is passed below the clearance; the highest
+// such ground is returned as top (the forward end values' record).
+
+// pyramid levels: block sides 2^3, 2^6, 2^9 cells.
+var pyrShifts = [...]uint{3, 6, 9}
+
+// groundPyramid holds, per level, the highest ground (m MSL) of each block
+// of cells dilated by one cell on every side (the linear check between
+// centres reads the cell beside the line's square), +Inf where any of those
+// cells is a void.
+type groundPyramid struct {
+	lv [len(pyrShifts)]pyrLevel
+}
+
+type pyrLevel struct {
+	bc, br int // blocks across and down
+	max    []float32
+}
+
+// newGroundPyramid builds the pyramid of l: each block of the finest level
+// reads its 10×10 cells (about 1.6 reads per cell), each coarser block the
+// 8×8 blocks below it.
+func newGroundPyramid(l *terrain.Local) *groundPyramid {
+	g := &groundPyramid{}
+	cols, rows := l.Cols, l.Rows
+	inf := float32(math.Inf(1))
+	for li, sh := range pyrShifts {
+		b := 1 << sh
+		bc, br := (cols+b-1)>>sh, (rows+b-1)>>sh
+		lv := pyrLevel{bc: bc, br: br, max: make([]float32, bc*br)}
+		if li == 0 {
+			for by := 0; by < br; by++ {
+				r0, r1 := max(by*b-1, 0), min(by*b+b, rows-1)
+				for bx := 0; bx < bc; bx++ {
+					c0, c1 := max(bx*b-1, 0), min(bx*b+b, cols-1)
+					m := float32(math.Inf(-1))
+					for r := r0; r <= r1 && m != inf; r++ {
+						row := l.Elev[r*cols+c0 : r*cols+c1+1]
+						for _, e := range row {
+							if e != e {
+								m = inf
+								break
+							}
+							m = max(m, e)
+						}
+					}
+					lv.max[by*bc+bx] = m
+				}
+			}
+		} else {
+			fine := &g.lv[li-1]
+			f := 1 << (sh - pyrShifts[li-1])
+			for by := 0; by < br; by++ {
+				for bx := 0; bx < bc; bx++ {
+					m := float32(math.Inf(-1))
+					for y := by * f; y < min(by*f+f, fine.br); y++ {
+						for x := bx * f; x < min(bx*f+f, fine.bc); x++ {
+							m = max(m, fine.max[y*fine.bc+x])
+						}
+					}
+					lv.max[by*bc+bx] = m
+				}
+			}
+		}
+		g.lv[li] = lv
+	}
+	return g
+}
+
+// sightEps makes the traversal inclusive at square boundaries: a line
+// within this (cell units) of a boundary counts on both sides.
+const sightEps = 1e-9
+
+// sight walks the segment from (px, py) (cell units; value pv) to cell
+// (qc, qr) (value v) and reports whether the glide on it keeps the floor
+// (see the comment at the top of this file), with the highest ground passed
+// below the clearance, starting from top. The cell's own square is not
+// part of the walk (the caller checks the cell itself). allow is the ground
+// level the glide may pass below the clearance over (−Inf: nowhere).
+func (p *propagation) sight(px, py, pv float64, qc, qr int, v float64, allow, top float32) (float32, bool) {
+	dx, dy := float64(qc)-px, float64(qr)-py
+	if dx == 0 && dy == 0 {
+		return top, true
+	}
+	w := sightWalk{p: p, pv: pv, v: v, L: math.Hypot(dx, dy) * p.cell, allow: float64(allow), top: top, dx: dx, dy: dy}
+	// The direction of flight: forward toward the cell, backward toward
+	// the parent.
+	if p.backward {
+		w.d0, w.d1, w.wt = p.desc.vecIndex(-dx, -dy)
+	} else {
+		w.d0, w.d1, w.wt = p.desc.vecIndex(dx, dy)
+	}
+	w.lamMin, w.lamMax = p.desc.lossRangeDir(w.d0, w.d1)
+	var qa, qb int
+	if math.Abs(dx) >= math.Abs(dy) {
+		w.pa, w.pb, w.da, w.db, qa, qb = px, py, dx, dy, qc, qr
+		w.strA, w.strB, w.nA, w.nB = 1, p.cols, p.cols, p.rows
+	} else {
+		w.pa, w.pb, w.da, w.db, qa, qb = py, px, dy, dx, qr, qc
+		w.strA, w.strB, w.nA, w.nB, w.swapped = p.cols, 1, p.rows, p.cols, true
+	}
+	w.sgn = 1
+	if w.da < 0 {
+		w.sgn = -1
+	}
+	w.qa, w.qb = qa, qb
+	ok := w.run()
+	return w.top, ok
+}
+
+// sightWalk is the state of one sight call, in major (a) and minor (b)
+// axis coordinates.
+type sightWalk struct {
+	p              *propagation
+	pa, pb, da, db float64 // start and extent (cell units)
+	dx, dy         float64 // extent east and north (for the exact altitude)
+	qa, qb         int
+	sgn            int
+	strA, strB     int // index strides of the axes
+	nA, nB         int // cells along the axes
+	swapped        bool
+	pv, v, L       float64
+	lamMin, lamMax float64
+	allow          float64
+	top            float32
+	// the descent table's columns of the direction of flight (vecIndex)
+	d0, d1 int
+	wt     float64
+	// the current slab's lowest end (fraction) and the lower bound and
+	// exact altitude there (slabEx NaN until needed)
+	slabTau, slabLB, slabEx float64
+}
+
+// lowBound is the lower bound of the glide's altitude at fraction tau.
+func (w *sightWalk) lowBound(tau float64) float64 {
+	if w.p.backward {
+		h := w.pv + tau*w.L*w.lamMin
+		if !math.IsInf(w.lamMax, 1) {
+			h = math.Max(h, w.v-(1-tau)*w.L*w.lamMax)
+		}
+		return h
+	}
+	h := w.v + (1-tau)*w.L*w.lamMin
+	if !math.IsInf(w.lamMax, 1) {
+		// The table starts a glide from above its top at its top.
+		h = math.Max(h, math.Min(w.pv, w.p.desc.hTop)-tau*w.L*w.lamMax)
+	}
+	return h
+}
+
+// exact is the glide's altitude at fraction tau from the descent table:
+// forward the arrival after tau·L from pv, backward the altitude needed
+// tau·L before reaching the parent with pv.
+func (w *sightWalk) exact(tau float64) float64 {
+	if tau <= 0 {
+		return w.pv
+	}
+	d := w.p.desc
+	if w.p.backward {
+		return d.departBlend(w.d0, w.d1, w.wt, w.pv, tau*w.L)
+	}
+	return d.arriveBlend(w.d0, w.d1, w.wt, w.pv, tau*w.L)
+}
+
+// tauIn and tauOut bound the fraction of the segment over slab k (the
+// major-axis column of cells k).
+func (w *sightWalk) tauIn(k int) float64 {
+	return math.Max(0, (float64(k)-0.5*float64(w.sgn)-w.pa)/w.da)
+}
+
+func (w *sightWalk) tauOut(k int) float64 {
+	return math.Min(1, (float64(k)+0.5*float64(w.sgn)-w.pa)/w.da)
+}
+
+// squaresOf returns the minor-axis range of squares the segment touches
+// over [t0, t1].
+func (w *sightWalk) squaresOf(t0, t1 float64) (int, int) {
+	b0, b1 := w.pb+t0*w.db, w.pb+t1*w.db
+	if b0 > b1 {
+		b0, b1 = b1, b0
+	}
+	return int(math.Ceil(b0 - 0.5 - sightEps)), int(math.Floor(b1 + 0.5 + sightEps))
+}
+
+// ground checks ground t under the glide over the fraction interval
+// [t0, t1] of a square in the current slab: false when it blocks;
+// otherwise it records t in top when the glide passes it below the
+// clearance. The slab's lowest bound and exact altitude (at its lowest
+// end, slabTau) are tried first, then the square's own lowest point.
+func (w *sightWalk) ground(t float32, t0, t1 float64) bool {
+	if t <= w.top {
+		return true // no higher than ground already passed (top ≤ allow)
+	}
+	if t != t {
+		return false
+	}
+	c := float64(w.p.clearance)
+	tf := float64(t)
+	if tf <= w.slabLB-c {
+		return true
+	}
+	if w.slabEx != w.slabEx {
+		w.slabEx = w.exact(w.slabTau)
+	}
+	if tf <= w.slabEx-c {
+		return true
+	}
+	tl := t0 // backward the glide is lowest toward the parent
+	if !w.p.backward {
+		tl = t1
+	}
+	if tl != w.slabTau && tf <= w.exact(tl)-c {
+		return true
+	}
+	return w.flag(t)
+}
+
+// groundAt is ground for a single point at fraction tau.
+func (w *sightWalk) groundAt(t float32, tau float64) bool {
+	if t <= w.top {
+		return true
+	}
+	c := float64(w.p.clearance)
+	tf := float64(t)
+	if tf <= w.lowBound(tau)-c || tf <= w.exact(tau)-c {
+		return true
+	}
+	return w.flag(t)
+}
+
+// flag records ground t passed below the clearance, or reports that it
+// blocks (above allow).
+func (w *sightWalk) flag(t float32) bool {
+	if float64(t) > w.allow {
+		return false
+	}
+	w.top = max(w.top, t)
+	return true
+}
+
+// blockClear reports whether the run of slabs k..kEnd lies over blocks of
+// level li whose highest ground the glide's lower bound over the run clears
+// (or that lie no higher than top: nothing to record there); where the
+// bound does not, the exact altitude at the run's lowest end is tried.
+func (w *sightWalk) blockClear(li int, k, kEnd int) bool {
+	t0, t1 := w.tauIn(k), w.tauOut(kEnd)
+	m0, m1 := w.squaresOf(t0, t1)
+	if m0 < 0 || m1 >= w.nB {
+		return false
+	}
+	sh := pyrShifts[li]
+	lv := &w.p.pyr.lv[li]
+	ka := k >> sh
+	bm := float32(math.Inf(-1))
+	for mb := m0 >> sh; mb <= m1>>sh; mb++ {
+		if w.swapped {
+			bm = max(bm, lv.max[ka*lv.bc+mb])
+		} else {
+			bm = max(bm, lv.max[mb*lv.bc+ka])
+		}
+	}
+	if bm <= w.top {
+		return true
+	}
+	if math.IsInf(float64(bm), 1) {
+		return false // a void
+	}
+	tl := t0
+	if !w.p.backward {
+		tl = t1
+	}
+	c := float64(w.p.clearance)
+	if float64(bm) <= w.lowBound(tl)-c {
+		return true
+	}
+	if float64(bm) > w.highBound(tl)-c {
+		return false // not even the highest the glide can be clears it
+	}
+	return float64(bm) <= w.exact(tl)-c
+}
+
+// highBound is an upper bound of the glide's altitude at fraction tau,
+// the mirror of lowBound (the least loss from the upper end, the largest
+// from the lower end).
+func (w *sightWalk) highBound(tau float64) float64 {
+	if w.p.backward {
+		h := w.v - (1-tau)*w.L*w.lamMin
+		if !math.IsInf(w.lamMax, 1) {
+			// The table starts a climb-back from below its bottom there.
+			h = math.Min(h, math.Max(w.pv, w.p.desc.hBot)+tau*w.L*w.lamMax)
+		}
+		return h
+	}
+	h := w.pv - tau*w.L*w.lamMin
+	if !math.IsInf(w.lamMax, 1) {
+		h = math.Min(h, w.v+(1-tau)*w.L*w.lamMax)
+	}
+	return h
+}
+
+// run walks the slabs from the parent's to the cell's.
+func (w *sightWalk) run() bool {
+	p := w.p
+	elev := p.l.Elev
+	k0 := int(math.Round(w.pa))
+	long := (w.qa-k0)*w.sgn > 2
+	// failed[li] is the block column of level li known not to clear.
+	failed := [len(pyrShifts)]int{-1 << 30, -1 << 30, -1 << 30}
+	for k := k0; ; k += w.sgn {
+		if long && k != w.qa {
+			skipped := false
+			for li := len(pyrShifts) - 1; li >= 0; li-- {
+				sh := pyrShifts[li]
+				kb := k >> sh
+				if failed[li] == kb {
+					continue
+				}
+				var kEnd int
+				if w.sgn > 0 {
+					kEnd = min(w.qa, (kb+1)<<sh-1)
+				} else {
+					kEnd = max(w.qa, kb<<sh)
+				}
+				if kEnd == k && li > 0 {
+					continue
+				}
+				if w.blockClear(li, k, kEnd) {
+					if kEnd == w.qa {
+						return true
+					}
+					k = kEnd
+					skipped = true
+					break
+				}
+				failed[li] = kb
+			}
+			if skipped {
+				continue
+			}
+		}
+		if k < 0 || k >= w.nA {
+			return false
+		}
+		t0, t1 := w.tauIn(k), w.tauOut(k)
+		w.slabTau = t0
+		if !p.backward {
+			w.slabTau = t1
+		}
+		w.slabLB, w.slabEx = w.lowBound(w.slabTau), math.NaN()
+		m0, m1 := w.squaresOf(t0, t1)
+		for m := m0; m <= m1; m++ {
+			if k == w.qa && m == w.qb {
+				continue // the cell itself
+			}
+			if m < 0 || m >= w.nB {
+				return false
+			}
+			// The fraction interval over square m within the slab.
+			s0, s1 := t0, t1
+			if w.db != 0 {
+				u0 := (float64(m) - 0.5 - w.pb) / w.db
+				u1 := (float64(m) + 0.5 - w.pb) / w.db
+				if u0 > u1 {
+					u0, u1 = u1, u0
+				}
+				s0, s1 = math.Max(s0, u0), math.Min(s1, u1)
+				if s0 > s1 { // touched at a boundary only
+					s0, s1 = math.Min(s0, s1), math.Max(s0, s1)
+				}
+			}
+			if !w.ground(elev[k*w.strA+m*w.strB], s0, s1) {
+				return false
+			}
+		}
+		// The crossing of the line of cell centres of this slab.
+		if tc := (float64(k) - w.pa) / w.da; tc > sightEps && tc < 1-sightEps {
+			b := w.pb + tc*w.db
+			m := int(math.Floor(b))
+			if u := b - float64(m); u > sightEps && m >= 0 && m+1 < w.nB {
+				ea, eb := elev[k*w.strA+m*w.strB], elev[k*w.strA+(m+1)*w.strB]
+				if ea == ea && eb == eb {
+					// Linear between the two, kept within them (no float32
+					// residue above equal neighbours).
+					g := min(max(ea*float32(1-u)+eb*float32(u), min(ea, eb)), max(ea, eb))
+					if !w.groundAt(g, tc) {
+						return false
+					}
+				}
+			}
+		}
+		if k == w.qa {
+			return true
+		}
+	}
+}
