@@ -1,0 +1,111 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+
+	"github.com/apache/beam/sdks/v2/go/pkg/beam"
+	"github.com/apache/beam/sdks/v2/go/pkg/beam/runners"
+
+	"glidereach/cmd/glidereach/input"
+	"glidereach/reach"
+	"glidereach/reach/tiling"
+)
+
+// run checks the flags, claims the work directory, runs the pipeline on the
+// runner --runner names (Prism when none) and prints the summary.
+func run(ctx context.Context, o *options, stdout, stderr io.Writer) error {
+	r, err := newRequest(o)
+	if err != nil {
+		return err
+	}
+	for _, w := range r.warnings {
+		fmt.Fprintln(stderr, "glidereach-pipeline: WARNING:", w)
+	}
+	done, err := claimWorkDir(r.in.WorkDir, r.in.Plan)
+	if err != nil {
+		return err
+	}
+	runner := *runners.Runner
+	if runner == "" {
+		runner = "prism"
+	}
+	p := buildPipeline(r.in, r.out, r.plan, done)
+	if _, err := beam.Run(ctx, runner, p); err != nil {
+		if ctx.Err() != nil {
+			return ctx.Err()
+		}
+		return fmt.Errorf("pipeline on %s: %w", runner, err)
+	}
+	data, err := os.ReadFile(filepath.Join(r.in.WorkDir, "summary.json"))
+	if err != nil {
+		// An asynchronous submission, or a work directory this machine
+		// does not see: the job writes the outputs itself.
+		fmt.Fprintf(stdout, "submitted to %s; the job writes its summary to %s\n", runner, filepath.Join(r.in.WorkDir, "summary.json"))
+		return nil
+	}
+	var s summary
+	if err := json.Unmarshal(data, &s); err != nil {
+		return err
+	}
+	printSummary(stdout, &s, len(done))
+	return nil
+}
+
+// printSummary prints the headline figures of a finished run.
+func printSummary(w io.Writer, s *summary, resumed int) {
+	fmt.Fprintf(w, "covered: %.1f %% of the zone (%.2f of %.2f km²), %d tiles", 100*s.CoveredFraction, s.CoveredAreaM2/1e6, s.ZoneAreaM2/1e6, s.Tiles)
+	if resumed > 0 {
+		fmt.Fprintf(w, " (%d found finished in the work directory)", resumed)
+	}
+	fmt.Fprintln(w)
+	for _, f := range s.Fields {
+		if f.Skipped {
+			fmt.Fprintf(w, "  %-24s no window on the area (too far, off the data or above the ceiling)\n", f.Name)
+			continue
+		}
+		fmt.Fprintf(w, "  %-24s covers %10.2f km², alone %10.2f km²\n", f.Name, f.CoversM2/1e6, f.ExclusiveM2/1e6)
+	}
+	for _, n := range s.Notes {
+		fmt.Fprintln(w, "note:", n)
+	}
+	fmt.Fprintln(w, reach.Caution)
+}
+
+// claimWorkDir makes dir the work directory of the plan (encoded): it
+// writes plan.gob in a new or empty directory, accepts one holding the same
+// plan and returns the tiles already finished there, and refuses one
+// holding another plan or other files (tiling.Run's rule).
+func claimWorkDir(dir string, plan []byte) ([]tiling.TileID, error) {
+	path := filepath.Join(dir, "plan.gob")
+	old, err := os.ReadFile(path)
+	if errors.Is(err, os.ErrNotExist) {
+		if ents, err := os.ReadDir(dir); err == nil && len(ents) > 0 {
+			return nil, input.Usagef("--work-dir", "%s is not empty and holds no plan.gob; give an empty or new directory", dir)
+		}
+		return nil, writeAtomic(path, plan)
+	}
+	if err != nil {
+		return nil, err
+	}
+	if !bytes.Equal(old, plan) {
+		return nil, input.Usagef("--work-dir", "%s holds the files of another run (a different plan); give an empty or new directory, or remove it", dir)
+	}
+	p, err := tiling.DecodePlan(plan)
+	if err != nil {
+		return nil, err
+	}
+	var done []tiling.TileID
+	for _, id := range p.Tiles() {
+		if _, err := os.Stat(filepath.Join(dir, "tiles", id.String()+".gob")); err == nil {
+			done = append(done, id)
+		}
+	}
+	return done, nil
+}
