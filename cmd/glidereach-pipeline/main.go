@@ -45,8 +45,9 @@ func main() {
 	root := newRootCmd()
 	root.SetOut(os.Stdout)
 	err := root.ExecuteContext(ctx)
+	code := exitCode(ctx, err, os.Stderr) // before stop, which cancels ctx
 	stop()
-	os.Exit(exitCode(ctx, err, os.Stderr))
+	os.Exit(code)
 }
 
 // exitCode prints err (if any) on w and returns the exit status for it.

@@ -30,7 +30,8 @@ func writeAtomic(path string, data []byte) error {
 
 // writeFileAtomic writes path with write through a temporary file in the
 // same directory and a rename: a failed write leaves no file behind, and a
-// file already there stays as it was.
+// file already there stays as it was. The new file gets the mode of the
+// file it replaces, 0644 when there was none (as glidereach's outputs).
 func writeFileAtomic(path string, write func(io.Writer) error) error {
 	if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
 		return err
@@ -45,6 +46,14 @@ func writeFileAtomic(path string, write func(io.Writer) error) error {
 		return err
 	}
 	if err := f.Close(); err != nil {
+		os.Remove(f.Name())
+		return err
+	}
+	mode := os.FileMode(0o644)
+	if fi, err := os.Stat(path); err == nil {
+		mode = fi.Mode().Perm()
+	}
+	if err := os.Chmod(f.Name(), mode); err != nil {
 		os.Remove(f.Name())
 		return err
 	}
