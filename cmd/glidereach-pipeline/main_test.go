@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/json"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -192,5 +193,67 @@ func TestREADMEExample(t *testing.T) {
 	}
 	if got := strings.TrimRight(stdout, "\n"); got != strings.Join(want, "\n") {
 		t.Errorf("the README's example prints\n%s\nthe README shows\n%s", got, strings.Join(want, "\n"))
+	}
+}
+
+func TestSameAsGlidereachCoverageTiled(t *testing.T) {
+	// The other path to the same quantity, as a user runs it: glidereach
+	// coverage --tiled (the library's local tiled path behind the main
+	// command) with the same inputs must build the same plan (plan.gob,
+	// byte for byte: both commands turn the flags into a tiling.Plan by the
+	// same rules) and write the same COG and covered share.
+	if _, err := exec.LookPath("go"); err != nil {
+		t.Skip("go tool not on PATH")
+	}
+	dir := t.TempDir()
+	bin := filepath.Join(dir, "glidereach")
+	build := exec.Command("go", "build", "-o", bin, "./cmd/glidereach")
+	build.Dir = "../.."
+	if out, err := build.CombinedOutput(); err != nil {
+		t.Fatalf("go build ./cmd/glidereach: %v\n%s", err, out)
+	}
+	inputs := []string{"--fields", fixtureFields, "--box", fixtureBox, "--agl", "600m", "--terrain", fixtureDEM,
+		"--tile", "64", "--wind", "0m:240/10kt,1500m:270/20kt", "--wind-error", "20deg,5kt"}
+	a, b := filepath.Join(dir, "a"), filepath.Join(dir, "b")
+	main := exec.Command(bin, append([]string{"coverage", "--tiled", "--work-dir", a, "--cog", a + ".tif", "--format", "json", "--out", a + ".json"}, inputs...)...)
+	if out, err := main.CombinedOutput(); err != nil {
+		t.Fatalf("glidereach coverage --tiled: %v\n%s", err, out)
+	}
+	if code, _, stderr := runCLI(t, append([]string{"--work-dir", b, "--cog", b + ".tif", "--summary", b + ".json"}, inputs...)...); code != exitOK {
+		t.Fatalf("exit %d; stderr: %s", code, stderr)
+	}
+	for _, f := range []string{"plan.gob", "../a.tif"} {
+		x, err := os.ReadFile(filepath.Join(a, f))
+		if err != nil {
+			t.Fatal(err)
+		}
+		y, err := os.ReadFile(filepath.Join(b, strings.Replace(f, "a.tif", "b.tif", 1)))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !bytes.Equal(x, y) {
+			t.Errorf("%s differs between glidereach coverage --tiled (%d bytes) and the pipeline (%d bytes)", f, len(x), len(y))
+		}
+	}
+	var ja struct {
+		CoveredFraction float64 `json:"covered_fraction"`
+	}
+	var jb summary
+	for _, c := range []struct {
+		path string
+		v    any
+	}{{a + ".json", &ja}, {b + ".json", &jb}} {
+		data, err := os.ReadFile(c.path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := json.Unmarshal(data, c.v); err != nil {
+			t.Fatal(err)
+		}
+	}
+	// glidereach's JSON rounds the share down (its conservative rounding,
+	// DEVELOPERS.md) to 4 decimals at most; the summary keeps every digit.
+	if !(ja.CoveredFraction <= jb.CoveredFraction && jb.CoveredFraction-ja.CoveredFraction < 1e-3) || jb.CoveredFraction == 0 {
+		t.Errorf("covered share: glidereach %v, the pipeline %v", ja.CoveredFraction, jb.CoveredFraction)
 	}
 }

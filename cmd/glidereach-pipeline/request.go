@@ -247,8 +247,8 @@ func newRequest(o *options) (*request, error) {
 }
 
 // groundRange returns the lowest and highest DEM samples over the lattice
-// (+Inf, −Inf when all are voids), read one window of 1024 × 1024 lattice
-// cells at a time.
+// (+Inf, −Inf when all are voids or off the data), read one window of
+// 1024 × 1024 lattice cells at a time.
 func groundRange(src terrain.Source, lat tiling.Lattice) (lo, hi float64, err error) {
 	lo, hi = math.Inf(1), math.Inf(-1)
 	p0 := &tiling.Plan{Lattice: lat, Tile: 1024}
@@ -264,6 +264,9 @@ func groundRange(src terrain.Source, lat tiling.Lattice) (lo, hi float64, err er
 			return 0, 0, err
 		}
 		dem, err := src.Window(math.Min(lo0, lo1), math.Min(la0, la1), math.Max(lo0, lo1), math.Max(la0, la1))
+		if errors.Is(err, terrain.ErrOutside) {
+			continue // a window off the DEM: unknown ground
+		}
 		if err != nil {
 			return 0, 0, err
 		}
