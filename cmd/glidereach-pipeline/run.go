@@ -7,6 +7,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
 
@@ -39,7 +40,7 @@ func run(ctx context.Context, o *options, stdout, stderr io.Writer) error {
 	p := buildPipeline(r.in, r.out, r.plan, done)
 	if _, err := beam.Run(ctx, runner, p); err != nil {
 		if ctx.Err() != nil {
-			return ctx.Err()
+			return fmt.Errorf("stopped (%w); the finished tiles are kept in %s: run the same command again to continue", ctx.Err(), r.in.WorkDir)
 		}
 		return fmt.Errorf("pipeline on %s: %w", runner, err)
 	}
@@ -60,7 +61,9 @@ func run(ctx context.Context, o *options, stdout, stderr io.Writer) error {
 
 // printSummary prints the headline figures of a finished run.
 func printSummary(w io.Writer, s *summary, resumed int) {
-	fmt.Fprintf(w, "covered: %.1f %% of the zone (%.2f of %.2f km²), %d tiles", 100*s.CoveredFraction, s.CoveredAreaM2/1e6, s.ZoneAreaM2/1e6, s.Tiles)
+	// Covered shares and areas are rounded down (never optimistic), as
+	// glidereach's text.
+	fmt.Fprintf(w, "covered: %.1f %% of the zone (%.2f of %.2f km²), %d tiles", down(100*s.CoveredFraction, 10), down(s.CoveredAreaM2/1e6, 100), s.ZoneAreaM2/1e6, s.Tiles)
 	if resumed > 0 {
 		fmt.Fprintf(w, " (%d found finished in the work directory)", resumed)
 	}
@@ -70,13 +73,17 @@ func printSummary(w io.Writer, s *summary, resumed int) {
 			fmt.Fprintf(w, "  %-24s no window on the area (too far, off the data or above the ceiling)\n", f.Name)
 			continue
 		}
-		fmt.Fprintf(w, "  %-24s covers %10.2f km², alone %10.2f km²\n", f.Name, f.CoversM2/1e6, f.ExclusiveM2/1e6)
+		fmt.Fprintf(w, "  %-24s covers %10.2f km², alone %10.2f km²\n", f.Name, down(f.CoversM2/1e6, 100), down(f.ExclusiveM2/1e6, 100))
 	}
 	for _, n := range s.Notes {
 		fmt.Fprintln(w, "note:", n)
 	}
 	fmt.Fprintln(w, reach.Caution)
 }
+
+// down rounds v down to 1/per (per 10: one decimal), with a margin of
+// 1e-9 for a value printed exactly.
+func down(v, per float64) float64 { return math.Floor(v*per+1e-9) / per }
 
 // claimWorkDir makes dir the work directory of the plan (encoded): it
 // writes plan.gob in a new or empty directory, accepts one holding the same
