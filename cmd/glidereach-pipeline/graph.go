@@ -97,7 +97,8 @@ type windowsFn struct {
 	In   Inputs
 	Done []tiling.TileID
 
-	jobs map[int][]byte
+	jobs map[int]tiling.FieldJob
+	skip map[tiling.TileID]bool
 }
 
 func (f *windowsFn) Setup(ctx context.Context) error {
@@ -105,32 +106,26 @@ func (f *windowsFn) Setup(ctx context.Context) error {
 	if err != nil {
 		return err
 	}
-	jobs, _, err := o.plan.FieldJobs()
-	if err != nil {
+	if f.jobs, err = o.fieldJobs(); err != nil {
 		return err
 	}
-	skip := map[tiling.TileID]bool{}
+	f.skip = map[tiling.TileID]bool{}
 	for _, id := range f.Done {
-		skip[id] = true
-	}
-	f.jobs = make(map[int][]byte, len(jobs))
-	for i := range jobs {
-		if !slices.ContainsFunc(jobs[i].Tiles, func(id tiling.TileID) bool { return !skip[id] }) {
-			continue
-		}
-		b, err := gobEncode(&jobs[i])
-		if err != nil {
-			return err
-		}
-		f.jobs[jobs[i].Index] = b
+		f.skip[id] = true
 	}
 	return nil
 }
 
 func (f *windowsFn) ProcessElement(ctx context.Context, k int, emit func([]byte)) error {
-	if b, ok := f.jobs[k]; ok {
-		emit(b)
+	job, ok := f.jobs[k]
+	if !ok || !slices.ContainsFunc(job.Tiles, func(id tiling.TileID) bool { return !f.skip[id] }) {
+		return nil
 	}
+	b, err := gobEncode(&job)
+	if err != nil {
+		return err
+	}
+	emit(b)
 	return nil
 }
 

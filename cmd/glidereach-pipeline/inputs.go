@@ -42,6 +42,28 @@ type opened struct {
 	plan *tiling.Plan
 	src  terrain.Source // nil: flat ground
 	zone func(lat, lon float64) bool
+
+	jobsOnce sync.Once
+	jobs     map[int]tiling.FieldJob // by job index
+	jobsErr  error
+}
+
+// fieldJobs returns the plan's field jobs by job index, computed once per
+// process (tiling.Plan.FieldJobs bounds every field's glide in every loss
+// model: worth doing once, not once per DoFn instance).
+func (o *opened) fieldJobs() (map[int]tiling.FieldJob, error) {
+	o.jobsOnce.Do(func() {
+		jobs, _, err := o.plan.FieldJobs()
+		if err != nil {
+			o.jobsErr = err
+			return
+		}
+		o.jobs = make(map[int]tiling.FieldJob, len(jobs))
+		for _, j := range jobs {
+			o.jobs[j.Index] = j
+		}
+	})
+	return o.jobs, o.jobsErr
 }
 
 var (

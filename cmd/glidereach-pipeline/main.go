@@ -132,7 +132,27 @@ and a JSON summary (--summary, and summary.json in the work directory).
 	fs := cmd.Flags()
 	o.register(fs)
 	// Beam's own options (--runner, --endpoint, --environment_type, …, and
-	// the worker's --worker, --id, …) live in the standard flag set.
+	// the worker's --worker, --id, …) live in the standard flag set; the
+	// worker's are hidden (a cluster's SDK container passes them), the
+	// others say they are Beam's.
 	fs.AddGoFlagSet(flag.CommandLine)
+	flag.CommandLine.VisitAll(func(f *flag.Flag) {
+		pf := fs.Lookup(f.Name)
+		if pf == nil {
+			return
+		}
+		switch f.Name {
+		case "worker", "id", "logging_endpoint", "control_endpoint", "semi_persist_dir", "options":
+			pf.Hidden = true
+		default:
+			pf.Usage = "Beam option: " + pf.Usage
+		}
+	})
+	if e := fs.Lookup("endpoint"); e != nil {
+		e.Usage = "Beam option: the job server, HOST:PORT (with --runner universal, flink or spark; Prism needs none)"
+	}
+	if r := fs.Lookup("runner"); r != nil {
+		r.Usage = "Beam option: the runner: prism (the embedded local runner, the default), universal (any portable job server at --endpoint), flink, spark"
+	}
 	return cmd
 }

@@ -35,11 +35,15 @@ type fieldSummary struct {
 // one at a time in row-major order into the totals.
 func finished(o *opened, dir string) (*tiling.Result, error) {
 	res := &tiling.Result{Plan: o.plan, Dir: dir, Totals: tiling.NewTotals(o.plan)}
-	_, skipped, err := o.plan.FieldJobs()
+	jobs, err := o.fieldJobs()
 	if err != nil {
 		return nil, err
 	}
-	res.Skipped = skipped
+	res.Skipped = make([]bool, len(o.plan.Fields)+len(o.plan.Candidates))
+	for k := range res.Skipped {
+		_, ok := jobs[k]
+		res.Skipped[k] = !ok
+	}
 	for _, id := range o.plan.Tiles() {
 		tr, err := res.Tile(id)
 		if err != nil {

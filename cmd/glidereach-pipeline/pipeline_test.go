@@ -42,7 +42,7 @@ type scene struct {
 	fields []reach.Target
 }
 
-func newScene(t *testing.T, n, tile int, alt float64) *scene {
+func newScene(t testing.TB, n, tile int, alt float64) *scene {
 	t.Helper()
 	g := terrain.Synthetic(7, n, n, 1.0/3600)
 	dem := filepath.Join(t.TempDir(), "relief.tif")
@@ -99,7 +99,7 @@ func newScene(t *testing.T, n, tile int, alt float64) *scene {
 
 // runPipeline runs the Beam pipeline of sc on Prism in a new work directory
 // and returns the directory.
-func runPipeline(t *testing.T, sc *scene, out Outputs) string {
+func runPipeline(t testing.TB, sc *scene, out Outputs) string {
 	t.Helper()
 	dir := t.TempDir()
 	enc, err := sc.plan.Encode()
