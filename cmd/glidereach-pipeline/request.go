@@ -60,8 +60,17 @@ func newRequest(o *options) (*request, error) {
 	if e := strings.ToLower(filepath.Ext(o.summary)); o.summary != "" && e != ".json" {
 		return nil, input.Usagef("--summary", "%q: the summary is JSON, written to a .json file", o.summary)
 	}
-	r := &request{out: Outputs{COG: o.cog, Summary: o.summary}}
-	r.in = Inputs{Terrain: o.terrain, Area: o.area, Box: o.box, Corridor: o.corridor, WorkDir: o.workDir}
+	r := &request{}
+	// The workers reopen the inputs by path, from whatever directory they
+	// run in: every path they are given is absolute.
+	r.in = Inputs{Area: abs(o.area), Box: o.box, Corridor: o.corridor, WorkDir: abs(o.workDir)}
+	for _, t := range o.terrain {
+		r.in.Terrain = append(r.in.Terrain, abs(t))
+	}
+	if i := strings.LastIndex(o.corridor, ","); i > 0 {
+		r.in.Corridor = abs(o.corridor[:i]) + o.corridor[i:]
+	}
+	r.out = Outputs{COG: abs(o.cog), Summary: abs(o.summary)}
 
 	// The aircraft and the air (reach/plan's Setup, as glidereach's).
 	ac, err := input.LoadAircraft(o.aircraft)
@@ -286,4 +295,16 @@ func flagFor(err error) error {
 	flag := map[string]string{"Mass": "--mass", "Bugs": "--bugs", "AirSink": "--air-sink", "MacCready": "--mc",
 		"Reserve": "--reserve", "Clearance": "--clearance", "Aircraft": "--aircraft", "Terrain": "--terrain"}[ie.Field]
 	return &input.UsageError{Where: flag, Err: ie.Err}
+}
+
+// abs returns path made absolute ("" stays ""; a path that cannot be made
+// absolute stays as given).
+func abs(path string) string {
+	if path == "" {
+		return ""
+	}
+	if a, err := filepath.Abs(path); err == nil {
+		return a
+	}
+	return path
 }
