@@ -63,7 +63,11 @@ func run(ctx context.Context, o *options, stdout, stderr io.Writer) error {
 func printSummary(w io.Writer, s *summary, resumed int) {
 	// Covered shares and areas are rounded down (never optimistic), as
 	// glidereach's text.
-	fmt.Fprintf(w, "covered: %.1f %% of the zone (%.2f of %.2f km²), %d tiles", down(100*s.CoveredFraction, 10), down(s.CoveredAreaM2/1e6, 100), s.ZoneAreaM2/1e6, s.Tiles)
+	tiles := "tiles"
+	if s.Tiles == 1 {
+		tiles = "tile"
+	}
+	fmt.Fprintf(w, "covered: %.1f %% of the zone (%.2f of %.2f km²), %d %s", down(100*s.CoveredFraction, 10), down(s.CoveredAreaM2/1e6, 100), s.ZoneAreaM2/1e6, s.Tiles, tiles)
 	if resumed > 0 {
 		fmt.Fprintf(w, " (%d found finished in the work directory)", resumed)
 	}
