@@ -1,0 +1,289 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/gob"
+	"fmt"
+	"reflect"
+	"slices"
+	"sort"
+
+	"github.com/apache/beam/sdks/v2/go/pkg/beam"
+	"github.com/apache/beam/sdks/v2/go/pkg/beam/register"
+
+	"glidereach/reach/tiling"
+)
+
+// The job graph of a coverage run (package tiling's, step for step):
+//
+//	Create(job indices) ─windows─▶ FieldJob ─field-runs─▶ KV<TileID, TilePart> ─┐
+//	Create(tiles) ─tile-jobs─▶ KV<TileID, TileJob> ───────────────────────────────┴─CoGroupByKey─▶ merge ─▶ TileID
+//	TileID (+ tiles finished before) ─AddFixedKey─GroupByKey─▶ finish (totals, outputs; one worker)
+//
+// Every value on an edge is a gob-encoded []byte (Beam's bytes coder) or a
+// TileID (two ints, Beam's schema coder: deterministic, so it can be a
+// key). merge writes each finished tile to the work directory in
+// tiling.Run's layout and passes on only its ID, so no worker ever holds
+// more than one tile's merge, and finish reads the tiles back one at a time
+// in row-major order (tiling.Totals' order).
+
+func init() {
+	beam.RegisterType(reflect.TypeOf((*tiling.TileID)(nil)).Elem())
+
+	register.DoFn3x1[context.Context, int, func([]byte), error](&windowsFn{})
+	register.Emitter1[[]byte]()
+	register.DoFn3x1[context.Context, []byte, func(tiling.TileID, []byte), error](&fieldRunFn{})
+	register.Emitter2[tiling.TileID, []byte]()
+	register.DoFn3x1[context.Context, tiling.TileID, func(tiling.TileID, []byte), error](&tileJobsFn{})
+	register.DoFn5x1[context.Context, tiling.TileID, func(*[]byte) bool, func(*[]byte) bool, func(tiling.TileID), error](&mergeFn{})
+	register.Iter1[[]byte]()
+	register.Emitter1[tiling.TileID]()
+	register.DoFn3x1[context.Context, int, func(*tiling.TileID) bool, error](&finishFn{})
+	register.Iter1[tiling.TileID]()
+}
+
+// Outputs are the files the finish step writes (empty: not written).
+type Outputs struct {
+	// COG is the least-altitude raster (cloud-optimised GeoTIFF,
+	// tiling.WriteCOG).
+	COG string
+	// Summary is the JSON summary: covered share, per-field areas.
+	Summary string
+}
+
+// buildPipeline adds the coverage job graph of plan to a new pipeline. done
+// are the tiles already finished in the work directory (a resumed run):
+// they are not merged again, and fields whose window touches only finished
+// tiles are not run. The graph's inputs are two small lists (job indices and
+// tile IDs); the data stays on the workers.
+func buildPipeline(in Inputs, out Outputs, plan *tiling.Plan, done []tiling.TileID) *beam.Pipeline {
+	p, s := beam.NewPipelineWithRoot()
+	skip := map[tiling.TileID]bool{}
+	for _, id := range done {
+		skip[id] = true
+	}
+	var jobs []int
+	for k := range len(plan.Fields) + len(plan.Candidates) {
+		jobs = append(jobs, k)
+	}
+	var tiles []tiling.TileID
+	for _, id := range plan.Tiles() {
+		if !skip[id] {
+			tiles = append(tiles, id)
+		}
+	}
+
+	js := beam.CreateList(s.Scope("fields"), jobs)
+	windows := beam.ParDo(s.Scope("windows"), &windowsFn{In: in, Done: done}, js)
+	parts := beam.ParDo(s.Scope("field-runs"), &fieldRunFn{In: in, Done: done}, windows)
+
+	ts := beam.CreateList(s.Scope("tiles"), tiles)
+	tileJobs := beam.ParDo(s.Scope("tile-jobs"), &tileJobsFn{In: in}, ts)
+
+	grouped := beam.CoGroupByKey(s.Scope("by-tile"), tileJobs, parts)
+	merged := beam.ParDo(s.Scope("merge"), &mergeFn{In: in}, grouped)
+
+	every := beam.Flatten(s.Scope("every-tile"), merged, beam.CreateList(s.Scope("finished-before"), done))
+	all := beam.GroupByKey(s.Scope("all-tiles"), beam.AddFixedKey(s.Scope("one-key"), every))
+	beam.ParDo0(s.Scope("finish"), &finishFn{In: in, Out: out}, all)
+	return p
+}
+
+// windowsFn turns a job index into its FieldJob: the field's window and the
+// tiles it touches (tiling.Plan.FieldJobs). Indices whose field has no
+// window on the lattice, or whose tiles are all in Done, give nothing.
+type windowsFn struct {
+	In   Inputs
+	Done []tiling.TileID
+
+	jobs map[int]tiling.FieldJob
+	skip map[tiling.TileID]bool
+}
+
+func (f *windowsFn) Setup(ctx context.Context) error {
+	o, err := f.In.open()
+	if err != nil {
+		return err
+	}
+	if f.jobs, err = o.fieldJobs(); err != nil {
+		return err
+	}
+	f.skip = map[tiling.TileID]bool{}
+	for _, id := range f.Done {
+		f.skip[id] = true
+	}
+	return nil
+}
+
+func (f *windowsFn) ProcessElement(ctx context.Context, k int, emit func([]byte)) error {
+	job, ok := f.jobs[k]
+	if !ok || !slices.ContainsFunc(job.Tiles, func(id tiling.TileID) bool { return !f.skip[id] }) {
+		return nil
+	}
+	b, err := gobEncode(&job)
+	if err != nil {
+		return err
+	}
+	emit(b)
+	return nil
+}
+
+// fieldRunFn runs one field's backward solver on its window
+// (tiling.RunField) and emits one TilePart per touched tile not in Done,
+// keyed by tile.
+type fieldRunFn struct {
+	In   Inputs
+	Done []tiling.TileID
+
+	o    *opened
+	skip map[tiling.TileID]bool
+}
+
+func (f *fieldRunFn) Setup(ctx context.Context) (err error) {
+	f.skip = map[tiling.TileID]bool{}
+	for _, id := range f.Done {
+		f.skip[id] = true
+	}
+	f.o, err = f.In.open()
+	return err
+}
+
+func (f *fieldRunFn) ProcessElement(ctx context.Context, b []byte, emit func(tiling.TileID, []byte)) error {
+	var job tiling.FieldJob
+	if err := gob.NewDecoder(bytes.NewReader(b)).Decode(&job); err != nil {
+		return fmt.Errorf("field job: %w", err)
+	}
+	parts, err := tiling.RunField(ctx, f.o.src, f.o.plan, job)
+	if err != nil {
+		return err
+	}
+	for i := range parts {
+		if f.skip[parts[i].Tile] {
+			continue
+		}
+		pb, err := parts[i].Encode()
+		if err != nil {
+			return err
+		}
+		emit(parts[i].Tile, pb)
+	}
+	return nil
+}
+
+// tileJobsFn gives each tile its TileJob (its cells and the zone's mask,
+// tiling.Plan.TileJob), keyed by tile.
+type tileJobsFn struct {
+	In Inputs
+
+	o *opened
+}
+
+func (f *tileJobsFn) Setup(ctx context.Context) (err error) {
+	f.o, err = f.In.open()
+	return err
+}
+
+func (f *tileJobsFn) ProcessElement(ctx context.Context, id tiling.TileID, emit func(tiling.TileID, []byte)) error {
+	job, err := f.o.plan.TileJob(id, f.o.zone)
+	if err != nil {
+		return err
+	}
+	b, err := gobEncode(&job)
+	if err != nil {
+		return err
+	}
+	emit(id, b)
+	return nil
+}
+
+// mergeFn merges the parts of one tile by least altitude per cell
+// (tiling.NewAccumulator, Add, Finish: the result does not depend on the
+// order the parts arrive in) and writes the TileResult to the work
+// directory.
+type mergeFn struct {
+	In Inputs
+
+	o *opened
+}
+
+func (f *mergeFn) Setup(ctx context.Context) (err error) {
+	f.o, err = f.In.open()
+	return err
+}
+
+func (f *mergeFn) ProcessElement(ctx context.Context, id tiling.TileID, jobs func(*[]byte) bool, parts func(*[]byte) bool, emit func(tiling.TileID)) error {
+	var jb, b []byte
+	n := 0
+	for jobs(&b) {
+		jb, n = b, n+1
+	}
+	if n != 1 {
+		return fmt.Errorf("tile %v: %d tile jobs, want 1", id, n)
+	}
+	var job tiling.TileJob
+	if err := gob.NewDecoder(bytes.NewReader(jb)).Decode(&job); err != nil {
+		return fmt.Errorf("tile %v: tile job: %w", id, err)
+	}
+	acc, err := tiling.NewAccumulator(f.o.src, f.o.plan, job)
+	if err != nil {
+		return err
+	}
+	for parts(&b) {
+		part, err := tiling.DecodeTilePart(b)
+		if err != nil {
+			return err
+		}
+		if err := acc.Add(part); err != nil {
+			return err
+		}
+	}
+	if err := saveTile(f.In.WorkDir, acc.Finish()); err != nil {
+		return err
+	}
+	emit(id)
+	return nil
+}
+
+// finishFn checks that every tile is in the work directory, sums the totals
+// in row-major tile order and writes the outputs.
+type finishFn struct {
+	In  Inputs
+	Out Outputs
+}
+
+func (f *finishFn) ProcessElement(ctx context.Context, _ int, ids func(*tiling.TileID) bool) error {
+	o, err := f.In.open()
+	if err != nil {
+		return err
+	}
+	var got []tiling.TileID
+	var id tiling.TileID
+	for ids(&id) {
+		got = append(got, id)
+	}
+	sort.Slice(got, func(a, b int) bool {
+		if got[a].Row != got[b].Row {
+			return got[a].Row < got[b].Row
+		}
+		return got[a].Col < got[b].Col
+	})
+	want := o.plan.Tiles()
+	if len(got) != len(want) {
+		return fmt.Errorf("finish: %d tiles merged, the plan has %d", len(got), len(want))
+	}
+	for i := range want {
+		if got[i] != want[i] {
+			return fmt.Errorf("finish: tile %v merged, %v expected", got[i], want[i])
+		}
+	}
+	return writeOutputs(ctx, o, f.In.WorkDir, f.Out)
+}
+
+func gobEncode(v any) ([]byte, error) {
+	var b bytes.Buffer
+	if err := gob.NewEncoder(&b).Encode(v); err != nil {
+		return nil, err
+	}
+	return b.Bytes(), nil
+}

@@ -1,0 +1,259 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"glidereach/reach"
+)
+
+// Fixtures of the repository (testdata/ORIGIN.md, testdata/geotiff/README.md).
+const (
+	fixtureDEM    = "../../testdata/geotiff/geo_int16_strip_none.tif"
+	fixtureFields = "../../testdata/fields/fixture-fields.geojson"
+	// A box inside the DEM's extent (-25.05..-24.95 E, -0.0375..0.0375 N,
+	// printed by gdalinfo for the fixture: testdata/geotiff/values.txt).
+	fixtureBox = "-0.03,-25.04,0.03,-24.96"
+)
+
+// runCLI runs the command in process with args and returns its exit
+// status, standard output and standard error.
+func runCLI(t *testing.T, args ...string) (int, string, string) {
+	t.Helper()
+	root := newRootCmd()
+	var out, errb bytes.Buffer
+	root.SetOut(&out)
+	root.SetErr(&errb)
+	root.SetArgs(args)
+	ctx := context.Background()
+	err := root.ExecuteContext(ctx)
+	code := exitCode(ctx, err, &errb)
+	return code, out.String(), errb.String()
+}
+
+func TestCLIUsageErrors(t *testing.T) {
+	// The command-line contract (glidereach's README "Exit status", common
+	// to both commands): a usage or input error exits 2 and names the
+	// flag or file at fault, and writes nothing.
+	dir := t.TempDir()
+	work := filepath.Join(dir, "work")
+	base := []string{"--fields", fixtureFields, "--box", fixtureBox, "--terrain", fixtureDEM}
+	cases := []struct {
+		name string
+		args []string
+		want string
+	}{
+		{"no fields", []string{"--box", fixtureBox, "--alt", "1500m", "--work-dir", work}, "--fields"},
+		{"no zone", []string{"--fields", fixtureFields, "--alt", "1500m", "--work-dir", work}, "--area"},
+		{"two zones", append(base, "--area", "x.geojson", "--alt", "1500m", "--work-dir", work), "--area"},
+		{"alt and agl", append(base, "--alt", "1500m", "--agl", "600m", "--work-dir", work), "--alt"},
+		{"no altitude", append(base, "--work-dir", work), "--alt"},
+		{"no work dir", append(base, "--alt", "1500m"), "--work-dir"},
+		{"bad unit", append(base, "--alt", "1500 parsecs", "--work-dir", work), "--alt"},
+		{"unknown flag", append(base, "--alt", "1500m", "--work-dir", work, "--no-such-flag"), "no-such-flag"},
+		{"tile", append(base, "--alt", "1500m", "--work-dir", work, "--tile", "100"), "--tile"},
+		{"cog name", append(base, "--alt", "1500m", "--work-dir", work, "--cog", filepath.Join(dir, "least.png")), "--cog"},
+		{"cell finer than the DEM", append(base, "--alt", "1500m", "--work-dir", work, "--cell", "5m"), "--cell"},
+		{"fields file", []string{"--fields", filepath.Join(dir, "missing.geojson"), "--box", fixtureBox, "--alt", "1500m", "--work-dir", work}, "missing.geojson"},
+		{"terrain file", []string{"--fields", fixtureFields, "--box", fixtureBox, "--terrain", filepath.Join(dir, "missing.tif"), "--alt", "1500m", "--work-dir", work}, "--terrain"},
+		{"aircraft", append(base, "--alt", "1500m", "--work-dir", work, "--aircraft", "no-such-profile"), "no-such-profile"},
+		{"log level", append(base, "--alt", "1500m", "--work-dir", work, "--beam-log-level", "loud"), "--beam-log-level"},
+		{"alt below the ground", append(base, "--alt", "-300m", "--work-dir", work), "--alt"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			code, _, stderr := runCLI(t, c.args...)
+			if code != exitUsage {
+				t.Fatalf("exit %d, want %d; stderr: %s", code, exitUsage, stderr)
+			}
+			if !strings.Contains(stderr, c.want) {
+				t.Errorf("stderr does not name %s: %s", c.want, stderr)
+			}
+			if _, err := os.Stat(work); err == nil {
+				t.Errorf("the work directory was created by a refused run")
+			}
+		})
+	}
+}
+
+func TestCLIRunAndResume(t *testing.T) {
+	// A run as a user types it, on the repository's fixture DEM, then the
+	// same command again on the same work directory: nothing is left to
+	// do, and the outputs are the same bytes.
+	dir := t.TempDir()
+	work := filepath.Join(dir, "work")
+	cog, sum := filepath.Join(dir, "least.tif"), filepath.Join(dir, "summary.json")
+	args := []string{"--fields", fixtureFields, "--box", fixtureBox, "--agl", "600m", "--terrain", fixtureDEM,
+		"--tile", "64", "--work-dir", work, "--cog", cog, "--summary", sum}
+	code, stdout, stderr := runCLI(t, args...)
+	if code != exitOK {
+		t.Fatalf("exit %d; stderr: %s", code, stderr)
+	}
+	if !strings.Contains(stdout, "covered:") || !strings.Contains(stdout, reach.Caution) {
+		t.Errorf("stdout lacks the covered share or the caution:\n%s", stdout)
+	}
+	var s summary
+	data, err := os.ReadFile(sum)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := json.Unmarshal(data, &s); err != nil {
+		t.Fatal(err)
+	}
+	if s.Caution != reach.Caution || len(s.Fields) != 2 || !(s.CoveredFraction > 0 && s.CoveredFraction <= 1) || s.Tiles < 2 {
+		t.Errorf("summary %+v", s)
+	}
+	first, err := os.ReadFile(cog)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// TIFF 6.0 §2 (Image File Header): "II" then 42 little-endian, or
+	// BigTIFF's 43; the COG layout itself is the library's (checked there
+	// against GDAL).
+	if len(first) < 8 || string(first[:2]) != "II" || (first[2] != 42 && first[2] != 43) {
+		t.Fatalf("the COG does not start with a TIFF header: % x", first[:min(8, len(first))])
+	}
+	code, stdout, stderr = runCLI(t, args...)
+	if code != exitOK {
+		t.Fatalf("second run: exit %d; stderr: %s", code, stderr)
+	}
+	if !strings.Contains(stdout, "found finished in the work directory") {
+		t.Errorf("the second run did not resume:\n%s", stdout)
+	}
+	again, err := os.ReadFile(cog)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(first, again) {
+		t.Error("the resumed run wrote a different COG")
+	}
+	// Another plan in the same work directory is refused (exit 2).
+	code, _, stderr = runCLI(t, append(args[:len(args):len(args)], "--reserve", "400m")...)
+	if code != exitUsage || !strings.Contains(stderr, "--work-dir") {
+		t.Errorf("another plan in the work directory: exit %d, stderr %s", code, stderr)
+	}
+	left, err := filepath.Glob(filepath.Join(dir, ".tmp-*"))
+	if err != nil || len(left) > 0 {
+		t.Errorf("temporary files left: %v", left)
+	}
+}
+
+func TestREADMEExample(t *testing.T) {
+	// The README's local example of this command (section "Coverage on a
+	// cluster"), run from the repository's root with its outputs sent to
+	// a temporary directory, prints what the README shows.
+	data, err := os.ReadFile("../../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(string(data), "\n")
+	var cmd []string
+	var want []string
+	for i := 0; i < len(lines); i++ {
+		l := strings.TrimSpace(lines[i])
+		if !strings.HasPrefix(l, "./glidereach-pipeline ") || strings.Contains(l, "/shared/") {
+			continue
+		}
+		joined := ""
+		for ; i < len(lines); i++ {
+			l := strings.TrimSpace(lines[i])
+			joined += " " + strings.TrimSuffix(l, "\\")
+			if !strings.HasSuffix(l, "\\") {
+				break
+			}
+		}
+		cmd = strings.Fields(joined)[1:]
+		for i++; i < len(lines) && lines[i] != "```"; i++ {
+		}
+		for i++; i < len(lines) && lines[i] != "```"; i++ {
+			want = append(want, lines[i])
+		}
+		break
+	}
+	if len(cmd) == 0 || len(want) == 0 {
+		t.Fatal("the README has no local glidereach-pipeline example followed by its output")
+	}
+	tmp := t.TempDir()
+	for i := 0; i+1 < len(cmd); i++ {
+		switch cmd[i] {
+		case "--work-dir", "--cog", "--summary":
+			cmd[i+1] = filepath.Join(tmp, cmd[i+1])
+		}
+	}
+	t.Chdir("../..")
+	code, stdout, stderr := runCLI(t, cmd...)
+	if code != exitOK {
+		t.Fatalf("%v: exit %d; stderr: %s", cmd, code, stderr)
+	}
+	if got := strings.TrimRight(stdout, "\n"); got != strings.Join(want, "\n") {
+		t.Errorf("the README's example prints\n%s\nthe README shows\n%s", got, strings.Join(want, "\n"))
+	}
+}
+
+func TestSameAsGlidereachCoverageTiled(t *testing.T) {
+	// The other path to the same quantity, as a user runs it: glidereach
+	// coverage --tiled (the library's local tiled path behind the main
+	// command) with the same inputs must build the same plan (plan.gob,
+	// byte for byte: both commands turn the flags into a tiling.Plan by the
+	// same rules) and write the same COG and covered share.
+	if _, err := exec.LookPath("go"); err != nil {
+		t.Skip("go tool not on PATH")
+	}
+	dir := t.TempDir()
+	bin := filepath.Join(dir, "glidereach")
+	build := exec.Command("go", "build", "-o", bin, "./cmd/glidereach")
+	build.Dir = "../.."
+	if out, err := build.CombinedOutput(); err != nil {
+		t.Fatalf("go build ./cmd/glidereach: %v\n%s", err, out)
+	}
+	inputs := []string{"--fields", fixtureFields, "--box", fixtureBox, "--agl", "600m", "--terrain", fixtureDEM,
+		"--tile", "64", "--wind", "0m:240/10kt,1500m:270/20kt", "--wind-error", "20deg,5kt"}
+	a, b := filepath.Join(dir, "a"), filepath.Join(dir, "b")
+	main := exec.Command(bin, append([]string{"coverage", "--tiled", "--work-dir", a, "--cog", a + ".tif", "--format", "json", "--out", a + ".json"}, inputs...)...)
+	if out, err := main.CombinedOutput(); err != nil {
+		t.Fatalf("glidereach coverage --tiled: %v\n%s", err, out)
+	}
+	if code, _, stderr := runCLI(t, append([]string{"--work-dir", b, "--cog", b + ".tif", "--summary", b + ".json"}, inputs...)...); code != exitOK {
+		t.Fatalf("exit %d; stderr: %s", code, stderr)
+	}
+	for _, f := range []string{"plan.gob", "../a.tif"} {
+		x, err := os.ReadFile(filepath.Join(a, f))
+		if err != nil {
+			t.Fatal(err)
+		}
+		y, err := os.ReadFile(filepath.Join(b, strings.Replace(f, "a.tif", "b.tif", 1)))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !bytes.Equal(x, y) {
+			t.Errorf("%s differs between glidereach coverage --tiled (%d bytes) and the pipeline (%d bytes)", f, len(x), len(y))
+		}
+	}
+	var ja struct {
+		CoveredFraction float64 `json:"covered_fraction"`
+	}
+	var jb summary
+	for _, c := range []struct {
+		path string
+		v    any
+	}{{a + ".json", &ja}, {b + ".json", &jb}} {
+		data, err := os.ReadFile(c.path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := json.Unmarshal(data, c.v); err != nil {
+			t.Fatal(err)
+		}
+	}
+	// glidereach's JSON rounds the share down (its conservative rounding,
+	// DEVELOPERS.md) to 4 decimals at most; the summary keeps every digit.
+	if !(ja.CoveredFraction <= jb.CoveredFraction && jb.CoveredFraction-ja.CoveredFraction < 1e-3) || jb.CoveredFraction == 0 {
+		t.Errorf("covered share: glidereach %v, the pipeline %v", ja.CoveredFraction, jb.CoveredFraction)
+	}
+}

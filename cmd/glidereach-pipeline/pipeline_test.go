@@ -1,0 +1,268 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"fmt"
+	"os"
+	"path/filepath"
+	"testing"
+
+	"github.com/apache/beam/sdks/v2/go/pkg/beam"
+	beamlog "github.com/apache/beam/sdks/v2/go/pkg/beam/log"
+	"github.com/apache/beam/sdks/v2/go/pkg/beam/runners/prism"
+
+	"glidereach/cmd/glidereach/input"
+	"glidereach/reach"
+	"glidereach/reach/tiling"
+	"glidereach/terrain"
+	"glidereach/wind"
+)
+
+func TestMain(m *testing.M) {
+	// A Beam program calls beam.Init before building a pipeline; in worker
+	// mode it runs the worker instead (never in these tests: Prism runs the
+	// steps in this process).
+	beamlog.LogLevel = "warn"
+	beam.Init()
+	os.Exit(m.Run())
+}
+
+// scene is a small synthetic case: terrain.Synthetic's invented relief
+// (n × n cells of 1 arc-second) written as a GeoTIFF, the generic trainer
+// in an invented three-layer wind, three invented fields and a box inside
+// the relief.
+type scene struct {
+	dem    string
+	src    terrain.Source
+	plan   *tiling.Plan
+	box    string
+	zone   input.Zone
+	fields []reach.Target
+}
+
+func newScene(t testing.TB, n, tile int, alt float64) *scene {
+	t.Helper()
+	g := terrain.Synthetic(7, n, n, 1.0/3600)
+	dem := filepath.Join(t.TempDir(), "relief.tif")
+	var buf bytes.Buffer
+	if err := terrain.WriteGeoTIFF(&buf, g); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(dem, buf.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	src, err := terrain.Open(dem)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ac, err := reach.Builtin("trainer")
+	if err != nil {
+		t.Fatal(err)
+	}
+	wp, err := wind.NewProfile([]wind.Layer{{Alt: 0, Dir: 240, Speed: 5}, {Alt: 1500, Dir: 270, Speed: 10}, {Alt: 3000, Dir: 290, Speed: 18}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab, err := reach.NewTable(ac, reach.Atmosphere{}, wp, reach.Conditions{}, -100, alt+400)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lg, err := tiling.SampleLoss(tab, -100, alt+400)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w, s, e, nn := g.Extent()
+	sc := &scene{dem: dem, src: src}
+	for i, q := range [][2]float64{{0.3, 0.35}, {0.62, 0.55}, {0.45, 0.7}} {
+		lon, lat := w+q[0]*(e-w), s+q[1]*(nn-s)
+		el, ok := g.Elevation(lat, lon)
+		if !ok {
+			t.Fatal("field off the grid")
+		}
+		sc.fields = append(sc.fields, reach.Target{Name: fmt.Sprintf("Field %c", 'A'+i), Lat: lat, Lon: lon, Elev: el, Reserve: 250})
+	}
+	bw, bs, be, bn := w+0.25*(e-w), s+0.25*(nn-s), e-0.25*(e-w), nn-0.25*(nn-s)
+	sc.box = fmt.Sprintf("%.6f,%.6f,%.6f,%.6f", bs, bw, bn, be)
+	if sc.zone, err = input.ParseBox(sc.box); err != nil {
+		t.Fatal(err)
+	}
+	lat, err := tiling.LatticeFor(src, bw, bs, be, bn, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sc.plan = &tiling.Plan{Lattice: lat, Tile: tile, Fields: sc.fields, Models: []tiling.LossGrid{lg},
+		Clearance: 100, Alt: alt, Ceiling: alt + 300, Cell: src.Resolution()}
+	return sc
+}
+
+// runPipeline runs the Beam pipeline of sc on Prism in a new work directory
+// and returns the directory.
+func runPipeline(t testing.TB, sc *scene, out Outputs) string {
+	t.Helper()
+	dir := t.TempDir()
+	enc, err := sc.plan.Encode()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := writeAtomic(filepath.Join(dir, "plan.gob"), enc); err != nil {
+		t.Fatal(err)
+	}
+	in := Inputs{Plan: enc, Terrain: []string{sc.dem}, Box: sc.box, WorkDir: dir}
+	p := buildPipeline(in, out, sc.plan, nil)
+	if _, err := prism.Execute(context.Background(), p); err != nil {
+		t.Fatalf("pipeline on Prism: %v", err)
+	}
+	return dir
+}
+
+// localCOG writes the COG of a local run as the pipeline's finish step
+// does (tiling.WriteCOG, the same description) and returns its bytes.
+func localCOG(t *testing.T, sc *scene, res *tiling.Result) []byte {
+	t.Helper()
+	var b bytes.Buffer
+	if err := tiling.WriteCOG(&b, sc.plan, res, cogDescription); err != nil {
+		t.Fatal(err)
+	}
+	return b.Bytes()
+}
+
+// sameTiles fails unless the two work directories hold the same tile
+// results for every tile of the plan; it returns the number of covered
+// cells. Each file is decoded and encoded again here: encoding/gob numbers
+// the types a process encodes in the order it first meets them, so two
+// processes (a local run and a cluster's workers) may write the same result
+// with different type numbers; within one process the bytes are the same.
+func sameTiles(t *testing.T, plan *tiling.Plan, want, got string) int {
+	t.Helper()
+	covered := 0
+	for _, id := range plan.Tiles() {
+		w := reencodedTile(t, filepath.Join(want, "tiles", id.String()+".gob"))
+		g := reencodedTile(t, filepath.Join(got, "tiles", id.String()+".gob"))
+		if !bytes.Equal(g, w) {
+			t.Errorf("tile %v: the pipeline's result differs from the local run's", id)
+		}
+		tr, err := tiling.DecodeTileResult(g)
+		if err != nil {
+			t.Fatal(err)
+		}
+		covered += int(tr.CoveredCells)
+	}
+	return covered
+}
+
+// reencodedTile reads a tile file and returns the result encoded again in
+// this process.
+func reencodedTile(t *testing.T, path string) []byte {
+	t.Helper()
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tr, err := tiling.DecodeTileResult(data)
+	if err != nil {
+		t.Fatalf("%s: %v", path, err)
+	}
+	b, err := tr.Encode()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return b
+}
+
+func TestPipelineMatchesLocalTiledRun(t *testing.T) {
+	// The reference is the library's local tiled path (tiling.Run and
+	// tiling.WriteCOG), which the pipeline must reproduce exactly: every
+	// tile's result in the work directory, the COG written from them (byte
+	// for byte) and the totals (bit for bit).
+	sc := newScene(t, 200, 64, 1400)
+	local, err := tiling.Run(context.Background(), sc.src, sc.plan, tiling.RunOptions{WorkDir: t.TempDir(), Zone: sc.zone.Contains, Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	cog := filepath.Join(t.TempDir(), "least.tif")
+	dir := runPipeline(t, sc, Outputs{COG: cog})
+	if n := len(sc.plan.Tiles()); n < 4 {
+		t.Fatalf("the case has %d tiles; the check needs several", n)
+	}
+	if sameTiles(t, sc.plan, local.Dir, dir) == 0 {
+		t.Fatal("no cell is covered: the case checks nothing")
+	}
+	got, err := os.ReadFile(cog)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := localCOG(t, sc, local); !bytes.Equal(got, want) {
+		t.Errorf("the pipeline's COG (%d bytes) differs from the local run's (%d bytes)", len(got), len(want))
+	}
+	var s summary
+	data, err := os.ReadFile(filepath.Join(dir, "summary.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := json.Unmarshal(data, &s); err != nil {
+		t.Fatal(err)
+	}
+	lt := local.Totals
+	if s.CoveredFraction != lt.CoveredFraction || s.ZoneAreaM2 != lt.ZoneArea || s.CoveredCells != lt.CoveredCells {
+		t.Errorf("summary %+v, local totals: covered %v of %v m², %d cells", s, lt.CoveredFraction, lt.ZoneArea, lt.CoveredCells)
+	}
+	for k, f := range s.Fields {
+		if f.CoversM2 != lt.Covers[k] || f.ExclusiveM2 != lt.Exclusive[k] {
+			t.Errorf("field %s: covers %v, alone %v m²; local %v, %v", f.Name, f.CoversM2, f.ExclusiveM2, lt.Covers[k], lt.Exclusive[k])
+		}
+	}
+}
+
+func TestPipelineResumesFromFinishedTiles(t *testing.T) {
+	// A run that stopped part-way (here: tiles removed from a finished
+	// work directory, as a killed job leaves it) continues from the tiles
+	// left and gives the same bytes as the uninterrupted run.
+	sc := newScene(t, 200, 64, 1400)
+	whole := filepath.Join(t.TempDir(), "whole.tif")
+	dir := runPipeline(t, sc, Outputs{COG: whole})
+	tiles := sc.plan.Tiles()
+	keep := map[tiling.TileID][]byte{}
+	for i, id := range tiles {
+		path := filepath.Join(dir, "tiles", id.String()+".gob")
+		keep[id] = reencodedTile(t, path)
+		if i%2 == 0 {
+			if err := os.Remove(path); err != nil {
+				t.Fatal(err)
+			}
+		}
+	}
+	enc, err := sc.plan.Encode()
+	if err != nil {
+		t.Fatal(err)
+	}
+	done, err := claimWorkDir(dir, enc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(done) != len(tiles)/2 {
+		t.Fatalf("%d tiles found finished, want %d", len(done), len(tiles)/2)
+	}
+	resumed := filepath.Join(t.TempDir(), "resumed.tif")
+	in := Inputs{Plan: enc, Terrain: []string{sc.dem}, Box: sc.box, WorkDir: dir}
+	if _, err := prism.Execute(context.Background(), buildPipeline(in, Outputs{COG: resumed}, sc.plan, done)); err != nil {
+		t.Fatal(err)
+	}
+	for _, id := range tiles {
+		if b := reencodedTile(t, filepath.Join(dir, "tiles", id.String()+".gob")); !bytes.Equal(b, keep[id]) {
+			t.Errorf("tile %v differs after the resumed run", id)
+		}
+	}
+	a, err := os.ReadFile(whole)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := os.ReadFile(resumed)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(a, b) {
+		t.Error("the resumed run's COG differs from the uninterrupted run's")
+	}
+}
