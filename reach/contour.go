@@ -63,12 +63,12 @@ func contourRingsMargin(v func(c, r int) float64, cols, rows int, level, margin 
 		if b != a {
 			t = (level - a) / (b - a)
 		}
-		t = math.Max(0, math.Min(1, t))
+		t = max(0, min(1, t))
 		switch {
 		case a < level && b >= level:
-			t = math.Max(t, margin)
+			t = max(t, margin)
 		case a >= level && b < level:
-			t = math.Min(t, 1-margin)
+			t = min(t, 1-margin)
 		}
 		if horizontal {
 			point[id] = orb.Point{float64(c) + t, float64(r)}
@@ -323,7 +323,7 @@ func ContourPolygons(g *terrain.Local, v func(c, r int) float64, level float64) 
 	// 0.11 m of the 6-decimal rounding below, so a cell just below the level
 	// is never inside a ring as written (issue 11: a hole 0.04 m wide
 	// around a cell 0.24 m below the level vanished in the rounding).
-	margin := math.Min(0.1, 1/g.Cell)
+	margin := min(0.1, 1/g.Cell)
 	polys := polygonsFromRings(contourRingsMargin(v, g.Cols, g.Rows, level, margin), 0.5, 1)
 	mp := make(orb.MultiPolygon, 0, len(polys))
 	area := 0.0

@@ -70,7 +70,7 @@ func (t *descent) minRatio() float64 {
 	for d := 0; d < t.nDir; d++ {
 		col := t.dist[d*t.nh : (d+1)*t.nh]
 		for i := 0; i+1 < len(col); i++ {
-			m = math.Min(m, (col[i]-col[i+1])/t.dh)
+			m = min(m, (col[i]-col[i+1])/t.dh)
 		}
 	}
 	if math.IsInf(m, 1) || m < 0 {
@@ -86,10 +86,10 @@ func (t *descent) minRatio() float64 {
 // them, since a blend of the two columns' altitudes lies between them.
 func (t *descent) lossRangeDir(d0, d1 int) (lo, hi float64) {
 	lo, hi = 0, math.Inf(1)
-	if r := math.Max(t.dirMax[d0], t.dirMax[d1]); r > 0 {
+	if r := max(t.dirMax[d0], t.dirMax[d1]); r > 0 {
 		lo = 1 / r
 	}
-	if r := math.Min(t.dirMin[d0], t.dirMin[d1]); r > 0 {
+	if r := min(t.dirMin[d0], t.dirMin[d1]); r > 0 {
 		hi = 1 / r
 	}
 	return lo, hi
@@ -163,16 +163,16 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 		lo, hi := math.Inf(1), 0.0
 		for i := 0; i+1 < nh; i++ {
 			r := (row[i] - row[i+1]) / dh
-			lo, hi = math.Min(lo, r), math.Max(hi, r)
+			lo, hi = min(lo, r), max(hi, r)
 		}
 		t.dirMax[d], t.dirMin[d] = hi, lo
-		t.maxRatio = math.Max(t.maxRatio, hi)
+		t.maxRatio = max(t.maxRatio, hi)
 	}
 	t.env = make([]float64, nh)
 	for i := nh - 2; i >= 0; i-- {
 		inc := 0.0
 		for d := 0; d < nDir; d++ {
-			inc = math.Max(inc, t.dist[d*nh+i]-t.dist[d*nh+i+1])
+			inc = max(inc, t.dist[d*nh+i]-t.dist[d*nh+i+1])
 		}
 		t.env[i] = t.env[i+1] + inc
 	}

@@ -195,14 +195,14 @@ func (w *sightWalk) lowBound(tau float64) float64 {
 	if w.p.backward {
 		h := w.pv + tau*w.L*w.lamMin
 		if !math.IsInf(w.lamMax, 1) {
-			h = math.Max(h, w.v-(1-tau)*w.L*w.lamMax)
+			h = max(h, w.v-(1-tau)*w.L*w.lamMax)
 		}
 		return h
 	}
 	h := w.v + (1-tau)*w.L*w.lamMin
 	if !math.IsInf(w.lamMax, 1) {
 		// The table starts a glide from above its top at its top.
-		h = math.Max(h, math.Min(w.pv, w.p.desc.hTop)-tau*w.L*w.lamMax)
+		h = max(h, min(w.pv, w.p.desc.hTop)-tau*w.L*w.lamMax)
 	}
 	return h
 }
@@ -224,11 +224,11 @@ func (w *sightWalk) exact(tau float64) float64 {
 // tauIn and tauOut bound the fraction of the segment over slab k (the
 // major-axis column of cells k).
 func (w *sightWalk) tauIn(k int) float64 {
-	return math.Max(0, (float64(k)-0.5*float64(w.sgn)-w.pa)/w.da)
+	return max(0, (float64(k)-0.5*float64(w.sgn)-w.pa)/w.da)
 }
 
 func (w *sightWalk) tauOut(k int) float64 {
-	return math.Min(1, (float64(k)+0.5*float64(w.sgn)-w.pa)/w.da)
+	return min(1, (float64(k)+0.5*float64(w.sgn)-w.pa)/w.da)
 }
 
 // squaresOf returns the minor-axis range of squares the segment touches
@@ -346,13 +346,13 @@ func (w *sightWalk) highBound(tau float64) float64 {
 		h := w.v - (1-tau)*w.L*w.lamMin
 		if !math.IsInf(w.lamMax, 1) {
 			// The table starts a climb-back from below its bottom there.
-			h = math.Min(h, math.Max(w.pv, w.p.desc.hBot)+tau*w.L*w.lamMax)
+			h = min(h, max(w.pv, w.p.desc.hBot)+tau*w.L*w.lamMax)
 		}
 		return h
 	}
 	h := w.pv - tau*w.L*w.lamMin
 	if !math.IsInf(w.lamMax, 1) {
-		h = math.Min(h, w.v+(1-tau)*w.L*w.lamMax)
+		h = min(h, w.v+(1-tau)*w.L*w.lamMax)
 	}
 	return h
 }
@@ -422,9 +422,9 @@ func (w *sightWalk) run() bool {
 				if u0 > u1 {
 					u0, u1 = u1, u0
 				}
-				s0, s1 = math.Max(s0, u0), math.Min(s1, u1)
+				s0, s1 = max(s0, u0), min(s1, u1)
 				if s0 > s1 { // touched at a boundary only
-					s0, s1 = math.Min(s0, s1), math.Max(s0, s1)
+					s0, s1 = min(s0, s1), max(s0, s1)
 				}
 			}
 			if !w.ground(elev[k*w.strA+m*w.strB], s0, s1) {
