@@ -44,7 +44,6 @@ func contourRingsMargin(v func(c, r int) float64, cols, rows int, level, margin 
 	// (c,r) to (c,r+1), for c, r in −1..cols/rows.
 	hid := func(c, r int) int { return ((r+1)*w + (c + 1)) * 2 }
 	vid := func(c, r int) int { return ((r+1)*w+(c+1))*2 + 1 }
-	type seg struct{ from, to int }
 	next := make(map[int]int) // edge id where a segment starts -> edge id where it ends
 	var starts []int          // segment starts in scan order, so rings (and their simplification) do not depend on map order
 	point := make(map[int]orb.Point)
@@ -76,89 +75,116 @@ func contourRingsMargin(v func(c, r int) float64, cols, rows int, level, margin 
 			point[id] = orb.Point{float64(c), float64(r) + t}
 		}
 	}
-	var segs [2]seg
 	for r := -1; r < rows; r++ {
 		for c := -1; c < cols; c++ {
-			bl, br := val(c, r), val(c+1, r)
-			tl, tr := val(c, r+1), val(c+1, r+1)
-			code := 0
-			if bl >= level {
-				code |= 1
-			}
-			if br >= level {
-				code |= 2
-			}
-			if tr >= level {
-				code |= 4
-			}
-			if tl >= level {
-				code |= 8
-			}
-			if code == 0 || code == 15 {
-				continue
-			}
-			B, T := hid(c, r), hid(c, r+1)
-			L, R := vid(c, r), vid(c+1, r)
-			n := 1
-			switch code {
-			case 1:
-				segs[0] = seg{B, L}
-			case 2:
-				segs[0] = seg{R, B}
-			case 3:
-				segs[0] = seg{R, L}
-			case 4:
-				segs[0] = seg{T, R}
-			case 5:
-				n = 2
-				if (bl+br+tl+tr)/4 >= level {
-					segs[0], segs[1] = seg{B, R}, seg{T, L}
-				} else {
-					segs[0], segs[1] = seg{B, L}, seg{T, R}
-				}
-			case 6:
-				segs[0] = seg{T, B}
-			case 7:
-				segs[0] = seg{T, L}
-			case 8:
-				segs[0] = seg{L, T}
-			case 9:
-				segs[0] = seg{B, T}
-			case 10:
-				n = 2
-				if (bl+br+tl+tr)/4 >= level {
-					segs[0], segs[1] = seg{L, B}, seg{R, T}
-				} else {
-					segs[0], segs[1] = seg{R, B}, seg{L, T}
-				}
-			case 11:
-				segs[0] = seg{R, T}
-			case 12:
-				segs[0] = seg{L, R}
-			case 13:
-				segs[0] = seg{B, R}
-			case 14:
-				segs[0] = seg{L, B}
-			}
-			for k := 0; k < n; k++ {
-				s := segs[k]
-				for _, id := range [2]int{s.from, s.to} {
-					switch id {
-					case B:
-						edgePoint(id, c, r, true)
-					case T:
-						edgePoint(id, c, r+1, true)
-					case L:
-						edgePoint(id, c, r, false)
-					case R:
-						edgePoint(id, c+1, r, false)
+			segs, n := SquareSegments(val(c, r), val(c+1, r), val(c+1, r+1), val(c, r+1), level)
+			ids := [4]int{hid(c, r), hid(c, r+1), vid(c, r), vid(c+1, r)}
+			for k := range n {
+				for _, e := range segs[k] {
+					switch e {
+					case SquareBottom:
+						edgePoint(ids[e], c, r, true)
+					case SquareTop:
+						edgePoint(ids[e], c, r+1, true)
+					case SquareLeft:
+						edgePoint(ids[e], c, r, false)
+					case SquareRight:
+						edgePoint(ids[e], c+1, r, false)
 					}
 				}
-				next[s.from] = s.to
-				starts = append(starts, s.from)
+				from, to := ids[segs[k][0]], ids[segs[k][1]]
+				next[from] = to
+				starts = append(starts, from)
 			}
 		}
 	}
+	return TraceRings(next, starts, point)
+}
+
+// SquareEdge names a side of one marching-squares square: the square's
+// corners are cells (c, r) (bottom left) to (c+1, r+1) (top right), y up.
+type SquareEdge uint8
+
+// The sides of a marching-squares square.
+const (
+	SquareBottom SquareEdge = iota // from (c, r) to (c+1, r)
+	SquareTop                      // from (c, r+1) to (c+1, r+1)
+	SquareLeft                     // from (c, r) to (c, r+1)
+	SquareRight                    // from (c+1, r) to (c+1, r+1)
+)
+
+// SquareSegments returns the contour segments of one marching-squares
+// square with corner values bl, br, tr, tl (bottom left, bottom right, top
+// right, top left) at level: n (0, 1 or 2) segments, each from one side to
+// another, with the region where the value is ≥ level on its left, so the
+// segments chain into rings wound as contourRings says. The two saddles
+// (opposite corners above) are resolved by the mean of the four corners
+// (W. E. Lorensen and H. E. Cline, "Marching cubes", SIGGRAPH 1987, in two
+// dimensions, with the asymptotic-decider shortcut of the mean).
+func SquareSegments(bl, br, tr, tl, level float64) (segs [2][2]SquareEdge, n int) {
+	code := 0
+	if bl >= level {
+		code |= 1
+	}
+	if br >= level {
+		code |= 2
+	}
+	if tr >= level {
+		code |= 4
+	}
+	if tl >= level {
+		code |= 8
+	}
+	const B, T, L, R = SquareBottom, SquareTop, SquareLeft, SquareRight
+	mean := (bl + br + tl + tr) / 4
+	switch code {
+	case 0, 15:
+		return segs, 0
+	case 1:
+		segs[0] = [2]SquareEdge{B, L}
+	case 2:
+		segs[0] = [2]SquareEdge{R, B}
+	case 3:
+		segs[0] = [2]SquareEdge{R, L}
+	case 4:
+		segs[0] = [2]SquareEdge{T, R}
+	case 5:
+		if mean >= level {
+			return [2][2]SquareEdge{{B, R}, {T, L}}, 2
+		}
+		return [2][2]SquareEdge{{B, L}, {T, R}}, 2
+	case 6:
+		segs[0] = [2]SquareEdge{T, B}
+	case 7:
+		segs[0] = [2]SquareEdge{T, L}
+	case 8:
+		segs[0] = [2]SquareEdge{L, T}
+	case 9:
+		segs[0] = [2]SquareEdge{B, T}
+	case 10:
+		if mean >= level {
+			return [2][2]SquareEdge{{L, B}, {R, T}}, 2
+		}
+		return [2][2]SquareEdge{{R, B}, {L, T}}, 2
+	case 11:
+		segs[0] = [2]SquareEdge{R, T}
+	case 12:
+		segs[0] = [2]SquareEdge{L, R}
+	case 13:
+		segs[0] = [2]SquareEdge{B, R}
+	case 14:
+		segs[0] = [2]SquareEdge{L, B}
+	}
+	return segs, 1
+}
+
+// TraceRings chains contour segments into closed rings: next maps the edge
+// id where a segment starts to the edge id where it ends, starts lists the
+// segment starts in scan order (so the rings do not depend on map order),
+// point gives each edge id's crossing. next is consumed. Open chains
+// (impossible on a padded raster) and rings of fewer than four points are
+// dropped.
+func TraceRings[K comparable](next map[K]K, starts []K, point map[K]orb.Point) []orb.Ring {
 	var rings []orb.Ring
 	for _, start := range starts {
 		if _, ok := next[start]; !ok {
@@ -212,19 +238,45 @@ func polygonsFromRings(rings []orb.Ring, tol, minArea float64) []orb.Polygon {
 			outers, tracedOuters = append(outers, s), append(tracedOuters, r)
 		}
 	}
-	polys := make([]orb.Polygon, len(outers))
-	areas := make([]float64, len(outers))
-	for i, o := range outers {
-		polys[i] = orb.Polygon{o}
-		areas[i] = math.Abs(planar.Area(tracedOuters[i]))
-	}
 	// Holes are nested by the traced rings: an outer ring simplified inward
 	// can pass inside a hole near its edge, and the hole must not be lost
 	// for its first point falling outside the simplified ring.
+	return nestHoles(outers, tracedOuters, holes, tracedHoles)
+}
+
+// NestRings turns rings wound as contourRings winds them (exteriors
+// counter-clockwise, holes clockwise) into polygons: each hole goes into
+// the smallest exterior that holds its first point (the first of equal
+// ones); a hole no exterior holds is dropped.
+func NestRings(rings []orb.Ring) []orb.Polygon {
+	var outers, holes []orb.Ring
+	for _, r := range rings {
+		if r.Orientation() == orb.CCW {
+			outers = append(outers, r)
+		} else {
+			holes = append(holes, r)
+		}
+	}
+	return nestHoles(outers, outers, holes, holes)
+}
+
+// nestHoles makes a polygon of each ring of outers and puts each of holes
+// into the one whose traced ring (tracedOuters, same order) is the smallest
+// holding the first point of the hole's traced ring (tracedHoles).
+func nestHoles(outers, tracedOuters, holes, tracedHoles []orb.Ring) []orb.Polygon {
+	polys := make([]orb.Polygon, len(outers))
+	areas := make([]float64, len(outers))
+	boxes := make([]orb.Bound, len(outers))
+	for i, o := range outers {
+		polys[i] = orb.Polygon{o}
+		areas[i] = math.Abs(planar.Area(tracedOuters[i]))
+		boxes[i] = tracedOuters[i].Bound()
+	}
 	for k, h := range holes {
+		pt := tracedHoles[k][0]
 		best := -1
 		for i, o := range tracedOuters {
-			if (best < 0 || areas[i] < areas[best]) && planar.RingContains(o, tracedHoles[k][0]) {
+			if (best < 0 || areas[i] < areas[best]) && boxes[i].Contains(pt) && planar.RingContains(o, pt) {
 				best = i
 			}
 		}

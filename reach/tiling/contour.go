@@ -2,11 +2,10 @@ package tiling
 
 import (
 	"math"
-	"sort"
 
 	"github.com/paulmach/orb"
-	"github.com/paulmach/orb/planar"
 
+	"glidereach/reach"
 	"glidereach/reach/geodesy"
 )
 
@@ -106,8 +105,30 @@ func contourLevel(p *Plan, tiles TileReader, f func(float64) float64, level floa
 	next := map[int64]int64{}
 	point := map[int64]orb.Point{}
 	var starts []int64
-	type seg struct{ from, to int64 }
-	var segs [2]seg
+	val := func(row []float64, c int) float64 {
+		if c < 0 || c >= cols {
+			return low
+		}
+		if v := row[c]; v == v {
+			return v
+		}
+		return low
+	}
+	edgePoint := func(id int64, c, yy int, horizontal bool, a, b float64) {
+		if _, ok := point[id]; ok {
+			return
+		}
+		t := 0.5
+		if b != a {
+			t = (level - a) / (b - a)
+		}
+		t = math.Max(0, math.Min(1, t))
+		if horizontal {
+			point[id] = orb.Point{float64(c) + t, float64(yy)}
+		} else {
+			point[id] = orb.Point{float64(c), float64(yy) + t}
+		}
+	}
 	for y := -1; y < rows; y++ {
 		below, err := nodeRow(y)
 		if err != nil {
@@ -117,136 +138,31 @@ func contourLevel(p *Plan, tiles TileReader, f func(float64) float64, level floa
 		if err != nil {
 			return nil, 0, err
 		}
-		val := func(row []float64, c int) float64 {
-			if c < 0 || c >= cols {
-				return low
-			}
-			if v := row[c]; v == v {
-				return v
-			}
-			return low
-		}
-		edgePoint := func(id int64, c, yy int, horizontal bool, a, b float64) {
-			if _, ok := point[id]; ok {
-				return
-			}
-			t := 0.5
-			if b != a {
-				t = (level - a) / (b - a)
-			}
-			t = math.Max(0, math.Min(1, t))
-			if horizontal {
-				point[id] = orb.Point{float64(c) + t, float64(yy)}
-			} else {
-				point[id] = orb.Point{float64(c), float64(yy) + t}
-			}
-		}
 		for c := -1; c < cols; c++ {
 			bl, br := val(below, c), val(below, c+1)
 			tl, tr := val(above, c), val(above, c+1)
-			code := 0
-			if bl >= level {
-				code |= 1
-			}
-			if br >= level {
-				code |= 2
-			}
-			if tr >= level {
-				code |= 4
-			}
-			if tl >= level {
-				code |= 8
-			}
-			if code == 0 || code == 15 {
-				continue
-			}
-			B, T := hid(c, y), hid(c, y+1)
-			L, R := vid(c, y), vid(c+1, y)
-			n := 1
-			mean := (bl + br + tl + tr) / 4
-			switch code {
-			case 1:
-				segs[0] = seg{B, L}
-			case 2:
-				segs[0] = seg{R, B}
-			case 3:
-				segs[0] = seg{R, L}
-			case 4:
-				segs[0] = seg{T, R}
-			case 5:
-				n = 2
-				if mean >= level {
-					segs[0], segs[1] = seg{B, R}, seg{T, L}
-				} else {
-					segs[0], segs[1] = seg{B, L}, seg{T, R}
-				}
-			case 6:
-				segs[0] = seg{T, B}
-			case 7:
-				segs[0] = seg{T, L}
-			case 8:
-				segs[0] = seg{L, T}
-			case 9:
-				segs[0] = seg{B, T}
-			case 10:
-				n = 2
-				if mean >= level {
-					segs[0], segs[1] = seg{L, B}, seg{R, T}
-				} else {
-					segs[0], segs[1] = seg{R, B}, seg{L, T}
-				}
-			case 11:
-				segs[0] = seg{R, T}
-			case 12:
-				segs[0] = seg{L, R}
-			case 13:
-				segs[0] = seg{B, R}
-			case 14:
-				segs[0] = seg{L, B}
-			}
+			segs, n := reach.SquareSegments(bl, br, tr, tl, level)
+			ids := [4]int64{hid(c, y), hid(c, y+1), vid(c, y), vid(c+1, y)}
 			for k := range n {
-				s := segs[k]
-				for _, id := range [2]int64{s.from, s.to} {
-					switch id {
-					case B:
-						edgePoint(id, c, y, true, bl, br)
-					case T:
-						edgePoint(id, c, y+1, true, tl, tr)
-					case L:
-						edgePoint(id, c, y, false, bl, tl)
-					case R:
-						edgePoint(id, c+1, y, false, br, tr)
+				for _, e := range segs[k] {
+					switch e {
+					case reach.SquareBottom:
+						edgePoint(ids[e], c, y, true, bl, br)
+					case reach.SquareTop:
+						edgePoint(ids[e], c, y+1, true, tl, tr)
+					case reach.SquareLeft:
+						edgePoint(ids[e], c, y, false, bl, tl)
+					case reach.SquareRight:
+						edgePoint(ids[e], c+1, y, false, br, tr)
 					}
 				}
-				next[s.from] = s.to
-				starts = append(starts, s.from)
+				from, to := ids[segs[k][0]], ids[segs[k][1]]
+				next[from] = to
+				starts = append(starts, from)
 			}
 		}
 	}
-	var rings []orb.Ring
-	for _, start := range starts {
-		if _, ok := next[start]; !ok {
-			continue
-		}
-		ring := orb.Ring{point[start]}
-		id := start
-		for {
-			to, ok := next[id]
-			if !ok {
-				break
-			}
-			delete(next, id)
-			ring = append(ring, point[to])
-			id = to
-			if id == start {
-				break
-			}
-		}
-		if id == start && len(ring) >= 4 {
-			rings = append(rings, ring)
-		}
-	}
-	polys := nestRings(rings)
+	polys := reach.NestRings(reach.TraceRings(next, starts, point))
 	// Node (c, y) → lattice cell (c, rows−1−y) → CRS → lon/lat.
 	g := p.Lattice.Grid()
 	mp := make(orb.MultiPolygon, 0, len(polys))
@@ -276,44 +192,3 @@ func contourLevel(p *Plan, tiles TileReader, f func(float64) float64, level floa
 }
 
 func round7(v float64) float64 { return math.Round(v*1e7) / 1e7 }
-
-// nestRings sorts rings (node units, region on the left) into polygons:
-// counter-clockwise rings are exteriors, clockwise ones holes, each hole in
-// the smallest exterior that holds its first point (bounding boxes first).
-func nestRings(rings []orb.Ring) []orb.Polygon {
-	type outer struct {
-		ring orb.Ring
-		box  orb.Bound
-		area float64
-		idx  int
-	}
-	var outers []outer
-	var holes []orb.Ring
-	for _, r := range rings {
-		if r.Orientation() == orb.CCW {
-			outers = append(outers, outer{ring: r, box: r.Bound(), area: math.Abs(planar.Area(r)), idx: len(outers)})
-		} else {
-			holes = append(holes, r)
-		}
-	}
-	polys := make([]orb.Polygon, len(outers))
-	for i, o := range outers {
-		polys[i] = orb.Polygon{o.ring}
-	}
-	bySize := make([]int, len(outers))
-	for i := range bySize {
-		bySize[i] = i
-	}
-	sort.SliceStable(bySize, func(a, b int) bool { return outers[bySize[a]].area < outers[bySize[b]].area })
-	for _, h := range holes {
-		pt := h[0]
-		for _, i := range bySize {
-			o := outers[i]
-			if o.box.Contains(pt) && planar.RingContains(o.ring, pt) {
-				polys[i] = append(polys[i], h)
-				break
-			}
-		}
-	}
-	return polys
-}
