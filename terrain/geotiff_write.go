@@ -152,18 +152,7 @@ func (o GeoTIFFWriter) Write(w io.Writer, g *Grid) error {
 					}
 				}
 				if o.Predictor {
-					// Adobe Technical Note 3: bytes of each sample
-					// most-significant first into planes, then differenced.
-					wc := cw
-					for i := range wc {
-						bits := order.Uint32(row[4*i:])
-						for k := range 4 {
-							tmp[k*wc+i] = byte(bits >> (8 * (3 - k)))
-						}
-					}
-					for i := len(tmp) - 1; i > 0; i-- {
-						tmp[i] -= tmp[i-1]
-					}
+					floatPredictor(tmp, row, cw, order)
 					if _, err := sink.Write(tmp); err != nil {
 						return err
 					}
@@ -189,44 +178,12 @@ func (o GeoTIFFWriter) Write(w io.Writer, g *Grid) error {
 		count    int
 		data     []byte
 	}
-	shorts := func(v ...uint16) []byte {
-		b := make([]byte, 2*len(v))
-		for i, x := range v {
-			order.PutUint16(b[2*i:], x)
-		}
-		return b
-	}
-	longs := func(v ...uint64) []byte {
-		b := make([]byte, 4*len(v))
-		for i, x := range v {
-			order.PutUint32(b[4*i:], uint32(x))
-		}
-		return b
-	}
-	doubles := func(v ...float64) []byte {
-		b := make([]byte, 8*len(v))
-		for i, x := range v {
-			order.PutUint64(b[8*i:], math.Float64bits(x))
-		}
-		return b
-	}
+	shorts, longs, doubles := tiffShorts(order), tiffLongs(order), tiffDoubles(order)
 	compression := uint16(GeoTIFFDeflate)
 	if o.Uncompressed {
 		compression = GeoTIFFNoCompression
 	}
-	keys := []uint16{1, 1, 0, 0}
-	addKey := func(id, v uint16) { keys = append(keys, id, 0, 1, v); keys[3]++ }
-	if geographic {
-		addKey(geoKeyModelType, geoModelTypeGeographic)
-		addKey(geoKeyRasterType, geoRasterPixelIsArea)
-		addKey(geoKeyGeographicType, 4326)
-		addKey(2054, 9102) // GeogAngularUnitsGeoKey: degree
-	} else {
-		addKey(geoKeyModelType, geoModelTypeProjected)
-		addKey(geoKeyRasterType, geoRasterPixelIsArea)
-		addKey(geoKeyProjectedCSType, uint16(e))
-		addKey(3076, 9001) // ProjLinearUnitsGeoKey: metre
-	}
+	keys := geoKeyDirectory(e)
 	fields := []field{
 		{tiffTagWidth, tiffTypeLong, 1, longs(uint64(g.Cols))},
 		{tiffTagHeight, tiffTypeLong, 1, longs(uint64(g.Rows))},
@@ -387,15 +344,7 @@ func (o GeoTIFFWriter) encodeTiles(l *cogLevel, t int) error {
 				}
 				out := row
 				if o.Predictor {
-					for i := range t {
-						bits := order.Uint32(row[4*i:])
-						for k := range 4 {
-							tmp[k*t+i] = byte(bits >> (8 * (3 - k)))
-						}
-					}
-					for i := len(tmp) - 1; i > 0; i-- {
-						tmp[i] -= tmp[i-1]
-					}
+					floatPredictor(tmp, row, t, order)
 					out = tmp
 				}
 				if _, err := sink.Write(out); err != nil {
@@ -450,27 +399,7 @@ func (o GeoTIFFWriter) writeCOG(w io.Writer, g *Grid, epsg int) error {
 		tag, typ, count int
 		data            []byte
 	}
-	shorts := func(v ...uint16) []byte {
-		b := make([]byte, 2*len(v))
-		for i, x := range v {
-			order.PutUint16(b[2*i:], x)
-		}
-		return b
-	}
-	longs := func(v ...uint64) []byte {
-		b := make([]byte, 4*len(v))
-		for i, x := range v {
-			order.PutUint32(b[4*i:], uint32(x))
-		}
-		return b
-	}
-	doubles := func(v ...float64) []byte {
-		b := make([]byte, 8*len(v))
-		for i, x := range v {
-			order.PutUint64(b[8*i:], math.Float64bits(x))
-		}
-		return b
-	}
+	shorts, longs, doubles := tiffShorts(order), tiffLongs(order), tiffDoubles(order)
 	compression := uint16(GeoTIFFDeflate)
 	if o.Uncompressed {
 		compression = GeoTIFFNoCompression
@@ -502,19 +431,7 @@ func (o GeoTIFFWriter) writeCOG(w io.Writer, g *Grid, epsg int) error {
 			fs = append(fs, field{tiffTagGDALNoData, tiffTypeASCII, 4, []byte("nan\x00")})
 		}
 		if k == 0 {
-			keys := []uint16{1, 1, 0, 0}
-			addKey := func(id, v uint16) { keys = append(keys, id, 0, 1, v); keys[3]++ }
-			if epsg == 4326 {
-				addKey(geoKeyModelType, geoModelTypeGeographic)
-				addKey(geoKeyRasterType, geoRasterPixelIsArea)
-				addKey(geoKeyGeographicType, 4326)
-				addKey(2054, 9102) // GeogAngularUnitsGeoKey: degree
-			} else {
-				addKey(geoKeyModelType, geoModelTypeProjected)
-				addKey(geoKeyRasterType, geoRasterPixelIsArea)
-				addKey(geoKeyProjectedCSType, uint16(epsg))
-				addKey(3076, 9001) // ProjLinearUnitsGeoKey: metre
-			}
+			keys := geoKeyDirectory(epsg)
 			fs = append(fs,
 				field{tiffTagPixelScale, tiffTypeDouble, 3, doubles(g.DX, g.DY, 0)},
 				field{tiffTagTiepoint, tiffTypeDouble, 6, doubles(0, 0, 0, g.X0-g.DX/2, g.Y0+g.DY/2, 0)},
@@ -628,4 +545,72 @@ func (o GeoTIFFWriter) writeCOG(w io.Writer, g *Grid, epsg int) error {
 		}
 	}
 	return bw.Flush()
+}
+
+// floatPredictor fills dst (4·n bytes) with the n float32 samples of row
+// (byte order order) under the floating-point predictor 3 (Adobe Photoshop
+// TIFF Technical Note 3): the bytes of each sample most significant first
+// into four planes, then each byte differenced from the one before.
+func floatPredictor(dst, row []byte, n int, order binary.ByteOrder) {
+	for i := range n {
+		bits := order.Uint32(row[4*i:])
+		for k := range 4 {
+			dst[k*n+i] = byte(bits >> (8 * (3 - k)))
+		}
+	}
+	for i := len(dst) - 1; i > 0; i-- {
+		dst[i] -= dst[i-1]
+	}
+}
+
+// geoKeyDirectory returns the GeoKeyDirectoryTag (GeoTIFF 1.0, OGC
+// 19-008r4 §7.1) of a raster in EPSG code epsg with RasterPixelIsArea:
+// geographic with degrees for 4326, projected with metres otherwise.
+func geoKeyDirectory(epsg int) []uint16 {
+	keys := []uint16{1, 1, 0, 0}
+	addKey := func(id, v uint16) { keys = append(keys, id, 0, 1, v); keys[3]++ }
+	if epsg == 4326 {
+		addKey(geoKeyModelType, geoModelTypeGeographic)
+		addKey(geoKeyRasterType, geoRasterPixelIsArea)
+		addKey(geoKeyGeographicType, 4326)
+		addKey(2054, 9102) // GeogAngularUnitsGeoKey: degree
+	} else {
+		addKey(geoKeyModelType, geoModelTypeProjected)
+		addKey(geoKeyRasterType, geoRasterPixelIsArea)
+		addKey(geoKeyProjectedCSType, uint16(epsg))
+		addKey(3076, 9001) // ProjLinearUnitsGeoKey: metre
+	}
+	return keys
+}
+
+// tiffShorts, tiffLongs and tiffDoubles encode TIFF field values (SHORT,
+// LONG, DOUBLE; TIFF 6.0 §2) in byte order order.
+func tiffShorts(order binary.ByteOrder) func(v ...uint16) []byte {
+	return func(v ...uint16) []byte {
+		b := make([]byte, 2*len(v))
+		for i, x := range v {
+			order.PutUint16(b[2*i:], x)
+		}
+		return b
+	}
+}
+
+func tiffLongs(order binary.ByteOrder) func(v ...uint64) []byte {
+	return func(v ...uint64) []byte {
+		b := make([]byte, 4*len(v))
+		for i, x := range v {
+			order.PutUint32(b[4*i:], uint32(x))
+		}
+		return b
+	}
+}
+
+func tiffDoubles(order binary.ByteOrder) func(v ...float64) []byte {
+	return func(v ...float64) []byte {
+		b := make([]byte, 8*len(v))
+		for i, x := range v {
+			order.PutUint64(b[8*i:], math.Float64bits(x))
+		}
+		return b
+	}
 }
