@@ -10,7 +10,6 @@ import (
 	"path/filepath"
 	"runtime"
 	"strings"
-	"text/tabwriter"
 
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
@@ -20,7 +19,6 @@ import (
 	"glidereach/reach/plan"
 	"glidereach/reach/tiling"
 	"glidereach/reach/tiling/fgb"
-	"glidereach/terrain"
 )
 
 // tiledFlags are coverage's flags of the tiled path.
@@ -142,128 +140,55 @@ func computeTiled(ctx context.Context, run *coverageRun, o *coverageOptions, fie
 	t := o.tiledOpts
 	b := run.zone.Bounds()
 	flag := zoneFlag(o)
-	src := run.ground.Src
-	demCell := 30.0
-	if src != nil {
-		demCell = src.Resolution()
-		if !(demCell > 0) {
-			demCell = 30
-		}
-	}
-	cell := demCell
-	tr := &tiledRun{coverageRun: run, demCell: demCell}
-	if t.cell.Given {
-		if src != nil && t.cell.Value < demCell*0.999 {
-			return nil, input.Usagef("--cell", "%.1f m is finer than the DEM's %.1f m: the solver works at the DEM's resolution or coarser", t.cell.Value, demCell)
-		}
-		cell = t.cell.Value
-		if src != nil && cell > demCell*1.001 {
-			run.notes = append(run.notes, fmt.Sprintf("solver cell %.1f m as asked (--cell), coarser than the DEM's %.1f m: terrain detail between cells is taken as the highest DEM sample of each cell", cell, demCell))
-		}
-	}
-	lat, err := tiling.LatticeFor(src, b.Min[0], b.Min[1], b.Max[0], b.Max[1], cell)
-	if err != nil {
-		return nil, &input.UsageError{Where: flag, Err: err}
-	}
-	if int64(lat.Cols)*int64(lat.Rows) > 4e9 {
-		return nil, input.Usagef(flag, "the %s holds %d × %d cells of the DEM's lattice, more than 4×10⁹", flag[2:], lat.Cols, lat.Rows)
-	}
-	// The altitude flown, and the lowest ground known (for the tables).
-	top := o.alt.Value
-	lo, hi := math.Inf(1), math.Inf(-1)
-	if src != nil {
-		p0 := &tiling.Plan{Lattice: lat, Tile: 1024}
-		for _, id := range p0.Tiles() {
-			c0, r0, cols, rows := p0.TileBox(id)
-			g := lat.Grid()
-			la0, lo0, _ := g.FromCRS(g.X0+float64(c0)*g.DX, g.Y0-float64(r0)*g.DY)
-			la1, lo1, _ := g.FromCRS(g.X0+float64(c0+cols-1)*g.DX, g.Y0-float64(r0+rows-1)*g.DY)
-			dem, err := src.Window(math.Min(lo0, lo1), math.Min(la0, la1), math.Max(lo0, lo1), math.Max(la0, la1))
-			if errors.Is(err, terrain.ErrOutside) {
-				continue // a tile off the DEM: unknown ground
-			}
-			if err != nil {
-				return nil, &input.UsageError{Where: "--terrain", Err: err}
-			}
-			if a, z, ok := dem.ElevationRange(); ok {
-				lo, hi = math.Min(lo, a), math.Max(hi, z)
+	targets := func(fs []input.Field) []reach.Target {
+		ts := make([]reach.Target, len(fs))
+		for i, f := range fs {
+			ts[i] = reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: math.NaN(), Reserve: run.setup.Reserve}
+			if f.HasElevation {
+				ts[i].Elev = f.Elevation
 			}
 		}
-		if math.IsInf(hi, -1) {
-			return nil, input.Usagef("--terrain", "the terrain over the %s is all voids", flag[2:])
-		}
-	} else {
-		lo, hi = run.ground.Flat, run.ground.Flat
+		return ts
 	}
+	req := plan.TiledRequest{Setup: &run.setup.Setup, Ground: run.ground, West: b.Min[0], South: b.Min[1], East: b.Max[0], North: b.Max[1],
+		ZoneName: flag[2:], Alt: o.alt.Value, AGL: o.agl.Given, Tile: t.tile, Fields: targets(fields), Candidates: targets(cands), Notes: run.notes}
 	if o.agl.Given {
-		top = hi + o.agl.Value
+		req.Alt = o.agl.Value
+	}
+	if t.cell.Given {
+		req.Cell = t.cell.Value
+	}
+	tp, err := plan.PlanTiled(req)
+	if err != nil {
+		var ie *plan.InputError
+		if errors.As(err, &ie) && ie.Field == "Zone" {
+			return nil, &input.UsageError{Where: flag, Err: ie.Err}
+		}
+		return nil, usage(err)
+	}
+	p := tp.Plan
+	run.notes = p.Notes
+	tr := &tiledRun{coverageRun: run, demCell: tp.DEMCell}
+	if o.agl.Given {
 		run.altMode = fmt.Sprintf("%.0f m (%.0f ft) above the terrain at each cell (--agl)", o.agl.Value, o.agl.Value/0.3048)
 	} else {
 		run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) everywhere (--alt)", o.alt.Value, o.alt.Value/0.3048)
 		if o.ind.altInd.Given {
 			run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) true everywhere (--alt-indicated %.0f m, corrected for the temperature)", o.alt.Value, o.alt.Value/0.3048, o.ind.altInd.Value)
 		}
-		if lo >= top {
-			return nil, input.Usagef("--alt", "%.0f m MSL is not above the lowest ground of the %s (%.0f m)", top, flag[2:], lo)
-		}
 	}
-	const margin = 300.0
-	ceiling := math.Min(top+margin, 19500)
-	toTargets := func(fs []input.Field) ([]routeField, []reach.Target, error) {
-		var rf []routeField
-		var ts []reach.Target
-		for _, f := range fs {
-			r := routeField{Field: plan.Field(f), Target: len(ts)}
-			if f.HasElevation {
-				r.Elev = f.Elevation
-			} else {
-				e, ok, err := run.ground.ElevationAt(f.Lat, f.Lon)
-				if err != nil {
-					return nil, nil, usage(err)
-				}
-				r.Elev = e
-				if !ok {
-					r.Elev = math.NaN()
-					r.Note = "on unknown ground or off the terrain data"
-				}
+	routeFields := func(fs []input.Field, ts []reach.Target) []routeField {
+		rf := make([]routeField, len(fs))
+		for i, f := range fs {
+			rf[i] = routeField{Field: plan.Field(f), Target: i}
+			rf[i].Elev = ts[i].Elev
+			if math.IsNaN(ts[i].Elev) {
+				rf[i].Note = "on unknown ground or off the terrain data"
 			}
-			if !math.IsNaN(r.Elev) {
-				lo = math.Min(lo, r.Elev)
-			}
-			ts = append(ts, reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: r.Elev, Reserve: run.setup.Reserve})
-			rf = append(rf, r)
 		}
-		return rf, ts, nil
+		return rf
 	}
-	var ts, cs []reach.Target
-	if run.fields, ts, err = toTargets(fields); err != nil {
-		return nil, err
-	}
-	if run.cands, cs, err = toTargets(cands); err != nil {
-		return nil, err
-	}
-	// The tables reach 1000 m below the lowest ground of the zone and the
-	// fields (windows reach beyond the zone; below the table the lowest
-	// row is used).
-	tabLo := math.Max(-500, lo-1000)
-	var models []tiling.LossGrid
-	for _, w := range run.setup.Winds {
-		tab, err := run.setup.TableFor(w, tabLo, ceiling+60)
-		if err != nil {
-			return nil, &input.UsageError{Where: "--aircraft", Err: err}
-		}
-		hMin, hMax := tab.Range()
-		lg, err := tiling.SampleLoss(tab, hMin, hMax)
-		if err != nil {
-			return nil, err
-		}
-		models = append(models, lg)
-	}
-	p := &tiling.Plan{Lattice: lat, Tile: t.tile, Fields: ts, Candidates: cs, Models: models, Clearance: run.setup.Clearance,
-		Alt: o.alt.Value, AGL: o.agl.Given, Ceiling: ceiling, Cell: cell, Flat: run.ground.Flat, Notes: run.notes}
-	if o.agl.Given {
-		p.Alt = o.agl.Value
-	}
+	run.fields, run.cands = routeFields(fields, p.Fields), routeFields(cands, p.Candidates)
 	tr.plan = p
 	dir := t.workDir
 	if dir == "" {
@@ -280,7 +205,7 @@ func computeTiled(ctx context.Context, run *coverageRun, o *coverageOptions, fie
 	if tr.workers == 0 {
 		tr.workers = runtime.NumCPU()
 	}
-	res, err := tiling.Run(ctx, src, p, tiling.RunOptions{Workers: tr.workers, WorkDir: dir, Zone: run.zone.Contains, Progress: progress})
+	res, err := tiling.Run(ctx, run.ground.Src, p, tiling.RunOptions{Workers: tr.workers, WorkDir: dir, Zone: run.zone.Contains, Progress: progress})
 	if errors.Is(err, tiling.ErrOtherPlan) {
 		return nil, &input.UsageError{Where: "--work-dir", Err: err}
 	}
@@ -304,7 +229,7 @@ func computeTiled(ctx context.Context, run *coverageRun, o *coverageOptions, fie
 			run.cands[j].Note = "too far to reach the area from the altitude flown, or on unknown ground"
 		}
 	}
-	if len(cs) > 0 {
+	if len(p.Candidates) > 0 {
 		tr.rank = res.Totals.Rank(o.pick)
 	}
 	tr.covered, tr.uncovered, tr.coveredArea, tr.uncoveredArea, err = tiling.Contour(p, res)
@@ -372,36 +297,11 @@ func (tr *tiledRun) cellText() string {
 }
 
 func writeTiledText(w io.Writer, tr *tiledRun) {
-	t := tr.res.Totals
 	fmt.Fprintf(w, "Coverage of the %s (tiled)\n", tr.zoneText)
 	fmt.Fprintf(w, "Altitude flown: %s\n", tr.altMode)
 	fmt.Fprintf(w, "Aircraft: %s   Wind: %s\n", tr.setup.Aircraft.Name, tr.setup.WindText)
 	fmt.Fprintf(w, "Terrain: %s\n\n", tr.ground.Describe())
-	fmt.Fprintf(w, "A field is in reach with the %.0f m reserve from %.1f %% of the area (%.1f of %.1f km²).\n",
-		tr.setup.Reserve, pctDown(t.CoveredFraction), math.Floor(km2(t.CoveredArea)*10+1e-9)/10, km2(t.ZoneArea))
-	fmt.Fprintf(w, "Uncovered: %.1f km² in %d part(s).\n\n", math.Ceil(km2(t.ZoneArea-t.CoveredArea)*10-1e-9)/10, len(tr.uncovered))
-	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-	fmt.Fprintln(tw, "FIELD\tELEV m\tCOVERS km²\tONLY IT km²\tNOTE\t")
-	for i, f := range tr.fields {
-		fmt.Fprintf(tw, "%s\t%s\t%.1f\t%.1f\t%s\t\n", f.Name, fmtM(f.Elev), km2(t.Covers[i]), km2(t.Exclusive[i]), f.Note)
-	}
-	tw.Flush()
-	if rk := tr.rank; rk != nil {
-		fmt.Fprintln(w, "\nCandidates by the area each would add alone:")
-		tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-		fmt.Fprintln(tw, "RANK\tCANDIDATE\tADDS km²\tNOTE\t")
-		for k, i := range rk.Order {
-			fmt.Fprintf(tw, "%d\t%s\t%.1f\t%s\t\n", k+1, tr.cands[i].Name, km2(rk.Gain[i]), tr.cands[i].Note)
-		}
-		tw.Flush()
-		fmt.Fprintf(w, "\nGreedy choice (each step adds the candidate that adds most to what is covered so far):\n")
-		if len(rk.Steps) == 0 {
-			fmt.Fprintln(w, "  no candidate adds any covered area")
-		}
-		for k, s := range rk.Steps {
-			fmt.Fprintf(w, "  %d. %s: +%.1f km², covered %.1f %%\n", k+1, tr.cands[s.Candidate].Name, km2(s.Added), pctDown(s.CoveredFraction))
-		}
-	}
+	tr.figures().write(w, tr.coverageRun, len(tr.uncovered))
 	for _, n := range tr.notes {
 		fmt.Fprintln(w, "NOTE:", n)
 	}
@@ -413,39 +313,21 @@ func writeTiledText(w io.Writer, tr *tiledRun) {
 	fmt.Fprintln(w, "\nCAUTION:", reach.Caution)
 }
 
-func (tr *tiledRun) fieldsJSON() []map[string]any {
+// figures are the tiled run's coverageFigures.
+func (tr *tiledRun) figures() coverageFigures {
 	t := tr.res.Totals
-	out := make([]map[string]any, 0, len(tr.fields))
-	for i, f := range tr.fields {
-		m := map[string]any{"name": f.Name, "lat": f.Lat, "lon": f.Lon, "elevation_m": num(f.Elev),
-			"covers_m2": math.Round(t.Covers[i]), "exclusive_m2": math.Round(t.Exclusive[i])}
-		if f.Note != "" {
-			m["note"] = f.Note
-		}
-		out = append(out, m)
+	f := coverageFigures{coveredFraction: t.CoveredFraction, coveredArea: t.CoveredArea, zoneArea: t.ZoneArea,
+		covers: t.Covers, exclusive: t.Exclusive}
+	if rk := tr.rank; rk != nil {
+		f.ranked, f.order, f.gain, f.steps = true, rk.Order, rk.Gain, rk.Steps
 	}
-	return out
+	return f
 }
 
+func (tr *tiledRun) fieldsJSON() []map[string]any { return tr.figures().fieldsJSON(tr.fields) }
+
 func (tr *tiledRun) candidatesJSON() (ranking, steps []map[string]any) {
-	rk := tr.rank
-	if rk == nil {
-		return nil, nil
-	}
-	for k, i := range rk.Order {
-		c := tr.cands[i]
-		m := map[string]any{"rank": k + 1, "name": c.Name, "lat": c.Lat, "lon": c.Lon, "elevation_m": num(c.Elev), "adds_m2": math.Round(rk.Gain[i])}
-		if c.Note != "" {
-			m["note"] = c.Note
-		}
-		ranking = append(ranking, m)
-	}
-	steps = []map[string]any{}
-	for k, s := range rk.Steps {
-		steps = append(steps, map[string]any{"step": k + 1, "name": tr.cands[s.Candidate].Name, "adds_m2": math.Round(s.Added),
-			"covered_fraction": fractionDown(s.CoveredFraction)})
-	}
-	return ranking, steps
+	return tr.figures().candidatesJSON(tr.cands)
 }
 
 func tiledJSON(tr *tiledRun) ([]byte, error) {

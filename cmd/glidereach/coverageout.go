@@ -33,38 +33,67 @@ func km2(m2 float64) float64 { return m2 / 1e6 }
 // zoneArea is the area of the zone as counted, m².
 func (run *coverageRun) zoneArea() float64 { return run.res.ZoneArea }
 
-func writeCoverageText(w io.Writer, run *coverageRun) {
+// coverageFigures are the figures the coverage outputs print, from one
+// solver grid or from tiles: the covered share and areas (m²), each field's
+// covered and exclusive areas, and the candidates' ranking (ranked false
+// when no candidates were given).
+type coverageFigures struct {
+	coveredFraction, coveredArea, zoneArea float64
+	covers, exclusive                      []float64
+	ranked                                 bool
+	order                                  []int
+	gain                                   []float64
+	steps                                  []reach.CandidateStep
+}
+
+// figures are the single-grid run's coverageFigures.
+func (run *coverageRun) figures() coverageFigures {
 	r := run.res
+	f := coverageFigures{coveredFraction: r.CoveredFraction, coveredArea: r.CoveredArea, zoneArea: run.zoneArea(),
+		covers: r.Covers, exclusive: r.Exclusive}
+	if rk := run.rank; rk != nil {
+		f.ranked, f.order, f.gain, f.steps = true, rk.Order, rk.Gain, rk.Steps
+	}
+	return f
+}
+
+// write prints the covered share, the fields' table and the candidates'
+// ranking (covered figures round down, uncovered ones up).
+func (f coverageFigures) write(w io.Writer, run *coverageRun, uncoveredParts int) {
+	fmt.Fprintf(w, "A field is in reach with the %.0f m reserve from %.1f %% of the area (%.1f of %.1f km²).\n",
+		run.setup.Reserve, pctDown(f.coveredFraction), math.Floor(km2(f.coveredArea)*10+1e-9)/10, km2(f.zoneArea))
+	fmt.Fprintf(w, "Uncovered: %.1f km² in %d part(s).\n\n", math.Ceil(km2(f.zoneArea-f.coveredArea)*10-1e-9)/10, uncoveredParts)
+	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+	fmt.Fprintln(tw, "FIELD\tELEV m\tCOVERS km²\tONLY IT km²\tNOTE\t")
+	for i, fd := range run.fields {
+		fmt.Fprintf(tw, "%s\t%s\t%.1f\t%.1f\t%s\t\n", fd.Name, fmtM(fd.Elev), km2(f.covers[i]), km2(f.exclusive[i]), fd.Note)
+	}
+	tw.Flush()
+	if !f.ranked {
+		return
+	}
+	fmt.Fprintln(w, "\nCandidates by the area each would add alone:")
+	tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+	fmt.Fprintln(tw, "RANK\tCANDIDATE\tADDS km²\tNOTE\t")
+	for k, i := range f.order {
+		fmt.Fprintf(tw, "%d\t%s\t%.1f\t%s\t\n", k+1, run.cands[i].Name, km2(f.gain[i]), run.cands[i].Note)
+	}
+	tw.Flush()
+	fmt.Fprintf(w, "\nGreedy choice (each step adds the candidate that adds most to what is covered so far):\n")
+	if len(f.steps) == 0 {
+		fmt.Fprintln(w, "  no candidate adds any covered area")
+	}
+	for k, s := range f.steps {
+		fmt.Fprintf(w, "  %d. %s: +%.1f km², covered %.1f %%\n", k+1, run.cands[s.Candidate].Name, km2(s.Added), pctDown(s.CoveredFraction))
+	}
+}
+
+func writeCoverageText(w io.Writer, run *coverageRun) {
 	fmt.Fprintf(w, "Coverage of the %s\n", run.zoneText)
 	fmt.Fprintf(w, "Altitude flown: %s\n", run.altMode)
 	fmt.Fprintf(w, "Aircraft: %s   Wind: %s\n", run.setup.Aircraft.Name, run.setup.WindText)
 	fmt.Fprintf(w, "Terrain: %s\n\n", run.ground.Describe())
-	fmt.Fprintf(w, "A field is in reach with the %.0f m reserve from %.1f %% of the area (%.1f of %.1f km²).\n",
-		run.setup.Reserve, pctDown(r.CoveredFraction), math.Floor(km2(r.CoveredArea)*10+1e-9)/10, km2(run.zoneArea()))
-	// Covered figures round down, uncovered ones up.
-	fmt.Fprintf(w, "Uncovered: %.1f km² in %d part(s).\n\n", math.Ceil(km2(run.zoneArea()-r.CoveredArea)*10-1e-9)/10, len(run.uncovered))
-	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-	fmt.Fprintln(tw, "FIELD\tELEV m\tCOVERS km²\tONLY IT km²\tNOTE\t")
-	for i, f := range run.fields {
-		fmt.Fprintf(tw, "%s\t%s\t%.1f\t%.1f\t%s\t\n", f.Name, fmtM(f.Elev), km2(r.Covers[i]), km2(r.Exclusive[i]), f.Note)
-	}
-	tw.Flush()
-	if rk := run.rank; rk != nil {
-		fmt.Fprintln(w, "\nCandidates by the area each would add alone:")
-		tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-		fmt.Fprintln(tw, "RANK\tCANDIDATE\tADDS km²\tNOTE\t")
-		for k, i := range rk.Order {
-			fmt.Fprintf(tw, "%d\t%s\t%.1f\t%s\t\n", k+1, run.cands[i].Name, km2(rk.Gain[i]), run.cands[i].Note)
-		}
-		tw.Flush()
-		fmt.Fprintf(w, "\nGreedy choice (each step adds the candidate that adds most to what is covered so far):\n")
-		if len(rk.Steps) == 0 {
-			fmt.Fprintln(w, "  no candidate adds any covered area")
-		}
-		for k, s := range rk.Steps {
-			fmt.Fprintf(w, "  %d. %s: +%.1f km², covered %.1f %%\n", k+1, run.cands[s.Candidate].Name, km2(s.Added), pctDown(s.CoveredFraction))
-		}
-	}
+	run.figures().write(w, run, len(run.uncovered))
 	for _, n := range run.notes {
 		fmt.Fprintln(w, "NOTE:", n)
 	}
@@ -76,10 +105,22 @@ func writeCoverageText(w io.Writer, run *coverageRun) {
 }
 
 func (run *coverageRun) fieldsJSON() []map[string]any {
-	out := make([]map[string]any, 0, len(run.fields))
-	for i, f := range run.fields {
+	return run.figures().fieldsJSON(run.fields)
+}
+
+func (run *coverageRun) candidatesJSON() (ranking, steps []map[string]any) {
+	return run.figures().candidatesJSON(run.cands)
+}
+
+// fieldsJSON lists the fields with the zone area each covers (alone or
+// with others) and the part no other field covers (m², rounded): the
+// single-grid and the tiled paths give the same keys.
+func (fg coverageFigures) fieldsJSON(fields []routeField) []map[string]any {
+	covers, exclusive := fg.covers, fg.exclusive
+	out := make([]map[string]any, 0, len(fields))
+	for i, f := range fields {
 		m := map[string]any{"name": f.Name, "lat": f.Lat, "lon": f.Lon, "elevation_m": num(f.Elev),
-			"covers_m2": math.Round(run.res.Covers[i]), "exclusive_m2": math.Round(run.res.Exclusive[i])}
+			"covers_m2": math.Round(covers[i]), "exclusive_m2": math.Round(exclusive[i])}
 		if f.Note != "" {
 			m["note"] = f.Note
 		}
@@ -88,22 +129,25 @@ func (run *coverageRun) fieldsJSON() []map[string]any {
 	return out
 }
 
-func (run *coverageRun) candidatesJSON() (ranking, steps []map[string]any) {
-	rk := run.rank
-	if rk == nil {
+// candidatesJSON lists the candidates by rank with the area each alone
+// adds, and the greedy picks, for both coverage paths (nil, nil without a
+// ranking).
+func (fg coverageFigures) candidatesJSON(cands []routeField) (ranking, steps []map[string]any) {
+	if !fg.ranked {
 		return nil, nil
 	}
-	for k, i := range rk.Order {
-		c := run.cands[i]
-		m := map[string]any{"rank": k + 1, "name": c.Name, "lat": c.Lat, "lon": c.Lon, "elevation_m": num(c.Elev), "adds_m2": math.Round(rk.Gain[i])}
+	gain := fg.gain
+	for k, i := range fg.order {
+		c := cands[i]
+		m := map[string]any{"rank": k + 1, "name": c.Name, "lat": c.Lat, "lon": c.Lon, "elevation_m": num(c.Elev), "adds_m2": math.Round(gain[i])}
 		if c.Note != "" {
 			m["note"] = c.Note
 		}
 		ranking = append(ranking, m)
 	}
 	steps = []map[string]any{}
-	for k, s := range rk.Steps {
-		steps = append(steps, map[string]any{"step": k + 1, "name": run.cands[s.Candidate].Name, "adds_m2": math.Round(s.Added),
+	for k, s := range fg.steps {
+		steps = append(steps, map[string]any{"step": k + 1, "name": cands[s.Candidate].Name, "adds_m2": math.Round(s.Added),
 			"covered_fraction": fractionDown(s.CoveredFraction)})
 	}
 	return ranking, steps

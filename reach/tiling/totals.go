@@ -3,6 +3,8 @@ package tiling
 import (
 	"fmt"
 	"sort"
+
+	"glidereach/reach"
 )
 
 // Totals are the coverage figures of a whole run, summed over the tiles in
@@ -63,12 +65,8 @@ func (t *Totals) Add(tr *TileResult) error {
 	return nil
 }
 
-// Step is one step of the greedy choice of candidates.
-type Step struct {
-	Candidate       int     // index into Plan.Candidates
-	Added           float64 // m² of the zone it adds to what is covered so far
-	CoveredFraction float64 // covered share of the zone after this step
-}
+// Step is one step of the greedy choice of candidates, as on one grid.
+type Step = reach.CandidateStep
 
 // Ranking is the outcome of Totals.Rank.
 type Ranking struct {
