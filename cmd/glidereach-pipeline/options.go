@@ -24,9 +24,6 @@ const (
 	// Conservative defaults without a profile's own (m), as glidereach.
 	defaultReserve   = 300.0
 	defaultClearance = 100.0
-	// defaultFlatCell is the solver cell (m) on flat ground, where no DEM
-	// sets it (glidereach coverage --tiled's).
-	defaultFlatCell = 30.0
 )
 
 // options are the command's flags.

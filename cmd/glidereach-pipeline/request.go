@@ -14,11 +14,6 @@ import (
 	"glidereach/terrain"
 )
 
-// ceilingMargin (m) is how far above the highest altitude flown the least
-// altitudes are computed (glidereach coverage's margin): cells needing more
-// than the ceiling get none, so they count as not covered.
-const ceilingMargin = 300.0
-
 // request is a checked run: its plan, what the workers need to rebuild the
 // inputs, and the warnings the setup gave.
 type request struct {
@@ -150,56 +145,9 @@ func newRequest(o *options) (*request, error) {
 	}
 	ground := plan.Ground{Src: src, Flat: o.ground.Value}
 
-	// The lattice and the solver cell: the DEM's resolution, or --cell
-	// (never finer than the DEM; a coarser one is said in the outputs).
-	var notes []string
-	demCell := defaultFlatCell
-	if src != nil {
-		if demCell = src.Resolution(); !(demCell > 0) {
-			demCell = defaultFlatCell
-		}
+	if o.cell.Given && !(o.cell.Value >= 1 && o.cell.Value <= 1000) {
+		return nil, input.Usagef("--cell", "%v m is outside 1..1000 m", o.cell.Value)
 	}
-	cell := demCell
-	if o.cell.Given {
-		if !(o.cell.Value >= 1 && o.cell.Value <= 1000) {
-			return nil, input.Usagef("--cell", "%v m is outside 1..1000 m", o.cell.Value)
-		}
-		if src != nil && o.cell.Value < demCell*0.999 {
-			return nil, input.Usagef("--cell", "%.1f m is finer than the DEM's %.1f m: the solver works at the DEM's resolution or coarser", o.cell.Value, demCell)
-		}
-		cell = o.cell.Value
-		if src != nil && cell > demCell*1.001 {
-			notes = append(notes, fmt.Sprintf("solver cell %.1f m as asked (--cell), coarser than the DEM's %.1f m: terrain detail between cells is taken as the highest DEM sample of each cell", cell, demCell))
-		}
-	}
-	b := zone.Bounds()
-	lat, err := tiling.LatticeFor(src, b.Min[0], b.Min[1], b.Max[0], b.Max[1], cell)
-	if err != nil {
-		return nil, &input.UsageError{Where: zoneFlag, Err: err}
-	}
-	if int64(lat.Cols)*int64(lat.Rows) > 4e9 {
-		return nil, input.Usagef(zoneFlag, "the %s holds %d × %d cells of the DEM's lattice, more than 4×10⁹", zoneFlag[2:], lat.Cols, lat.Rows)
-	}
-
-	// The ground's range over the lattice, read a window of 1024 × 1024
-	// cells at a time (the launcher's memory stays that of one window).
-	lo, hi := ground.Flat, ground.Flat
-	if src != nil {
-		if lo, hi, err = groundRange(src, lat); err != nil {
-			return nil, &input.UsageError{Where: "--terrain", Err: err}
-		}
-		if math.IsInf(hi, -1) {
-			return nil, input.Usagef("--terrain", "the terrain over the %s is all voids", zoneFlag[2:])
-		}
-	}
-	top := o.alt.Value
-	if o.agl.Given {
-		top = hi + o.agl.Value
-	} else if lo >= top {
-		return nil, input.Usagef("--alt", "%.0f m MSL is not above the lowest ground of the %s (%.0f m)", top, zoneFlag[2:], lo)
-	}
-	ceiling := math.Min(top+ceilingMargin, 19500)
-
 	// The fields, at their own elevation or the ground's at their point.
 	fields, err := input.LoadFields(o.fields)
 	if err != nil {
@@ -207,83 +155,37 @@ func newRequest(o *options) (*request, error) {
 	}
 	var targets []reach.Target
 	for _, f := range fields {
-		el := f.Elevation
-		if !f.HasElevation {
-			e, ok, err := ground.ElevationAt(f.Lat, f.Lon)
-			if err != nil {
-				return nil, &input.UsageError{Where: "--terrain", Err: err}
-			}
-			if el = e; !ok {
-				el = math.NaN()
-			}
-		}
-		if !math.IsNaN(el) {
-			lo = math.Min(lo, el)
+		el := math.NaN()
+		if f.HasElevation {
+			el = f.Elevation
 		}
 		targets = append(targets, reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: el, Reserve: setup.Reserve})
 	}
-
-	// One loss model per wind of the set, from 1000 m below the lowest
-	// ground and field (windows reach beyond the zone; below the table its
-	// lowest row is used) to above the ceiling.
-	tabLo := math.Max(-500, lo-1000)
-	var models []tiling.LossGrid
-	for _, wp := range setup.Winds {
-		tab, err := setup.TableFor(wp, tabLo, ceiling+60)
-		if err != nil {
-			return nil, &input.UsageError{Where: "--aircraft", Err: err}
-		}
-		hMin, hMax := tab.Range()
-		lg, err := tiling.SampleLoss(tab, hMin, hMax)
-		if err != nil {
-			return nil, err
-		}
-		models = append(models, lg)
-	}
-	p := &tiling.Plan{Lattice: lat, Tile: o.tile, Fields: targets, Models: models, Clearance: setup.Clearance,
-		Alt: o.alt.Value, AGL: o.agl.Given, Ceiling: ceiling, Cell: cell, Flat: ground.Flat, Notes: notes}
+	// The lattice, the ceiling and the loss models as glidereach coverage
+	// --tiled makes them (reach/plan.PlanTiled).
+	b := zone.Bounds()
+	req := plan.TiledRequest{Setup: setup, Ground: ground, West: b.Min[0], South: b.Min[1], East: b.Max[0], North: b.Max[1],
+		ZoneName: zoneFlag[2:], Alt: o.alt.Value, AGL: o.agl.Given, Tile: o.tile, Fields: targets}
 	if o.agl.Given {
-		p.Alt = o.agl.Value
+		req.Alt = o.agl.Value
 	}
-	if err := p.Check(); err != nil {
-		return nil, err
+	if o.cell.Given {
+		req.Cell = o.cell.Value
 	}
+	tp, err := plan.PlanTiled(req)
+	if err != nil {
+		var ie *plan.InputError
+		if errors.As(err, &ie) && ie.Field == "Zone" {
+			return nil, &input.UsageError{Where: zoneFlag, Err: ie.Err}
+		}
+		return nil, flagFor(err)
+	}
+	p := tp.Plan
 	r.plan = p
 	if r.in.Plan, err = p.Encode(); err != nil {
 		return nil, err
 	}
 	return r, nil
-}
-
-// groundRange returns the lowest and highest DEM samples over the lattice
-// (+Inf, −Inf when all are voids or off the data), read one window of
-// 1024 × 1024 lattice cells at a time.
-func groundRange(src terrain.Source, lat tiling.Lattice) (lo, hi float64, err error) {
-	lo, hi = math.Inf(1), math.Inf(-1)
-	p0 := &tiling.Plan{Lattice: lat, Tile: 1024}
-	g := lat.Grid()
-	for _, id := range p0.Tiles() {
-		c0, r0, cols, rows := p0.TileBox(id)
-		la0, lo0, err := g.FromCRS(g.X0+float64(c0)*g.DX, g.Y0-float64(r0)*g.DY)
-		if err != nil {
-			return 0, 0, err
-		}
-		la1, lo1, err := g.FromCRS(g.X0+float64(c0+cols-1)*g.DX, g.Y0-float64(r0+rows-1)*g.DY)
-		if err != nil {
-			return 0, 0, err
-		}
-		dem, err := src.Window(math.Min(lo0, lo1), math.Min(la0, la1), math.Max(lo0, lo1), math.Max(la0, la1))
-		if errors.Is(err, terrain.ErrOutside) {
-			continue // a window off the DEM: unknown ground
-		}
-		if err != nil {
-			return 0, 0, err
-		}
-		if a, z, ok := dem.ElevationRange(); ok {
-			lo, hi = math.Min(lo, a), math.Max(hi, z)
-		}
-	}
-	return lo, hi, nil
 }
 
 // flagFor names the flag of a reach/plan input error.
@@ -293,7 +195,8 @@ func flagFor(err error) error {
 		return err
 	}
 	flag := map[string]string{"Mass": "--mass", "Bugs": "--bugs", "AirSink": "--air-sink", "MacCready": "--mc",
-		"Reserve": "--reserve", "Clearance": "--clearance", "Aircraft": "--aircraft", "Terrain": "--terrain"}[ie.Field]
+		"Reserve": "--reserve", "Clearance": "--clearance", "Aircraft": "--aircraft", "Terrain": "--terrain",
+		"Cell": "--cell", "Alt": "--alt"}[ie.Field]
 	return &input.UsageError{Where: flag, Err: ie.Err}
 }
 
