@@ -324,10 +324,13 @@ func (w *sightWalk) blockClear(li int, k, kEnd int) bool {
 	lv := &w.p.pyr.lv[li]
 	ka := k >> sh
 	bm := float32(math.Inf(-1))
-	for mb := m0 >> sh; mb <= m1>>sh; mb++ {
-		if w.swapped {
-			bm = max(bm, lv.max[ka*lv.bc+mb])
-		} else {
+	if w.swapped {
+		row := lv.max[ka*lv.bc:]
+		for mb := m0 >> sh; mb <= m1>>sh; mb++ {
+			bm = max(bm, row[mb])
+		}
+	} else {
+		for mb := m0 >> sh; mb <= m1>>sh; mb++ {
 			bm = max(bm, lv.max[mb*lv.bc+ka])
 		}
 	}
