@@ -7,9 +7,10 @@
 //
 // Everything is made up: the landscape lies over open ocean at 0.5° S,
 // 24.5° W so nobody mistakes it for a real place, and the field, route and
-// area names are fictional. The command's embedded copies of the fields,
-// route and area (cmd/glidereach/demodata, also in testdata/) are the same
-// scenario: a test in cmd parses them and compares them with these values.
+// area names are fictional. The same fields, candidates, route and area as
+// files for the commands (testdata/: demo-fields.geojson, demo-route.gpx,
+// demo-area.geojson, …) are the same scenario: a test in cmd parses them
+// and compares them with these values.
 //
 // Units: degrees for positions (WGS84), metres for altitudes (MSL unless
 // AGL is said), m/s for speeds, degrees true for headings and wind
