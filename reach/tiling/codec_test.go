@@ -316,3 +316,57 @@ func TestWorkFilesSameAcrossProcesses(t *testing.T) {
 		}
 	}
 }
+
+// bigTile is a full DefaultTile × DefaultTile result with an altitude flown
+// per cell and a zone mask, the largest work file a run writes per tile.
+func bigTile() *TileResult {
+	const s = DefaultTile
+	n := s * s
+	t := &TileResult{Cols: s, Rows: s, Least: make([]float32, n), Best: make([]int32, n), Count: make([]uint8, n),
+		Flown: make([]float32, n), Mask: make([]byte, (n+7)/8), BlockAreas: make([]float64, (s/areaBlock)*(s/areaBlock))}
+	for i := range n {
+		t.Least[i] = float32(i%977) + 400
+		t.Best[i] = int32(i % 13)
+	}
+	return t
+}
+
+// The work files of a tile: encoding and decoding cost against computing
+// the tile (seconds); run with -benchmem.
+func BenchmarkTileResultEncode(b *testing.B) {
+	t := bigTile()
+	b.ReportAllocs()
+	b.SetBytes(int64(len(encodeTileResult(t))))
+	for b.Loop() {
+		if _, err := t.Encode(); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkTileResultDecode(b *testing.B) {
+	data, _ := bigTile().Encode()
+	b.ReportAllocs()
+	b.SetBytes(int64(len(data)))
+	for b.Loop() {
+		if _, err := DecodeTileResult(data); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// The same tile through encoding/gob, the earlier format, for comparison.
+func BenchmarkTileResultGob(b *testing.B) {
+	t := bigTile()
+	b.ReportAllocs()
+	for b.Loop() {
+		var buf bytes.Buffer
+		if err := gob.NewEncoder(&buf).Encode(t); err != nil {
+			b.Fatal(err)
+		}
+		var back TileResult
+		if err := gob.NewDecoder(&buf).Decode(&back); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
