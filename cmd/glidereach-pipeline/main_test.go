@@ -208,9 +208,10 @@ func TestSameAsGlidereachCoverageTiled(t *testing.T) {
 	// coverage --tiled (the library's local tiled path behind the main
 	// command) with the same inputs must build the same plan (plan.gob,
 	// byte for byte: both commands turn the flags into a tiling.Plan by the
-	// same rules), write the same COG and FlatGeobuf bytes, the same
-	// covered share, and the same candidate ranking and greedy picks (the
-	// JSON arrays "candidates" and "picks", byte for byte once compacted).
+	// same rules), write the same tile files, COG and FlatGeobuf bytes and
+	// the same covered share, and give the same candidate ranking and
+	// greedy picks (the JSON arrays "candidates" and "picks", byte for byte
+	// once compacted).
 	if _, err := exec.LookPath("go"); err != nil {
 		t.Skip("go tool not on PATH")
 	}
@@ -232,7 +233,15 @@ func TestSameAsGlidereachCoverageTiled(t *testing.T) {
 	if code, _, stderr := runCLI(t, append([]string{"--work-dir", b, "--cog", b + ".tif", "--fgb", b + ".fgb", "--summary", b + ".json"}, inputs...)...); code != exitOK {
 		t.Fatalf("exit %d; stderr: %s", code, stderr)
 	}
-	for _, f := range [][2]string{{filepath.Join(a, "plan.gob"), filepath.Join(b, "plan.gob")}, {a + ".tif", b + ".tif"}, {a + ".fgb", b + ".fgb"}} {
+	files := [][2]string{{filepath.Join(a, "plan.gob"), filepath.Join(b, "plan.gob")}, {a + ".tif", b + ".tif"}, {a + ".fgb", b + ".fgb"}}
+	tiles, err := filepath.Glob(filepath.Join(a, "tiles", "*.gob"))
+	if err != nil || len(tiles) < 2 {
+		t.Fatalf("glidereach wrote tiles %v (%v)", tiles, err)
+	}
+	for _, tf := range tiles {
+		files = append(files, [2]string{tf, filepath.Join(b, "tiles", filepath.Base(tf))})
+	}
+	for _, f := range files {
 		x, err := os.ReadFile(f[0])
 		if err != nil {
 			t.Fatal(err)

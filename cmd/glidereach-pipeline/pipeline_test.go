@@ -132,19 +132,17 @@ func localCOG(t *testing.T, sc *scene, res *tiling.Result) []byte {
 }
 
 // sameTiles fails unless the two work directories hold the same tile
-// results for every tile of the plan; it returns the number of covered
-// cells. Each file is decoded and encoded again here: encoding/gob numbers
-// the types a process encodes in the order it first meets them, so two
-// processes (a local run and a cluster's workers) may write the same result
-// with different type numbers; within one process the bytes are the same.
+// files, byte for byte, for every tile of the plan (the library's work-file
+// encoding is the same bytes in every process); it returns the number of
+// covered cells.
 func sameTiles(t *testing.T, plan *tiling.Plan, want, got string) int {
 	t.Helper()
 	covered := 0
 	for _, id := range plan.Tiles() {
-		w := reencodedTile(t, filepath.Join(want, "tiles", id.String()+".gob"))
-		g := reencodedTile(t, filepath.Join(got, "tiles", id.String()+".gob"))
+		w := readTile(t, filepath.Join(want, "tiles", id.String()+".gob"))
+		g := readTile(t, filepath.Join(got, "tiles", id.String()+".gob"))
 		if !bytes.Equal(g, w) {
-			t.Errorf("tile %v: the pipeline's result differs from the local run's", id)
+			t.Errorf("tile %v: the pipeline's tile file differs from the local run's", id)
 		}
 		tr, err := tiling.DecodeTileResult(g)
 		if err != nil {
@@ -155,23 +153,17 @@ func sameTiles(t *testing.T, plan *tiling.Plan, want, got string) int {
 	return covered
 }
 
-// reencodedTile reads a tile file and returns the result encoded again in
-// this process.
-func reencodedTile(t *testing.T, path string) []byte {
+// readTile reads a tile file and checks that it decodes.
+func readTile(t *testing.T, path string) []byte {
 	t.Helper()
 	data, err := os.ReadFile(path)
 	if err != nil {
 		t.Fatal(err)
 	}
-	tr, err := tiling.DecodeTileResult(data)
-	if err != nil {
+	if _, err := tiling.DecodeTileResult(data); err != nil {
 		t.Fatalf("%s: %v", path, err)
 	}
-	b, err := tr.Encode()
-	if err != nil {
-		t.Fatal(err)
-	}
-	return b
+	return data
 }
 
 func TestPipelineMatchesLocalTiledRun(t *testing.T) {
@@ -229,7 +221,7 @@ func TestPipelineResumesFromFinishedTiles(t *testing.T) {
 	keep := map[tiling.TileID][]byte{}
 	for i, id := range tiles {
 		path := filepath.Join(dir, "tiles", id.String()+".gob")
-		keep[id] = reencodedTile(t, path)
+		keep[id] = readTile(t, path)
 		if i%2 == 0 {
 			if err := os.Remove(path); err != nil {
 				t.Fatal(err)
@@ -253,7 +245,7 @@ func TestPipelineResumesFromFinishedTiles(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, id := range tiles {
-		if b := reencodedTile(t, filepath.Join(dir, "tiles", id.String()+".gob")); !bytes.Equal(b, keep[id]) {
+		if b := readTile(t, filepath.Join(dir, "tiles", id.String()+".gob")); !bytes.Equal(b, keep[id]) {
 			t.Errorf("tile %v differs after the resumed run", id)
 		}
 	}
