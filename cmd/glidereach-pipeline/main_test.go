@@ -140,6 +140,28 @@ func TestCLIRunAndResume(t *testing.T) {
 	if !bytes.Equal(first, again) {
 		t.Error("the resumed run wrote a different COG")
 	}
+	// A work file damaged outside the run is an input error on --work-dir
+	// (exit 2, the file named), as for glidereach coverage --tiled.
+	tiles, err := filepath.Glob(filepath.Join(work, "tiles", "*.gob"))
+	if err != nil || len(tiles) == 0 {
+		t.Fatalf("no tile files: %v", err)
+	}
+	good, err := os.ReadFile(tiles[0])
+	if err != nil {
+		t.Fatal(err)
+	}
+	bad := bytes.Clone(good)
+	bad[len(bad)/2] ^= 0x40
+	if err := os.WriteFile(tiles[0], bad, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, _, stderr = runCLI(t, args...)
+	if code != exitUsage || !strings.Contains(stderr, "--work-dir") || !strings.Contains(stderr, filepath.Base(tiles[0])) {
+		t.Errorf("a damaged tile: exit %d, stderr %s", code, stderr)
+	}
+	if err := os.WriteFile(tiles[0], good, 0o644); err != nil {
+		t.Fatal(err)
+	}
 	// Another plan in the same work directory is refused (exit 2).
 	code, _, stderr = runCLI(t, append(args[:len(args):len(args)], "--reserve", "400m")...)
 	if code != exitUsage || !strings.Contains(stderr, "--work-dir") {

@@ -103,7 +103,8 @@ func decodeParts(data []byte, job *tiling.FieldJob) ([]rawPart, error) {
 }
 
 // loadParts reads job's parts from dir; ok is false when the job's file is
-// not there (the job has not run to its end).
+// not there (the job has not run to its end). A damaged file is an error
+// wrapping tiling.ErrCorrupt, with the file's path.
 func loadParts(dir string, job *tiling.FieldJob) (parts []rawPart, ok bool, err error) {
 	path := partsPath(dir, job.Index)
 	data, err := os.ReadFile(path)
@@ -114,7 +115,10 @@ func loadParts(dir string, job *tiling.FieldJob) (parts []rawPart, ok bool, err 
 		return nil, false, err
 	}
 	if parts, err = decodeParts(data, job); err != nil {
-		return nil, false, fmt.Errorf("%s: %w (remove the file to run the field again)", path, err)
+		if !errors.Is(err, tiling.ErrCorrupt) {
+			err = fmt.Errorf("%w: %w", tiling.ErrCorrupt, err)
+		}
+		return nil, false, fmt.Errorf("%s: %w", path, err)
 	}
 	return parts, true, nil
 }

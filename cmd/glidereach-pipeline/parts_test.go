@@ -3,6 +3,8 @@ package main
 import (
 	"bytes"
 	"encoding/binary"
+	"errors"
+	"fmt"
 	"strings"
 	"testing"
 
@@ -87,4 +89,27 @@ func FuzzDecodeParts(f *testing.F) {
 			t.Errorf("accepted parts file does not encode back to its bytes")
 		}
 	})
+}
+
+func TestLoadPartsDamagedFile(t *testing.T) {
+	// A parts file damaged outside the run is reported as a damaged work
+	// file (tiling.ErrCorrupt, which the launcher turns into an input error
+	// on --work-dir) with its path; a missing one is "not run yet".
+	job, enc := partsCase(t)
+	dir := t.TempDir()
+	if _, ok, err := loadParts(dir, job); ok || err != nil {
+		t.Fatalf("no file: ok %v, err %v", ok, err)
+	}
+	data := encodeParts(job.Index, enc)
+	data[len(data)-3] ^= 0x10
+	if err := writeAtomic(partsPath(dir, job.Index), data); err != nil {
+		t.Fatal(err)
+	}
+	_, ok, err := loadParts(dir, job)
+	if ok || !errors.Is(err, tiling.ErrCorrupt) || !strings.Contains(err.Error(), partsPath(dir, job.Index)) {
+		t.Errorf("damaged file: ok %v, err %v", ok, err)
+	}
+	if corruptLine(fmt.Errorf("bundle failed:\n\tcaused by:\n%s", err.Error())) == "" {
+		t.Errorf("the launcher does not find the damaged file in a worker's error text")
+	}
 }

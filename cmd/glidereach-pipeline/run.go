@@ -10,6 +10,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"github.com/apache/beam/sdks/v2/go/pkg/beam"
 	"github.com/apache/beam/sdks/v2/go/pkg/beam/runners"
@@ -42,6 +43,13 @@ func run(ctx context.Context, o *options, stdout, stderr io.Writer) error {
 	if _, err := beam.Run(ctx, runner, p); err != nil {
 		if ctx.Err() != nil {
 			return fmt.Errorf("stopped (%w); the finished field runs and tiles are kept in %s: run the same command again to continue", ctx.Err(), r.in.WorkDir)
+		}
+		if line := corruptLine(err); line != "" {
+			// A work file damaged outside the run (the run writes each
+			// whole, by rename): the user's input, as glidereach coverage
+			// --tiled says it. Beam hands a worker's error over as text, so
+			// the library's sentinel is found by its words.
+			return input.Usagef("--work-dir", "%s (remove that file, or the whole work directory, to compute it again)", line)
 		}
 		return fmt.Errorf("pipeline on %s: %w", runner, err)
 	}
@@ -142,4 +150,19 @@ func claimWorkDir(dir string, plan []byte) ([]tiling.TileID, error) {
 		}
 	}
 	return done, nil
+}
+
+// corruptLine returns the line of a pipeline error that reports a damaged
+// work file (tiling.ErrCorrupt, by its text: a worker's error reaches the
+// launcher as text), or "".
+func corruptLine(err error) string {
+	if errors.Is(err, tiling.ErrCorrupt) {
+		return err.Error()
+	}
+	for _, l := range strings.Split(err.Error(), "\n") {
+		if strings.Contains(l, tiling.ErrCorrupt.Error()) {
+			return strings.TrimSpace(l)
+		}
+	}
+	return ""
 }
