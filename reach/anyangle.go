@@ -153,16 +153,37 @@ func (p *propagation) parentPos(pi int32) (x, y float64, v float64) {
 // from a point (px, py) with value pv: forward the arrival altitude, backward
 // the altitude needed at the cell to glide to the point.
 func (p *propagation) segment(px, py, pv float64, qc, qr int) float64 {
+	v, _ := p.segmentDir(px, py, pv, qc, qr)
+	return v
+}
+
+// flightDir is the direction of flight of a segment as the descent table's
+// two columns and the blend weight toward the second (descent.vecIndex):
+// forward toward the cell, backward toward the parent.
+type flightDir struct {
+	d0, d1 int
+	wt     float64
+}
+
+// segmentDir is segment that also returns the direction of flight, which
+// the line-of-sight walk of the same segment needs (sightDir): it is worked
+// out once per segment.
+func (p *propagation) segmentDir(px, py, pv float64, qc, qr int) (float64, flightDir) {
 	dx, dy := float64(qc)-px, float64(qr)-py
 	L := math.Sqrt(dx*dx+dy*dy) * p.cell
-	if L == 0 {
-		return pv
-	}
 	if p.backward {
 		// The aircraft flies from q toward the parent.
-		return p.desc.departVec(pv, -dx, -dy, L)
+		dx, dy = -dx, -dy
 	}
-	return p.desc.arriveVec(pv, dx, dy, L)
+	var fd flightDir
+	fd.d0, fd.d1, fd.wt = p.desc.vecIndex(dx, dy)
+	if L == 0 {
+		return pv, fd
+	}
+	if p.backward {
+		return p.desc.departBlend(fd.d0, fd.d1, fd.wt, pv, L), fd
+	}
+	return p.desc.arriveBlend(fd.d0, fd.d1, fd.wt, pv, L), fd
 }
 
 // wants reports whether value v (from segment) at cell q could be taken by
@@ -186,25 +207,26 @@ func (p *propagation) wants(q int, v float64, endOnly bool) bool {
 }
 
 // sightFrom walks the line of sight from parent pi at (px, py) with value
-// pv to cell q at (qc, qr) with value v (sight) under the floor that applies:
+// pv to cell q at (qc, qr) with value v and direction of flight fd (from
+// segmentDir; sightDir) under the floor that applies:
 // backward the field's (srcIdx); forward, for a cell the glide reaches above
 // the clearance, the clearance everywhere, and for one below it (an end
 // value, or endOnly) the terrain floor of an end value, ground no higher than
 // the cell's (top carries the path's record before the parent).
-func (p *propagation) sightFrom(pi int32, px, py, pv float64, qc, qr, q int, v float64, srcIdx uint16, endOnly bool) (float32, bool) {
+func (p *propagation) sightFrom(pi int32, px, py, pv float64, qc, qr, q int, v float64, fd flightDir, srcIdx uint16, endOnly bool) (float32, bool) {
 	if p.backward {
 		e := p.fieldElev[srcIdx]
-		return p.sight(px, py, pv, qc, qr, v, e, e)
+		return p.sightDir(px, py, pv, qc, qr, v, e, e, fd)
 	}
 	t := p.l.Elev[q]
 	if !endOnly && t+p.clearance-float32(v) <= 0 {
-		return p.sight(px, py, pv, qc, qr, v, noTop, noTop)
+		return p.sightDir(px, py, pv, qc, qr, v, noTop, noTop, fd)
 	}
 	top := noTop
 	if pi >= 0 {
 		top = p.top[pi]
 	}
-	return p.sight(px, py, pv, qc, qr, v, t, top)
+	return p.sightDir(px, py, pv, qc, qr, v, t, top, fd)
 }
 
 // offer records value v at cell q reached from parent pi, if it is better
@@ -411,8 +433,8 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			// Straight on from s's parent, if the line of sight holds.
 			if sameParent {
 				// (endOnly: the bend at s is tried below)
-			} else if v := p.segment(px, py, pv, qc, qr); p.wants(q, v, endOnly) {
-				if top, ok := p.sightFrom(pi, px, py, pv, qc, qr, q, v, srcIdx, endOnly); ok {
+			} else if v, fd := p.segmentDir(px, py, pv, qc, qr); p.wants(q, v, endOnly) {
+				if top, ok := p.sightFrom(pi, px, py, pv, qc, qr, q, v, fd, srcIdx, endOnly); ok {
 					p.offer(q, pi, v, srcIdx, top, endOnly)
 					if !endOnly {
 						continue
@@ -423,11 +445,11 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			}
 			// Otherwise the path bends at s (an end value is tried bent at
 			// s as well: a glide below the clearance may end either way).
-			v := p.segment(float64(sc), float64(sr), sv, qc, qr)
+			v, fd := p.segmentDir(float64(sc), float64(sr), sv, qc, qr)
 			if !p.wants(q, v, endOnly) {
 				continue
 			}
-			if top, ok := p.sightFrom(int32(s), float64(sc), float64(sr), sv, qc, qr, q, v, srcIdx, endOnly); ok {
+			if top, ok := p.sightFrom(int32(s), float64(sc), float64(sr), sv, qc, qr, q, v, fd, srcIdx, endOnly); ok {
 				p.offer(q, int32(s), v, srcIdx, top, endOnly)
 			}
 		}

@@ -56,6 +56,9 @@ type descent struct {
 	isotropic      bool      // every direction has the same column: one lookup suffices
 	maxRatio       float64   // largest ground distance per metre of height in the table
 	dirMax, dirMin []float64 // largest and smallest ratio of each direction's column
+	// invMax[d] = 1/dirMax[d] and invMin[d] = 1/dirMin[d] where the ratio
+	// is > 0, else +Inf (for lossRangeDir)
+	invMax, invMin []float64
 	// env[i] is the envelope Σ_{k ≥ i} max_d (D_d(h_k) − D_d(h_k+1)): the
 	// most ground any glide can cover descending from hTop to h_i, whatever
 	// track it holds at each altitude (see rangeBound).
@@ -85,12 +88,12 @@ func (t *descent) minRatio() float64 {
 // segment blended from the two columns loses height at a rate between
 // them, since a blend of the two columns' altitudes lies between them.
 func (t *descent) lossRangeDir(d0, d1 int) (lo, hi float64) {
-	lo, hi = 0, math.Inf(1)
-	if r := max(t.dirMax[d0], t.dirMax[d1]); r > 0 {
-		lo = 1 / r
-	}
-	if r := min(t.dirMin[d0], t.dirMin[d1]); r > 0 {
-		hi = 1 / r
+	// 1/max(a, b) = min(1/a, 1/b) and 1/min(a, b) = max(1/a, 1/b) bit for
+	// bit (division is correctly rounded, so monotone): the reciprocals are
+	// tabulated once (invMax, invMin) instead of two divisions per walk.
+	lo, hi = min(t.invMax[d0], t.invMax[d1]), max(t.invMin[d0], t.invMin[d1])
+	if math.IsInf(lo, 1) {
+		lo = 0
 	}
 	return lo, hi
 }
@@ -167,6 +170,16 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 		}
 		t.dirMax[d], t.dirMin[d] = hi, lo
 		t.maxRatio = max(t.maxRatio, hi)
+	}
+	t.invMax, t.invMin = make([]float64, nDir), make([]float64, nDir)
+	for d := 0; d < nDir; d++ {
+		t.invMax[d], t.invMin[d] = math.Inf(1), math.Inf(1)
+		if r := t.dirMax[d]; r > 0 {
+			t.invMax[d] = 1 / r
+		}
+		if r := t.dirMin[d]; r > 0 {
+			t.invMin[d] = 1 / r
+		}
 	}
 	t.env = make([]float64, nh)
 	for i := nh - 2; i >= 0; i-- {

@@ -137,7 +137,26 @@ const sightEps = 1e-9
 // part of the walk (the caller checks the cell itself). allow is the ground
 // level the glide may pass below the clearance over (−Inf: nowhere).
 func (p *propagation) sight(px, py, pv float64, qc, qr int, v float64, allow, top float32) (float32, bool) {
-	return p.sightTo(px, py, pv, float64(qc), float64(qr), v, allow, top, true)
+	return p.sightDir(px, py, pv, qc, qr, v, allow, top, p.flightDirOf(float64(qc)-px, float64(qr)-py))
+}
+
+// sightDir is sight with the segment's direction of flight fd already
+// worked out (segmentDir, the solver's hot path): the same walk.
+func (p *propagation) sightDir(px, py, pv float64, qc, qr int, v float64, allow, top float32, fd flightDir) (float32, bool) {
+	return p.walkLine(px, py, pv, float64(qc), float64(qr), qc, qr, v, allow, top, true, fd)
+}
+
+// flightDirOf is the direction of flight of the segment (dx, dy) from a
+// parent to a cell (cell units): forward toward the cell, backward toward
+// the parent.
+func (p *propagation) flightDirOf(dx, dy float64) flightDir {
+	var fd flightDir
+	if p.backward {
+		fd.d0, fd.d1, fd.wt = p.desc.vecIndex(-dx, -dy)
+	} else {
+		fd.d0, fd.d1, fd.wt = p.desc.vecIndex(dx, dy)
+	}
+	return fd
 }
 
 // sightTo is sight to any point (qx, qy) (cell units), not only a cell
@@ -146,35 +165,53 @@ func (p *propagation) sight(px, py, pv float64, qc, qr int, v float64, allow, to
 // cell's own square, which the solver checks itself); without it every
 // square the segment touches is walked, the end point's included.
 func (p *propagation) sightTo(px, py, pv, qx, qy float64, v float64, allow, top float32, skipEnd bool) (float32, bool) {
+	// The end point's square: the one whose centre is nearest (a point on
+	// a square boundary is in the square a cell centre rounds to).
+	qc, qr := int(math.Round(qx)), int(math.Round(qy))
+	return p.walkLine(px, py, pv, qx, qy, qc, qr, v, allow, top, skipEnd, p.flightDirOf(qx-px, qy-py))
+}
+
+// walkLine is the walk of sightTo, with the end point's square (qc, qr)
+// and the direction of flight fd given.
+func (p *propagation) walkLine(px, py, pv, qx, qy float64, qc, qr int, v float64, allow, top float32, skipEnd bool, fd flightDir) (float32, bool) {
 	dx, dy := qx-px, qy-py
 	if dx == 0 && dy == 0 {
 		return top, true
 	}
-	w := sightWalk{p: p, pv: pv, v: v, L: math.Hypot(dx, dy) * p.cell, allow: float64(allow), top: top, dx: dx, dy: dy, skipEnd: skipEnd}
-	// The direction of flight: forward toward the cell, backward toward
-	// the parent.
-	if p.backward {
-		w.d0, w.d1, w.wt = p.desc.vecIndex(-dx, -dy)
-	} else {
-		w.d0, w.d1, w.wt = p.desc.vecIndex(dx, dy)
-	}
-	w.lamMin, w.lamMax = p.desc.lossRangeDir(w.d0, w.d1)
-	// The end point's square: the one whose centre is nearest (a point on
-	// a square boundary is in the square a cell centre rounds to).
-	qc, qr := int(math.Round(qx)), int(math.Round(qy))
-	var qa, qb int
+	// Fields are set one by one (a composite literal is built in a
+	// temporary and copied: twice the stores).
+	var w sightWalk
+	w.p, w.pv, w.v = p, pv, v
+	w.L = math.Hypot(dx, dy) * p.cell
+	w.allow, w.top = float64(allow), top
+	w.skipEnd = skipEnd
+	w.d0, w.d1, w.wt = fd.d0, fd.d1, fd.wt
+	w.lamMin, w.lamMax = p.desc.lossRangeDir(fd.d0, fd.d1)
 	if math.Abs(dx) >= math.Abs(dy) {
-		w.pa, w.pb, w.da, w.db, qa, qb = px, py, dx, dy, qc, qr
+		w.pa, w.pb, w.da, w.db, w.qa, w.qb = px, py, dx, dy, qc, qr
 		w.strA, w.strB, w.nA, w.nB = 1, p.cols, p.cols, p.rows
 	} else {
-		w.pa, w.pb, w.da, w.db, qa, qb = py, px, dy, dx, qr, qc
+		w.pa, w.pb, w.da, w.db, w.qa, w.qb = py, px, dy, dx, qr, qc
 		w.strA, w.strB, w.nA, w.nB, w.swapped = p.cols, 1, p.rows, p.cols, true
 	}
-	w.sgn = 1
+	w.sgn, w.half = 1, 0.5
 	if w.da < 0 {
-		w.sgn = -1
+		w.sgn, w.half = -1, -0.5
 	}
-	w.qa, w.qb = qa, qb
+	w.backward, w.finMax = p.backward, !math.IsInf(w.lamMax, 1)
+	// (if-forms of min and max: pv is never NaN here, and the builtins'
+	// NaN and signed-zero handling costs more than the walk's other set-up)
+	if p.backward {
+		w.pvBot = pv
+		if b := p.desc.hBot; b > pv {
+			w.pvBot = b
+		}
+	} else {
+		w.pvTop = pv
+		if t := p.desc.hTop; t < pv {
+			w.pvTop = t
+		}
+	}
 	ok := w.run()
 	return w.top, ok
 }
@@ -184,7 +221,6 @@ func (p *propagation) sightTo(px, py, pv, qx, qy float64, v float64, allow, top 
 type sightWalk struct {
 	p              *propagation
 	pa, pb, da, db float64 // start and extent (cell units)
-	dx, dy         float64 // extent east and north (for the exact altitude)
 	qa, qb         int
 	sgn            int
 	strA, strB     int // index strides of the axes
@@ -194,7 +230,13 @@ type sightWalk struct {
 	pv, v, L       float64
 	lamMin, lamMax float64
 	allow          float64
-	top            float32
+	// per-walk constants of the bounds: backward (p.backward), lamMax
+	// finite, half = ±0.5 (the slab's half width toward the walk), and the
+	// start altitudes of lowBound's and highBound's steep terms
+	backward, finMax bool
+	half             float64
+	pvTop, pvBot     float64
+	top              float32
 	// the descent table's columns of the direction of flight (vecIndex)
 	d0, d1 int
 	wt     float64
@@ -205,17 +247,18 @@ type sightWalk struct {
 
 // lowBound is the lower bound of the glide's altitude at fraction tau.
 func (w *sightWalk) lowBound(tau float64) float64 {
-	if w.p.backward {
+	if w.backward {
 		h := w.pv + tau*w.L*w.lamMin
-		if !math.IsInf(w.lamMax, 1) {
+		if w.finMax {
 			h = max(h, w.v-(1-tau)*w.L*w.lamMax)
 		}
 		return h
 	}
 	h := w.v + (1-tau)*w.L*w.lamMin
-	if !math.IsInf(w.lamMax, 1) {
-		// The table starts a glide from above its top at its top.
-		h = max(h, min(w.pv, w.p.desc.hTop)-tau*w.L*w.lamMax)
+	if w.finMax {
+		// The table starts a glide from above its top at its top
+		// (pvTop = min(pv, the table's top)).
+		h = max(h, w.pvTop-tau*w.L*w.lamMax)
 	}
 	return h
 }
@@ -228,7 +271,7 @@ func (w *sightWalk) exact(tau float64) float64 {
 		return w.pv
 	}
 	d := w.p.desc
-	if w.p.backward {
+	if w.backward {
 		return d.departBlend(w.d0, w.d1, w.wt, w.pv, tau*w.L)
 	}
 	return d.arriveBlend(w.d0, w.d1, w.wt, w.pv, tau*w.L)
@@ -237,11 +280,11 @@ func (w *sightWalk) exact(tau float64) float64 {
 // tauIn and tauOut bound the fraction of the segment over slab k (the
 // major-axis column of cells k).
 func (w *sightWalk) tauIn(k int) float64 {
-	return max(0, (float64(k)-0.5*float64(w.sgn)-w.pa)/w.da)
+	return max(0, (float64(k)-w.half-w.pa)/w.da)
 }
 
 func (w *sightWalk) tauOut(k int) float64 {
-	return min(1, (float64(k)+0.5*float64(w.sgn)-w.pa)/w.da)
+	return min(1, (float64(k)+w.half-w.pa)/w.da)
 }
 
 // squaresOf returns the minor-axis range of squares the segment touches
@@ -278,7 +321,7 @@ func (w *sightWalk) ground(t float32, t0, t1 float64) bool {
 		return true
 	}
 	tl := t0 // backward the glide is lowest toward the parent
-	if !w.p.backward {
+	if !w.backward {
 		tl = t1
 	}
 	if tl != w.slabTau && tf <= w.exact(tl)-c {
@@ -341,7 +384,7 @@ func (w *sightWalk) blockClear(li int, k, kEnd int) bool {
 		return false // a void
 	}
 	tl := t0
-	if !w.p.backward {
+	if !w.backward {
 		tl = t1
 	}
 	c := float64(w.p.clearance)
@@ -358,16 +401,17 @@ func (w *sightWalk) blockClear(li int, k, kEnd int) bool {
 // the mirror of lowBound (the least loss from the upper end, the largest
 // from the lower end).
 func (w *sightWalk) highBound(tau float64) float64 {
-	if w.p.backward {
+	if w.backward {
 		h := w.v - (1-tau)*w.L*w.lamMin
-		if !math.IsInf(w.lamMax, 1) {
-			// The table starts a climb-back from below its bottom there.
-			h = min(h, max(w.pv, w.p.desc.hBot)+tau*w.L*w.lamMax)
+		if w.finMax {
+			// The table starts a climb-back from below its bottom there
+			// (pvBot = max(pv, the table's bottom)).
+			h = min(h, w.pvBot+tau*w.L*w.lamMax)
 		}
 		return h
 	}
 	h := w.pv - tau*w.L*w.lamMin
-	if !math.IsInf(w.lamMax, 1) {
+	if w.finMax {
 		h = min(h, w.v+(1-tau)*w.L*w.lamMax)
 	}
 	return h
@@ -377,7 +421,12 @@ func (w *sightWalk) highBound(tau float64) float64 {
 func (w *sightWalk) run() bool {
 	p := w.p
 	elev := p.l.Elev
-	k0 := int(math.Round(w.pa))
+	// The parent's slab: its centre's column (a parent is a cell centre,
+	// an integer, but for a source).
+	k0 := int(w.pa)
+	if float64(k0) != w.pa {
+		k0 = int(math.Round(w.pa))
+	}
 	long := (w.qa-k0)*w.sgn > 2
 	// failed[li] is the block column of level li known not to clear.
 	failed := [len(pyrShifts)]int{-1 << 30, -1 << 30, -1 << 30}
@@ -418,7 +467,7 @@ func (w *sightWalk) run() bool {
 		}
 		t0, t1 := w.tauIn(k), w.tauOut(k)
 		w.slabTau = t0
-		if !p.backward {
+		if !w.backward {
 			w.slabTau = t1
 		}
 		w.slabLB, w.slabEx = w.lowBound(w.slabTau), math.NaN()
