@@ -9,6 +9,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"runtime/pprof"
 	"sort"
 	"strings"
 	"text/tabwriter"
@@ -166,7 +167,11 @@ func runDemoSteps(ctx context.Context, d *demoRun, steps []demoStep) error {
 				t0 := time.Now()
 				err := ctx.Err()
 				if err == nil {
-					err = s.run(ctx, sd)
+					// The step's name labels its CPU samples (and those of
+					// the goroutines it starts) in a GLIDEREACH_CPUPROFILE.
+					pprof.Do(ctx, pprof.Labels("demo-step", s.name), func(ctx context.Context) {
+						err = s.run(ctx, sd)
+					})
 				}
 				done[i] <- outcome{run: sd, took: time.Since(t0), err: err}
 			}(i, s)
