@@ -84,8 +84,6 @@ type CoverageResult struct {
 	// the window or on a void covers nothing (Skipped[i] is true).
 	Covers, Exclusive []float64
 	Skipped           []bool
-
-	only []int16 // the last target that covered a cell (the only one where Count is 1)
 }
 
 // altAt returns the altitude flown over cell i, m MSL (NaN on a void with AGL).
@@ -154,10 +152,9 @@ func Coverage(ctx context.Context, ground *terrain.Local, targets []Target, mode
 	c.Least = make([]float32, n)
 	c.Best = make([]int16, n)
 	c.Count = make([]uint8, n)
-	c.only = make([]int16, n)
 	nan := float32(math.NaN())
 	for i := range c.Least {
-		c.Least[i], c.Best[i], c.only[i] = nan, -1, -1
+		c.Least[i], c.Best[i] = nan, -1
 	}
 	c.Covers = make([]float64, len(targets))
 	c.Exclusive = make([]float64, len(targets))
@@ -200,7 +197,6 @@ func Coverage(ctx context.Context, ground *terrain.Local, targets []Target, mode
 				if c.Count[i] < 255 {
 					c.Count[i]++
 				}
-				c.only[i] = int16(k)
 			}
 		})
 		return nil
@@ -240,8 +236,14 @@ func (c *CoverageResult) countZone() {
 				c.CoveredCells++
 				c.CoveredArea += a
 			}
-			if c.Count[i] == 1 && c.only != nil && c.only[i] >= 0 {
-				c.Exclusive[c.only[i]] += a
+			// Where one target alone covers a cell it is the cell's Best:
+			// its least altitude is at most the altitude flown there and
+			// every other target's is above it or none (an equal one would
+			// cover the cell too), so it is the strict least. (A per-cell
+			// array of the last target to cover, 2 B/cell, was dropped for
+			// this.)
+			if c.Count[i] == 1 && c.Best[i] >= 0 {
+				c.Exclusive[c.Best[i]] += a
 			}
 		}
 	}
