@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"context"
 	"fmt"
 	"glidereach/reach/plan"
@@ -43,58 +44,73 @@ func demoFootprints(ctx context.Context, d *demoRun) error {
 	if err != nil {
 		return err
 	}
-	// The two footprints are independent: compute them side by side.
-	runs := make([]*reachRun, len(demoFootprintRuns))
+	// The two footprints are independent: compute and write them side by
+	// side (each into its own files, its summary into its own buffer), then
+	// list the files and print the summaries in the runs' order.
+	outs := make([]*demoRun, len(demoFootprintRuns))
 	errs := make([]error, len(demoFootprintRuns))
 	var wg sync.WaitGroup
 	for i, r := range demoFootprintRuns {
 		wg.Add(1)
+		outs[i] = &demoRun{out: &bytes.Buffer{}, dir: d.dir}
 		go func(i int, r demoFootprint) {
 			defer wg.Done()
-			g := newGlideFlags()
-			g.aircraft = r.aircraft
-			g.wind = demoWindSpec
-			setup, err := g.resolve()
-			if err != nil {
-				errs[i] = err
-				return
-			}
-			pos := newPositionFlags()
-			pos.from.Lat, pos.from.Lon, pos.from.Given = r.lat, r.lon, true
-			pos.agl.Value, pos.agl.Given = r.agl, true
-			var fs *failureState
-			if r.speedKt > 0 {
-				ff := newFailureFlags()
-				fs = &failureState{HeadingDeg: r.heading, IAS: r.speedKt * input.Knot,
-					Reaction: ff.reaction, Efficiency: ff.efficiency, Bank: ff.bank.Value}
-			}
-			runs[i], errs[i] = computeReachFrom(ctx, setup, plan.Ground{Src: sc.src}, pos, sc.fields, []float64{0, 150}, io.Discard, fs)
+			errs[i] = demoFootprintRun(ctx, outs[i], sc, r)
 		}(i, r)
 	}
 	wg.Wait()
-	for i, r := range demoFootprintRuns {
+	for i := range demoFootprintRuns {
 		if errs[i] != nil {
 			return errs[i]
 		}
-		run := runs[i]
-		run.heading = r.heading
-		data, err := reachGeoJSON(run)
-		if err != nil {
+		d.files = append(d.files, outs[i].files...)
+		if _, err := d.out.Write(outs[i].out.(*bytes.Buffer).Bytes()); err != nil {
 			return err
 		}
-		if err := d.writeBytes(r.name+".geojson", data); err != nil {
-			return err
-		}
-		if err := writeArrivalRaster(filepath.Join(d.dir, r.name+"-arrival-agl.tif"), run); err != nil {
-			return err
-		}
-		d.files = append(d.files, r.name+"-arrival-agl.tif")
-		if err := d.drawBoth(r.name, func(m, rp string) error { return drawReach(run, m, rp) }); err != nil {
-			return err
-		}
-		fmt.Fprintf(d.out, "-- %s, %s --\n", r.aircraft, r.name)
-		writeReachText(d.out, run)
-		fmt.Fprintln(d.out)
 	}
+	return nil
+}
+
+// demoFootprintRun computes one footprint of the demo and writes its
+// GeoJSON, arrival-height raster, map and report, and its summary to d.out.
+func demoFootprintRun(ctx context.Context, d *demoRun, sc *demoScene, r demoFootprint) error {
+	g := newGlideFlags()
+	g.aircraft = r.aircraft
+	g.wind = demoWindSpec
+	setup, err := g.resolve()
+	if err != nil {
+		return err
+	}
+	pos := newPositionFlags()
+	pos.from.Lat, pos.from.Lon, pos.from.Given = r.lat, r.lon, true
+	pos.agl.Value, pos.agl.Given = r.agl, true
+	var fs *failureState
+	if r.speedKt > 0 {
+		ff := newFailureFlags()
+		fs = &failureState{HeadingDeg: r.heading, IAS: r.speedKt * input.Knot,
+			Reaction: ff.reaction, Efficiency: ff.efficiency, Bank: ff.bank.Value}
+	}
+	run, err := computeReachFrom(ctx, setup, plan.Ground{Src: sc.src}, pos, sc.fields, []float64{0, 150}, io.Discard, fs)
+	if err != nil {
+		return err
+	}
+	run.heading = r.heading
+	data, err := reachGeoJSON(run)
+	if err != nil {
+		return err
+	}
+	if err := d.writeBytes(r.name+".geojson", data); err != nil {
+		return err
+	}
+	if err := writeArrivalRaster(filepath.Join(d.dir, r.name+"-arrival-agl.tif"), run); err != nil {
+		return err
+	}
+	d.files = append(d.files, r.name+"-arrival-agl.tif")
+	if err := d.drawBoth(r.name, func(m, rp string) error { return drawReach(run, m, rp) }); err != nil {
+		return err
+	}
+	fmt.Fprintf(d.out, "-- %s, %s --\n", r.aircraft, r.name)
+	writeReachText(d.out, run)
+	fmt.Fprintln(d.out)
 	return nil
 }
