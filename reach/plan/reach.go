@@ -537,20 +537,19 @@ func (jd *judge) prepare(f Field) (fr FieldResult, job *fieldJob, onWindow bool,
 // when no search is needed (the note says why). bounds are the winds'
 // range bounds, covering the field's altitudes up to its ceiling.
 func (jd *judge) place(fr *FieldResult, j *fieldJob, bounds []*reach.RangeBound) bool {
-	// A field farther than any glide from the ceiling can cover, whatever
-	// its tracks (reach.GlideRangeBound; the longest over the winds), with
+	// A field farther than any glide from the ceiling can cover in some
+	// wind, whatever its tracks (reach.GlideRangeBound of that wind), with
 	// 5 % and 2 km to spare for the grid and the local frame, is out of
-	// reach.
+	// reach in that wind, and so out of reach: its figure must hold in
+	// every wind (fieldJob.finish), so the other winds need no run either.
 	if !math.IsNaN(j.dist) {
-		bound := 0.0
 		for _, rb := range bounds {
-			bound = math.Max(bound, rb.Bound(j.ceiling, j.target.Elev+j.target.Reserve))
-		}
-		if j.dist > 1.05*bound+2000 {
-			if fr.Note == "" {
-				fr.Note = fmt.Sprintf("not reachable from below %.0f m MSL", j.ceiling)
+			if j.dist > 1.05*rb.Bound(j.ceiling, j.target.Elev+j.target.Reserve)+2000 {
+				if fr.Note == "" {
+					fr.Note = fmt.Sprintf("not reachable from below %.0f m MSL", j.ceiling)
+				}
+				return false
 			}
-			return false
 		}
 	}
 	// The least start altitude: backward from the field over the whole
