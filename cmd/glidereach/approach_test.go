@@ -168,7 +168,7 @@ func TestApproachBadInput(t *testing.T) {
 
 // A field out of reach names the next field of the file that works.
 func TestApproachNextField(t *testing.T) {
-	fields := filepath.Join("demodata", "demo-fields.geojson")
+	fields := filepath.Join("..", "..", "testdata", "fields", "demo-fields.geojson")
 	// Low over Shoalwater Field's west, far from Cinder Terrace.
 	code, out, errs := runCLI(t, "approach", "--from", "-0.56,-24.76", "--alt", "700m", "--fields", fields, "--field", "Cinder Terrace")
 	if code != 0 {

@@ -13,6 +13,7 @@ import (
 	"glidereach/cmd/glidereach/input"
 	"glidereach/reach"
 	"glidereach/reach/plan"
+	"glidereach/reach/plan/demo"
 	"glidereach/terrain"
 )
 
@@ -286,18 +287,6 @@ func writeLeastRaster(path string, run *coverageRun) error {
 	return writeRaster(path, g, "least altitude (m MSL) from which a landing field is reached with the reserve; NaN where none is below the ceiling")
 }
 
-// demoCandidates are invented candidate fields for the demo's coverage step
-// (fictional names, open-ocean coordinates like the rest of the scenario).
-var demoCandidates = []input.Field{
-	{Name: "Candidate Basalt Flat", Lat: -0.47, Lon: -24.60},
-	{Name: "Candidate Spindrift Lea", Lat: -0.62, Lon: -24.50},
-	{Name: "Candidate Urchin Bank", Lat: -0.25, Lon: -24.72},
-	{Name: "Candidate Skerry Park", Lat: -0.52, Lon: -24.25},
-}
-
-// demoCoverageAlt is the altitude flown in the demo's coverage step, m MSL.
-const demoCoverageAlt = 1800.0
-
 // demoCoverage runs the coverage command on the embedded invented area,
 // fields and landscape with the generic trainer in the demo's layered
 // wind, ranks the invented candidates and writes JSON, GeoJSON, the
@@ -307,24 +296,18 @@ func demoCoverage(ctx context.Context, d *demoRun) error {
 	if err != nil {
 		return err
 	}
-	data, err := demoData.ReadFile("demodata/demo-area.geojson")
-	if err != nil {
-		return err
-	}
-	reg, err := input.ParseAreaGeoJSON(data)
-	if err != nil {
-		return err
-	}
+	dc := demo.Coverage()
+	reg := input.NewRegion(dc.Area)
 	g := newGlideFlags()
-	g.aircraft, g.wind = "trainer", demoWindSpec
+	g.aircraft, g.wind = dc.Aircraft, demoWindSpec()
 	setup, err := g.resolve()
 	if err != nil {
 		return err
 	}
-	o := &coverageOptions{alt: input.NewQuantity(input.Length, demoCoverageAlt), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), pick: 2, area: "demo-area.geojson"}
+	o := &coverageOptions{alt: input.NewQuantity(input.Length, dc.Alt), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), pick: dc.Pick, area: "demo-area.geojson"}
 	o.alt.Given = true
 	run := &coverageRun{setup: setup, ground: plan.Ground{Src: sc.src}, zone: reg, zoneText: "area demo-area.geojson (invented)"}
-	if err := computeCoverage(ctx, run, o, sc.fields, demoCandidates, func(float64) {}); err != nil {
+	if err := computeCoverage(ctx, run, o, sc.fields, demoCandidates(), func(float64) {}); err != nil {
 		return err
 	}
 	for _, f := range []struct{ name, format string }{{"coverage.json", "json"}, {"coverage.geojson", "geojson"}} {

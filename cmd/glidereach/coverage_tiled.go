@@ -209,6 +209,11 @@ func computeTiled(ctx context.Context, run *coverageRun, o *coverageOptions, fie
 	if errors.Is(err, tiling.ErrOtherPlan) {
 		return nil, &input.UsageError{Where: "--work-dir", Err: err}
 	}
+	if errors.Is(err, tiling.ErrCorrupt) {
+		// A work file damaged outside the run (the run writes each file
+		// whole, by rename): the user's input, not a failure of the run.
+		return nil, input.Usagef("--work-dir", "%v (remove that file, or the whole work directory, to compute it again)", err)
+	}
 	if err != nil {
 		if ctx.Err() != nil && t.workDir != "" {
 			fmt.Fprintf(stderr, "glidereach: stopped; the finished tiles are kept in %s: run the same command again to continue\n", t.workDir)

@@ -105,6 +105,28 @@ func TestCoverageTiledResumeAndOutputs(t *testing.T) {
 	if code != 2 || !strings.Contains(msg, "--work-dir") {
 		t.Errorf("another plan in the work directory: exit %d, %q", code, msg)
 	}
+	// A tile file damaged after the run (one byte flipped): exit 2 naming
+	// --work-dir and the file, not a runtime failure, and no COG written.
+	tiles, err := filepath.Glob(filepath.Join(work, "tiles", "*"))
+	if err != nil || len(tiles) == 0 {
+		t.Fatalf("no tile files in %s (%v)", work, err)
+	}
+	b, err := os.ReadFile(tiles[0])
+	if err != nil {
+		t.Fatal(err)
+	}
+	b[len(b)/2] ^= 0xff
+	if err := os.WriteFile(tiles[0], b, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	cog3 := filepath.Join(dir, "c.tif")
+	code, msg = runCorpusEntry(t, append(append([]string{"coverage"}, args...), "--cog", cog3), false)
+	if code != 2 || !strings.Contains(msg, "--work-dir") || !strings.Contains(msg, filepath.Base(tiles[0])) {
+		t.Errorf("damaged tile file: exit %d, %q; want 2 naming --work-dir and %s", code, msg, filepath.Base(tiles[0]))
+	}
+	if _, err := os.Stat(cog3); err == nil {
+		t.Errorf("%s written from a damaged work directory", cog3)
+	}
 }
 
 func TestCoverageTiledBadValues(t *testing.T) {

@@ -19,6 +19,7 @@ import (
 
 	"glidereach/cmd/glidereach/input"
 	"glidereach/reach"
+	"glidereach/reach/plan/demo"
 	"glidereach/terrain"
 )
 
@@ -235,9 +236,6 @@ func writeDemoTerrain(w io.Writer, path string, seed int64) error {
 	return err
 }
 
-// demoAltitudes are the altitudes (m MSL) of the demo's performance tables.
-var demoAltitudes = []float64{0, 1500, 3000}
-
 // demoPolars prints the key figures of every built-in profile at a few
 // altitudes in still air and writes the full tables (text and JSON).
 func demoPolars(ctx context.Context, d *demoRun) error {
@@ -245,7 +243,7 @@ func demoPolars(ctx context.Context, d *demoRun) error {
 	fmt.Fprintln(tw, "profile\taltitude\tbest glide\tat IAS\tTAS\tleast sink\tat IAS\t")
 	for _, name := range reach.BuiltinNames() {
 		var reps []*polarReport
-		for _, alt := range demoAltitudes {
+		for _, alt := range demo.TableAltitudes() {
 			ac, err := reach.Builtin(name)
 			if err != nil {
 				return err

@@ -6,23 +6,13 @@ import (
 	"glidereach/reach/plan"
 	"math"
 
-	"glidereach/cmd/glidereach/input"
 	"glidereach/reach/geodesy"
+	"glidereach/reach/plan/demo"
 )
 
 func init() {
 	registerDemoStep(35, "engine failure in cruise: the approach to the best field", demoApproach)
 }
-
-// demoFailure is the demo's invented engine failure: the trainer in
-// cruise along the demo route, heading north-east.
-var demoFailure = struct {
-	from     [2]float64
-	alt      float64 // m MSL
-	heading  float64 // degrees true
-	speedKt  float64 // IAS
-	aircraft string
-}{from: [2]float64{-0.62, -24.66}, alt: 2400, heading: 45, speedKt: 105, aircraft: "trainer"}
 
 // demoApproach plans the approach to every demo field from the failure and
 // writes the plan to the best one: the plan that holds with the most height
@@ -32,18 +22,19 @@ func demoApproach(ctx context.Context, d *demoRun) error {
 	if err != nil {
 		return err
 	}
+	df := demo.Failure() // the trainer in cruise along the demo route, heading north-east
 	g := newGlideFlags()
-	g.aircraft = demoFailure.aircraft
-	g.wind = demoWindSpec
+	g.aircraft = df.Aircraft
+	g.wind = demoWindSpec()
 	setup, err := g.resolve()
 	if err != nil {
 		return err
 	}
 	ff := newFailureFlags()
-	fs := &failureState{HeadingDeg: demoFailure.heading, IAS: demoFailure.speedKt * input.Knot,
+	fs := &failureState{HeadingDeg: df.Heading, IAS: df.IAS,
 		Reaction: ff.reaction, Efficiency: ff.efficiency, Bank: ff.bank.Value}
-	run := &approachRun{setup: setup, ground: plan.Ground{Src: sc.src}, fail: fs, startLat: demoFailure.from[0], startLon: demoFailure.from[1],
-		startAlt: demoFailure.alt, variation: math.NaN(), units: unitSets["m-kt"]}
+	run := &approachRun{setup: setup, ground: plan.Ground{Src: sc.src}, fail: fs, startLat: df.Lat, startLon: df.Lon,
+		startAlt: df.Alt, variation: math.NaN(), units: unitSets["m-kt"]}
 	var best *approachRun
 	for _, f := range sc.fields {
 		r := *run
@@ -62,7 +53,7 @@ func demoApproach(ctx context.Context, d *demoRun) error {
 		}
 		// The demo takes every field's elevation from its terrain.
 		r.field.Elevation, r.field.HasElevation, r.fieldFrom = fe, true, "terrain"
-		if s, _, _, err := geodesy.Inverse(geodesy.LatLon{Lat: r.startLat, Lon: r.startLon}, geodesy.LatLon{Lat: f.Lat, Lon: f.Lon}); err != nil || s > 60e3 {
+		if s, _, _, err := geodesy.Inverse(geodesy.LatLon{Lat: r.startLat, Lon: r.startLon}, geodesy.LatLon{Lat: f.Lat, Lon: f.Lon}); err != nil || s > df.MaxDistance {
 			continue
 		}
 		req := plan.ApproachRequest{Setup: &setup.Setup, Terrain: sampler, Lat: r.startLat, Lon: r.startLon, Alt: r.startAlt,

@@ -9,30 +9,11 @@ import (
 	"path/filepath"
 	"sync"
 
-	"glidereach/cmd/glidereach/input"
+	"glidereach/reach/plan/demo"
 )
 
 func init() {
 	registerDemoStep(20, "glide footprints over the invented landscape", demoFootprints)
-}
-
-// demoFootprint is one footprint of the demo.
-type demoFootprint struct {
-	name     string // file stem
-	aircraft string
-	lat, lon float64
-	agl      float64 // m above the ground at the start
-	heading  float64 // degrees true
-	// speedKt > 0 starts the footprint from an engine failure on heading
-	// at that indicated airspeed (knots), as reach --heading --speed does;
-	// 0 keeps the heading for drawing only (the sailplane has no engine
-	// to lose: it is already gliding at its speed to fly).
-	speedKt float64
-}
-
-var demoFootprintRuns = []demoFootprint{
-	{name: "reach-trainer", aircraft: "trainer", lat: -0.5, lon: -24.5, agl: 1200, heading: 250, speedKt: 100},
-	{name: "reach-sailplane", aircraft: "sailplane", lat: -0.42, lon: -24.62, agl: 900, heading: 100},
 }
 
 // demoFootprints computes a footprint for the trainer (from an engine
@@ -44,22 +25,25 @@ func demoFootprints(ctx context.Context, d *demoRun) error {
 	if err != nil {
 		return err
 	}
-	// The two footprints are independent: compute and write them side by
-	// side (each into its own files, its summary into its own buffer), then
-	// list the files and print the summaries in the runs' order.
-	outs := make([]*demoRun, len(demoFootprintRuns))
-	errs := make([]error, len(demoFootprintRuns))
+	// The two footprints (demo.Footprints: the trainer from an engine
+	// failure as reach --heading --speed does, the sailplane already
+	// gliding) are independent: compute and write them side by side (each
+	// into its own files, its summary into its own buffer), then list the
+	// files and print the summaries in the runs' order.
+	fps := demo.Footprints()
+	outs := make([]*demoRun, len(fps))
+	errs := make([]error, len(fps))
 	var wg sync.WaitGroup
-	for i, r := range demoFootprintRuns {
+	for i, r := range fps {
 		wg.Add(1)
 		outs[i] = &demoRun{out: &bytes.Buffer{}, dir: d.dir}
-		go func(i int, r demoFootprint) {
+		go func(i int, r demo.Footprint) {
 			defer wg.Done()
 			errs[i] = demoFootprintRun(ctx, outs[i], sc, r)
 		}(i, r)
 	}
 	wg.Wait()
-	for i := range demoFootprintRuns {
+	for i := range fps {
 		if errs[i] != nil {
 			return errs[i]
 		}
@@ -73,43 +57,43 @@ func demoFootprints(ctx context.Context, d *demoRun) error {
 
 // demoFootprintRun computes one footprint of the demo and writes its
 // GeoJSON, arrival-height raster, map and report, and its summary to d.out.
-func demoFootprintRun(ctx context.Context, d *demoRun, sc *demoScene, r demoFootprint) error {
+func demoFootprintRun(ctx context.Context, d *demoRun, sc *demoScene, r demo.Footprint) error {
 	g := newGlideFlags()
-	g.aircraft = r.aircraft
-	g.wind = demoWindSpec
+	g.aircraft = r.Aircraft
+	g.wind = demoWindSpec()
 	setup, err := g.resolve()
 	if err != nil {
 		return err
 	}
 	pos := newPositionFlags()
-	pos.from.Lat, pos.from.Lon, pos.from.Given = r.lat, r.lon, true
-	pos.agl.Value, pos.agl.Given = r.agl, true
+	pos.from.Lat, pos.from.Lon, pos.from.Given = r.Lat, r.Lon, true
+	pos.agl.Value, pos.agl.Given = r.AGL, true
 	var fs *failureState
-	if r.speedKt > 0 {
+	if r.IAS > 0 {
 		ff := newFailureFlags()
-		fs = &failureState{HeadingDeg: r.heading, IAS: r.speedKt * input.Knot,
+		fs = &failureState{HeadingDeg: r.Heading, IAS: r.IAS,
 			Reaction: ff.reaction, Efficiency: ff.efficiency, Bank: ff.bank.Value}
 	}
-	run, err := computeReachFrom(ctx, setup, plan.Ground{Src: sc.src}, pos, sc.fields, []float64{0, 150}, io.Discard, fs)
+	run, err := computeReachFrom(ctx, setup, plan.Ground{Src: sc.src}, pos, sc.fields, r.Levels, io.Discard, fs)
 	if err != nil {
 		return err
 	}
-	run.heading = r.heading
+	run.heading = r.Heading
 	data, err := reachGeoJSON(run)
 	if err != nil {
 		return err
 	}
-	if err := d.writeBytes(r.name+".geojson", data); err != nil {
+	if err := d.writeBytes(r.Name+".geojson", data); err != nil {
 		return err
 	}
-	if err := writeArrivalRaster(filepath.Join(d.dir, r.name+"-arrival-agl.tif"), run); err != nil {
+	if err := writeArrivalRaster(filepath.Join(d.dir, r.Name+"-arrival-agl.tif"), run); err != nil {
 		return err
 	}
-	d.files = append(d.files, r.name+"-arrival-agl.tif")
-	if err := d.drawBoth(r.name, func(m, rp string) error { return drawReach(run, m, rp) }); err != nil {
+	d.files = append(d.files, r.Name+"-arrival-agl.tif")
+	if err := d.drawBoth(r.Name, func(m, rp string) error { return drawReach(run, m, rp) }); err != nil {
 		return err
 	}
-	fmt.Fprintf(d.out, "-- %s, %s --\n", r.aircraft, r.name)
+	fmt.Fprintf(d.out, "-- %s, %s --\n", r.Aircraft, r.Name)
 	writeReachText(d.out, run)
 	fmt.Fprintln(d.out)
 	return nil

@@ -16,11 +16,12 @@ func TestDependencyDirection(t *testing.T) {
 		t.Skip("go tool not on PATH")
 	}
 	forbidden := map[string][]string{
-		"glidereach/terrain":       {"glidereach/wind", "glidereach/reach", "glidereach/reach/", "glidereach/cmd/", "github.com/spf13/cobra"},
-		"glidereach/wind":          {"glidereach/terrain", "glidereach/reach", "glidereach/reach/", "glidereach/cmd/", "github.com/spf13/cobra"},
-		"glidereach/reach":         {"glidereach/cmd/", "github.com/spf13/cobra", "github.com/tidwall/geojson", "glidereach/reach/plan"},
-		"glidereach/reach/plan":    {"glidereach/cmd/", "github.com/spf13/cobra", "github.com/spf13/pflag", "github.com/tidwall/geojson"},
-		"glidereach/reach/geodesy": {"glidereach/cmd/", "github.com/spf13/cobra", "glidereach/terrain", "glidereach/wind"},
+		"glidereach/terrain":         {"glidereach/wind", "glidereach/reach", "glidereach/reach/", "glidereach/cmd/", "github.com/spf13/cobra"},
+		"glidereach/wind":            {"glidereach/terrain", "glidereach/reach", "glidereach/reach/", "glidereach/cmd/", "github.com/spf13/cobra"},
+		"glidereach/reach":           {"glidereach/cmd/", "github.com/spf13/cobra", "github.com/tidwall/geojson", "glidereach/reach/plan"},
+		"glidereach/reach/plan":      {"glidereach/cmd/", "github.com/spf13/cobra", "github.com/spf13/pflag", "github.com/tidwall/geojson"},
+		"glidereach/reach/plan/demo": {"glidereach/cmd/", "github.com/spf13/cobra", "github.com/spf13/pflag", "github.com/tidwall/geojson"},
+		"glidereach/reach/geodesy":   {"glidereach/cmd/", "github.com/spf13/cobra", "glidereach/terrain", "glidereach/wind"},
 	}
 	for pkg, bad := range forbidden {
 		out, err := exec.Command("go", "list", "-deps", pkg).Output()

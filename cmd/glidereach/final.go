@@ -13,6 +13,7 @@ import (
 	"glidereach/reach"
 	"glidereach/reach/geodesy"
 	"glidereach/reach/plan"
+	"glidereach/reach/plan/demo"
 )
 
 func init() {
@@ -358,17 +359,6 @@ func computeFinalFrom(ctx context.Context, run *finalRun, route []geodesy.LatLon
 	return nil
 }
 
-// demoFinalRun is the demo's final glide: the sailplane from south-east of
-// the ridges home to the invented field Tern Hollow in the demo's layered
-// wind, via a turn point, with the MacCready setting a pilot might have
-// flown the day on.
-var demoFinalRun = struct {
-	from, turn [2]float64
-	field      string
-	alt        float64
-	mc         float64
-}{from: [2]float64{-0.70, -24.30}, turn: [2]float64{-0.52, -24.36}, field: "Tern Hollow", alt: 2800, mc: 1.0}
-
 // demoFinal computes the demo's final glide and writes its GeoJSON, JSON,
 // map and report.
 func demoFinal(ctx context.Context, d *demoRun) error {
@@ -377,18 +367,19 @@ func demoFinal(ctx context.Context, d *demoRun) error {
 		return err
 	}
 	g := newGlideFlags()
-	g.aircraft = "sailplane"
-	g.wind = demoWindSpec
-	g.mc.Value = demoFinalRun.mc
+	fr := demo.Final() // the sailplane home to Tern Hollow via a turn point
+	g.aircraft = fr.Aircraft
+	g.wind = demoWindSpec()
+	g.mc.Value = fr.MacCready
 	setup, err := g.resolve()
 	if err != nil {
 		return err
 	}
-	f, err := input.FindField(sc.fields, demoFinalRun.field, "demo")
+	f, err := input.FindField(sc.fields, fr.Field, "demo")
 	if err != nil {
 		return err
 	}
-	run := &finalRun{setup: setup, ground: plan.Ground{Src: sc.src}, startLat: demoFinalRun.from[0], startLon: demoFinalRun.from[1],
+	run := &finalRun{setup: setup, ground: plan.Ground{Src: sc.src}, startLat: fr.Lat, startLon: fr.Lon,
 		altGiven: true, goalName: f.Name, goalFrom: "terrain"}
 	elev, ok, err := run.ground.ElevationAt(run.startLat, run.startLon)
 	if err != nil || !ok {
@@ -399,8 +390,8 @@ func demoFinal(ctx context.Context, d *demoRun) error {
 	if err != nil || !ok {
 		return fmt.Errorf("demo final glide: no terrain at %s (%v)", f.Name, err)
 	}
-	route := []geodesy.LatLon{{Lat: run.startLat, Lon: run.startLon}, {Lat: demoFinalRun.turn[0], Lon: demoFinalRun.turn[1]}, {Lat: f.Lat, Lon: f.Lon}}
-	if err := computeFinalFrom(ctx, run, route, demoFinalRun.alt, goalElev, input.NewQuantity(input.Length, 0), nil); err != nil {
+	route := []geodesy.LatLon{{Lat: run.startLat, Lon: run.startLon}, {Lat: fr.TurnLat, Lon: fr.TurnLon}, {Lat: f.Lat, Lon: f.Lon}}
+	if err := computeFinalFrom(ctx, run, route, fr.Alt, goalElev, input.NewQuantity(input.Length, 0), nil); err != nil {
 		return err
 	}
 	for _, out := range []struct{ name, format string }{{"final-sailplane.geojson", "geojson"}, {"final-sailplane.json", "json"}} {

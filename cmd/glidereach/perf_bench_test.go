@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"glidereach/reach/plan"
+	"glidereach/reach/plan/demo"
 	"io"
 	"math"
 	"testing"
@@ -23,22 +24,22 @@ func benchmarkDemoReach(b *testing.B, fields []input.Field, windError string) {
 }
 
 func benchmarkReach(b *testing.B, gr plan.Ground, fields []input.Field, windError string) {
-	r := demoFootprintRuns[1]
+	r := demo.Footprints()[1]
 	b.ReportAllocs()
 	b.ResetTimer()
 	defer cpuMeter(b)()
 	for i := 0; i < b.N; i++ {
 		g := newGlideFlags()
-		g.aircraft = r.aircraft
-		g.wind = demoWindSpec
+		g.aircraft = r.Aircraft
+		g.wind = demoWindSpec()
 		g.windError = windError
 		setup, err := g.resolve()
 		if err != nil {
 			b.Fatal(err)
 		}
 		pos := newPositionFlags()
-		pos.from.Lat, pos.from.Lon, pos.from.Given = r.lat, r.lon, true
-		pos.agl.Value, pos.agl.Given = r.agl, true
+		pos.from.Lat, pos.from.Lon, pos.from.Given = r.Lat, r.Lon, true
+		pos.agl.Value, pos.agl.Given = r.AGL, true
 		if _, err := computeReach(context.Background(), setup, gr, pos, fields, []float64{0, 150}, io.Discard); err != nil {
 			b.Fatal(err)
 		}

@@ -15,6 +15,7 @@ import (
 	"glidereach/cmd/glidereach/input"
 	"glidereach/reach"
 	"glidereach/reach/plan"
+	"glidereach/reach/plan/demo"
 	"glidereach/terrain"
 )
 
@@ -300,10 +301,6 @@ func areaWindow(g plan.Ground, minLat, minLon, maxLat, maxLon, margin float64, f
 	return l, grid, usage(err)
 }
 
-// demoRouteAlt is the planned altitude of the demo route (m MSL): high
-// enough that fields are in reach along part of it, not all of it.
-const demoRouteAlt = 2400.0
-
 // demoRoute runs the route command on the embedded invented route, fields
 // and landscape with the generic trainer in the demo's layered wind, and
 // writes its JSON, GeoJSON, CSV, map and report.
@@ -312,21 +309,15 @@ func demoRoute(ctx context.Context, d *demoRun) error {
 	if err != nil {
 		return err
 	}
-	data, err := demoData.ReadFile("demodata/demo-route.gpx")
-	if err != nil {
-		return err
-	}
-	rt, err := input.ParseRoute(data, "")
-	if err != nil {
-		return err
-	}
+	dr := demo.Route()
+	rt := demoRouteInput()
 	g := newGlideFlags()
-	g.aircraft, g.wind = "trainer", demoWindSpec
+	g.aircraft, g.wind = dr.Aircraft, demoWindSpec()
 	setup, err := g.resolve()
 	if err != nil {
 		return err
 	}
-	o := &routeOptions{alt: input.NewQuantity(input.Length, demoRouteAlt), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), step: input.NewQuantity(input.Length, 250)}
+	o := &routeOptions{alt: input.NewQuantity(input.Length, dr.Alt), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), step: input.NewQuantity(input.Length, dr.Step)}
 	o.alt.Given = true
 	run := &routeRun{setup: setup, ground: plan.Ground{Src: sc.src}, file: "demo-route.gpx", name: rt.Name, step: o.step.Value}
 	if err := computeRoute(ctx, run, rt, sc.fields, o, nil); err != nil {

@@ -16,8 +16,9 @@
 //     fields (reach.Target), the loss models every field must hold in
 //     (LossGrid, a sampled reach.Table: [0] the wind, [1:] the other winds
 //     of a wind-uncertainty set), clearance, altitude flown and ceiling,
-//     and the solver's cell. It is plain data: encoding/gob encodes it
-//     (Plan.Encode / DecodePlan), and its Digest names a run.
+//     and the solver's cell. It is plain data in an explicit, versioned binary
+//     encoding (Plan.Encode / DecodePlan, codec.go: the same plan gives the
+//     same bytes in every process), and its Digest names a run.
 //  2. Plan.FieldJobs gives one FieldJob per field whose glide from the
 //     ceiling can touch a tile: the field's own local frame (terrain.Frame
 //     tangent at the field), a square window of side 2·(R/Cell + 3) + 1
@@ -49,8 +50,13 @@
 //
 // A distributed engine maps RunField over Plan.FieldJobs, groups the parts
 // by TilePart.Tile, maps MergeTile over the groups (with the TileJob of the
-// key, Plan.TileJob), and hands the TileResults to the writers. Every value
-// on those edges is gob-encodable (TilePart.Encode, TileResult.Encode).
+// key, Plan.TileJob), and hands the TileResults to the writers. The work
+// files and the values on those edges have an explicit binary encoding
+// (Plan.Encode, TilePart.Encode, TileResult.Encode: magic, kind, version,
+// little-endian fields, CRC-32), byte-identical across processes; the
+// decoders refuse truncated or damaged input (ErrCorrupt). FieldJob and
+// TileJob are plain data too (the Beam pipeline gob-encodes them; they are
+// never compared as bytes).
 //
 // # Units and conventions
 //

@@ -1,9 +1,7 @@
 package tiling
 
 import (
-	"bytes"
 	"context"
-	"encoding/gob"
 	"errors"
 	"fmt"
 	"math"
@@ -23,27 +21,23 @@ type TilePart struct {
 	Least  []float32
 }
 
-// Encode returns the part encoded with encoding/gob.
-func (t *TilePart) Encode() ([]byte, error) { return gobEncode(t) }
+// Encode returns the part in the package's explicit binary encoding
+// (codec.go: magic, kind, version, little-endian fields, CRC-32): the same
+// part gives the same bytes in every process. The error is always nil (kept
+// for the callers' signature).
+func (t *TilePart) Encode() ([]byte, error) { return encodeTilePart(t), nil }
 
-// DecodeTilePart decodes a part written by Encode.
+// DecodeTilePart decodes a part written by Encode; a truncated, damaged or
+// foreign input gives an error wrapping ErrCorrupt.
 func DecodeTilePart(data []byte) (*TilePart, error) {
-	var t TilePart
-	if err := gob.NewDecoder(bytes.NewReader(data)).Decode(&t); err != nil {
-		return nil, fmt.Errorf("tiling: decode tile part: %w", err)
-	}
-	if t.W < 0 || t.H < 0 || len(t.Least) != t.W*t.H {
-		return nil, fmt.Errorf("tiling: tile part of %d×%d cells holds %d values", t.W, t.H, len(t.Least))
-	}
-	return &t, nil
-}
-
-func gobEncode(v any) ([]byte, error) {
-	var b bytes.Buffer
-	if err := gob.NewEncoder(&b).Encode(v); err != nil {
+	t, err := decodeTilePart(data)
+	if err != nil {
 		return nil, err
 	}
-	return b.Bytes(), nil
+	if t.W < 0 || t.H < 0 || t.W > 1<<14 || t.H > 1<<14 || len(t.Least) != t.W*t.H {
+		return nil, fmt.Errorf("%w: tile part of %d×%d cells holds %d values", ErrCorrupt, t.W, t.H, len(t.Least))
+	}
+	return t, nil
 }
 
 // FieldWindow returns the obstacle surface of job's window: src's window

@@ -1,8 +1,6 @@
 package tiling
 
 import (
-	"bytes"
-	"encoding/gob"
 	"errors"
 	"fmt"
 	"math"
@@ -81,30 +79,36 @@ func (t *TileResult) FlownAt(i int, p *Plan) float64 {
 	return p.Alt
 }
 
-// Encode returns the result encoded with encoding/gob (deterministic: the
-// same result gives the same bytes).
-func (t *TileResult) Encode() ([]byte, error) { return gobEncode(t) }
+// Encode returns the result in the package's explicit binary encoding
+// (codec.go): the same result gives the same bytes in every process (a test
+// runs two processes). The error is always nil.
+func (t *TileResult) Encode() ([]byte, error) { return encodeTileResult(t), nil }
 
-// DecodeTileResult decodes a result written by Encode and checks its shape.
+// DecodeTileResult decodes a result written by Encode and checks its shape;
+// a truncated, damaged or foreign input gives an error wrapping ErrCorrupt
+// (Result.Tile adds the file's path).
 func DecodeTileResult(data []byte) (*TileResult, error) {
-	var t TileResult
-	if err := gob.NewDecoder(bytes.NewReader(data)).Decode(&t); err != nil {
-		return nil, fmt.Errorf("tiling: decode tile result: %w", err)
+	t, err := decodeTileResult(data)
+	if err != nil {
+		return nil, err
+	}
+	if t.Cols > 1<<14 || t.Rows > 1<<14 {
+		return nil, fmt.Errorf("%w: tile result %v of %d×%d cells is larger than a tile can be", ErrCorrupt, t.Tile, t.Cols, t.Rows)
 	}
 	n := t.Cols * t.Rows
 	bc, br := (t.Cols+areaBlock-1)/areaBlock, (t.Rows+areaBlock-1)/areaBlock
 	if t.Cols <= 0 || t.Rows <= 0 || len(t.Least) != n || len(t.Best) != n || len(t.Count) != n ||
 		(t.Flown != nil && len(t.Flown) != n) || (t.Mask != nil && len(t.Mask) != (n+7)/8) || len(t.BlockAreas) != bc*br {
-		return nil, fmt.Errorf("tiling: tile result %v has arrays that do not match its %d×%d cells", t.Tile, t.Cols, t.Rows)
+		return nil, fmt.Errorf("%w: tile result %v has arrays that do not match its %d×%d cells", ErrCorrupt, t.Tile, t.Cols, t.Rows)
 	}
 	for _, g := range t.Gains {
 		for _, i := range g.Cells {
 			if i < 0 || int(i) >= n {
-				return nil, fmt.Errorf("tiling: tile result %v names cell %d of %d", t.Tile, i, n)
+				return nil, fmt.Errorf("%w: tile result %v names cell %d of %d", ErrCorrupt, t.Tile, i, n)
 			}
 		}
 	}
-	return &t, nil
+	return t, nil
 }
 
 // blockAreas returns the area of one cell of each areaBlock block of the

@@ -1,9 +1,7 @@
 package tiling
 
 import (
-	"bytes"
 	"crypto/sha256"
-	"encoding/gob"
 	"encoding/hex"
 	"errors"
 	"fmt"
@@ -36,7 +34,7 @@ func (l Lattice) Grid() *terrain.Grid {
 // Check reports a lattice that is empty, not finite or in a CRS the package
 // cannot convert.
 func (l Lattice) Check() error {
-	if l.Cols <= 0 || l.Rows <= 0 || !(l.DX > 0) || !(l.DY > 0) || math.IsInf(l.DX, 0) || math.IsInf(l.DY, 0) ||
+	if l.Cols <= 0 || l.Rows <= 0 || l.Cols > 1<<30 || l.Rows > 1<<30 || !(l.DX > 0) || !(l.DY > 0) || math.IsInf(l.DX, 0) || math.IsInf(l.DY, 0) ||
 		math.IsNaN(l.X0) || math.IsNaN(l.Y0) || math.IsInf(l.X0, 0) || math.IsInf(l.Y0, 0) {
 		return fmt.Errorf("tiling: lattice %d×%d cells of %g×%g at %g,%g is empty or not finite", l.Cols, l.Rows, l.DX, l.DY, l.X0, l.Y0)
 	}
@@ -85,6 +83,11 @@ type Plan struct {
 	// Notes are said with the outputs (e.g. a coarser solver cell asked for).
 	Notes []string
 }
+
+// maxTiles bounds the number of tiles of a plan (a lattice of 2^22 tiles of
+// 1024² cells is 4·10^12 cells; the bound keeps a damaged plan from asking
+// for a list of tiles that does not fit in memory).
+const maxTiles = 1 << 22
 
 // TileSide returns the tile side in cells.
 func (p *Plan) TileSide() int {
@@ -137,6 +140,9 @@ func (p *Plan) Check() error {
 	if t := p.TileSide(); t < 16 || t%16 != 0 || t > 1<<14 {
 		return fmt.Errorf("tiling: tile side %d is not a multiple of 16 in 16..16384", t)
 	}
+	if tc, tr := p.TilesAcross(); tc > 1<<22 || tr > 1<<22 || tc*tr > maxTiles {
+		return fmt.Errorf("tiling: %d×%d tiles of %d cells is more than %d tiles; use larger tiles", tc, tr, p.TileSide(), maxTiles)
+	}
 	if len(p.Models) == 0 {
 		return errors.New("tiling: plan has no loss model")
 	}
@@ -157,25 +163,22 @@ func (p *Plan) Check() error {
 	return nil
 }
 
-// Encode returns the plan encoded with encoding/gob.
-func (p *Plan) Encode() ([]byte, error) {
-	var b bytes.Buffer
-	if err := gob.NewEncoder(&b).Encode(p); err != nil {
-		return nil, err
-	}
-	return b.Bytes(), nil
-}
+// Encode returns the plan in the package's explicit binary encoding
+// (codec.go): the same plan gives the same bytes in every process, which is
+// what lets plan.gob key a work directory. The error is always nil.
+func (p *Plan) Encode() ([]byte, error) { return encodePlan(p), nil }
 
-// DecodePlan decodes a plan written by Encode and checks it.
+// DecodePlan decodes a plan written by Encode and checks it; a truncated,
+// damaged or foreign input gives an error wrapping ErrCorrupt.
 func DecodePlan(data []byte) (*Plan, error) {
-	var p Plan
-	if err := gob.NewDecoder(bytes.NewReader(data)).Decode(&p); err != nil {
-		return nil, fmt.Errorf("tiling: decode plan: %w", err)
+	p, err := decodePlan(data)
+	if err != nil {
+		return nil, err
 	}
 	if err := p.Check(); err != nil {
-		return nil, err
+		return nil, fmt.Errorf("%w: %w", ErrCorrupt, err)
 	}
-	return &p, nil
+	return p, nil
 }
 
 // Digest is the hex SHA-256 of the encoded plan: two runs with the same

@@ -19,7 +19,8 @@ type RunOptions struct {
 	// Workers is the number of field runs at a time; 0 means
 	// runtime.NumCPU(). The output does not depend on it.
 	Workers int
-	// WorkDir holds the run's work files (required): plan.gob, the plan
+	// WorkDir holds the run's work files (required; codec.go's binary
+	// encoding, the .gob names kept from an earlier format): plan.gob, the plan
 	// the directory belongs to, and tiles/<tile>.gob, one finished
 	// TileResult each, written atomically. A run given the directory of an
 	// interrupted run of the same plan continues from the tiles it

@@ -250,6 +250,39 @@ func TestTiledMatchesSingleGrid(t *testing.T) {
 		t.Fatal(err)
 	}
 	single := terrain.OntoGrid(ground, cov.Least, l.Grid()).Elev
+	// The same single grid read by the tiled rule (the highest of the four
+	// solver cells around each output cell centre): tiled − this is what
+	// the two lattices alone make of the terrain.
+	single4 := make([]float64, len(single))
+	{
+		g := l.Grid()
+		for r := range l.Rows {
+			for c := range l.Cols {
+				lat, lon, _ := g.FromCRS(g.X0+float64(c)*g.DX, g.Y0-float64(r)*g.DY)
+				x, y := fr.Forward(lat, lon)
+				fx, fy := (x-ground.X0)/cell, (y-ground.Y0)/cell
+				v := math.NaN()
+				if fx >= 0 && fy >= 0 && fx <= float64(ground.Cols-1) && fy <= float64(ground.Rows-1) {
+					cc, rr := min(int(fx), ground.Cols-2), min(int(fy), ground.Rows-2)
+					i := rr*ground.Cols + cc
+					a, b, c2, d := cov.Least[i], cov.Least[i+1], cov.Least[i+ground.Cols], cov.Least[i+ground.Cols+1]
+					if a == a && b == b && c2 == c2 && d == d {
+						v = float64(max(a, b, c2, d))
+					}
+				}
+				single4[r*l.Cols+c] = v
+			}
+		}
+	}
+	var ds4 []float64
+	for i := range single4 {
+		if a, b := float64(tiled[i]), single4[i]; a == a && b == b {
+			ds4 = append(ds4, a-b)
+		}
+	}
+	q4 := quantiles(ds4)
+	t.Logf("tiled − single grid read by the tiled rule (the lattices alone), %d cells: 0.1%% %.2f, 1%% %.2f, 50%% %.2f, 99%% %.2f, 99.9%% %.2f m, min %.2f, max %.2f m",
+		len(ds4), q4[0], q4[1], q4[2], q4[3], q4[4], ds4[0], ds4[len(ds4)-1])
 	var worst, sum float64
 	var cnt, lower, onlyOne, covT, covS, zone int
 	var ds []float64
@@ -287,26 +320,49 @@ func TestTiledMatchesSingleGrid(t *testing.T) {
 	}
 	sort.Float64s(ds)
 	t.Logf("tiled − single quantiles: 0.1%% %.2f, 1%% %.2f, 50%% %.2f, 99%% %.2f, 99.9%% %.2f m", ds[len(ds)/1000], ds[len(ds)/100], ds[len(ds)/2], ds[len(ds)*99/100], ds[len(ds)*999/1000])
-	// Tolerance (stated in the README): the tiled read is the highest of
-	// the four solver cells around a cell centre, so it lies above the
-	// single grid's bilinear read by up to one cell's rise of the least
-	// altitude (a glide's slope, 1/E, and over ridges the terrain's own
-	// slope: median about 2 m, up to about 15 m at 30 m cells); both
-	// solvers are near-optimal on different lattices, so the tiled value
-	// may also be a few metres lower where their paths bend at other cells.
-	if q := ds[len(ds)/1000]; q < -10 {
-		t.Errorf("0.1 %% quantile of tiled − single %.2f m < −10 m", q)
+	// Tolerance (stated in the README "Tolerances"; measured on this scene
+	// 0.1 % −6.3, 1 % −0.8, median +1.9, 99 % +12.2, 99.9 % +14.5 m). Two
+	// causes. (1) The conservative read: the tiled value is the highest of
+	// the four solver cells around a cell centre, the single grid's the
+	// bilinear value; on one lattice this alone is +0..+32 m, median +2 m,
+	// never negative (TestTiledEqualsSingleGridOnItsLattice). (2) The
+	// lattices: each field's window is in its own frame, the single grid in
+	// one frame at the area's centre, so the two obstacle surfaces (highest
+	// DEM sample per solver cell) and any-angle paths differ; read alike
+	// (ds4 above) the two grids differ both ways by up to ±20 m at the
+	// 0.1 % tails, where the least altitude steps at a ridge. Where the
+	// tiled value is lower it is the altitude along a path its own lattice
+	// found and checked with the exact line-of-sight test over its own
+	// conservative obstacle surface — the same model as the single grid's,
+	// on another lattice — not a laxer read; and the tiled run covers less
+	// of the area than the single grid, not more (checked below).
+	if q := ds[len(ds)/1000]; q < -8 {
+		t.Errorf("0.1 %% quantile of tiled − single %.2f m < −8 m", q)
 	}
-	if q := ds[len(ds)*999/1000]; q > 20 {
-		t.Errorf("99.9 %% quantile of tiled − single %.2f m > 20 m", q)
+	if q := ds[len(ds)/100]; q < -1.5 {
+		t.Errorf("1 %% quantile of tiled − single %.2f m < −1.5 m", q)
 	}
-	if q := ds[len(ds)/2]; q < 0 || q > 3 {
-		t.Errorf("median of tiled − single %.2f m outside 0..3 m", q)
+	if q := ds[len(ds)*99/100]; q > 14 {
+		t.Errorf("99 %% quantile of tiled − single %.2f m > 14 m", q)
+	}
+	if q := ds[len(ds)*999/1000]; q > 16 {
+		t.Errorf("99.9 %% quantile of tiled − single %.2f m > 16 m", q)
+	}
+	if q := ds[len(ds)/2]; q < 1 || q > 3 {
+		t.Errorf("median of tiled − single %.2f m outside 1..3 m", q)
+	}
+	if q4[2] < -1 || q4[2] > 1.5 || q4[0] < -25 || q4[4] > 15 {
+		t.Errorf("the lattices alone: median %.2f m (−1..1.5), 0.1 %% %.2f m (≥ −25), 99.9 %% %.2f m (≤ 15)", q4[2], q4[0], q4[4])
 	}
 	ft, fs := float64(covT)/float64(zone), float64(covS)/float64(zone)
 	t.Logf("covered share of the lattice: tiled %.5f, single grid %.5f", ft, fs)
 	if math.Abs(ft-fs) > 0.01 {
 		t.Errorf("covered share tiled %.4f, single grid %.4f", ft, fs)
+	}
+	// Never optimistic in what the outputs say: the tiled run does not
+	// cover more of the area than the single grid (0.4723 vs 0.4757 here).
+	if ft > fs+0.001 {
+		t.Errorf("tiled covers %.4f of the area, the single grid %.4f: more than the single grid", ft, fs)
 	}
 }
 
