@@ -35,9 +35,10 @@ func idlePTime() float64 {
 // (the machine is shared: CPU seconds say what the code costs, wall seconds
 // what the load let it have), and the seconds per op the Ps had no
 // goroutine to run (idle-P-s/op: how far the run falls short of keeping
-// every core busy, which the load of other processes does not change: a P
-// whose thread waits for the CPU still has work). Start it after the setup;
-// call stop at the end.
+// both cores busy; a P whose thread waits for the CPU still has work, but
+// the idle stretches with the wall time the load allows, so compare runs
+// interleaved at the same load). Start it after the setup; call stop at
+// the end.
 func cpuMeter(b *testing.B) (stop func()) {
 	i0 := idlePTime()
 	t0 := cpuTime()
