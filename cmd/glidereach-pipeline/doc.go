@@ -16,8 +16,12 @@
 //
 // Files: graph.go, the Beam transforms and DoFns; inputs.go, what a worker
 // needs to rebuild its inputs; request.go, the flags checked and turned into
-// a tiling.Plan; run.go, the launcher (work directory, runner, summary);
-// outputs.go, the finish step's writers; workdir.go, atomic writes.
+// a tiling.Plan; describe.go, the run described in glidereach coverage
+// --tiled's words (the FlatGeobuf's description); run.go, the launcher
+// (work directory, runner, summary); outputs.go, the finish step's writers
+// (summary with the candidates' ranking, COG, FlatGeobuf); parts.go, the
+// field jobs' parts kept in the work directory for resuming; workdir.go,
+// atomic writes.
 //
 // The figures are planning aids only: real glide performance depends on
 // configuration, propeller, pilot technique, turbulence and sinking air;

@@ -43,13 +43,27 @@ func init() {
 	register.Iter1[tiling.TileID]()
 }
 
-// Outputs are the files the finish step writes (empty: not written).
+// Outputs are the files the finish step writes (empty: not written) and
+// what it needs to write them.
 type Outputs struct {
 	// COG is the least-altitude raster (cloud-optimised GeoTIFF,
 	// tiling.WriteCOG).
 	COG string
-	// Summary is the JSON summary: covered share, per-field areas.
+	// FGB is the covered and uncovered parts (tiling.Contour over the
+	// merged raster) and the fields, as FlatGeobuf.
+	FGB string
+	// Summary is the JSON summary: covered share, per-field areas, the
+	// candidates' ranking.
 	Summary string
+	// Ranked: the plan has candidates (--candidates), to rank and choose
+	// Pick of greedily (tiling.Totals.Rank).
+	Ranked bool
+	Pick   int
+	// Zone names the zone analysed and Assumptions are the inputs the run
+	// rests on, in glidereach coverage --tiled's words (the FlatGeobuf's
+	// title and description).
+	Zone        string
+	Assumptions []string
 }
 
 // buildPipeline adds the coverage job graph of plan to a new pipeline. done
@@ -130,8 +144,9 @@ func (f *windowsFn) ProcessElement(ctx context.Context, k int, emit func([]byte)
 }
 
 // fieldRunFn runs one field's backward solver on its window
-// (tiling.RunField) and emits one TilePart per touched tile not in Done,
-// keyed by tile.
+// (tiling.RunField), writes the job's parts to the work directory
+// (parts.go) and emits one TilePart per touched tile not in Done, keyed by
+// tile. A job whose parts file is already there is not run again.
 type fieldRunFn struct {
 	In   Inputs
 	Done []tiling.TileID
@@ -154,22 +169,51 @@ func (f *fieldRunFn) ProcessElement(ctx context.Context, b []byte, emit func(til
 	if err := gob.NewDecoder(bytes.NewReader(b)).Decode(&job); err != nil {
 		return fmt.Errorf("field job: %w", err)
 	}
-	parts, err := tiling.RunField(ctx, f.o.src, f.o.plan, job)
+	// A job whose parts are in the work directory (a resumed run) is not
+	// run again: its parts are read back.
+	parts, ok, err := loadParts(f.In.WorkDir, &job)
 	if err != nil {
 		return err
 	}
-	for i := range parts {
-		if f.skip[parts[i].Tile] {
-			continue
-		}
-		pb, err := parts[i].Encode()
+	if !ok {
+		ps, err := tiling.RunField(ctx, f.o.src, f.o.plan, job)
 		if err != nil {
 			return err
 		}
-		emit(parts[i].Tile, pb)
+		enc := make([][]byte, len(ps))
+		parts = make([]rawPart, len(ps))
+		for i := range ps {
+			if enc[i], err = ps[i].Encode(); err != nil {
+				return err
+			}
+			parts[i] = rawPart{Tile: ps[i].Tile, Data: enc[i]}
+		}
+		// Every touched tile's part is kept, finished or not, so the file
+		// serves whichever tiles a later run still lacks.
+		if err := writeAtomic(partsPath(f.In.WorkDir, job.Index), encodeParts(job.Index, enc)); err != nil {
+			return err
+		}
+		if testFieldRunDone != nil {
+			if err := testFieldRunDone(job.Index); err != nil {
+				return err
+			}
+		}
+	}
+	for _, p := range parts {
+		if !f.skip[p.Tile] {
+			emit(p.Tile, p.Data)
+		}
 	}
 	return nil
 }
+
+// Test hooks (nil outside tests; Prism runs the steps in the test's
+// process): called after a field job's parts are written, and before a
+// tile is merged. An error fails the step, as a crash would stop it.
+var (
+	testFieldRunDone func(job int) error
+	testBeforeMerge  func(id tiling.TileID) error
+)
 
 // tileJobsFn gives each tile its TileJob (its cells and the zone's mask,
 // tiling.Plan.TileJob), keyed by tile.
@@ -213,6 +257,11 @@ func (f *mergeFn) Setup(ctx context.Context) (err error) {
 }
 
 func (f *mergeFn) ProcessElement(ctx context.Context, id tiling.TileID, jobs func(*[]byte) bool, parts func(*[]byte) bool, emit func(tiling.TileID)) error {
+	if testBeforeMerge != nil {
+		if err := testBeforeMerge(id); err != nil {
+			return err
+		}
+	}
 	var jb, b []byte
 	n := 0
 	for jobs(&b) {

@@ -39,8 +39,9 @@ const (
 )
 
 func main() {
-	// SIGINT and SIGTERM cancel ctx: the run stops; the tiles already
-	// merged stay in the work directory for the next run to continue from.
+	// SIGINT and SIGTERM cancel ctx: the run stops; the field runs and
+	// tiles already finished stay in the work directory for the next run
+	// to continue from.
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	root := newRootCmd()
 	root.SetOut(os.Stdout)
@@ -93,11 +94,15 @@ By default the pipeline runs in this process on Beam's embedded local runner
 "Distributed runs"): the DEM files, the area file and --work-dir must then be
 on a filesystem every worker mounts at the same path.
 
-The work directory holds the run's tiles; a run given the directory of an
-interrupted run of the same inputs continues from the tiles it finished, and
-gives the same bytes as an uninterrupted one. The outputs are the least-
-altitude raster (--cog, a cloud-optimised GeoTIFF with worst-value overviews)
-and a JSON summary (--summary, and summary.json in the work directory).
+The work directory holds the run's field-run parts and tiles; a run given
+the directory of an interrupted run of the same inputs continues from the
+field runs and tiles it finished, and gives the same bytes as an
+uninterrupted one. The outputs are the least-altitude raster (--cog, a
+cloud-optimised GeoTIFF with worst-value overviews), the covered and
+uncovered parts as FlatGeobuf (--fgb) and a JSON summary (--summary, and
+summary.json in the work directory). --candidates ranks candidate fields
+by the area each would add and chooses --pick of them, as glidereach
+coverage --tiled does.
 
 ` + reach.Caution,
 		Example: `  glidereach-pipeline --fields fields.geojson --box -0.8,-24.85,-0.15,-24.15 --alt 1500m \

@@ -17,6 +17,9 @@ import (
 const (
 	fixtureDEM    = "../../testdata/geotiff/geo_int16_strip_none.tif"
 	fixtureFields = "../../testdata/fields/fixture-fields.geojson"
+	// Invented candidates: two in the box, one off the DEM
+	// (testdata/fields/ORIGIN.md).
+	fixtureCands = "../../testdata/fields/fixture-candidates.geojson"
 	// A box inside the DEM's extent (-25.05..-24.95 E, -0.0375..0.0375 N,
 	// printed by gdalinfo for the fixture: testdata/geotiff/values.txt).
 	fixtureBox = "-0.03,-25.04,0.03,-24.96"
@@ -65,6 +68,10 @@ func TestCLIUsageErrors(t *testing.T) {
 		{"aircraft", append(base, "--alt", "1500m", "--work-dir", work, "--aircraft", "no-such-profile"), "no-such-profile"},
 		{"log level", append(base, "--alt", "1500m", "--work-dir", work, "--beam-log-level", "loud"), "--beam-log-level"},
 		{"alt below the ground", append(base, "--alt", "-300m", "--work-dir", work), "--alt"},
+		{"pick", append(base, "--alt", "1500m", "--work-dir", work, "--pick", "101"), "--pick"},
+		{"pick negative", append(base, "--alt", "1500m", "--work-dir", work, "--pick", "-1"), "--pick"},
+		{"fgb name", append(base, "--alt", "1500m", "--work-dir", work, "--fgb", filepath.Join(dir, "cover.geojson")), "--fgb"},
+		{"candidates file", append(base, "--alt", "1500m", "--work-dir", work, "--candidates", filepath.Join(dir, "no-cands.geojson")), "no-cands.geojson"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -133,6 +140,28 @@ func TestCLIRunAndResume(t *testing.T) {
 	if !bytes.Equal(first, again) {
 		t.Error("the resumed run wrote a different COG")
 	}
+	// A work file damaged outside the run is an input error on --work-dir
+	// (exit 2, the file named), as for glidereach coverage --tiled.
+	tiles, err := filepath.Glob(filepath.Join(work, "tiles", "*.gob"))
+	if err != nil || len(tiles) == 0 {
+		t.Fatalf("no tile files: %v", err)
+	}
+	good, err := os.ReadFile(tiles[0])
+	if err != nil {
+		t.Fatal(err)
+	}
+	bad := bytes.Clone(good)
+	bad[len(bad)/2] ^= 0x40
+	if err := os.WriteFile(tiles[0], bad, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, _, stderr = runCLI(t, args...)
+	if code != exitUsage || !strings.Contains(stderr, "--work-dir") || !strings.Contains(stderr, filepath.Base(tiles[0])) {
+		t.Errorf("a damaged tile: exit %d, stderr %s", code, stderr)
+	}
+	if err := os.WriteFile(tiles[0], good, 0o644); err != nil {
+		t.Fatal(err)
+	}
 	// Another plan in the same work directory is refused (exit 2).
 	code, _, stderr = runCLI(t, append(args[:len(args):len(args)], "--reserve", "400m")...)
 	if code != exitUsage || !strings.Contains(stderr, "--work-dir") {
@@ -182,7 +211,7 @@ func TestREADMEExample(t *testing.T) {
 	tmp := t.TempDir()
 	for i := 0; i+1 < len(cmd); i++ {
 		switch cmd[i] {
-		case "--work-dir", "--cog", "--summary":
+		case "--work-dir", "--cog", "--fgb", "--summary":
 			cmd[i+1] = filepath.Join(tmp, cmd[i+1])
 		}
 	}
@@ -197,11 +226,14 @@ func TestREADMEExample(t *testing.T) {
 }
 
 func TestSameAsGlidereachCoverageTiled(t *testing.T) {
-	// The other path to the same quantity, as a user runs it: glidereach
+	// The other path to the same quantities, as a user runs it: glidereach
 	// coverage --tiled (the library's local tiled path behind the main
 	// command) with the same inputs must build the same plan (plan.gob,
 	// byte for byte: both commands turn the flags into a tiling.Plan by the
-	// same rules) and write the same COG and covered share.
+	// same rules), write the same tile files, COG and FlatGeobuf bytes and
+	// the same covered share, and give the same candidate ranking and
+	// greedy picks (the JSON arrays "candidates" and "picks", byte for byte
+	// once compacted).
 	if _, err := exec.LookPath("go"); err != nil {
 		t.Skip("go tool not on PATH")
 	}
@@ -213,36 +245,51 @@ func TestSameAsGlidereachCoverageTiled(t *testing.T) {
 		t.Fatalf("go build ./cmd/glidereach: %v\n%s", err, out)
 	}
 	inputs := []string{"--fields", fixtureFields, "--box", fixtureBox, "--agl", "600m", "--terrain", fixtureDEM,
-		"--tile", "64", "--wind", "0m:240/10kt,1500m:270/20kt", "--wind-error", "20deg,5kt"}
+		"--tile", "64", "--wind", "0m:240/10kt,1500m:270/20kt", "--wind-error", "20deg,5kt",
+		"--candidates", fixtureCands, "--pick", "2"}
 	a, b := filepath.Join(dir, "a"), filepath.Join(dir, "b")
-	main := exec.Command(bin, append([]string{"coverage", "--tiled", "--work-dir", a, "--cog", a + ".tif", "--format", "json", "--out", a + ".json"}, inputs...)...)
+	main := exec.Command(bin, append([]string{"coverage", "--tiled", "--work-dir", a, "--cog", a + ".tif", "--fgb", a + ".fgb", "--format", "json", "--out", a + ".json"}, inputs...)...)
 	if out, err := main.CombinedOutput(); err != nil {
 		t.Fatalf("glidereach coverage --tiled: %v\n%s", err, out)
 	}
-	if code, _, stderr := runCLI(t, append([]string{"--work-dir", b, "--cog", b + ".tif", "--summary", b + ".json"}, inputs...)...); code != exitOK {
+	if code, _, stderr := runCLI(t, append([]string{"--work-dir", b, "--cog", b + ".tif", "--fgb", b + ".fgb", "--summary", b + ".json"}, inputs...)...); code != exitOK {
 		t.Fatalf("exit %d; stderr: %s", code, stderr)
 	}
-	for _, f := range []string{"plan.gob", "../a.tif"} {
-		x, err := os.ReadFile(filepath.Join(a, f))
+	files := [][2]string{{filepath.Join(a, "plan.gob"), filepath.Join(b, "plan.gob")}, {a + ".tif", b + ".tif"}, {a + ".fgb", b + ".fgb"}}
+	tiles, err := filepath.Glob(filepath.Join(a, "tiles", "*.gob"))
+	if err != nil || len(tiles) < 2 {
+		t.Fatalf("glidereach wrote tiles %v (%v)", tiles, err)
+	}
+	for _, tf := range tiles {
+		files = append(files, [2]string{tf, filepath.Join(b, "tiles", filepath.Base(tf))})
+	}
+	for _, f := range files {
+		x, err := os.ReadFile(f[0])
 		if err != nil {
 			t.Fatal(err)
 		}
-		y, err := os.ReadFile(filepath.Join(b, strings.Replace(f, "a.tif", "b.tif", 1)))
+		y, err := os.ReadFile(f[1])
 		if err != nil {
 			t.Fatal(err)
 		}
 		if !bytes.Equal(x, y) {
-			t.Errorf("%s differs between glidereach coverage --tiled (%d bytes) and the pipeline (%d bytes)", f, len(x), len(y))
+			t.Errorf("%s differs between glidereach coverage --tiled (%d bytes) and the pipeline (%d bytes)", filepath.Base(f[0]), len(x), len(y))
 		}
 	}
 	var ja struct {
-		CoveredFraction float64 `json:"covered_fraction"`
+		CoveredFraction float64         `json:"covered_fraction"`
+		Candidates      json.RawMessage `json:"candidates"`
+		Picks           json.RawMessage `json:"picks"`
 	}
 	var jb summary
+	var rb struct {
+		Candidates json.RawMessage `json:"candidates"`
+		Picks      json.RawMessage `json:"picks"`
+	}
 	for _, c := range []struct {
 		path string
 		v    any
-	}{{a + ".json", &ja}, {b + ".json", &jb}} {
+	}{{a + ".json", &ja}, {b + ".json", &jb}, {b + ".json", &rb}} {
 		data, err := os.ReadFile(c.path)
 		if err != nil {
 			t.Fatal(err)
@@ -255,5 +302,26 @@ func TestSameAsGlidereachCoverageTiled(t *testing.T) {
 	// DEVELOPERS.md) to 4 decimals at most; the summary keeps every digit.
 	if !(ja.CoveredFraction <= jb.CoveredFraction && jb.CoveredFraction-ja.CoveredFraction < 1e-3) || jb.CoveredFraction == 0 {
 		t.Errorf("covered share: glidereach %v, the pipeline %v", ja.CoveredFraction, jb.CoveredFraction)
+	}
+	for _, c := range []struct {
+		key  string
+		x, y json.RawMessage
+	}{{"candidates", ja.Candidates, rb.Candidates}, {"picks", ja.Picks, rb.Picks}} {
+		var x, y bytes.Buffer
+		if err := json.Compact(&x, c.x); err != nil {
+			t.Fatalf("glidereach's %s: %v", c.key, err)
+		}
+		if err := json.Compact(&y, c.y); err != nil {
+			t.Fatalf("the summary's %s: %v", c.key, err)
+		}
+		if !bytes.Equal(x.Bytes(), y.Bytes()) {
+			t.Errorf("%s: glidereach coverage --tiled\n%s\nthe pipeline\n%s", c.key, x.Bytes(), y.Bytes())
+		}
+	}
+	// The case checks something: a candidate adds area, one is noted off
+	// the data, and the greedy choice took one.
+	if jb.Candidates == nil || len(*jb.Candidates) != 3 || (*jb.Candidates)[0].AddsM2 <= 0 || (*jb.Candidates)[2].Note == "" ||
+		jb.Picks == nil || len(*jb.Picks) == 0 || (*jb.Picks)[0].CoveredFraction <= ja.CoveredFraction {
+		t.Errorf("the ranking checks nothing: %s %s", rb.Candidates, rb.Picks)
 	}
 }

@@ -35,9 +35,11 @@ type options struct {
 	ground                               *input.Quantity
 	crs, voids                           string
 	fields, area, box, corridor          string
+	candidates                           string
+	pick                                 int
 	alt, agl, cell                       *input.Quantity
 	tile                                 int
-	workDir, cog, summary                string
+	workDir, cog, fgb, summary           string
 	logLevel                             string
 }
 
@@ -59,6 +61,8 @@ func newOptions() *options {
 
 func (o *options) register(fs *pflag.FlagSet) {
 	fs.StringVar(&o.fields, "fields", "", "existing landing fields: GeoJSON points or polygons with a name property (as glidereach coverage)")
+	fs.StringVar(&o.candidates, "candidates", "", "candidate fields (GeoJSON, like --fields) to rank by the area each would add (as glidereach coverage)")
+	fs.IntVar(&o.pick, "pick", 3, "with --candidates: how many to choose one by one (greedy), 0..100")
 	fs.StringVar(&o.area, "area", "", "area to analyse: a GeoJSON Polygon/MultiPolygon file")
 	fs.StringVar(&o.box, "box", "", "area to analyse: a box given by two opposite corners LAT,LON,LAT,LON")
 	fs.StringVar(&o.corridor, "corridor", "", "corridor to analyse: ROUTE,WIDTH (GPX/GeoJSON route and full width, e.g. plan.gpx,10km)")
@@ -83,8 +87,9 @@ func (o *options) register(fs *pflag.FlagSet) {
 	fs.StringVar(&o.voids, "voids", "obstacle", "what to do with voids (no-data cells): obstacle or fill")
 	fs.Var(o.cell, "cell", o.cell.Help("solver cell (m), 1..1000: default the DEM's resolution (never finer; a coarser one is said in the outputs), 30 m on flat ground"))
 	fs.IntVar(&o.tile, "tile", 0, "output tile side in cells, a multiple of 16 in 64..8192 (default 1024): the unit of work of the merge steps")
-	fs.StringVar(&o.workDir, "work-dir", "", "work directory of the run (required; on a cluster: shared by every worker): plan.gob, tiles/, summary.json")
+	fs.StringVar(&o.workDir, "work-dir", "", "work directory of the run (required; on a cluster: shared by every worker): plan.gob, parts/, tiles/, summary.json")
 	fs.StringVar(&o.cog, "cog", "", "write the least altitude (m MSL) to reach a field as a cloud-optimised GeoTIFF (.tif) with worst-value overviews")
+	fs.StringVar(&o.fgb, "fgb", "", "write the covered and uncovered parts and the fields as FlatGeobuf (.fgb, EPSG:4326), as glidereach coverage --tiled --fgb")
 	fs.StringVar(&o.summary, "summary", "", "write the JSON summary (covered share, per-field areas) to this file")
 	fs.StringVar(&o.logLevel, "beam-log-level", "off", "Beam's and Prism's own log lines on stderr: off, debug, info, warn or error")
 }

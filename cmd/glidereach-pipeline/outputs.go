@@ -4,10 +4,16 @@ import (
 	"context"
 	"encoding/json"
 	"io"
+	"math"
+	"os"
 	"path/filepath"
+	"strings"
+
+	"github.com/paulmach/orb"
 
 	"glidereach/reach"
 	"glidereach/reach/tiling"
+	"glidereach/reach/tiling/fgb"
 )
 
 // summary is the JSON summary of a run (the work directory's summary.json,
@@ -22,6 +28,34 @@ type summary struct {
 	Fields          []fieldSummary `json:"fields"`
 	Notes           []string       `json:"notes"`
 	Caution         string         `json:"caution"`
+	// Candidates and Picks are the ranking of --candidates, with the same
+	// keys, values and roundings as glidereach coverage --tiled's JSON
+	// "candidates" and "picks" (absent without --candidates).
+	Candidates *[]candidateSummary `json:"candidates,omitempty"`
+	Picks      *[]pickSummary      `json:"picks,omitempty"`
+}
+
+// candidateSummary is one candidate by rank: the zone area (m², rounded) it
+// alone would add to the fields' coverage. The fields are in the order of
+// their keys, as glidereach's JSON maps are written.
+type candidateSummary struct {
+	AddsM2     float64 `json:"adds_m2"`
+	ElevationM any     `json:"elevation_m"` // m MSL to 0.1 m, null when unknown
+	Lat        float64 `json:"lat"`
+	Lon        float64 `json:"lon"`
+	Name       string  `json:"name"`
+	Note       string  `json:"note,omitempty"`
+	Rank       int     `json:"rank"`
+}
+
+// pickSummary is one step of the greedy choice: the candidate that adds
+// most to what is covered so far, the area it adds (m², rounded) and the
+// covered share after it (rounded down to 1e-4: never optimistic).
+type pickSummary struct {
+	AddsM2          float64 `json:"adds_m2"`
+	CoveredFraction float64 `json:"covered_fraction"`
+	Name            string  `json:"name"`
+	Step            int     `json:"step"`
 }
 
 type fieldSummary struct {
@@ -70,6 +104,9 @@ func writeOutputs(ctx context.Context, o *opened, dir string, out Outputs) error
 	for k, f := range o.plan.Fields {
 		s.Fields = append(s.Fields, fieldSummary{Name: f.Name, Skipped: res.Skipped[k], CoversM2: t.Covers[k], ExclusiveM2: t.Exclusive[k]})
 	}
+	if out.Ranked {
+		s.Candidates, s.Picks = ranking(o.plan, res, t.Rank(out.Pick))
+	}
 	data, err := json.MarshalIndent(&s, "", "  ")
 	if err != nil {
 		return err
@@ -83,6 +120,17 @@ func writeOutputs(ctx context.Context, o *opened, dir string, out Outputs) error
 			return err
 		}
 	}
+	if out.FGB != "" {
+		covered, uncovered, _, _, err := tiling.Contour(o.plan, res)
+		if err != nil {
+			return err
+		}
+		if err := writeFileAtomic(out.FGB, func(w io.Writer) error {
+			return writeFGB(w, o.plan, t, covered, uncovered, out)
+		}); err != nil {
+			return err
+		}
+	}
 	if out.COG != "" {
 		if err := writeFileAtomic(out.COG, func(w io.Writer) error {
 			return tiling.WriteCOG(w, o.plan, res, cogDescription)
@@ -90,9 +138,70 @@ func writeOutputs(ctx context.Context, o *opened, dir string, out Outputs) error
 			return err
 		}
 	}
-	return nil
+	// Every tile is merged: the field jobs' parts are no longer needed
+	// (they are the largest work files, 4 B per cell a field reaches).
+	return os.RemoveAll(filepath.Join(dir, "parts"))
 }
 
 // cogDescription goes in the COG's ImageDescription: glidereach coverage
 // --tiled's, so both write the same bytes for the same plan.
 const cogDescription = "glidereach: least altitude (m MSL) from which a landing field is reached with the reserve; NaN where none below the ceiling; overviews hold the highest value of the cells they cover. " + reach.Caution
+
+// ranking lists the candidates by the area each alone adds and the greedy
+// picks, as glidereach coverage --tiled's JSON does (its candidatesJSON).
+func ranking(p *tiling.Plan, res *tiling.Result, rk *tiling.Ranking) (*[]candidateSummary, *[]pickSummary) {
+	nf := len(p.Fields)
+	var cs []candidateSummary
+	for k, i := range rk.Order {
+		c := p.Candidates[i]
+		row := candidateSummary{Rank: k + 1, Name: c.Name, Lat: c.Lat, Lon: c.Lon, ElevationM: num(c.Elev), AddsM2: math.Round(rk.Gain[i])}
+		switch {
+		case math.IsNaN(c.Elev):
+			row.Note = "on unknown ground or off the terrain data"
+		case res.Skipped[nf+i]:
+			row.Note = "too far to reach the area from the altitude flown, or on unknown ground"
+		}
+		cs = append(cs, row)
+	}
+	ps := []pickSummary{}
+	for k, st := range rk.Steps {
+		ps = append(ps, pickSummary{Step: k + 1, Name: p.Candidates[st.Candidate].Name, AddsM2: math.Round(st.Added),
+			CoveredFraction: fractionDown(st.CoveredFraction)})
+	}
+	return &cs, &ps
+}
+
+// writeFGB writes the covered and uncovered parts and the fields as
+// FlatGeobuf (EPSG:4326, lon/lat), with the caution on every feature:
+// glidereach coverage --tiled --fgb's layout, header and features.
+func writeFGB(w io.Writer, p *tiling.Plan, t *tiling.Totals, covered, uncovered orb.MultiPolygon, out Outputs) error {
+	h := fgb.Header{Name: "coverage", Title: "glidereach coverage of the " + out.Zone, EPSG: 4326,
+		Description: strings.Join(out.Assumptions, "; ") + ". " + reach.Caution,
+		Columns: []fgb.Column{{Name: "kind", Type: fgb.String}, {Name: "name", Type: fgb.String}, {Name: "area_m2", Type: fgb.Double},
+			{Name: "covered_fraction", Type: fgb.Double}, {Name: "exclusive_m2", Type: fgb.Double}, {Name: "caution", Type: fgb.String}}}
+	if covered == nil {
+		covered = orb.MultiPolygon{}
+	}
+	if uncovered == nil {
+		uncovered = orb.MultiPolygon{}
+	}
+	fs := []fgb.Feature{
+		{Geometry: covered, Properties: []any{"covered", nil, math.Round(t.CoveredArea), fractionDown(t.CoveredFraction), nil, reach.Caution}},
+		{Geometry: uncovered, Properties: []any{"uncovered", nil, math.Round(t.ZoneArea - t.CoveredArea), nil, nil, reach.Caution}},
+	}
+	for i, f := range p.Fields {
+		fs = append(fs, fgb.Feature{Geometry: orb.Point{f.Lon, f.Lat}, Properties: []any{"field", f.Name, math.Round(t.Covers[i]), nil, math.Round(t.Exclusive[i]), reach.Caution}})
+	}
+	return fgb.Write(w, h, fs)
+}
+
+// num is a value rounded to 0.1 for JSON, nil (null) when not finite.
+func num(v float64) any {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return nil
+	}
+	return math.Round(v*10) / 10
+}
+
+// fractionDown rounds a share down to 1e-4 (never optimistic).
+func fractionDown(f float64) float64 { return math.Floor(f*1e4+1e-9) / 1e4 }

@@ -4,9 +4,12 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"errors"
 	"fmt"
+	"log/slog"
 	"os"
 	"path/filepath"
+	"sync"
 	"testing"
 
 	"github.com/apache/beam/sdks/v2/go/pkg/beam"
@@ -129,19 +132,17 @@ func localCOG(t *testing.T, sc *scene, res *tiling.Result) []byte {
 }
 
 // sameTiles fails unless the two work directories hold the same tile
-// results for every tile of the plan; it returns the number of covered
-// cells. Each file is decoded and encoded again here: encoding/gob numbers
-// the types a process encodes in the order it first meets them, so two
-// processes (a local run and a cluster's workers) may write the same result
-// with different type numbers; within one process the bytes are the same.
+// files, byte for byte, for every tile of the plan (the library's work-file
+// encoding is the same bytes in every process); it returns the number of
+// covered cells.
 func sameTiles(t *testing.T, plan *tiling.Plan, want, got string) int {
 	t.Helper()
 	covered := 0
 	for _, id := range plan.Tiles() {
-		w := reencodedTile(t, filepath.Join(want, "tiles", id.String()+".gob"))
-		g := reencodedTile(t, filepath.Join(got, "tiles", id.String()+".gob"))
+		w := readTile(t, filepath.Join(want, "tiles", id.String()+".gob"))
+		g := readTile(t, filepath.Join(got, "tiles", id.String()+".gob"))
 		if !bytes.Equal(g, w) {
-			t.Errorf("tile %v: the pipeline's result differs from the local run's", id)
+			t.Errorf("tile %v: the pipeline's tile file differs from the local run's", id)
 		}
 		tr, err := tiling.DecodeTileResult(g)
 		if err != nil {
@@ -152,23 +153,17 @@ func sameTiles(t *testing.T, plan *tiling.Plan, want, got string) int {
 	return covered
 }
 
-// reencodedTile reads a tile file and returns the result encoded again in
-// this process.
-func reencodedTile(t *testing.T, path string) []byte {
+// readTile reads a tile file and checks that it decodes.
+func readTile(t *testing.T, path string) []byte {
 	t.Helper()
 	data, err := os.ReadFile(path)
 	if err != nil {
 		t.Fatal(err)
 	}
-	tr, err := tiling.DecodeTileResult(data)
-	if err != nil {
+	if _, err := tiling.DecodeTileResult(data); err != nil {
 		t.Fatalf("%s: %v", path, err)
 	}
-	b, err := tr.Encode()
-	if err != nil {
-		t.Fatal(err)
-	}
-	return b
+	return data
 }
 
 func TestPipelineMatchesLocalTiledRun(t *testing.T) {
@@ -226,7 +221,7 @@ func TestPipelineResumesFromFinishedTiles(t *testing.T) {
 	keep := map[tiling.TileID][]byte{}
 	for i, id := range tiles {
 		path := filepath.Join(dir, "tiles", id.String()+".gob")
-		keep[id] = reencodedTile(t, path)
+		keep[id] = readTile(t, path)
 		if i%2 == 0 {
 			if err := os.Remove(path); err != nil {
 				t.Fatal(err)
@@ -250,7 +245,7 @@ func TestPipelineResumesFromFinishedTiles(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, id := range tiles {
-		if b := reencodedTile(t, filepath.Join(dir, "tiles", id.String()+".gob")); !bytes.Equal(b, keep[id]) {
+		if b := readTile(t, filepath.Join(dir, "tiles", id.String()+".gob")); !bytes.Equal(b, keep[id]) {
 			t.Errorf("tile %v differs after the resumed run", id)
 		}
 	}
@@ -265,4 +260,220 @@ func TestPipelineResumesFromFinishedTiles(t *testing.T) {
 	if !bytes.Equal(a, b) {
 		t.Error("the resumed run's COG differs from the uninterrupted run's")
 	}
+}
+
+// resumeRun claims dir for sc's plan (as the command does) and runs the
+// pipeline there on Prism with ctx, writing the COG to cog.
+func resumeRun(ctx context.Context, t *testing.T, sc *scene, dir, cog string) error {
+	t.Helper()
+	enc, err := sc.plan.Encode()
+	if err != nil {
+		t.Fatal(err)
+	}
+	done, err := claimWorkDir(dir, enc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	in := Inputs{Plan: enc, Terrain: []string{sc.dem}, Box: sc.box, WorkDir: dir}
+	_, err = prism.Execute(ctx, buildPipeline(in, Outputs{COG: cog}, sc.plan, done))
+	return err
+}
+
+// quietPrism discards Prism's log lines (it logs every failed bundle at
+// ERROR level) until the test ends: the tests that stop a run on purpose
+// check the error Execute returns instead.
+func quietPrism(t *testing.T) {
+	old := slog.Default()
+	slog.SetDefault(slog.New(slog.DiscardHandler))
+	t.Cleanup(func() { slog.SetDefault(old) })
+}
+
+// fieldRuns records the field jobs the pipeline computes (testFieldRunDone)
+// until the test ends; fail, when not nil, decides the hook's error.
+type fieldRuns struct {
+	mu   sync.Mutex
+	jobs []int
+	fail func(n int) error // n: jobs computed so far, this one included
+}
+
+func watchFieldRuns(t *testing.T) *fieldRuns {
+	quietPrism(t)
+	fr := &fieldRuns{}
+	testFieldRunDone = func(job int) error {
+		fr.mu.Lock()
+		defer fr.mu.Unlock()
+		fr.jobs = append(fr.jobs, job)
+		if fr.fail != nil {
+			return fr.fail(len(fr.jobs))
+		}
+		return nil
+	}
+	t.Cleanup(func() { testFieldRunDone = nil })
+	return fr
+}
+
+func (fr *fieldRuns) take() []int {
+	fr.mu.Lock()
+	defer fr.mu.Unlock()
+	j := fr.jobs
+	fr.jobs, fr.fail = nil, nil
+	return j
+}
+
+// jobsOnDisk returns the jobs of plan p whose parts file is in dir.
+func jobsOnDisk(dir string, p *tiling.Plan) map[int]bool {
+	on := map[int]bool{}
+	for k := range len(p.Fields) + len(p.Candidates) {
+		if _, err := os.Stat(partsPath(dir, k)); err == nil {
+			on[k] = true
+		}
+	}
+	return on
+}
+
+// sameOutputs fails unless dir's tiles and the COG cog are those of the
+// uninterrupted run (wantDir, wantCOG), and the parts are gone.
+func sameOutputs(t *testing.T, sc *scene, wantDir, wantCOG, dir, cog string) {
+	t.Helper()
+	sameTiles(t, sc.plan, wantDir, dir)
+	a, err := os.ReadFile(wantCOG)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := os.ReadFile(cog)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(a, b) {
+		t.Error("the resumed run's COG differs from the uninterrupted run's")
+	}
+	if _, err := os.Stat(filepath.Join(dir, "parts")); !os.IsNotExist(err) {
+		t.Errorf("parts/ is still in the work directory after the outputs were written (%v)", err)
+	}
+}
+
+func TestPipelineResumesFromFieldRuns(t *testing.T) {
+	// A run stopped during the field runs (here: the first field job to
+	// finish fails the step after its parts are written, as a crash
+	// would) keeps the parts of the jobs that finished; the same run again
+	// computes only the other jobs and writes the same bytes as an
+	// uninterrupted run.
+	sc := newScene(t, 200, 64, 1400)
+	wantCOG := filepath.Join(t.TempDir(), "whole.tif")
+	fr := watchFieldRuns(t)
+	wantDir := runPipeline(t, sc, Outputs{COG: wantCOG})
+	all := len(fr.take())
+	if all < 2 {
+		t.Fatalf("%d field jobs ran; the case needs several", all)
+	}
+	dir, cog := t.TempDir(), filepath.Join(t.TempDir(), "least.tif")
+	fr.fail = func(n int) error { return errors.New("stopped by the test") }
+	if err := resumeRun(context.Background(), t, sc, dir, cog); err == nil {
+		t.Fatal("the stopped run did not fail")
+	}
+	fr.take()
+	kept := jobsOnDisk(dir, sc.plan)
+	if len(kept) == 0 {
+		t.Fatal("no field job's parts were kept")
+	}
+	if tiles, _ := filepath.Glob(filepath.Join(dir, "tiles", "*")); len(tiles) > 0 {
+		t.Fatalf("tiles were merged before every field run ended: %v", tiles)
+	}
+	if err := resumeRun(context.Background(), t, sc, dir, cog); err != nil {
+		t.Fatal(err)
+	}
+	again := fr.take()
+	for _, k := range again {
+		if kept[k] {
+			t.Errorf("field job %d ran again although its parts were in the work directory", k)
+		}
+	}
+	if len(again)+len(kept) != all {
+		t.Errorf("%d jobs kept and %d run again, want %d in all", len(kept), len(again), all)
+	}
+	sameOutputs(t, sc, wantDir, wantCOG, dir, cog)
+}
+
+func TestPipelineResumesFromMerges(t *testing.T) {
+	// A run stopped during the merges (here: the last tile's merge fails)
+	// keeps every field job's parts and the tiles merged so far; with some
+	// of those tiles removed too, the same run again solves no field and
+	// writes the same bytes as an uninterrupted run.
+	sc := newScene(t, 200, 64, 1400)
+	wantCOG := filepath.Join(t.TempDir(), "whole.tif")
+	fr := watchFieldRuns(t)
+	wantDir := runPipeline(t, sc, Outputs{COG: wantCOG})
+	all := len(fr.take())
+	tiles := sc.plan.Tiles()
+	last := tiles[len(tiles)-1]
+	testBeforeMerge = func(id tiling.TileID) error {
+		if id == last {
+			return errors.New("stopped by the test")
+		}
+		return nil
+	}
+	t.Cleanup(func() { testBeforeMerge = nil })
+	dir, cog := t.TempDir(), filepath.Join(t.TempDir(), "least.tif")
+	if err := resumeRun(context.Background(), t, sc, dir, cog); err == nil {
+		t.Fatal("the stopped run did not fail")
+	}
+	testBeforeMerge = nil
+	fr.take()
+	if n := len(jobsOnDisk(dir, sc.plan)); n != all {
+		t.Fatalf("%d of %d field jobs' parts kept", n, all)
+	}
+	merged, _ := filepath.Glob(filepath.Join(dir, "tiles", "*.gob"))
+	if len(merged) >= len(tiles) {
+		t.Fatalf("%d of %d tiles merged: the run did not stop", len(merged), len(tiles))
+	}
+	for i, path := range merged {
+		if i%2 == 0 {
+			if err := os.Remove(path); err != nil {
+				t.Fatal(err)
+			}
+		}
+	}
+	if err := resumeRun(context.Background(), t, sc, dir, cog); err != nil {
+		t.Fatal(err)
+	}
+	if again := fr.take(); len(again) > 0 {
+		t.Errorf("field jobs %v ran again although their parts were in the work directory", again)
+	}
+	sameOutputs(t, sc, wantDir, wantCOG, dir, cog)
+}
+
+func TestPipelineCancelledMidway(t *testing.T) {
+	// The graph's context cancelled (as SIGINT does) once the first field
+	// job has finished: the run stops with an error, and the same run
+	// again continues from what was kept and writes the same bytes.
+	sc := newScene(t, 200, 64, 1400)
+	wantCOG := filepath.Join(t.TempDir(), "whole.tif")
+	fr := watchFieldRuns(t)
+	wantDir := runPipeline(t, sc, Outputs{COG: wantCOG})
+	all := len(fr.take())
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	fr.fail = func(n int) error {
+		cancel()
+		return nil
+	}
+	dir, cog := t.TempDir(), filepath.Join(t.TempDir(), "least.tif")
+	if err := resumeRun(ctx, t, sc, dir, cog); err == nil {
+		t.Fatal("the cancelled run did not fail")
+	}
+	fr.take()
+	kept := jobsOnDisk(dir, sc.plan)
+	t.Logf("cancelled: %d of %d field jobs' parts kept", len(kept), all)
+	if len(kept) == 0 {
+		t.Fatal("the cancelled run kept no field job's parts (the hook cancels after one was written)")
+	}
+	if err := resumeRun(context.Background(), t, sc, dir, cog); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range fr.take() {
+		if kept[k] {
+			t.Errorf("field job %d ran again although its parts were in the work directory", k)
+		}
+	}
+	sameOutputs(t, sc, wantDir, wantCOG, dir, cog)
 }

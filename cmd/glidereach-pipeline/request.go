@@ -52,6 +52,12 @@ func newRequest(o *options) (*request, error) {
 	if e := strings.ToLower(filepath.Ext(o.cog)); o.cog != "" && e != ".tif" && e != ".tiff" {
 		return nil, input.Usagef("--cog", "%q: a cloud-optimised GeoTIFF is written to a .tif file", o.cog)
 	}
+	if !strings.EqualFold(filepath.Ext(o.fgb), ".fgb") && o.fgb != "" {
+		return nil, input.Usagef("--fgb", "%q: FlatGeobuf is written to a .fgb file", o.fgb)
+	}
+	if o.pick < 0 || o.pick > 100 {
+		return nil, input.Usagef("--pick", "%d is outside 0..100", o.pick)
+	}
 	if e := strings.ToLower(filepath.Ext(o.summary)); o.summary != "" && e != ".json" {
 		return nil, input.Usagef("--summary", "%q: the summary is JSON, written to a .json file", o.summary)
 	}
@@ -65,7 +71,7 @@ func newRequest(o *options) (*request, error) {
 	if i := strings.LastIndex(o.corridor, ","); i > 0 {
 		r.in.Corridor = abs(o.corridor[:i]) + o.corridor[i:]
 	}
-	r.out = Outputs{COG: abs(o.cog), Summary: abs(o.summary)}
+	r.out = Outputs{COG: abs(o.cog), FGB: abs(o.fgb), Summary: abs(o.summary), Pick: o.pick}
 
 	// The aircraft and the air (reach/plan's Setup, as glidereach's).
 	ac, err := input.LoadAircraft(o.aircraft)
@@ -91,18 +97,30 @@ func newRequest(o *options) (*request, error) {
 	if !(setup.Reserve <= maxMargin) || !(setup.Clearance <= maxMargin) {
 		return nil, input.Usagef(o.aircraft, "the profile's reserve %v m or clearance %v m is outside 0..%v m", setup.Reserve, setup.Clearance, maxMargin)
 	}
-	if setup.Reserve < 150 {
-		r.warnings = append(r.warnings, fmt.Sprintf("reserve %.0f m is below the 150 m (about 500 ft) that common practice keeps for a circuit (no source)", setup.Reserve))
+	resFrom, clrFrom := "the default", "the default"
+	if ac.HasReserve || ac.Reserve > 0 {
+		resFrom = "the aircraft profile"
 	}
-	if setup.Clearance < 50 {
-		r.warnings = append(r.warnings, fmt.Sprintf("clearance %.0f m is below the 50 m above terrain that common practice keeps en route (no source)", setup.Clearance))
+	if ac.HasClearance || ac.Clearance > 0 {
+		clrFrom = "the aircraft profile"
 	}
+	if o.reserve.Given {
+		resFrom = "--reserve"
+	}
+	if o.clearance.Given {
+		clrFrom = "--clearance"
+	}
+	r.warnings = setupWarnings(setup, resFrom, clrFrom)
+	wtext := windText(setup.Wind, o.wind, o.windAloft)
 	if o.windError != "" {
 		d, sp, err := input.ParseWindError(o.windError)
 		if err != nil {
 			return nil, input.FlagError("--wind-error", o.windError, err)
 		}
 		setup.WithWindError(d, sp)
+		if len(setup.Winds) > 1 {
+			wtext += fmt.Sprintf(" (±%.0f°, ±%.0f kt: worst of %d winds)", d, sp/input.Knot, len(setup.Winds))
+		}
 	}
 
 	// The ground.
@@ -153,19 +171,29 @@ func newRequest(o *options) (*request, error) {
 	if err != nil {
 		return nil, err
 	}
-	var targets []reach.Target
-	for _, f := range fields {
-		el := math.NaN()
-		if f.HasElevation {
-			el = f.Elevation
+	var cands []input.Field
+	if o.candidates != "" {
+		if cands, err = input.LoadFields(o.candidates); err != nil {
+			return nil, err
 		}
-		targets = append(targets, reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: el, Reserve: setup.Reserve})
+		r.out.Ranked = true
+	}
+	targets := func(fs []input.Field) []reach.Target {
+		var ts []reach.Target
+		for _, f := range fs {
+			el := math.NaN()
+			if f.HasElevation {
+				el = f.Elevation
+			}
+			ts = append(ts, reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: el, Reserve: setup.Reserve})
+		}
+		return ts
 	}
 	// The lattice, the ceiling and the loss models as glidereach coverage
 	// --tiled makes them (reach/plan.PlanTiled).
 	b := zone.Bounds()
 	req := plan.TiledRequest{Setup: setup, Ground: ground, West: b.Min[0], South: b.Min[1], East: b.Max[0], North: b.Max[1],
-		ZoneName: zoneFlag[2:], Alt: o.alt.Value, AGL: o.agl.Given, Tile: o.tile, Fields: targets}
+		ZoneName: zoneFlag[2:], Alt: o.alt.Value, AGL: o.agl.Given, Tile: o.tile, Fields: targets(fields), Candidates: targets(cands)}
 	if o.agl.Given {
 		req.Alt = o.agl.Value
 	}
@@ -182,6 +210,14 @@ func newRequest(o *options) (*request, error) {
 	}
 	p := tp.Plan
 	r.plan = p
+	// What the outputs say about the run (glidereach coverage --tiled's
+	// words: the FlatGeobuf's title and description).
+	cols, rows := p.Lattice.Cols, p.Lattice.Rows
+	info := &tilingPlanInfo{altMode: altModeText(o.agl.Given, req.Alt), zoneText: zoneText(o.area, o.box, o.corridor, zone),
+		terrain: ground.Describe(), cellText: cellText(src == nil, p.Cell, tp.DEMCell), ceiling: p.Ceiling,
+		cols: cols, rows: rows, epsg: p.Lattice.EPSG, tiles: len(p.Tiles()), tileSide: p.TileSide()}
+	r.out.Zone = info.zoneText
+	r.out.Assumptions = tiledAssumptions(setupAssumptions(setup, wtext, r.warnings), info)
 	if r.in.Plan, err = p.Encode(); err != nil {
 		return nil, err
 	}

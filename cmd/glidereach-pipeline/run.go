@@ -10,6 +10,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"github.com/apache/beam/sdks/v2/go/pkg/beam"
 	"github.com/apache/beam/sdks/v2/go/pkg/beam/runners"
@@ -37,10 +38,18 @@ func run(ctx context.Context, o *options, stdout, stderr io.Writer) error {
 	if runner == "" {
 		runner = "prism"
 	}
+	jobsDone := partsOnDisk(r.in.WorkDir, r.plan)
 	p := buildPipeline(r.in, r.out, r.plan, done)
 	if _, err := beam.Run(ctx, runner, p); err != nil {
 		if ctx.Err() != nil {
-			return fmt.Errorf("stopped (%w); the finished tiles are kept in %s: run the same command again to continue", ctx.Err(), r.in.WorkDir)
+			return fmt.Errorf("stopped (%w); the finished field runs and tiles are kept in %s: run the same command again to continue", ctx.Err(), r.in.WorkDir)
+		}
+		if line := corruptLine(err); line != "" {
+			// A work file damaged outside the run (the run writes each
+			// whole, by rename): the user's input, as glidereach coverage
+			// --tiled says it. Beam hands a worker's error over as text, so
+			// the library's sentinel is found by its words.
+			return input.Usagef("--work-dir", "%s (remove that file, or the whole work directory, to compute it again)", line)
 		}
 		return fmt.Errorf("pipeline on %s: %w", runner, err)
 	}
@@ -55,12 +64,12 @@ func run(ctx context.Context, o *options, stdout, stderr io.Writer) error {
 	if err := json.Unmarshal(data, &s); err != nil {
 		return err
 	}
-	printSummary(stdout, &s, len(done))
+	printSummary(stdout, &s, len(done), jobsDone)
 	return nil
 }
 
 // printSummary prints the headline figures of a finished run.
-func printSummary(w io.Writer, s *summary, resumed int) {
+func printSummary(w io.Writer, s *summary, resumed, jobsResumed int) {
 	// Covered shares and areas are rounded down (never optimistic), as
 	// glidereach's text.
 	tiles := "tiles"
@@ -68,8 +77,13 @@ func printSummary(w io.Writer, s *summary, resumed int) {
 		tiles = "tile"
 	}
 	fmt.Fprintf(w, "covered: %.1f %% of the zone (%.2f of %.2f km²), %d %s", down(100*s.CoveredFraction, 10), down(s.CoveredAreaM2/1e6, 100), s.ZoneAreaM2/1e6, s.Tiles, tiles)
-	if resumed > 0 {
+	switch {
+	case resumed > 0 && jobsResumed > 0:
+		fmt.Fprintf(w, " (%d, and %d field runs, found finished in the work directory)", resumed, jobsResumed)
+	case resumed > 0:
 		fmt.Fprintf(w, " (%d found finished in the work directory)", resumed)
+	case jobsResumed > 0:
+		fmt.Fprintf(w, " (%d field runs found finished in the work directory)", jobsResumed)
 	}
 	fmt.Fprintln(w)
 	for _, f := range s.Fields {
@@ -78,6 +92,23 @@ func printSummary(w io.Writer, s *summary, resumed int) {
 			continue
 		}
 		fmt.Fprintf(w, "  %-24s covers %10.2f km², alone %10.2f km²\n", f.Name, down(f.CoversM2/1e6, 100), down(f.ExclusiveM2/1e6, 100))
+	}
+	if s.Candidates != nil {
+		fmt.Fprintln(w, "candidates by the area each would add alone:")
+		for _, c := range *s.Candidates {
+			fmt.Fprintf(w, "  %2d. %-24s adds %10.2f km²", c.Rank, c.Name, down(c.AddsM2/1e6, 100))
+			if c.Note != "" {
+				fmt.Fprintf(w, " (%s)", c.Note)
+			}
+			fmt.Fprintln(w)
+		}
+		fmt.Fprintln(w, "greedy choice (each step the candidate adding most to what is covered so far):")
+		if len(*s.Picks) == 0 {
+			fmt.Fprintln(w, "  no candidate adds any covered area")
+		}
+		for _, p := range *s.Picks {
+			fmt.Fprintf(w, "  %2d. %-24s adds %10.2f km², covered %.1f %%\n", p.Step, p.Name, down(p.AddsM2/1e6, 100), down(100*p.CoveredFraction, 10))
+		}
 	}
 	for _, n := range s.Notes {
 		fmt.Fprintln(w, "note:", n)
@@ -119,4 +150,19 @@ func claimWorkDir(dir string, plan []byte) ([]tiling.TileID, error) {
 		}
 	}
 	return done, nil
+}
+
+// corruptLine returns the line of a pipeline error that reports a damaged
+// work file (tiling.ErrCorrupt, by its text: a worker's error reaches the
+// launcher as text), or "".
+func corruptLine(err error) string {
+	if errors.Is(err, tiling.ErrCorrupt) {
+		return err.Error()
+	}
+	for _, l := range strings.Split(err.Error(), "\n") {
+		if strings.Contains(l, tiling.ErrCorrupt.Error()) {
+			return strings.TrimSpace(l)
+		}
+	}
+	return ""
 }
