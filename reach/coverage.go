@@ -84,8 +84,6 @@ type CoverageResult struct {
 	// the window or on a void covers nothing (Skipped[i] is true).
 	Covers, Exclusive []float64
 	Skipped           []bool
-
-	only []int16 // the last target that covered a cell (the only one where Count is 1)
 }
 
 // altAt returns the altitude flown over cell i, m MSL (NaN on a void with AGL).
@@ -154,10 +152,9 @@ func Coverage(ctx context.Context, ground *terrain.Local, targets []Target, mode
 	c.Least = make([]float32, n)
 	c.Best = make([]int16, n)
 	c.Count = make([]uint8, n)
-	c.only = make([]int16, n)
 	nan := float32(math.NaN())
 	for i := range c.Least {
-		c.Least[i], c.Best[i], c.only[i] = nan, -1, -1
+		c.Least[i], c.Best[i] = nan, -1
 	}
 	c.Covers = make([]float64, len(targets))
 	c.Exclusive = make([]float64, len(targets))
@@ -170,7 +167,7 @@ func Coverage(ctx context.Context, ground *terrain.Local, targets []Target, mode
 	done := 0
 	found := false
 	err := forTargets(ctx, len(targets), opts.Workers, func(k int) error {
-		cells, vals, covers, err := c.fieldCover(ctx, targets[k], append([]LossModel{model}, opts.Also...))
+		fr, covers, err := c.fieldCover(ctx, targets[k], append([]LossModel{model}, opts.Also...))
 		mu.Lock()
 		defer mu.Unlock()
 		done++
@@ -189,21 +186,19 @@ func Coverage(ctx context.Context, ground *terrain.Local, targets []Target, mode
 		}
 		found = true
 		c.Covers[k] = covers
-		for j, i := range cells {
-			v := vals[j]
-			if v != v {
-				continue
-			}
+		// Merged straight from the target's raster, cell by cell in the
+		// raster's order (a list of its reached cells and their values, 8
+		// bytes per cell, was the largest transient of the run).
+		fr.each(c.Ground.Cols, func(i int, v float32) {
 			if cv := c.Least[i]; cv != cv || v < cv {
 				c.Least[i], c.Best[i] = v, int16(k)
 			}
-			if float64(v) <= c.altAt(int(i)) {
+			if float64(v) <= c.altAt(i) {
 				if c.Count[i] < 255 {
 					c.Count[i]++
 				}
-				c.only[i] = int16(k)
 			}
-		}
+		})
 		return nil
 	})
 	if firstErr != nil {
@@ -241,8 +236,14 @@ func (c *CoverageResult) countZone() {
 				c.CoveredCells++
 				c.CoveredArea += a
 			}
-			if c.Count[i] == 1 && c.only != nil && c.only[i] >= 0 {
-				c.Exclusive[c.only[i]] += a
+			// Where one target alone covers a cell it is the cell's Best:
+			// its least altitude is at most the altitude flown there and
+			// every other target's is above it or none (an equal one would
+			// cover the cell too), so it is the strict least. (A per-cell
+			// array of the last target to cover, 2 B/cell, was dropped for
+			// this.)
+			if c.Count[i] == 1 && c.Best[i] >= 0 {
+				c.Exclusive[c.Best[i]] += a
 			}
 		}
 	}
@@ -307,29 +308,55 @@ loop:
 	return first
 }
 
+// fieldRaster is one target's least altitudes (m MSL) on its part of the
+// window: rows r0..r0+rows−1 and columns c0..c0+cols−1 of Ground, row by
+// row; NaN where the target is out of reach from below the ceiling. A nil
+// *fieldRaster holds no cell.
+type fieldRaster struct {
+	c0, r0, cols, rows int
+	v                  []float32
+}
+
+// each calls fn with the window index (gcols: the window's columns) and
+// the value of every cell of the raster that has one, row by row.
+func (f *fieldRaster) each(gcols int, fn func(i int, v float32)) {
+	if f == nil {
+		return
+	}
+	for r := 0; r < f.rows; r++ {
+		row := f.v[r*f.cols : (r+1)*f.cols]
+		base := (f.r0+r)*gcols + f.c0
+		for cc, v := range row {
+			if v == v {
+				fn(base+cc, v)
+			}
+		}
+	}
+}
+
 // fieldCover runs the backward solver for target t alone on the part of the
-// window within its reach radius from the ceiling, and returns the cells of
-// the window it computed (indices into Ground) with their least altitudes,
-// and the ellipsoidal area (m²) of the zone's cells it covers (value at most
-// the altitude flown).
-func (c *CoverageResult) fieldCover(ctx context.Context, t Target, models []LossModel) (cells []int32, vals []float32, covers float64, err error) {
+// window within its reach radius from the ceiling, and returns its least
+// altitudes there (the highest over models), and the ellipsoidal area (m²)
+// of the zone's cells it covers (value at most the altitude flown). The
+// raster is nil when the target covers nothing.
+func (c *CoverageResult) fieldCover(ctx context.Context, t Target, models []LossModel) (fr *fieldRaster, covers float64, err error) {
 	g := c.Ground
 	x, y := g.Frame.Forward(t.Lat, t.Lon)
 	fx, fy := (x-g.X0)/g.Cell, (y-g.Y0)/g.Cell
 	if fx < 0 || fy < 0 || fx > float64(g.Cols-1) || fy > float64(g.Rows-1) {
-		return nil, nil, 0, ErrNoTargets
+		return nil, 0, ErrNoTargets
 	}
 	if !(c.Ceiling > t.Elev+t.Reserve) {
 		// Even over the field the least altitude (its elevation plus the
 		// reserve) is above the ceiling: it covers nothing. Not an error —
 		// the altitude flown may simply be below the high ground it is on.
-		return nil, nil, 0, nil
+		return nil, 0, nil
 	}
 	radius := 0.0
 	for _, m := range models {
 		r, err := ReachRadius(m, c.Ceiling, t.Elev+t.Reserve)
 		if err != nil {
-			return nil, nil, 0, err
+			return nil, 0, err
 		}
 		radius = math.Max(radius, r)
 	}
@@ -341,7 +368,7 @@ func (c *CoverageResult) fieldCover(ctx context.Context, t Target, models []Loss
 	for _, m := range models {
 		res, err := Required(ctx, sub, []Target{t}, m, RequiredOptions{Clearance: c.Opts.Clearance, Ceiling: c.Ceiling, Workers: 1})
 		if err != nil {
-			return nil, nil, 0, err
+			return nil, 0, err
 		}
 		if worst == nil {
 			worst = res.Required
@@ -353,21 +380,13 @@ func (c *CoverageResult) fieldCover(ctx context.Context, t Target, models []Loss
 			}
 		}
 	}
-	for r := 0; r < sub.Rows; r++ {
-		for cc := 0; cc < sub.Cols; cc++ {
-			v := worst[r*sub.Cols+cc]
-			if v != v {
-				continue
-			}
-			i := (r0+r)*g.Cols + c0 + cc
-			cells = append(cells, int32(i))
-			vals = append(vals, v)
-			if float64(v) <= c.altAt(i) && c.inZone(i) {
-				covers += c.Areas.AtCell(c0+cc, r0+r)
-			}
+	fr = &fieldRaster{c0: c0, r0: r0, cols: sub.Cols, rows: sub.Rows, v: worst}
+	fr.each(g.Cols, func(i int, v float32) {
+		if float64(v) <= c.altAt(i) && c.inZone(i) {
+			covers += c.Areas.At(i)
 		}
-	}
-	return cells, vals, covers, nil
+	})
+	return fr, covers, nil
 }
 
 // Polygons contours the coverage: the covered part of the zone (cells whose
@@ -443,7 +462,7 @@ func (c *CoverageResult) Candidates(ctx context.Context, candidates []Target, mo
 	var mu sync.Mutex
 	done := 0
 	err := forTargets(ctx, len(candidates), c.Opts.Workers, func(j int) error {
-		cells, vals, _, err := c.fieldCover(ctx, candidates[j], append([]LossModel{model}, c.Opts.Also...))
+		fr, _, err := c.fieldCover(ctx, candidates[j], append([]LossModel{model}, c.Opts.Also...))
 		if errors.Is(err, ErrNoTargets) {
 			mu.Lock()
 			rk.Skipped[j] = true
@@ -454,11 +473,11 @@ func (c *CoverageResult) Candidates(ctx context.Context, candidates []Target, mo
 			return err
 		}
 		var add []int32
-		for m, i := range cells {
-			if float64(vals[m]) <= c.altAt(int(i)) && c.inZone(int(i)) && c.Count[i] == 0 {
-				add = append(add, i)
+		fr.each(c.Ground.Cols, func(i int, v float32) {
+			if float64(v) <= c.altAt(i) && c.inZone(i) && c.Count[i] == 0 {
+				add = append(add, int32(i))
 			}
-		}
+		})
 		mu.Lock()
 		newCells[j] = add
 		gain := 0.0

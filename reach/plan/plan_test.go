@@ -287,3 +287,48 @@ func TestApproachIntoWind(t *testing.T) {
 		t.Errorf("far field: %v, want an InputError naming From", err)
 	}
 }
+
+func TestReachFieldBeyondOneWindsBound(t *testing.T) {
+	// Flat ground at 0 m, the trainer (glide ratio 9) from 1500 m: a
+	// field's ceiling is the start + 4000 m = 5500 m. In still air no glide
+	// from 5500 m with the 300 m reserve covers more than (5500 − 300)·9 =
+	// 46.8 km (tan γ = 1/E; Anderson, Introduction to Flight, ch. 6), so a
+	// field 60 km east is out of reach in that wind, while a 15 m/s wind
+	// from the west carries the glide there. With both winds the field must
+	// hold in each (the worst-of-winds rule): out of reach, decided from
+	// the still air's range bound, with no figure (the note is the one a
+	// field off the footprint's window always has).
+	const lat, lon = -0.5, -24.5
+	f := east(t, lat, lon, 60000)
+	fields := []plan.Field{{Name: "Far east", Lat: f.Lat, Lon: f.Lon}}
+	tail, err := wind.NewProfile([]wind.Layer{{Alt: 0, Dir: 270, Speed: 15}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	calm, err := wind.NewProfile([]wind.Layer{{Alt: 0, Dir: 0, Speed: 0}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	judge := func(winds ...*wind.Profile) plan.FieldResult {
+		t.Helper()
+		s := trainer(t, winds[0])
+		s.Winds = winds
+		res, err := plan.Reach(context.Background(), plan.ReachRequest{
+			Setup: s, Ground: plan.Ground{Flat: 0}, Lat: lat, Lon: lon, Alt: 1500, Fields: fields})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return res.Fields[0]
+	}
+	// In the tailwind alone the backward run finds a figure (so the verdict
+	// below comes from the still air).
+	if fr := judge(tail); math.IsNaN(fr.RequiredMSL) || fr.RequiredMSL > 5500 {
+		t.Fatalf("tailwind alone: required %.0f m (%q), want a figure below 5500 m", fr.RequiredMSL, fr.Note)
+	}
+	for _, fr := range []plan.FieldResult{judge(calm), judge(tail, calm), judge(calm, tail)} {
+		if !math.IsNaN(fr.RequiredMSL) || fr.Reachable || fr.Note != "beyond the computed window: out of reach" {
+			t.Errorf("required %.0f m, reachable %v, note %q; want none, false, beyond the computed window: out of reach",
+				fr.RequiredMSL, fr.Reachable, fr.Note)
+		}
+	}
+}

@@ -137,13 +137,31 @@ func Reach(ctx context.Context, req ReachRequest) (*ReachResult, error) {
 	for _, v := range extraLevels {
 		minLevel = math.Min(minLevel, v)
 	}
-	// The winds are independent runs: two at a time (each run is the same
-	// whatever runs beside it, and the members keep the winds' order, so
-	// the result does not depend on the cores).
+	// The failure's sector starts in the forecast wind: the fields' glides
+	// start there (and wind 0's footprint runs from them).
+	var secs0 []reach.SectorStart
+	if fstate != nil {
+		if secs0, err = fstate.Sectors(setup, setup.Winds[0], l, lat, lon, alt); err != nil {
+			return nil, err
+		}
+		res.Sectors = secs0
+	}
+	// The fields' backward runs need the window, the fields and the
+	// sectors, not the footprint: they are set up now and run beside the
+	// footprints. An error setting them up is returned after the
+	// footprints' (as when the fields were judged after them).
+	jd := &judge{req: &req, res: res, l: l, startElev: elev}
+	fw, fieldErr := jd.setup(ctx)
+	// The winds' footprints and the (field, wind) backward runs are
+	// independent jobs for two workers, the footprints (the longest) first,
+	// so both cores stay busy to the end. Each run is the same whatever runs
+	// beside it, and every result goes to its own slot (members in the
+	// winds' order, fields in theirs), so the result does not depend on the
+	// cores or the timing.
 	members := make([]*reach.FootprintResult, len(setup.Winds))
 	shares := make([]float64, len(setup.Winds))
 	var shareMu sync.Mutex
-	err = ForEach(ctx, len(setup.Winds), 2, func(k int) error {
+	footprint := func(k int) error {
 		tab, err := setup.TableFor(setup.Winds[k], lo+math.Min(minLevel, 0)-260, alt+60+topExtra)
 		if err != nil {
 			return &InputError{Field: "Aircraft", Err: err}
@@ -165,12 +183,11 @@ func Reach(ctx context.Context, req ReachRequest) (*ReachResult, error) {
 			}}
 		var fr *reach.FootprintResult
 		if fstate != nil {
-			secs, err := fstate.Sectors(setup, setup.Winds[k], l, lat, lon, alt)
-			if err != nil {
-				return err
-			}
-			if k == 0 {
-				res.Sectors = secs
+			secs := secs0
+			if k > 0 {
+				if secs, err = fstate.Sectors(setup, setup.Winds[k], l, lat, lon, alt); err != nil {
+					return err
+				}
 			}
 			fr, err = reach.FootprintFromState(ctx, l, reach.Start{Lat: lat, Lon: lon, Alt: alt}, secs, tab, fopts)
 		} else {
@@ -185,9 +202,22 @@ func Reach(ctx context.Context, req ReachRequest) (*ReachResult, error) {
 		}
 		members[k] = fr
 		return nil
+	}
+	nw, nf := len(setup.Winds), len(fw.work)
+	if fieldErr != nil {
+		nf = 0
+	}
+	err = ForEach(ctx, nw+nf, 2, func(t int) error {
+		if t < nw {
+			return footprint(t)
+		}
+		return jd.backward(ctx, fw, fw.work[t-nw])
 	})
 	if err != nil {
 		return nil, err
+	}
+	if fieldErr != nil {
+		return nil, fieldErr
 	}
 	fp, err := reach.Intersect(members)
 	if err != nil {
@@ -210,8 +240,7 @@ func Reach(ctx context.Context, req ReachRequest) (*ReachResult, error) {
 	}
 	res.Edge = TerrainEdge(fp, grid, math.Min(minLevel, setup.Reserve))
 
-	j := &judge{req: &req, res: res, l: l, startElev: elev}
-	if err := j.fields(ctx); err != nil {
+	if err := jd.finish(ctx, fw); err != nil {
 		return nil, err
 	}
 	return res, nil
@@ -225,55 +254,149 @@ type judge struct {
 	startElev float64
 }
 
-// fields judges every field of the request: each in every wind by its own
-// backward run; the (field, wind) runs are independent and shared between
-// two workers.
-func (jd *judge) fields(ctx context.Context) error {
+// fieldWork is the fields' backward runs set up by judge.setup.
+type fieldWork struct {
+	jobs  []*fieldJob // per request field; nil where no run is needed
+	onWin []bool      // per request field: it lies on the footprint's window
+	tabs  []*reach.Table
+	work  []fieldPair // the (field, wind) runs
+}
+
+// fieldPair is one backward run: field f (index into the request's
+// fields) in wind k.
+type fieldPair struct{ f, k int }
+
+// setup prepares every field of the request (res.Fields, without the
+// footprint's verdict, which finish adds), decides the fields beyond any
+// possible reach without a run, and lists the (field, wind) backward runs
+// the rest need, with one speed-to-fly table per wind for every field:
+// from the lowest ground of the window or field to the highest ceiling.
+// The table of each wind is built once, over the range every field needs,
+// and shared (a table built per field, or widened when a later field
+// needed more, made a field's figure depend on the order the fields were
+// judged in).
+func (jd *judge) setup(ctx context.Context) (*fieldWork, error) {
 	req, res, l := jd.req, jd.res, jd.l
+	fw := &fieldWork{jobs: make([]*fieldJob, len(req.Fields)), onWin: make([]bool, len(req.Fields))}
 	res.Fields = make([]FieldResult, len(req.Fields))
-	jobs := make([]*fieldJob, len(req.Fields))
 	for i, f := range req.Fields {
-		fr, job, err := jd.prepare(f)
+		fr, job, onWin, err := jd.prepare(f)
 		if err != nil {
-			return err
+			return fw, err
 		}
-		res.Fields[i], jobs[i] = fr, job
+		res.Fields[i], fw.jobs[i], fw.onWin[i] = fr, job, onWin
 	}
-	// One table per wind for every field: from the lowest ground of the
-	// window or field to the highest ceiling.
 	flo, fhi := Lowest(l), math.Inf(-1)
-	for _, j := range jobs {
+	for _, j := range fw.jobs {
 		if j != nil {
 			flo, fhi = math.Min(flo, j.target.Elev), math.Max(fhi, j.ceiling)
 		}
 	}
-	if !math.IsInf(fhi, -1) {
-		tabs, err := req.Setup.Tables(ctx, flo-60, fhi+60)
-		if err != nil {
-			return err
-		}
-		bounds := make([]*reach.RangeBound, len(tabs))
-		for k, t := range tabs {
-			if bounds[k], err = reach.NewRangeBound(t, flo-50, fhi+50); err != nil {
-				return &InputError{Field: "Aircraft", Err: err}
-			}
-		}
-		for i, j := range jobs {
-			if j == nil {
-				continue
-			}
-			if !jd.place(&res.Fields[i], j, bounds) {
-				jobs[i] = nil
-			}
-		}
-		if err := jd.run(ctx, jobs, tabs); err != nil {
-			return err
+	if math.IsInf(fhi, -1) {
+		return fw, nil
+	}
+	tabs, err := req.Setup.Tables(ctx, flo-60, fhi+60)
+	if err != nil {
+		return fw, err
+	}
+	bounds := make([]*reach.RangeBound, len(tabs))
+	for k, t := range tabs {
+		if bounds[k], err = reach.NewRangeBound(t, flo-50, fhi+50); err != nil {
+			return fw, &InputError{Field: "Aircraft", Err: err}
 		}
 	}
-	for i, job := range jobs {
-		if job != nil {
-			res.Fields[i] = job.finish(res.Fields[i])
+	for i, j := range fw.jobs {
+		if j == nil {
+			continue
 		}
+		if !jd.place(&res.Fields[i], j, bounds) {
+			fw.jobs[i] = nil
+		}
+	}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for i, j := range fw.jobs {
+		if j == nil {
+			continue
+		}
+		lo, hi = math.Min(lo, j.lo), math.Max(hi, j.ceiling)
+		for k := range req.Setup.Winds {
+			fw.work = append(fw.work, fieldPair{i, k})
+		}
+	}
+	if len(fw.work) == 0 {
+		return fw, nil
+	}
+	if tlo, thi := tabs[0].Range(); tlo > lo-60 || thi < hi+60 {
+		if tabs, err = req.Setup.Tables(ctx, lo-60, hi+60); err != nil {
+			return fw, err
+		}
+	}
+	fw.tabs = tabs
+	return fw, nil
+}
+
+// backward runs the backward search of one field in one wind (the least
+// start altitude that reaches it with the reserve, from the start or the
+// failure's sector start) and keeps the raw figure in the field's job;
+// finish reconciles it with the footprint and adds the failure's cost.
+func (jd *judge) backward(ctx context.Context, fw *fieldWork, w fieldPair) error {
+	j, k := fw.jobs[w.f], w.k
+	r, rok, err := reach.RequiredFrom(ctx, j.win, j.target, fw.tabs[k],
+		reach.RequiredOptions{Clearance: jd.req.Setup.Clearance, Ceiling: j.ceiling}, j.fromLat, j.fromLon)
+	if err != nil {
+		if !errors.Is(err, reach.ErrNoTargets) && !errors.Is(err, reach.ErrStartOffGround) {
+			return err
+		}
+		rok = false
+	}
+	j.req[k], j.ok[k] = r, rok
+	return nil
+}
+
+// finish judges every field from the footprint (reachable or not, arrival
+// height), makes each backward figure on the footprint's window agree with
+// the footprint's verdict in its wind (reconcile; the rare bisections run
+// two at a time), folds the winds into the field's figure and sorts the
+// fields: reachable ones first (most arrival height first), then by
+// required altitude (unknown last).
+func (jd *judge) finish(ctx context.Context, fw *fieldWork) error {
+	req, res, l := jd.req, jd.res, jd.l
+	reserve := req.Setup.Reserve
+	for i, fr := range res.Fields {
+		if !fw.onWin[i] {
+			continue
+		}
+		if a, ok := res.Footprint.ArrivalAtField(fr.Lat, fr.Lon, fr.ElevationM); ok {
+			res.Fields[i].ArrivalAGLM = a - fr.ElevationM
+			res.Fields[i].MarginM = res.Fields[i].ArrivalAGLM - reserve
+			res.Fields[i].Reachable = res.Fields[i].ArrivalAGLM >= reserve
+		}
+	}
+	var rec []fieldPair
+	for _, w := range fw.work {
+		if fw.jobs[w.f].win == l && res.Sectors == nil {
+			// (From a failure state the forward figure is the sectors'
+			// union, which a bisection from one point would not fly.)
+			rec = append(rec, w)
+		}
+	}
+	err := ForEach(ctx, len(rec), 2, func(t int) error {
+		j, k := fw.jobs[rec[t].f], rec[t].k
+		r, rok, err := jd.reconcile(ctx, k, j.target, fw.tabs[k], j.req[k], j.ok[k], j.ceiling)
+		j.req[k], j.ok[k] = r, rok
+		return err
+	})
+	if err != nil {
+		return err
+	}
+	for i, job := range fw.jobs {
+		if job == nil {
+			continue
+		}
+		for k := range job.req {
+			job.req[k] += job.cost
+		}
+		res.Fields[i] = job.finish(res.Fields[i])
 	}
 	sort.SliceStable(res.Fields, func(i, j int) bool {
 		a, b := res.Fields[i], res.Fields[j]
@@ -346,12 +469,14 @@ func (j *fieldJob) finish(fr FieldResult) FieldResult {
 	return fr
 }
 
-// prepare judges a field from the footprint (reachable or not, arrival
-// height) and sets up the search for the start altitude that would just
-// reach it with the reserve; job is nil when no search is needed.
-func (jd *judge) prepare(f Field) (FieldResult, *fieldJob, error) {
+// prepare sets up the search for the start altitude that would just reach
+// a field with the reserve (job is nil when no search is needed) and says
+// whether the field lies on the footprint's window (onWindow: finish then
+// judges it from the footprint). It needs the window and the sectors, not
+// the footprint.
+func (jd *judge) prepare(f Field) (fr FieldResult, job *fieldJob, onWindow bool, err error) {
 	req, res, l := jd.req, jd.res, jd.l
-	fr := FieldResult{Name: f.Name, Lat: f.Lat, Lon: f.Lon, LengthM: f.Length, Surface: f.Surface,
+	fr = FieldResult{Name: f.Name, Lat: f.Lat, Lon: f.Lon, LengthM: f.Length, Surface: f.Surface,
 		ArrivalAGLM: math.NaN(), RequiredMSL: math.NaN(), MarginM: math.NaN()}
 	s, az, _, err := geodesy.Inverse(geodesy.LatLon{Lat: req.Lat, Lon: req.Lon}, geodesy.LatLon{Lat: f.Lat, Lon: f.Lon})
 	if err == nil {
@@ -366,22 +491,16 @@ func (jd *judge) prepare(f Field) (FieldResult, *fieldJob, error) {
 	default:
 		e, ok, err := req.Ground.ElevationAt(f.Lat, f.Lon)
 		if err != nil {
-			return fr, nil, &InputError{Field: "Terrain", Err: err}
+			return fr, nil, onWindow, &InputError{Field: "Terrain", Err: err}
 		}
 		if !ok {
 			fr.Note = "off the terrain data: elevation unknown"
-			return fr, nil, nil
+			return fr, nil, onWindow, nil
 		}
 		fr.ElevationM = e
 	}
 	reserve := req.Setup.Reserve
-	if onWindow {
-		if a, ok := res.Footprint.ArrivalAtField(f.Lat, f.Lon, fr.ElevationM); ok {
-			fr.ArrivalAGLM = a - fr.ElevationM
-			fr.MarginM = fr.ArrivalAGLM - reserve
-			fr.Reachable = fr.ArrivalAGLM >= reserve
-		}
-	} else {
+	if !onWindow {
 		fr.Note = "beyond the computed window: out of reach"
 	}
 	// From a failure state the glide starts at the sector start that
@@ -397,7 +516,7 @@ func (jd *judge) prepare(f Field) (FieldResult, *fieldJob, error) {
 			if fr.Note == "" {
 				fr.Note = "inside the turn after the failure: no straight glide from the failure state reaches it"
 			}
-			return fr, nil, nil
+			return fr, nil, onWindow, nil
 		}
 		fromLat, fromLon, cost = sec.Start.Lat, sec.Start.Lon, req.Alt-sec.Start.Alt
 		if d, _, _, err := geodesy.Inverse(geodesy.LatLon{Lat: fromLat, Lon: fromLon}, geodesy.LatLon{Lat: f.Lat, Lon: f.Lon}); err == nil {
@@ -410,7 +529,7 @@ func (jd *judge) prepare(f Field) (FieldResult, *fieldJob, error) {
 	nw := len(req.Setup.Winds)
 	return fr, &fieldJob{ceiling: ceiling, onWindow: onWindow, dist: dist, fromLat: fromLat, fromLon: fromLon, cost: cost,
 		target: reach.Target{Name: f.Name, Lat: f.Lat, Lon: f.Lon, Elev: fr.ElevationM, Reserve: reserve},
-		req:    make([]float64, nw), ok: make([]bool, nw)}, nil
+		req:    make([]float64, nw), ok: make([]bool, nw)}, onWindow, nil
 }
 
 // place decides a field beyond any possible reach without a solver run,
@@ -418,20 +537,19 @@ func (jd *judge) prepare(f Field) (FieldResult, *fieldJob, error) {
 // when no search is needed (the note says why). bounds are the winds'
 // range bounds, covering the field's altitudes up to its ceiling.
 func (jd *judge) place(fr *FieldResult, j *fieldJob, bounds []*reach.RangeBound) bool {
-	// A field farther than any glide from the ceiling can cover, whatever
-	// its tracks (reach.GlideRangeBound; the longest over the winds), with
+	// A field farther than any glide from the ceiling can cover in some
+	// wind, whatever its tracks (reach.GlideRangeBound of that wind), with
 	// 5 % and 2 km to spare for the grid and the local frame, is out of
-	// reach.
+	// reach in that wind, and so out of reach: its figure must hold in
+	// every wind (fieldJob.finish), so the other winds need no run either.
 	if !math.IsNaN(j.dist) {
-		bound := 0.0
 		for _, rb := range bounds {
-			bound = math.Max(bound, rb.Bound(j.ceiling, j.target.Elev+j.target.Reserve))
-		}
-		if j.dist > 1.05*bound+2000 {
-			if fr.Note == "" {
-				fr.Note = fmt.Sprintf("not reachable from below %.0f m MSL", j.ceiling)
+			if j.dist > 1.05*rb.Bound(j.ceiling, j.target.Elev+j.target.Reserve)+2000 {
+				if fr.Note == "" {
+					fr.Note = fmt.Sprintf("not reachable from below %.0f m MSL", j.ceiling)
+				}
+				return false
 			}
-			return false
 		}
 	}
 	// The least start altitude: backward from the field over the whole
@@ -468,58 +586,6 @@ func noteOf(err error, name func(string) string) string {
 		return f + ": " + ie.Err.Error()
 	}
 	return err.Error()
-}
-
-// run runs the backward searches of every field in every wind, two at a
-// time. The speed-to-fly table of each wind is built once, over the range
-// every field needs, and shared (a table built per field, or widened when
-// a later field needed more, made a field's figure depend on the order the
-// fields were judged in).
-func (jd *judge) run(ctx context.Context, jobs []*fieldJob, tabs []*reach.Table) error {
-	req, l := jd.req, jd.l
-	lo, hi := math.Inf(1), math.Inf(-1)
-	type pair struct{ f, k int }
-	var work []pair
-	for i, j := range jobs {
-		if j == nil {
-			continue
-		}
-		lo, hi = math.Min(lo, j.lo), math.Max(hi, j.ceiling)
-		for k := range req.Setup.Winds {
-			work = append(work, pair{i, k})
-		}
-	}
-	if len(work) == 0 {
-		return nil
-	}
-	if tlo, thi := tabs[0].Range(); tlo > lo-60 || thi < hi+60 {
-		var err error
-		if tabs, err = req.Setup.Tables(ctx, lo-60, hi+60); err != nil {
-			return err
-		}
-	}
-	return ForEach(ctx, len(work), 2, func(w int) error {
-		j, k := jobs[work[w].f], work[w].k
-		tab := tabs[k]
-		r, rok, err := reach.RequiredFrom(ctx, j.win, j.target, tab,
-			reach.RequiredOptions{Clearance: req.Setup.Clearance, Ceiling: j.ceiling}, j.fromLat, j.fromLon)
-		if err != nil {
-			if !errors.Is(err, reach.ErrNoTargets) && !errors.Is(err, reach.ErrStartOffGround) {
-				return err
-			}
-			rok = false
-		}
-		if j.win == l && jd.res.Sectors == nil {
-			// (From a failure state the forward figure is the sectors'
-			// union, which a bisection from one point would not fly.)
-			r, rok, err = jd.reconcile(ctx, k, j.target, tab, r, rok, j.ceiling)
-			if err != nil {
-				return err
-			}
-		}
-		j.req[k], j.ok[k] = r+j.cost, rok
-		return nil
-	})
 }
 
 // reconcile makes the required altitude r of wind k agree with the forward

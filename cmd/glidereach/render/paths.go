@@ -227,7 +227,6 @@ func (c *canvas) hatchPolys(polys [][][]pt, col color.RGBA, gap, w float64) {
 // inside polys, e.g. a nested footprint level: its rings are added with the
 // opposite sign so the winding cancels there).
 func (c *canvas) hatchPolysMinus(polys, minus [][][]pt, col color.RGBA, gap, w float64) {
-	mask := image.NewAlpha(c.img.Bounds())
 	saved := c.img
 	// Rasterize the polygons into the mask with the same ring logic.
 	for k, set := range [][][][]pt{polys, minus} {
@@ -254,7 +253,22 @@ func (c *canvas) hatchPolysMinus(polys, minus [][][]pt, col color.RGBA, gap, w f
 			minY, maxY = math.Min(minY, p.Y), math.Max(maxY, p.Y)
 		}
 	}
-	tmp := image.NewRGBA(c.img.Bounds())
+	// The mask covers only the rings' box (paint draws the rings nothing
+	// beyond it: its rasterizer spans their box rounded out by a pixel,
+	// within the clip), in the image's own coordinates, so every pixel of
+	// it is the one a whole-image mask had; outside the box that mask was
+	// zero, and DrawMask (which clips to the mask) left the image as it
+	// was. The stripes' layer stays the whole image: painted through a
+	// smaller clip its rasterizer would start elsewhere and round
+	// differently.
+	box := image.Rect(int(math.Floor(minX))-2, int(math.Floor(minY))-2,
+		int(math.Ceil(maxX))+2, int(math.Ceil(maxY))+2).Intersect(c.clip).Intersect(saved.Bounds())
+	if box.Empty() {
+		c.rings, c.signs = c.rings[:0], c.signs[:0]
+		return
+	}
+	mask := image.NewAlpha(box)
+	tmp := image.NewRGBA(box)
 	c.img = tmp
 	c.paint(color.RGBA{255, 255, 255, 255})
 	c.img = saved
