@@ -14,7 +14,7 @@ const (
 	cellClosed          // expanded; its value is final
 	cellEnd             // has a value but may only be an end point (below the clearance)
 	cellEndDone         // an end point whose neighbours have been offered end values
-	cellVoid            // not used as a state: voids stay untouched (kept so callers can test for it)
+	cellVoid            // a void (unknown ground: an obstacle), marked when the run is set up
 )
 
 // noTop is the top of a path that is nowhere below the clearance.
@@ -91,6 +91,13 @@ func newPropagation(l *terrain.Local, d *descent, backward bool) *propagation {
 	nan := float32(math.NaN())
 	for i := range p.val {
 		p.val[i] = nan
+	}
+	// Voids are marked in the state, so the search tests one byte per
+	// neighbour before it reads anything else of the cell.
+	for i, e := range l.Elev {
+		if e != e {
+			p.state[i] = cellVoid
+		}
 	}
 	if backward {
 		p.src = make([]uint16, n)
@@ -385,22 +392,25 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 				continue
 			}
 			q := qr*p.cols + qc
-			if p.state[q] == cellClosed && !p.better(float32(sv), p.val[q]) {
+			st := p.state[q]
+			if st == cellVoid { // unknown ground: an obstacle
+				continue
+			}
+			if endOnly && st == cellEndDone {
+				continue
+			}
+			// A cell that already holds a value from s's parent would get
+			// the same value again on the straight segment: nothing to do.
+			sameParent := st != cellUntouched && p.par[q] == pi
+			if sameParent && !endOnly {
+				continue
+			}
+			if st == cellClosed && !p.better(float32(sv), p.val[q]) {
 				continue // closed with a value no lower cell can improve
 			}
-			if p.l.Elev[q] != p.l.Elev[q] { // void: an obstacle
-				continue
-			}
-			if endOnly && p.state[q] == cellEndDone {
-				continue
-			}
-			// Straight on from s's parent, if the line of sight holds. A
-			// cell that already holds a value from that parent would get
-			// the same value again: nothing to do.
-			if p.par[q] == pi && p.state[q] != cellUntouched {
-				if !endOnly {
-					continue
-				}
+			// Straight on from s's parent, if the line of sight holds.
+			if sameParent {
+				// (endOnly: the bend at s is tried below)
 			} else if v := p.segment(px, py, pv, qc, qr); p.wants(q, v, endOnly) {
 				if top, ok := p.sightFrom(pi, px, py, pv, qc, qr, q, v, srcIdx, endOnly); ok {
 					p.offer(q, pi, v, srcIdx, top, endOnly)

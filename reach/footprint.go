@@ -234,11 +234,26 @@ func (f *FootprintResult) ArrivalAtField(lat, lon, elev float64) (alt float64, o
 	return f.arrivalAtCellXY(gx, gy, float32(elev))
 }
 
+// arrivalAtCellXY is ArrivalAtField at the point (gx, gy) (cell units of
+// the window) with landing elevation elev (m MSL): the best arrival over the
+// final segments to the point from the four cells around it and from their
+// line-of-sight parents. Each segment is walked square by square (sightTo,
+// the solver's exact line-of-sight test) under the floor of an end value:
+// terrain + clearance, except over ground no higher than elev, where the
+// glide may be lower (DEVELOPERS.md "Reserve and clearance"); the path before
+// the segment's start must pass no ground above elev below the clearance
+// (top). A segment from the start itself that stays within one cell of it in
+// both axes is not walked, as the solver's seed is not: the aircraft is
+// there. A parent's line reaches the cell beside the point, not the point:
+// it lies within about a cell of a line that was walked but is not that
+// line, so it was wrong to take it unwalked (a feature one cell thick can
+// lie between the two; TestArrivalAtFieldWalksFinalSegment).
 func (f *FootprintResult) arrivalAtCellXY(gx, gy float64, elev float32) (float64, bool) {
 	p := f.prop
 	best := math.Inf(-1)
 	c0, r0 := int(math.Floor(gx)), int(math.Floor(gy))
-	seen := map[int32]bool{}
+	var seen [8]int32
+	nSeen := 0
 	for r := r0; r <= r0+1; r++ {
 		for c := c0; c <= c0+1; c++ {
 			if c < 0 || r < 0 || c >= p.cols || r >= p.rows {
@@ -248,18 +263,22 @@ func (f *FootprintResult) arrivalAtCellXY(gx, gy float64, elev float32) (float64
 			if p.state[q] == cellUntouched || p.state[q] == cellVoid {
 				continue
 			}
-			// Through the cell itself, and straight from its parent (a
-			// line close to the cell's own, so the cell's record of the
-			// points below the clearance stands for it too).
-			if p.top[q] > elev {
-				continue
-			}
-			for _, pi := range []int32{int32(q), p.par[q]} {
-				if seen[pi] {
+			// Through the cell itself, and straight from its parent.
+			for _, pi := range [2]int32{int32(q), p.par[q]} {
+				dup := false
+				for _, s := range seen[:nSeen] {
+					dup = dup || s == pi
+				}
+				if dup {
 					continue
 				}
-				seen[pi] = true
-				if pi >= 0 && p.top[pi] > elev {
+				seen[nSeen] = pi
+				nSeen++
+				top := noTop
+				if pi >= 0 {
+					top = p.top[pi]
+				}
+				if top > elev {
 					continue
 				}
 				px, py, pv := p.parentPos(pi)
@@ -269,7 +288,14 @@ func (f *FootprintResult) arrivalAtCellXY(gx, gy float64, elev float32) (float64
 				if L > 0 {
 					v = p.desc.arrive(pv, math.Atan2(dx, dy), L)
 				}
-				if v > best {
+				if !(v > best) {
+					continue
+				}
+				if pi < 0 && math.Abs(dx) <= 1 && math.Abs(dy) <= 1 {
+					best = v // beside the start: not walked (seed)
+					continue
+				}
+				if _, ok := p.sightTo(px, py, pv, gx, gy, v, elev, top, false); ok {
 					best = v
 				}
 			}

@@ -137,11 +137,20 @@ const sightEps = 1e-9
 // part of the walk (the caller checks the cell itself). allow is the ground
 // level the glide may pass below the clearance over (−Inf: nowhere).
 func (p *propagation) sight(px, py, pv float64, qc, qr int, v float64, allow, top float32) (float32, bool) {
-	dx, dy := float64(qc)-px, float64(qr)-py
+	return p.sightTo(px, py, pv, float64(qc), float64(qr), v, allow, top, true)
+}
+
+// sightTo is sight to any point (qx, qy) (cell units), not only a cell
+// centre: the end of a field's final segment (arrivalAtCellXY). With
+// skipEnd the square holding the end point is left out of the walk (a
+// cell's own square, which the solver checks itself); without it every
+// square the segment touches is walked, the end point's included.
+func (p *propagation) sightTo(px, py, pv, qx, qy float64, v float64, allow, top float32, skipEnd bool) (float32, bool) {
+	dx, dy := qx-px, qy-py
 	if dx == 0 && dy == 0 {
 		return top, true
 	}
-	w := sightWalk{p: p, pv: pv, v: v, L: math.Hypot(dx, dy) * p.cell, allow: float64(allow), top: top, dx: dx, dy: dy}
+	w := sightWalk{p: p, pv: pv, v: v, L: math.Hypot(dx, dy) * p.cell, allow: float64(allow), top: top, dx: dx, dy: dy, skipEnd: skipEnd}
 	// The direction of flight: forward toward the cell, backward toward
 	// the parent.
 	if p.backward {
@@ -150,6 +159,9 @@ func (p *propagation) sight(px, py, pv float64, qc, qr int, v float64, allow, to
 		w.d0, w.d1, w.wt = p.desc.vecIndex(dx, dy)
 	}
 	w.lamMin, w.lamMax = p.desc.lossRangeDir(w.d0, w.d1)
+	// The end point's square: the one whose centre is nearest (a point on
+	// a square boundary is in the square a cell centre rounds to).
+	qc, qr := int(math.Round(qx)), int(math.Round(qy))
 	var qa, qb int
 	if math.Abs(dx) >= math.Abs(dy) {
 		w.pa, w.pb, w.da, w.db, qa, qb = px, py, dx, dy, qc, qr
@@ -178,6 +190,7 @@ type sightWalk struct {
 	strA, strB     int // index strides of the axes
 	nA, nB         int // cells along the axes
 	swapped        bool
+	skipEnd        bool // the end point's own square is not walked (a cell's)
 	pv, v, L       float64
 	lamMin, lamMax float64
 	allow          float64
@@ -311,10 +324,13 @@ func (w *sightWalk) blockClear(li int, k, kEnd int) bool {
 	lv := &w.p.pyr.lv[li]
 	ka := k >> sh
 	bm := float32(math.Inf(-1))
-	for mb := m0 >> sh; mb <= m1>>sh; mb++ {
-		if w.swapped {
-			bm = max(bm, lv.max[ka*lv.bc+mb])
-		} else {
+	if w.swapped {
+		row := lv.max[ka*lv.bc:]
+		for mb := m0 >> sh; mb <= m1>>sh; mb++ {
+			bm = max(bm, row[mb])
+		}
+	} else {
+		for mb := m0 >> sh; mb <= m1>>sh; mb++ {
 			bm = max(bm, lv.max[mb*lv.bc+ka])
 		}
 	}
@@ -408,7 +424,7 @@ func (w *sightWalk) run() bool {
 		w.slabLB, w.slabEx = w.lowBound(w.slabTau), math.NaN()
 		m0, m1 := w.squaresOf(t0, t1)
 		for m := m0; m <= m1; m++ {
-			if k == w.qa && m == w.qb {
+			if w.skipEnd && k == w.qa && m == w.qb {
 				continue // the cell itself
 			}
 			if m < 0 || m >= w.nB {
