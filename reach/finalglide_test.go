@@ -190,6 +190,7 @@ func TestFinalGlideTwoLegsSum(t *testing.T) {
 }
 
 func TestFinalGlideMatchesFootprint(t *testing.T) {
+	skipUnderRace(t)
 	// Layered wind and ISA: the required altitude of FinalGlide (RK4 along
 	// the geodesic) equals the start altitude found by bisection on the
 	// forward footprint solver's arrival at the goal (any-angle propagation

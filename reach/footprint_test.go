@@ -170,6 +170,7 @@ func TestFootprintAroundWallEnd(t *testing.T) {
 }
 
 func TestFootprintSlopingPlane(t *testing.T) {
+	skipUnderRace(t)
 	// Ground rising to the east at slope k (terrain z = z0 + k·x): along
 	// bearing θ the glide (slope 1/E) meets the reserve level where
 	// H − d/E = z0 + k·d·sin θ + reserve, so d = (H − z0 − reserve)/(1/E + k sin θ)
@@ -197,6 +198,7 @@ func TestFootprintSlopingPlane(t *testing.T) {
 }
 
 func TestFootprintLayeredWindBounds(t *testing.T) {
+	skipUnderRace(t)
 	// Wind that turns and strengthens with height: 5 m/s from the west at
 	// the ground to 15 m/s from the north at 2000 m. Along every bearing u
 	// the footprint must reach at least the constant-track distance

@@ -33,7 +33,23 @@ func propCases(quick int) int {
 	if *fullProperties || os.Getenv("GLIDEREACH_FULL_PROPERTIES") != "" {
 		return 1000
 	}
+	if raceEnabled {
+		// Under -race a few cases exercise the concurrent code; the whole
+		// quick sample runs in the plain go test.
+		return max(2, quick/8)
+	}
 	return quick
+}
+
+// skipUnderRace skips a long sequential numerical check under the race
+// detector: it runs in full in the plain go test (the README's test
+// command), and -race is there for the code that runs goroutines, which
+// other tests exercise.
+func skipUnderRace(t *testing.T) {
+	t.Helper()
+	if raceEnabled {
+		t.Skip("long sequential check: run in full by the plain go test, not under -race")
+	}
 }
 
 // propAircraft returns a random built-in profile.

@@ -47,6 +47,7 @@ func reachable(f *FootprintResult, level float64) []bool {
 }
 
 func TestFootprintProperties(t *testing.T) {
+	skipUnderRace(t)
 	// Over 200 random terrains (monotonicity of the physics, common
 	// practice, no source): more altitude gives a superset of the
 	// footprint; more reserve or more clearance a subset; a tailwind from

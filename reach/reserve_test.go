@@ -37,6 +37,7 @@ func threeWays(t *testing.T, l *terrain.Local, start, goal geodesy.LatLon, goalE
 }
 
 func TestReserveBelowClearanceFlat(t *testing.T) {
+	skipUnderRace(t)
 	// Regression (issue 11, defect 4): with a reserve below the clearance
 	// the backward solver kept the clearance up to the field (a reserve of
 	// 0 or 50 m needed the same altitude as one of 100 m), and forward
@@ -91,6 +92,7 @@ func TestReserveBelowClearanceFlat(t *testing.T) {
 }
 
 func TestReserveBelowClearanceOverAWall(t *testing.T) {
+	skipUnderRace(t)
 	// A wall 30 m high and one cell thick across the whole window, 500 m
 	// before a field at 0 m: a glide arriving with a reserve of 0 or 50 m
 	// would cross it less than the 100 m clearance above it, over ground

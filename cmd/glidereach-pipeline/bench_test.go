@@ -6,6 +6,7 @@ import (
 	"path/filepath"
 	"testing"
 
+	"glidereach/reach/plan"
 	"glidereach/reach/tiling"
 )
 
@@ -28,7 +29,7 @@ func BenchmarkLocalTiledRun(b *testing.B) {
 			b.Fatal(err)
 		}
 		if err := writeFileAtomic(filepath.Join(dir, "least.tif"), func(w io.Writer) error {
-			return tiling.WriteCOG(w, sc.plan, res, cogDescription)
+			return tiling.WriteCOG(w, sc.plan, res, plan.TiledCOGDescription)
 		}); err != nil {
 			b.Fatal(err)
 		}

@@ -16,8 +16,9 @@
 //
 // Files: graph.go, the Beam transforms and DoFns; inputs.go, what a worker
 // needs to rebuild its inputs; request.go, the flags checked and turned into
-// a tiling.Plan; describe.go, the run described in glidereach coverage
-// --tiled's words (the FlatGeobuf's description); run.go, the launcher
+// a tiling.Plan and the run described in glidereach coverage --tiled's
+// words (reach/plan's describe.go: the FlatGeobuf's description, the COG's
+// ImageDescription, the warnings); run.go, the launcher
 // (work directory, runner, summary); outputs.go, the finish step's writers
 // (summary with the candidates' ranking, COG, FlatGeobuf); parts.go, the
 // field jobs' parts kept in the work directory for resuming; workdir.go,

@@ -7,13 +7,10 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"strings"
-
-	"github.com/paulmach/orb"
 
 	"glidereach/reach"
+	"glidereach/reach/plan"
 	"glidereach/reach/tiling"
-	"glidereach/reach/tiling/fgb"
 )
 
 // summary is the JSON summary of a run (the work directory's summary.json,
@@ -126,14 +123,14 @@ func writeOutputs(ctx context.Context, o *opened, dir string, out Outputs) error
 			return err
 		}
 		if err := writeFileAtomic(out.FGB, func(w io.Writer) error {
-			return writeFGB(w, o.plan, t, covered, uncovered, out)
+			return plan.WriteTiledFGB(w, o.plan, t, covered, uncovered, out.Zone, out.Assumptions)
 		}); err != nil {
 			return err
 		}
 	}
 	if out.COG != "" {
 		if err := writeFileAtomic(out.COG, func(w io.Writer) error {
-			return tiling.WriteCOG(w, o.plan, res, cogDescription)
+			return tiling.WriteCOG(w, o.plan, res, plan.TiledCOGDescription)
 		}); err != nil {
 			return err
 		}
@@ -142,10 +139,6 @@ func writeOutputs(ctx context.Context, o *opened, dir string, out Outputs) error
 	// (they are the largest work files, 4 B per cell a field reaches).
 	return os.RemoveAll(filepath.Join(dir, "parts"))
 }
-
-// cogDescription goes in the COG's ImageDescription: glidereach coverage
-// --tiled's, so both write the same bytes for the same plan.
-const cogDescription = "glidereach: least altitude (m MSL) from which a landing field is reached with the reserve; NaN where none below the ceiling; overviews hold the highest value of the cells they cover. " + reach.Caution
 
 // ranking lists the candidates by the area each alone adds and the greedy
 // picks, as glidereach coverage --tiled's JSON does (its candidatesJSON).
@@ -166,33 +159,9 @@ func ranking(p *tiling.Plan, res *tiling.Result, rk *tiling.Ranking) (*[]candida
 	ps := []pickSummary{}
 	for k, st := range rk.Steps {
 		ps = append(ps, pickSummary{Step: k + 1, Name: p.Candidates[st.Candidate].Name, AddsM2: math.Round(st.Added),
-			CoveredFraction: fractionDown(st.CoveredFraction)})
+			CoveredFraction: plan.FractionDown(st.CoveredFraction)})
 	}
 	return &cs, &ps
-}
-
-// writeFGB writes the covered and uncovered parts and the fields as
-// FlatGeobuf (EPSG:4326, lon/lat), with the caution on every feature:
-// glidereach coverage --tiled --fgb's layout, header and features.
-func writeFGB(w io.Writer, p *tiling.Plan, t *tiling.Totals, covered, uncovered orb.MultiPolygon, out Outputs) error {
-	h := fgb.Header{Name: "coverage", Title: "glidereach coverage of the " + out.Zone, EPSG: 4326,
-		Description: strings.Join(out.Assumptions, "; ") + ". " + reach.Caution,
-		Columns: []fgb.Column{{Name: "kind", Type: fgb.String}, {Name: "name", Type: fgb.String}, {Name: "area_m2", Type: fgb.Double},
-			{Name: "covered_fraction", Type: fgb.Double}, {Name: "exclusive_m2", Type: fgb.Double}, {Name: "caution", Type: fgb.String}}}
-	if covered == nil {
-		covered = orb.MultiPolygon{}
-	}
-	if uncovered == nil {
-		uncovered = orb.MultiPolygon{}
-	}
-	fs := []fgb.Feature{
-		{Geometry: covered, Properties: []any{"covered", nil, math.Round(t.CoveredArea), fractionDown(t.CoveredFraction), nil, reach.Caution}},
-		{Geometry: uncovered, Properties: []any{"uncovered", nil, math.Round(t.ZoneArea - t.CoveredArea), nil, nil, reach.Caution}},
-	}
-	for i, f := range p.Fields {
-		fs = append(fs, fgb.Feature{Geometry: orb.Point{f.Lon, f.Lat}, Properties: []any{"field", f.Name, math.Round(t.Covers[i]), nil, math.Round(t.Exclusive[i]), reach.Caution}})
-	}
-	return fgb.Write(w, h, fs)
 }
 
 // num is a value rounded to 0.1 for JSON, nil (null) when not finite.
@@ -202,6 +171,3 @@ func num(v float64) any {
 	}
 	return math.Round(v*10) / 10
 }
-
-// fractionDown rounds a share down to 1e-4 (never optimistic).
-func fractionDown(f float64) float64 { return math.Floor(f*1e4+1e-9) / 1e4 }

@@ -109,7 +109,8 @@ func TestLoadPartsDamagedFile(t *testing.T) {
 	if ok || !errors.Is(err, tiling.ErrCorrupt) || !strings.Contains(err.Error(), partsPath(dir, job.Index)) {
 		t.Errorf("damaged file: ok %v, err %v", ok, err)
 	}
-	if corruptLine(fmt.Errorf("bundle failed:\n\tcaused by:\n%s", err.Error())) == "" {
-		t.Errorf("the launcher does not find the damaged file in a worker's error text")
+	// As Beam passes it on: text only, inside its own lines.
+	if line := corruptLine(fmt.Errorf("bundle failed:\n\tcaused by:\n%s", err.Error())); !strings.Contains(line, tiling.CorruptMarker) || !strings.Contains(line, partsPath(dir, job.Index)) {
+		t.Errorf("the launcher does not find the damaged file in a worker's error text: %q", line)
 	}
 }

@@ -18,6 +18,7 @@ import (
 
 	"glidereach/cmd/glidereach/input"
 	"glidereach/reach"
+	"glidereach/reach/plan"
 	"glidereach/reach/tiling"
 	"glidereach/terrain"
 	"glidereach/wind"
@@ -125,7 +126,7 @@ func runPipeline(t testing.TB, sc *scene, out Outputs) string {
 func localCOG(t *testing.T, sc *scene, res *tiling.Result) []byte {
 	t.Helper()
 	var b bytes.Buffer
-	if err := tiling.WriteCOG(&b, sc.plan, res, cogDescription); err != nil {
+	if err := tiling.WriteCOG(&b, sc.plan, res, plan.TiledCOGDescription); err != nil {
 		t.Fatal(err)
 	}
 	return b.Bytes()

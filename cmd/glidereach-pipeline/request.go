@@ -110,8 +110,8 @@ func newRequest(o *options) (*request, error) {
 	if o.clearance.Given {
 		clrFrom = "--clearance"
 	}
-	r.warnings = setupWarnings(setup, resFrom, clrFrom)
-	wtext := windText(setup.Wind, o.wind, o.windAloft)
+	r.warnings = plan.SetupWarnings(setup, resFrom, clrFrom)
+	wtext := plan.WindText(setup.Wind, input.WindStyleOf(o.wind, o.windAloft))
 	if o.windError != "" {
 		d, sp, err := input.ParseWindError(o.windError)
 		if err != nil {
@@ -119,7 +119,7 @@ func newRequest(o *options) (*request, error) {
 		}
 		setup.WithWindError(d, sp)
 		if len(setup.Winds) > 1 {
-			wtext += fmt.Sprintf(" (±%.0f°, ±%.0f kt: worst of %d winds)", d, sp/input.Knot, len(setup.Winds))
+			wtext += plan.WindErrorText(d, sp, len(setup.Winds))
 		}
 	}
 
@@ -210,18 +210,32 @@ func newRequest(o *options) (*request, error) {
 	}
 	p := tp.Plan
 	r.plan = p
-	// What the outputs say about the run (glidereach coverage --tiled's
-	// words: the FlatGeobuf's title and description).
-	cols, rows := p.Lattice.Cols, p.Lattice.Rows
-	info := &tilingPlanInfo{altMode: altModeText(o.agl.Given, req.Alt), zoneText: zoneText(o.area, o.box, o.corridor, zone),
-		terrain: ground.Describe(), cellText: cellText(src == nil, p.Cell, tp.DEMCell), ceiling: p.Ceiling,
-		cols: cols, rows: rows, epsg: p.Lattice.EPSG, tiles: len(p.Tiles()), tileSide: p.TileSide()}
-	r.out.Zone = info.zoneText
-	r.out.Assumptions = tiledAssumptions(setupAssumptions(setup, wtext, r.warnings), info)
+	// What the outputs say about the run: the library's words, as
+	// glidereach coverage --tiled writes them (the FlatGeobuf's title and
+	// description).
+	r.out.Zone = zoneText(o, zone)
+	r.out.Assumptions = plan.TiledAssumptions(setup.Assumptions(wtext, r.warnings), p,
+		plan.TiledText{AltFlown: plan.AltFlownText(o.agl.Given, req.Alt), Zone: r.out.Zone, Terrain: ground.Describe(), Flat: src == nil, DEMCell: tp.DEMCell})
 	if r.in.Plan, err = p.Encode(); err != nil {
 		return nil, err
 	}
 	return r, nil
+}
+
+// zoneText names the zone as the flags gave it (paths as typed).
+func zoneText(o *options, z input.Zone) string {
+	switch {
+	case o.area != "":
+		return plan.AreaText(o.area)
+	case o.box != "":
+		b := z.Bounds()
+		return plan.BoxText(b.Min[0], b.Min[1], b.Max[0], b.Max[1])
+	}
+	w := 0.0
+	if c, ok := z.(*input.Corridor); ok {
+		w = c.Width
+	}
+	return plan.CorridorText(w, o.corridor[:strings.LastIndex(o.corridor, ",")])
 }
 
 // flagFor names the flag of a reach/plan input error.

@@ -48,7 +48,7 @@ func run(ctx context.Context, o *options, stdout, stderr io.Writer) error {
 			// A work file damaged outside the run (the run writes each
 			// whole, by rename): the user's input, as glidereach coverage
 			// --tiled says it. Beam hands a worker's error over as text, so
-			// the library's sentinel is found by its words.
+			// the library's sentinel is found by its marker text.
 			return input.Usagef("--work-dir", "%s (remove that file, or the whole work directory, to compute it again)", line)
 		}
 		return fmt.Errorf("pipeline on %s: %w", runner, err)
@@ -153,14 +153,16 @@ func claimWorkDir(dir string, plan []byte) ([]tiling.TileID, error) {
 }
 
 // corruptLine returns the line of a pipeline error that reports a damaged
-// work file (tiling.ErrCorrupt, by its text: a worker's error reaches the
-// launcher as text), or "".
+// work file, or "": the error itself when it wraps tiling.ErrCorrupt, else
+// the line holding tiling.CorruptMarker (a worker's error reaches the
+// launcher as Beam's text; the library tests that the marker is in the
+// text of every error wrapping ErrCorrupt).
 func corruptLine(err error) string {
 	if errors.Is(err, tiling.ErrCorrupt) {
 		return err.Error()
 	}
 	for _, l := range strings.Split(err.Error(), "\n") {
-		if strings.Contains(l, tiling.ErrCorrupt.Error()) {
+		if strings.Contains(l, tiling.CorruptMarker) {
 			return strings.TrimSpace(l)
 		}
 	}

@@ -188,20 +188,20 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 		if err != nil {
 			return err
 		}
-		run.zone, run.zoneText = reg, "area "+o.area
+		run.zone, run.zoneText = reg, plan.AreaText(o.area)
 	} else if o.box != "" {
 		reg, err := input.ParseBox(o.box)
 		if err != nil {
 			return err
 		}
 		b := reg.Bounds()
-		run.zone, run.zoneText = reg, fmt.Sprintf("box %.5f,%.5f to %.5f,%.5f (south-west to north-east corner, lat,lon)", b.Min[1], b.Min[0], b.Max[1], b.Max[0])
+		run.zone, run.zoneText = reg, plan.BoxText(b.Min[0], b.Min[1], b.Max[0], b.Max[1])
 	} else {
 		cor, err := input.ParseCorridor(o.corridor)
 		if err != nil {
 			return err
 		}
-		run.zone, run.zoneText = cor, fmt.Sprintf("corridor %.1f km wide along %s", cor.Width/1000, o.corridor[:strings.LastIndex(o.corridor, ",")])
+		run.zone, run.zoneText = cor, plan.CorridorText(cor.Width, o.corridor[:strings.LastIndex(o.corridor, ",")])
 	}
 	for _, w := range farWarnings(strings.Fields(run.zoneText)[0], run.zone.Bounds(), fields, "--fields", src) {
 		fmt.Fprintln(stderr, "glidereach: warning:", w)

@@ -18,7 +18,6 @@ import (
 	"glidereach/reach"
 	"glidereach/reach/plan"
 	"glidereach/reach/tiling"
-	"glidereach/reach/tiling/fgb"
 )
 
 // tiledFlags are coverage's flags of the tiled path.
@@ -169,13 +168,9 @@ func computeTiled(ctx context.Context, run *coverageRun, o *coverageOptions, fie
 	p := tp.Plan
 	run.notes = p.Notes
 	tr := &tiledRun{coverageRun: run, demCell: tp.DEMCell}
-	if o.agl.Given {
-		run.altMode = fmt.Sprintf("%.0f m (%.0f ft) above the terrain at each cell (--agl)", o.agl.Value, o.agl.Value/0.3048)
-	} else {
-		run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) everywhere (--alt)", o.alt.Value, o.alt.Value/0.3048)
-		if o.ind.altInd.Given {
-			run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) true everywhere (--alt-indicated %.0f m, corrected for the temperature)", o.alt.Value, o.alt.Value/0.3048, o.ind.altInd.Value)
-		}
+	run.altMode = plan.AltFlownText(o.agl.Given, req.Alt)
+	if !o.agl.Given && o.ind.altInd.Given {
+		run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) true everywhere (--alt-indicated %.0f m, corrected for the temperature)", o.alt.Value, o.alt.Value/0.3048, o.ind.altInd.Value)
 	}
 	routeFields := func(fs []input.Field, ts []reach.Target) []routeField {
 		rf := make([]routeField, len(fs))
@@ -245,7 +240,7 @@ func computeTiled(ctx context.Context, run *coverageRun, o *coverageOptions, fie
 	// temporary work directory goes.
 	if t.cog != "" {
 		if err := writeFileAtomic(t.cog, func(f *os.File) error {
-			return tiling.WriteCOG(f, p, res, "glidereach: least altitude (m MSL) from which a landing field is reached with the reserve; NaN where none below the ceiling; overviews hold the highest value of the cells they cover. "+reach.Caution)
+			return tiling.WriteCOG(f, p, res, plan.TiledCOGDescription)
 		}); err != nil {
 			return nil, err
 		}
@@ -277,28 +272,16 @@ func zoneFlag(o *coverageOptions) string {
 	return "--area"
 }
 
+// assumptions are the tiled run's: the setup's, then the library's words
+// for the tiled run (plan.TiledAssumptions), which glidereach-pipeline
+// writes too.
 func (tr *tiledRun) assumptions() []string {
-	a := tr.setup.assumptions()
-	p := tr.plan
-	l := p.Lattice
-	a = append(a, "altitude flown: "+tr.altMode,
-		"a cell is covered when some field is reached from its centre with the reserve; shares and areas count cells of the DEM's lattice, each with its area on the WGS84 ellipsoid",
-		fmt.Sprintf("least altitudes computed up to %.0f m MSL (raster empty above)", p.Ceiling),
-		fmt.Sprintf("tiled: output lattice %d × %d cells (EPSG:%d), %d tiles of %d cells; each field solved on its own window at %s; a cell's value is the highest of the four solver cells around it (conservative)", l.Cols, l.Rows, l.EPSG, len(p.Tiles()), p.TileSide(), tr.cellText()),
-		"analysed: "+tr.zoneText,
-		"terrain: "+tr.ground.Describe())
-	return a
+	return plan.TiledAssumptions(tr.setup.assumptions(), tr.plan, tr.tiledText())
 }
 
-// cellText says what the solver cell is against the DEM's.
-func (tr *tiledRun) cellText() string {
-	switch {
-	case tr.ground.Src == nil:
-		return fmt.Sprintf("%.1f m cells on flat ground (--cell sets them)", tr.plan.Cell)
-	case tr.plan.Cell > 1.001*tr.demCell:
-		return fmt.Sprintf("%.1f m as asked with --cell, coarser than the DEM's %.1f m", tr.plan.Cell, tr.demCell)
-	}
-	return fmt.Sprintf("the DEM's resolution, %.1f m", tr.plan.Cell)
+// tiledText is what the assumptions say about the run beyond the setup.
+func (tr *tiledRun) tiledText() plan.TiledText {
+	return plan.TiledText{AltFlown: tr.altMode, Zone: tr.zoneText, Terrain: tr.ground.Describe(), Flat: tr.ground.Src == nil, DEMCell: tr.demCell}
 }
 
 func writeTiledText(w io.Writer, tr *tiledRun) {
@@ -417,25 +400,7 @@ func tiledGeoJSON(tr *tiledRun) ([]byte, error) {
 }
 
 // writeTiledFGB writes the covered and uncovered parts and the fields as
-// FlatGeobuf (EPSG:4326, lon/lat), with the caution on every feature.
+// FlatGeobuf (plan.WriteTiledFGB, as glidereach-pipeline --fgb does).
 func writeTiledFGB(w io.Writer, tr *tiledRun) error {
-	t := tr.res.Totals
-	h := fgb.Header{Name: "coverage", Title: "glidereach coverage of the " + tr.zoneText, EPSG: 4326,
-		Description: strings.Join(tr.assumptions(), "; ") + ". " + reach.Caution,
-		Columns: []fgb.Column{{Name: "kind", Type: fgb.String}, {Name: "name", Type: fgb.String}, {Name: "area_m2", Type: fgb.Double},
-			{Name: "covered_fraction", Type: fgb.Double}, {Name: "exclusive_m2", Type: fgb.Double}, {Name: "caution", Type: fgb.String}}}
-	fs := []fgb.Feature{
-		{Geometry: tr.covered, Properties: []any{"covered", nil, math.Round(t.CoveredArea), fractionDown(t.CoveredFraction), nil, reach.Caution}},
-		{Geometry: tr.uncovered, Properties: []any{"uncovered", nil, math.Round(t.ZoneArea - t.CoveredArea), nil, nil, reach.Caution}},
-	}
-	if fs[0].Geometry == nil {
-		fs[0].Geometry = orb.MultiPolygon{}
-	}
-	if fs[1].Geometry == nil {
-		fs[1].Geometry = orb.MultiPolygon{}
-	}
-	for i, f := range tr.fields {
-		fs = append(fs, fgb.Feature{Geometry: orb.Point{f.Lon, f.Lat}, Properties: []any{"field", f.Name, math.Round(t.Covers[i]), nil, math.Round(t.Exclusive[i]), reach.Caution}})
-	}
-	return fgb.Write(w, h, fs)
+	return plan.WriteTiledFGB(w, tr.plan, tr.res.Totals, tr.covered, tr.uncovered, tr.zoneText, tr.assumptions())
 }

@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strings"
 
 	"github.com/spf13/pflag"
@@ -25,21 +24,11 @@ const (
 	defaultClearance = plan.DefaultClearance
 )
 
-// Settings below these draw a warning on stderr and in every output's
-// assumptions (common practice, no source): a reserve under about 150 m
-// (500 ft) leaves no room for a circuit or even a straight-in approach
-// with a turn; an en-route clearance under about 50 m leaves nothing for
-// sinking air, turbulence near a ridge or a DEM that misses trees and
-// masts; a lowest speed under 1.3 × the stall speed (the usual approach
-// speed margin, the same factor as reach.StallMargin) leaves no margin for
-// gusts, turns or a heavier aircraft. A reserve or clearance of 0 is
+// Settings below plan.WarnReserve, plan.WarnClearance and plan.WarnMinSpeed
+// (common practice, no source; their reasons are there) draw a warning on
+// stderr and in every output's assumptions. A reserve or clearance of 0 is
 // allowed (a planner's "touch the ground" ring) but warned about loudly;
 // negative values and a lowest speed at or below the stall are refused.
-const (
-	warnReserve   = 150.0
-	warnClearance = 50.0
-	warnMinSpeed  = 1.3
-)
 
 // glideFlags are the flags every glide computation takes: the aircraft and
 // its conditions, the air, and the margins.
@@ -132,7 +121,7 @@ type glideSetup struct {
 	// "--wind-aloft (coded forecast)" or "none given: calm", and the
 	// --wind-error set when there is one.
 	WindSource string
-	// Warnings are the settings below common practice (see warnReserve);
+	// Warnings are the settings below common practice (plan.SetupWarnings);
 	// each is printed on stderr and listed first in the assumptions.
 	Warnings []string
 	// Notes are further assumptions of the run (how the start altitude
@@ -214,7 +203,7 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 		}
 	}
 	s.checkSettings(resFrom, clrFrom)
-	s.WindText = windTextStyled(w, windStyleOf(g.wind, g.windAloft))
+	s.WindText = plan.WindText(w, input.WindStyleOf(g.wind, g.windAloft))
 	switch {
 	case strings.TrimSpace(g.windAloft) != "":
 		s.WindSource = "--wind-aloft " + strings.TrimSpace(g.windAloft) + " (coded forecast)"
@@ -231,7 +220,7 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 		}
 		s.WithWindError(d, sp)
 		if len(s.Winds) > 1 {
-			s.WindText += fmt.Sprintf(" (±%.0f°, ±%.0f kt: worst of %d winds)", d, sp/input.Knot, len(s.Winds))
+			s.WindText += plan.WindErrorText(d, sp, len(s.Winds))
 			s.WindSource += fmt.Sprintf("; the figures hold for the worst of %d winds (--wind-error %s), the arrows show the forecast", len(s.Winds), g.windError)
 		}
 	}
@@ -239,69 +228,16 @@ func (g *glideFlags) resolve() (*glideSetup, error) {
 }
 
 // checkSettings records a warning for every setting below common practice
-// (see warnReserve); resFrom and clrFrom say where the reserve and the
-// clearance came from.
+// (plan.SetupWarnings, the words glidereach-pipeline writes too); resFrom
+// and clrFrom say where the reserve and the clearance came from.
 func (s *glideSetup) checkSettings(resFrom, clrFrom string) {
-	add := func(format string, args ...any) { s.Warnings = append(s.Warnings, fmt.Sprintf(format, args...)) }
-	switch {
-	case s.Reserve == 0:
-		add("RESERVE 0 m (from %s): figures and rings reach the field at ground level with NO height for a circuit, an approach or a misjudgement; plan with a reserve of at least %.0f m (common practice, no source)", resFrom, warnReserve)
-	case s.Reserve < warnReserve:
-		add("reserve %.0f m (from %s) is below the %.0f m (about 500 ft) that common practice keeps for a circuit (no source)", s.Reserve, resFrom, warnReserve)
-	}
-	switch {
-	case s.Clearance == 0:
-		add("CLEARANCE 0 m (from %s): glide lines may graze the terrain model with NO margin for sinking air, turbulence, trees, masts or DEM error; keep at least %.0f m (common practice, no source)", clrFrom, warnClearance)
-	case s.Clearance < warnClearance:
-		add("clearance %.0f m (from %s) is below the %.0f m above terrain that common practice keeps en route (no source)", s.Clearance, clrFrom, warnClearance)
-	}
-	if w := minSpeedWarning(s.Aircraft); w != "" {
-		add("%s", w)
-	}
+	s.Warnings = append(s.Warnings, plan.SetupWarnings(&s.Setup, resFrom, clrFrom)...)
 }
 
-// minSpeedWarning is the warning for a profile min_speed under
-// warnMinSpeed × the stall speed, or "".
-func minSpeedWarning(ac *reach.Aircraft) string {
-	if ac.MinIAS > 0 && ac.MinIAS < warnMinSpeed*ac.StallIAS {
-		return fmt.Sprintf("the profile's min_speed %.0f kt is only %.2f × its stall speed %.0f kt, below the %.1f × stall that common practice keeps as a margin (no source); the speed to fly may be held that close to the stall",
-			ac.MinIAS/input.Knot, ac.MinIAS/ac.StallIAS, ac.StallIAS/input.Knot, warnMinSpeed)
-	}
-	return ""
-}
-
-// assumptions lists the inputs a result rests on, for every output.
+// assumptions lists the inputs a result rests on, for every output: the
+// library's (plan.Setup.Assumptions), then the start state and the notes.
 func (s *glideSetup) assumptions() []string {
-	a := make([]string, 0, len(s.Warnings)+8)
-	for _, w := range s.Warnings {
-		a = append(a, "WARNING: "+w)
-	}
-	a = append(a,
-		"aircraft: "+s.Aircraft.Name,
-		"wind: "+s.WindText,
-		fmt.Sprintf("reserve %.0f m above the field on arrival, clearance %.0f m above terrain en route", s.Reserve, s.Clearance),
-	)
-	if s.Cond.Mass > 0 {
-		a = append(a, fmt.Sprintf("mass %.0f kg", s.Cond.Mass))
-	}
-	if s.Cond.Bugs > 0 {
-		a = append(a, fmt.Sprintf("contamination: sink +%.0f %%", s.Cond.Bugs*100))
-	}
-	if s.Cond.AirSink > 0 {
-		a = append(a, fmt.Sprintf("sinking air allowance %.1f m/s", s.Cond.AirSink))
-	} else {
-		a = append(a, "no sinking-air allowance: the air is taken as neither rising nor sinking apart from the wind (add one with --air-sink)")
-	}
-	if s.Cond.MacCready > 0 {
-		a = append(a, fmt.Sprintf("MacCready setting %.1f m/s", s.Cond.MacCready))
-	}
-	if s.Atm.ISADev != 0 {
-		a = append(a, fmt.Sprintf("ISA %+.0f K", s.Atm.ISADev))
-	}
-	a = append(a, "no thrust, speed to fly for best range in the wind at each altitude, stall margin applied")
-	if len(s.Winds) > 1 {
-		a = append(a, fmt.Sprintf("wind uncertainty: every figure holds in each of the %d winds of the set; a point counts as covered only when the SAME field is in reach in all of them", len(s.Winds)))
-	}
+	a := s.Setup.Assumptions(s.WindText, s.Warnings)
 	if s.State != "" {
 		a = append(a, s.State)
 	}
@@ -529,79 +465,20 @@ func (f *indicatedFlags) convert(alt *input.Quantity) (string, error) {
 		ind, f.stationElev.Value, tk-273.15), nil
 }
 
-// windText describes a wind profile for people: each layer as
-// "ALTm DIR°/SPEED kt", direction the wind blows from.
-func windText(p *wind.Profile) string { return windTextStyled(p, windStyle{}) }
-
-// windStyle says how the user gave the wind, so that it is echoed in the
-// user's terms: altitudes in feet as well when they were typed in feet (a
-// coded forecast always is), and a calm layer of a coded forecast (group
-// 9900) as "light and variable", which is what the forecast said.
-type windStyle struct {
-	feet, forecast bool
-}
-
-// windStyleOf finds the style of the --wind / --wind-aloft values: feet when
-// the forecast is given, or when the --wind text (or the file it names)
-// uses ft.
-func windStyleOf(windSpec, aloftSpec string) windStyle {
-	if strings.TrimSpace(aloftSpec) != "" {
-		return windStyle{feet: true, forecast: true}
-	}
-	text := windSpec
-	if st, err := os.Stat(strings.TrimSpace(windSpec)); err == nil && st.Mode().IsRegular() && st.Size() < 1<<20 {
-		if b, err := os.ReadFile(strings.TrimSpace(windSpec)); err == nil {
-			text = string(b)
-		}
-	}
-	return windStyle{feet: strings.Contains(strings.ToLower(text), "ft")}
-}
-
-// windTextStyled is windText in the given style: "3000 ft (914 m)
-// 270°/14 kt" for feet, "light and variable" for a forecast's calm layer.
-func windTextStyled(p *wind.Profile, st windStyle) string {
-	if p == nil || p.IsCalm() {
-		if st.forecast && p != nil && len(p.Layers()) > 0 {
-			return "light and variable at every level"
-		}
-		return "calm"
-	}
-	ls := p.Layers()
-	if len(ls) == 1 {
-		return fmt.Sprintf("%03.0f°/%.0f kt", ls[0].Dir, ls[0].Speed/input.Knot)
-	}
-	parts := make([]string, 0, len(ls))
-	for _, l := range ls {
-		alt := fmt.Sprintf("%.0f m", l.Alt)
-		if st.feet {
-			alt = fmt.Sprintf("%.0f ft (%.0f m)", l.Alt/0.3048, l.Alt)
-		}
-		dirSpeed := fmt.Sprintf("%03.0f°/%.0f kt", l.Dir, l.Speed/input.Knot)
-		if l.Speed == 0 {
-			dirSpeed = "calm"
-			if st.forecast {
-				dirSpeed = "light and variable"
-			}
-		}
-		s := alt + " " + dirSpeed
-		if l.HasTemp {
-			s += fmt.Sprintf(" %+.0f °C", l.Temp-273.15)
-		}
-		parts = append(parts, s)
-	}
-	return strings.Join(parts, ", ")
-}
+// windText describes a wind profile for people (plan.WindText): each
+// layer as "ALTm DIR°/SPEED kt", direction the wind blows from.
+func windText(p *wind.Profile) string { return plan.WindText(p, plan.WindStyle{}) }
 
 // windMarks are the map's wind arrows for the setup's wind (the forecast,
 // not its --wind-error perturbations), one per layer, labelled as the text
 // outputs label them, and where the wind came from. A calm profile gives
 // one calm mark, so the map still says the air was taken as calm.
 func windMarks(s *glideSetup) ([]render.WindMark, string) {
-	var st windStyle
+	var st plan.WindStyle
 	if strings.HasPrefix(s.WindSource, "--wind-aloft") {
-		st = windStyle{feet: true, forecast: true}
+		st = plan.WindStyle{Feet: true, Forecast: true}
 	} else if strings.Contains(strings.ToLower(s.WindSource), "ft") {
-		st.feet = true
+		st.Feet = true
 	}
 	if s.Wind == nil || s.Wind.IsCalm() {
 		return []render.WindMark{{Text: "calm at every altitude"}}, s.WindSource
@@ -611,11 +488,11 @@ func windMarks(s *glideSetup) ([]render.WindMark, string) {
 		text := fmt.Sprintf("%03.0f°/%.0f kt", l.Dir, l.Speed/input.Knot)
 		if len(s.Wind.Layers()) > 1 {
 			alt := fmt.Sprintf("%.0f m", l.Alt)
-			if st.feet {
+			if st.Feet {
 				alt = fmt.Sprintf("%.0f ft", l.Alt/0.3048)
 			}
 			switch {
-			case l.Speed == 0 && st.forecast:
+			case l.Speed == 0 && st.Forecast:
 				text = alt + " light and variable"
 			case l.Speed == 0:
 				text = alt + " calm"

@@ -14,6 +14,7 @@ import (
 
 	"glidereach/cmd/glidereach/input"
 	"glidereach/reach"
+	"glidereach/reach/plan"
 	"glidereach/wind"
 )
 
@@ -78,7 +79,7 @@ Built-in profiles: ` + strings.Join(reach.BuiltinNames(), ", ") + ` (generic, in
 			if err != nil {
 				return err
 			}
-			if w := minSpeedWarning(ac); w != "" {
+			if w := plan.MinSpeedWarning(ac); w != "" {
 				fmt.Fprintln(cmd.ErrOrStderr(), "glidereach: WARNING:", w)
 			}
 			if out != "" {
@@ -106,11 +107,11 @@ Built-in profiles: ` + strings.Join(reach.BuiltinNames(), ", ") + ` (generic, in
 				if !o.hasTrack {
 					return input.Usagef("--track", "is required with a wind (the track to hold, degrees true, e.g. --track 090)")
 				}
-				o.wind, o.windText = w, windTextStyled(w, windStyleOf(windSpec, aloftSpec))
+				o.wind, o.windText = w, plan.WindText(w, input.WindStyleOf(windSpec, aloftSpec))
 			}
 			if w.HasTemperatures() {
 				o.wind = w
-				o.windText = windTextStyled(w, windStyleOf(windSpec, aloftSpec))
+				o.windText = plan.WindText(w, input.WindStyleOf(windSpec, aloftSpec))
 			}
 			o.atm = reach.Atmosphere{ISADev: o.isaDev}
 			if w.HasTemperatures() {

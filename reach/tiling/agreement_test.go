@@ -35,6 +35,9 @@ func quantiles(ds []float64) [5]float64 {
 // needed. Tolerance 0.01 m below, for the cell-centre map of the tiled
 // read (exact every 16 cells, linear between: millimetres).
 func TestTiledEqualsSingleGridOnItsLattice(t *testing.T) {
+	if raceEnabled {
+		t.Skip("long sequential comparison: run in full by the plain go test, not under -race")
+	}
 	sc := newScene(t, 500)
 	const alt = 1000.0
 	ctx := context.Background()

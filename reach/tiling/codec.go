@@ -44,9 +44,18 @@ const (
 	kindTilePart   = 'p'
 )
 
+// CorruptMarker is ErrCorrupt's text, so it is in the text of every error
+// wrapping ErrCorrupt (%w keeps the wrapped error's text; the tests check
+// every such error of this package). A process that receives errors only
+// as text (a Beam worker's error reaches glidereach-pipeline's launcher as
+// a string) recognises a damaged work file by it; rewording ErrCorrupt
+// changes this constant, not the matchers.
+const CorruptMarker = "tiling: not a valid work file"
+
 // ErrCorrupt is wrapped by every decoding error of a work file or edge
-// value that is truncated, damaged or of another kind or version.
-var ErrCorrupt = errors.New("tiling: not a valid work file")
+// value that is truncated, damaged or of another kind or version; its text
+// is CorruptMarker.
+var ErrCorrupt = errors.New(CorruptMarker)
 
 type encoder struct{ b []byte }
 

@@ -139,8 +139,16 @@ func TestCodecLayout(t *testing.T) {
 	}
 }
 
+// isCorrupt reports whether err wraps ErrCorrupt and says so in its text
+// (CorruptMarker), which is how glidereach-pipeline recognises a damaged
+// work file in a worker's error.
+func isCorrupt(err error) bool {
+	return errors.Is(err, ErrCorrupt) && strings.Contains(err.Error(), CorruptMarker)
+}
+
 // Every truncation and every single-byte change of a valid encoding is
-// refused with ErrCorrupt (the checksum catches what the lengths do not).
+// refused with ErrCorrupt (the checksum catches what the lengths do not),
+// CorruptMarker in the error's text.
 func TestCodecRejectsDamage(t *testing.T) {
 	pb, _ := fullPlan().Encode()
 	tb, _ := fullTileResult().Encode()
@@ -155,7 +163,7 @@ func TestCodecRejectsDamage(t *testing.T) {
 		{"tile part", pp, func(b []byte) error { _, err := DecodeTilePart(b); return err }},
 	} {
 		for n := range len(c.data) {
-			if err := c.decode(c.data[:n]); !errors.Is(err, ErrCorrupt) {
+			if err := c.decode(c.data[:n]); !isCorrupt(err) {
 				t.Fatalf("%s truncated to %d of %d bytes: %v", c.name, n, len(c.data), err)
 			}
 		}
@@ -163,22 +171,22 @@ func TestCodecRejectsDamage(t *testing.T) {
 		for i := 0; i < len(c.data); i += step {
 			d := bytes.Clone(c.data)
 			d[i] ^= 0x40
-			if err := c.decode(d); !errors.Is(err, ErrCorrupt) {
+			if err := c.decode(d); !isCorrupt(err) {
 				t.Fatalf("%s with byte %d changed: %v", c.name, i, err)
 			}
 		}
-		if err := c.decode(append(bytes.Clone(c.data), 0)); !errors.Is(err, ErrCorrupt) {
+		if err := c.decode(append(bytes.Clone(c.data), 0)); !isCorrupt(err) {
 			t.Fatalf("%s with a byte appended: %v", c.name, err)
 		}
 	}
 	// Kinds are not interchangeable, and another version is refused.
-	if _, err := DecodeTileResult(pb); err == nil || !strings.Contains(err.Error(), "kind") {
+	if _, err := DecodeTileResult(pb); !isCorrupt(err) || !strings.Contains(err.Error(), "kind") {
 		t.Errorf("a plan decoded as a tile result: %v", err)
 	}
 	old := bytes.Clone(pb)
 	old[5] = 9
 	binary.LittleEndian.PutUint32(old[len(old)-4:], crc32.ChecksumIEEE(old[:len(old)-4]))
-	if _, err := DecodePlan(old); err == nil || !strings.Contains(err.Error(), "version 9") {
+	if _, err := DecodePlan(old); !isCorrupt(err) || !strings.Contains(err.Error(), "version 9") {
 		t.Errorf("version 9 accepted or not named: %v", err)
 	}
 	// A gob-encoded plan (the earlier work-file format) is refused.
@@ -186,8 +194,50 @@ func TestCodecRejectsDamage(t *testing.T) {
 	if err := gob.NewEncoder(&g).Encode(fullPlan()); err != nil {
 		t.Fatal(err)
 	}
-	if _, err := DecodePlan(g.Bytes()); !errors.Is(err, ErrCorrupt) {
+	if _, err := DecodePlan(g.Bytes()); !isCorrupt(err) {
 		t.Errorf("a gob plan: %v", err)
+	}
+}
+
+// The checks after decoding (a tile result's or part's shape, a plan's
+// Check) give ErrCorrupt errors with CorruptMarker in their text too, and
+// the marker is ErrCorrupt's whole text.
+func TestCorruptMarkerInEveryError(t *testing.T) {
+	if ErrCorrupt.Error() != CorruptMarker {
+		t.Fatalf("ErrCorrupt says %q, CorruptMarker is %q", ErrCorrupt, CorruptMarker)
+	}
+	bad := func(f func(*TileResult)) []byte {
+		tr := fullTileResult()
+		f(tr)
+		b, _ := tr.Encode()
+		return b
+	}
+	badPlan := fullPlan()
+	badPlan.Lattice.Cols = -5
+	pb, _ := badPlan.Encode()
+	pp, _ := (&TilePart{Tile: TileID{1, 2}, W: 3, H: 1, Least: []float32{1, 2}}).Encode()
+	for _, c := range []struct {
+		name string
+		err  func() error
+	}{
+		{"tile result too large", func() error {
+			_, err := DecodeTileResult(bad(func(tr *TileResult) { tr.Cols = 1 << 15 }))
+			return err
+		}},
+		{"tile result arrays", func() error {
+			_, err := DecodeTileResult(bad(func(tr *TileResult) { tr.Best = tr.Best[1:] }))
+			return err
+		}},
+		{"tile result gain cell", func() error {
+			_, err := DecodeTileResult(bad(func(tr *TileResult) { tr.Gains[0].Cells[2] = 360 }))
+			return err
+		}},
+		{"tile part values", func() error { _, err := DecodeTilePart(pp); return err }},
+		{"plan failing Check", func() error { _, err := DecodePlan(pb); return err }},
+	} {
+		if err := c.err(); !isCorrupt(err) {
+			t.Errorf("%s: %v", c.name, err)
+		}
 	}
 }
 
@@ -209,7 +259,7 @@ func TestDamagedTileFileNamed(t *testing.T) {
 		t.Fatal(err)
 	}
 	_, err = Run(context.Background(), sc.src, p, RunOptions{WorkDir: dir, Workers: 1})
-	if err == nil || !strings.Contains(err.Error(), path) || !errors.Is(err, ErrCorrupt) {
+	if err == nil || !strings.Contains(err.Error(), path) || !isCorrupt(err) {
 		t.Errorf("resume over a truncated tile: %v", err)
 	}
 }

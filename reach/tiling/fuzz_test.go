@@ -36,7 +36,11 @@ func fuzzSeeds(f *testing.F) {
 func FuzzDecodeTileResult(f *testing.F) {
 	fuzzSeeds(f)
 	f.Fuzz(func(t *testing.T, data []byte) {
-		if tr, err := DecodeTileResult(data); err == nil {
+		tr, err := DecodeTileResult(data)
+		if err != nil && !isCorrupt(err) {
+			t.Errorf("not an ErrCorrupt with CorruptMarker: %v", err)
+		}
+		if err == nil {
 			// Consistent: every array indexable by the tile's cells.
 			n := tr.Cols * tr.Rows
 			_ = tr.Least[n-1]
@@ -54,7 +58,11 @@ func FuzzDecodeTileResult(f *testing.F) {
 func FuzzDecodePlan(f *testing.F) {
 	fuzzSeeds(f)
 	f.Fuzz(func(t *testing.T, data []byte) {
-		if p, err := DecodePlan(data); err == nil {
+		p, err := DecodePlan(data)
+		if err != nil && !isCorrupt(err) {
+			t.Errorf("not an ErrCorrupt with CorruptMarker: %v", err)
+		}
+		if err == nil {
 			if tc, tr := p.TilesAcross(); tc*tr > maxTiles {
 				t.Errorf("a plan of %d×%d tiles passed Check", tc, tr)
 			} else if tc*tr <= 1<<16 { // a list of millions of tiles is slow, not wrong
@@ -70,7 +78,11 @@ func FuzzDecodePlan(f *testing.F) {
 func FuzzDecodeTilePart(f *testing.F) {
 	fuzzSeeds(f)
 	f.Fuzz(func(t *testing.T, data []byte) {
-		if tp, err := DecodeTilePart(data); err == nil {
+		tp, err := DecodeTilePart(data)
+		if err != nil && !isCorrupt(err) {
+			t.Errorf("not an ErrCorrupt with CorruptMarker: %v", err)
+		}
+		if err == nil {
 			if tp.W*tp.H > 0 {
 				_ = tp.Least[tp.W*tp.H-1]
 			}

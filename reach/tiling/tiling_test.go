@@ -170,6 +170,9 @@ func TestFlatDiscs(t *testing.T) {
 }
 
 func TestTiledMatchesSingleGrid(t *testing.T) {
+	if raceEnabled {
+		t.Skip("long sequential comparison: run in full by the plain go test, not under -race")
+	}
 	sc := newScene(t, 600)
 	const alt = 1000.0
 	p := sc.plan(t, 64, alt)

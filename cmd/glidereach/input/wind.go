@@ -8,8 +8,25 @@ import (
 	"path/filepath"
 	"strings"
 
+	"glidereach/reach/plan"
 	"glidereach/wind"
 )
+
+// WindStyleOf finds how the --wind / --wind-aloft values gave the wind, for
+// plan.WindText: feet and forecast when the coded forecast is given, feet
+// when the --wind text (or the file it names, if under 1 MiB) uses ft.
+func WindStyleOf(windSpec, aloftSpec string) plan.WindStyle {
+	if strings.TrimSpace(aloftSpec) != "" {
+		return plan.WindStyle{Feet: true, Forecast: true}
+	}
+	text := windSpec
+	if st, err := os.Stat(strings.TrimSpace(windSpec)); err == nil && st.Mode().IsRegular() && st.Size() < 1<<20 {
+		if b, err := os.ReadFile(strings.TrimSpace(windSpec)); err == nil {
+			text = string(b)
+		}
+	}
+	return plan.WindStyle{Feet: strings.Contains(strings.ToLower(text), "ft")}
+}
 
 // Wind specifications on the command line (--wind):
 //
