@@ -126,15 +126,7 @@ func approachAssumptions(run *approachRun) []string {
 		"terrain: " + run.ground.Describe(),
 		"gate heights are to be reached on arrival at the gate, before the turn there; legs are straight between gates (the rounded path flown is shorter)",
 	}
-	if s.Cond.Mass > 0 {
-		a = append(a, fmt.Sprintf("mass %.0f kg", s.Cond.Mass))
-	}
-	if s.Cond.Bugs > 0 {
-		a = append(a, fmt.Sprintf("contamination: sink +%.0f %%", s.Cond.Bugs*100))
-	}
-	if s.Cond.AirSink > 0 {
-		a = append(a, fmt.Sprintf("sinking air allowance %.1f m/s", s.Cond.AirSink))
-	}
+	a = append(a, s.ConditionAssumptions()...)
 	if !math.IsNaN(run.variation) {
 		a = append(a, fmt.Sprintf("magnetic variation %.1f° %s (from --variation): magnetic = true %+.1f°", math.Abs(run.variation), map[bool]string{true: "E", false: "W"}[run.variation >= 0], -run.variation))
 	}

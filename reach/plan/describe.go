@@ -124,6 +124,23 @@ func WindErrorText(dirDeg, speed float64, n int) string {
 	return fmt.Sprintf(" (±%.0f°, ±%.0f kt: worst of %d winds)", dirDeg, speed/knot, n)
 }
 
+// ConditionAssumptions lists the flying conditions of s that differ from
+// the profile's: the mass, the contamination (bugs) and the sinking-air
+// allowance, one line each, in that order.
+func (s *Setup) ConditionAssumptions() []string {
+	var a []string
+	if s.Cond.Mass > 0 {
+		a = append(a, fmt.Sprintf("mass %.0f kg", s.Cond.Mass))
+	}
+	if s.Cond.Bugs > 0 {
+		a = append(a, fmt.Sprintf("contamination: sink +%.0f %%", s.Cond.Bugs*100))
+	}
+	if s.Cond.AirSink > 0 {
+		a = append(a, fmt.Sprintf("sinking air allowance %.1f m/s", s.Cond.AirSink))
+	}
+	return a
+}
+
 // Assumptions lists the inputs a result of s rests on, for every output:
 // the warnings (each "WARNING: …"), the aircraft, the wind (windText), the
 // margins, the conditions, the atmosphere, the flying rule and, with more
@@ -138,15 +155,8 @@ func (s *Setup) Assumptions(windText string, warnings []string) []string {
 		"wind: "+windText,
 		fmt.Sprintf("reserve %.0f m above the field on arrival, clearance %.0f m above terrain en route", s.Reserve, s.Clearance),
 	)
-	if s.Cond.Mass > 0 {
-		a = append(a, fmt.Sprintf("mass %.0f kg", s.Cond.Mass))
-	}
-	if s.Cond.Bugs > 0 {
-		a = append(a, fmt.Sprintf("contamination: sink +%.0f %%", s.Cond.Bugs*100))
-	}
-	if s.Cond.AirSink > 0 {
-		a = append(a, fmt.Sprintf("sinking air allowance %.1f m/s", s.Cond.AirSink))
-	} else {
+	a = append(a, s.ConditionAssumptions()...)
+	if s.Cond.AirSink == 0 {
 		a = append(a, "no sinking-air allowance: the air is taken as neither rising nor sinking apart from the wind (add one with --air-sink)")
 	}
 	if s.Cond.MacCready > 0 {
