@@ -41,18 +41,8 @@ func TestTiledEqualsSingleGridOnItsLattice(t *testing.T) {
 	sc := newScene(t, 500)
 	const alt = 1000.0
 	ctx := context.Background()
-	p := sc.plan(t, 64, alt)
-	res, err := Run(ctx, sc.src, p, RunOptions{WorkDir: t.TempDir(), Workers: 2})
-	if err != nil {
-		t.Fatal(err)
-	}
-	tiled := mosaic(t, res)
-	p1 := sc.plan(t, 1024, alt)
-	res1, err := Run(ctx, sc.src, p1, RunOptions{WorkDir: t.TempDir(), Workers: 2})
-	if err != nil {
-		t.Fatal(err)
-	}
-	one := mosaic(t, res1)
+	p, _, tiled := sc.runTiled(t, 64, alt)
+	_, _, one := sc.runTiled(t, 1024, alt)
 
 	l := p.Lattice
 	g := l.Grid()

@@ -88,6 +88,19 @@ func tileBytes(t *testing.T, r *Result) [][]byte {
 }
 
 // mosaic returns the merged least altitudes of a run on the whole lattice.
+// runTiled plans the scene at altitude alt with tiles of the given side,
+// runs it on two workers in a fresh work directory and returns the plan,
+// the result and its least-altitude mosaic.
+func (sc *scene) runTiled(t *testing.T, tile int, alt float64) (*Plan, *Result, []float32) {
+	t.Helper()
+	p := sc.plan(t, tile, alt)
+	res, err := Run(context.Background(), sc.src, p, RunOptions{WorkDir: t.TempDir(), Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return p, res, mosaic(t, res)
+}
+
 func mosaic(t *testing.T, r *Result) []float32 {
 	t.Helper()
 	l := r.Plan.Lattice
@@ -175,22 +188,11 @@ func TestTiledMatchesSingleGrid(t *testing.T) {
 	}
 	sc := newScene(t, 600)
 	const alt = 1000.0
-	p := sc.plan(t, 64, alt)
-	ctx := context.Background()
-	res, err := Run(ctx, sc.src, p, RunOptions{WorkDir: t.TempDir(), Workers: 2})
-	if err != nil {
-		t.Fatal(err)
-	}
-	tiled := mosaic(t, res)
+	p, res, tiled := sc.runTiled(t, 64, alt)
 
 	// No seam: one tile holding the whole lattice gives the same cells, bit
 	// for bit (a cell's value depends on no tile boundary).
-	p1 := sc.plan(t, 1024, alt)
-	res1, err := Run(ctx, sc.src, p1, RunOptions{WorkDir: t.TempDir(), Workers: 2})
-	if err != nil {
-		t.Fatal(err)
-	}
-	one := mosaic(t, res1)
+	p1, res1, one := sc.runTiled(t, 1024, alt)
 	for i := range one {
 		if math.Float32bits(one[i]) != math.Float32bits(tiled[i]) {
 			t.Fatalf("cell %d: %v with 64-cell tiles, %v in one tile", i, tiled[i], one[i])
@@ -248,7 +250,7 @@ func TestTiledMatchesSingleGrid(t *testing.T) {
 		t.Fatal(err)
 	}
 	ground := terrain.ResampleHigh(dem, fr, -half, -half, cell, nn, nn)
-	cov, err := reach.Coverage(ctx, ground, sc.fields, sc.table, reach.CoverageOptions{Alt: alt, Clearance: 100, Margin: 300})
+	cov, err := reach.Coverage(context.Background(), ground, sc.fields, sc.table, reach.CoverageOptions{Alt: alt, Clearance: 100, Margin: 300})
 	if err != nil {
 		t.Fatal(err)
 	}
