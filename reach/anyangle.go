@@ -34,7 +34,7 @@ type source struct {
 // line-of-sight parent, so paths are straight from their last bend point
 // rather than bound to eight grid directions. Whether the straight segment
 // from a parent to a new cell keeps the terrain floor is decided exactly by
-// walking every cell square the segment crosses (sight, reach/sightline.go),
+// walking every cell square the segment crosses (sightDir, reach/sightline.go),
 // passing whole blocks of cells at once where the glide clears their highest
 // ground (groundPyramid); a path bends where the line of sight fails.
 //
@@ -359,7 +359,7 @@ var nbrDR = [8]int{0, 1, 1, 1, 0, -1, -1, -1}
 //
 // Each neighbour q of an expanded cell s is tried on the straight segment
 // from s's parent (Theta*); when that value would improve q and the line
-// of sight holds (sight, the exact walk), q takes that parent; when the
+// of sight holds (sightDir, the exact walk), q takes that parent; when the
 // line of sight fails, the path bends at s. When the straight value would
 // not improve q, the bend is not tried (as in Theta*, which tries the bend
 // only where the line of sight fails): a missed improvement only makes the

@@ -130,18 +130,14 @@ func newGroundPyramid(l *terrain.Local) *groundPyramid {
 // within this (cell units) of a boundary counts on both sides.
 const sightEps = 1e-9
 
-// sight walks the segment from (px, py) (cell units; value pv) to cell
+// sightDir walks the segment from (px, py) (cell units; value pv) to cell
 // (qc, qr) (value v) and reports whether the glide on it keeps the floor
 // (see the comment at the top of this file), with the highest ground passed
 // below the clearance, starting from top. The cell's own square is not
 // part of the walk (the caller checks the cell itself). allow is the ground
-// level the glide may pass below the clearance over (−Inf: nowhere).
-func (p *propagation) sight(px, py, pv float64, qc, qr int, v float64, allow, top float32) (float32, bool) {
-	return p.sightDir(px, py, pv, qc, qr, v, allow, top, p.flightDirOf(float64(qc)-px, float64(qr)-py))
-}
-
-// sightDir is sight with the segment's direction of flight fd already
-// worked out (segmentDir, the solver's hot path): the same walk.
+// level the glide may pass below the clearance over (−Inf: nowhere). fd is
+// the segment's direction of flight, worked out once with its value
+// (segmentDir, the solver's hot path).
 func (p *propagation) sightDir(px, py, pv float64, qc, qr int, v float64, allow, top float32, fd flightDir) (float32, bool) {
 	return p.walkLine(px, py, pv, float64(qc), float64(qr), qc, qr, v, allow, top, true, fd)
 }

@@ -119,19 +119,21 @@ func benchmarkSight(b *testing.B, alt float64) {
 	type target struct {
 		c, r int
 		v    float64
+		fd   flightDir
 	}
 	ts := make([]target, n)
 	for i := range ts {
 		a := 2 * math.Pi * float64(i) / n
 		c, r := 250+int(math.Round(rad*math.Sin(a))), 250+int(math.Round(rad*math.Cos(a)))
-		ts[i] = target{c, r, p.segment(250, 250, alt, c, r)}
+		v, fd := p.segmentDir(250, 250, alt, c, r)
+		ts[i] = target{c, r, v, fd}
 	}
 	b.ReportAllocs()
 	b.ResetTimer()
 	clear := 0
 	for i := 0; i < b.N; i++ {
 		t := ts[i%n]
-		if _, ok := p.sight(250, 250, alt, t.c, t.r, t.v, noTop, noTop); ok {
+		if _, ok := p.sightDir(250, 250, alt, t.c, t.r, t.v, noTop, noTop, t.fd); ok {
 			clear++
 		}
 	}
