@@ -12,6 +12,7 @@ import (
 	"runtime/pprof"
 	"sort"
 	"strings"
+	"sync"
 	"text/tabwriter"
 	"time"
 
@@ -143,8 +144,11 @@ var demoStepCost = map[int]float64{20: 6.5, 50: 2.5, 40: 1.4, 30: 0.4, 35: 0.35}
 // (demoStepCost; they are independent: each writes its own files and its
 // summary into its own buffer) and prints each summary, with the files it
 // wrote, in the steps' order as soon as it and the ones before it are
-// done, so the output is the same whatever the timing. A failure or an interrupt stops the steps not yet started; the
-// files already written stay.
+// done, so the output is the same whatever the timing. A failure or an
+// interrupt stops the steps not yet started and cancels the running ones;
+// runDemoSteps returns only when every step it started has ended, so no
+// step writes into the folder after the command has returned. The files
+// already written stay.
 func runDemoSteps(ctx context.Context, d *demoRun, steps []demoStep) error {
 	type outcome struct {
 		run  *demoRun
@@ -156,7 +160,11 @@ func runDemoSteps(ctx context.Context, d *demoRun, steps []demoStep) error {
 		done[i] = make(chan outcome, 1)
 	}
 	ctx, cancel := context.WithCancel(ctx)
-	defer cancel()
+	var running sync.WaitGroup // the dispatcher and every step it started
+	defer func() {
+		cancel()
+		running.Wait()
+	}()
 	sem := make(chan struct{}, 2)
 	// Longest first (by demoStepCost), so the two lanes end together.
 	start := make([]int, len(steps))
@@ -166,7 +174,9 @@ func runDemoSteps(ctx context.Context, d *demoRun, steps []demoStep) error {
 	sort.SliceStable(start, func(a, b int) bool {
 		return demoStepCost[steps[start[a]].order] > demoStepCost[steps[start[b]].order]
 	})
+	running.Add(1)
 	go func() {
+		defer running.Done()
 		for n, i := range start {
 			s := steps[i]
 			select {
@@ -177,7 +187,9 @@ func runDemoSteps(ctx context.Context, d *demoRun, steps []demoStep) error {
 				}
 				return
 			}
+			running.Add(1)
 			go func(i int, s demoStep) {
+				defer running.Done()
 				defer func() { <-sem }()
 				sd := &demoRun{out: &bytes.Buffer{}, dir: d.dir}
 				t0 := time.Now()

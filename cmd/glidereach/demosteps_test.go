@@ -88,3 +88,49 @@ func TestDemoInterrupted(t *testing.T) {
 		}
 	}
 }
+
+// When one step fails, runDemoSteps returns only after the step running
+// beside it has ended, so no step writes into the folder once the command
+// has returned (a test's TempDir cleanup raced such a write).
+func TestDemoStepsFailureWaitsForRunningSteps(t *testing.T) {
+	boom := errors.New("boom")
+	var ended atomic.Bool
+	steps := []demoStep{
+		{order: 1, name: "fails", run: func(ctx context.Context, d *demoRun) error { return boom }},
+		// Ignores its context on purpose: a step deep in a solver may not
+		// look at it for a while.
+		{order: 2, name: "slow", run: func(ctx context.Context, d *demoRun) error {
+			time.Sleep(200 * time.Millisecond)
+			ended.Store(true)
+			return nil
+		}},
+	}
+	err := runDemoSteps(context.Background(), &demoRun{out: &bytes.Buffer{}, dir: t.TempDir()}, steps)
+	if !errors.Is(err, boom) {
+		t.Fatalf("error %v, want boom", err)
+	}
+	if !ended.Load() {
+		t.Fatal("runDemoSteps returned while a started step was still running")
+	}
+}
+
+// The same when it is the summary that cannot be written (standard output
+// full): the running step ends before the error comes back.
+func TestDemoStepsOutputFailureWaitsForRunningSteps(t *testing.T) {
+	var ended atomic.Bool
+	steps := []demoStep{
+		{order: 1, name: "quick", run: func(ctx context.Context, d *demoRun) error { fmt.Fprintln(d.out, "out"); return nil }},
+		{order: 2, name: "slow", run: func(ctx context.Context, d *demoRun) error {
+			time.Sleep(200 * time.Millisecond)
+			ended.Store(true)
+			return nil
+		}},
+	}
+	err := runDemoSteps(context.Background(), &demoRun{out: fullWriter{}, dir: t.TempDir()}, steps)
+	if err == nil {
+		t.Fatal("no error from a full standard output")
+	}
+	if !ended.Load() {
+		t.Fatal("runDemoSteps returned while a started step was still running")
+	}
+}
