@@ -20,6 +20,28 @@ const (
 // noTop is the top of a path that is nowhere below the clearance.
 var noTop = float32(math.Inf(-1))
 
+// cellRec is one cell's state in the propagation, packed so that the
+// tests on a neighbour read one record (16 bytes, four to a cache line):
+//
+//	val   forward: best arrival altitude; backward: least required
+//	      altitude (m MSL); NaN none
+//	par   ≥ 0 parent cell; −1−k virtual source k
+//	top   (forward) the highest terrain (m MSL) under the points of the
+//	      path to the cell where the glide is below the clearance (the cell
+//	      itself included), −Inf when there is none: the path is a valid
+//	      glide to a landing point only when that point's ground is at
+//	      least as high (the terrain floor, DEVELOPERS.md "Reserve and
+//	      clearance")
+//	src   (backward) which source the value leads to
+//	st    the cell's state (cellUntouched …)
+type cellRec struct {
+	val float32
+	par int32
+	top float32
+	src uint16
+	st  uint8
+}
+
 // source is a virtual point where a propagation starts: the start of a
 // forward footprint or a landing field of a backward one. X, Y are in cell
 // units of the raster (cell (c, r) has its centre at (c, r)).
@@ -51,17 +73,10 @@ type propagation struct {
 	cols, rows int
 	cell       float64
 
-	val []float32 // forward: best arrival altitude; backward: least required altitude (m MSL); NaN none
+	// c holds each cell's search state in one 16-byte record (cellRec), so
+	// one neighbour's test touches one cache line.
+	c   []cellRec
 	pyr *groundPyramid
-	// top (forward) is the highest terrain (m MSL) under the points of the
-	// path to each cell where the glide is below the clearance (the cell
-	// itself included), −Inf when there is none: the path is a valid glide
-	// to a landing point only when that point's ground is at least as high
-	// (the terrain floor, DEVELOPERS.md "Reserve and clearance").
-	top   []float32
-	par   []int32 // ≥ 0 parent cell; −1−k virtual source k
-	state []uint8
-	src   []uint16 // backward: which source the value leads to
 	// fieldElev (backward) is the elevation (m MSL) of the field of each
 	// source Index, for the terrain floor.
 	fieldElev []float32
@@ -84,30 +99,33 @@ type propagation struct {
 func newPropagation(l *terrain.Local, d *descent, backward bool) *propagation {
 	n := l.Cols * l.Rows
 	p := &propagation{l: l, desc: d, backward: backward, cols: l.Cols, rows: l.Rows, cell: l.Cell}
-	p.val = make([]float32, n)
+	p.c = make([]cellRec, n)
 	p.pyr = newGroundPyramid(l)
-	p.par = make([]int32, n)
-	p.state = make([]uint8, n)
 	nan := float32(math.NaN())
-	for i := range p.val {
-		p.val[i] = nan
+	top := noTop
+	if backward {
+		top = 0
 	}
 	// Voids are marked in the state, so the search tests one byte per
 	// neighbour before it reads anything else of the cell.
 	for i, e := range l.Elev {
+		st := cellUntouched
 		if e != e {
-			p.state[i] = cellVoid
+			st = cellVoid
 		}
-	}
-	if backward {
-		p.src = make([]uint16, n)
-	} else {
-		p.top = make([]float32, n)
-		for i := range p.top {
-			p.top[i] = noTop
-		}
+		p.c[i] = cellRec{val: nan, top: top, st: st}
 	}
 	return p
+}
+
+// values returns the cells' values (NaN where none) as a raster of their
+// own: FootprintResult.Arrival.
+func (p *propagation) values() []float32 {
+	v := make([]float32, len(p.c))
+	for i := range p.c {
+		v[i] = p.c[i].val
+	}
+	return v
 }
 
 // initQueue sizes the bucket queue for values between lo and hi (m) and
@@ -146,7 +164,7 @@ func (p *propagation) parentPos(pi int32) (x, y float64, v float64) {
 	}
 	c := int(pi) % p.cols
 	r := int(pi) / p.cols
-	return float64(c), float64(r), float64(p.val[pi])
+	return float64(c), float64(r), float64(p.c[pi].val)
 }
 
 // segment returns the value at cell (qc, qr) reached on a straight segment
@@ -193,12 +211,13 @@ func (p *propagation) wants(q int, v float64, endOnly bool) bool {
 		return false
 	}
 	if p.backward {
-		return v <= p.ceiling && p.better(float32(v), p.val[q])
+		return v <= p.ceiling && p.better(float32(v), p.c[q].val)
 	}
-	if !p.better(float32(v), p.val[q]) {
+	cq := &p.c[q]
+	if !p.better(float32(v), cq.val) {
 		return false
 	}
-	if st := p.state[q]; st == cellOpen || st == cellClosed {
+	if st := cq.st; st == cellOpen || st == cellClosed {
 		// An open or closed cell only takes a value above the clearance
 		// on a clear line (an end value never replaces it).
 		return !endOnly && p.l.Elev[q]+p.clearance-float32(v) <= 0
@@ -224,7 +243,7 @@ func (p *propagation) sightFrom(pi int32, px, py, pv float64, qc, qr, q int, v f
 	}
 	top := noTop
 	if pi >= 0 {
-		top = p.top[pi]
+		top = p.c[pi].top
 	}
 	return p.sightDir(px, py, pv, qc, qr, v, t, top, fd)
 }
@@ -254,7 +273,8 @@ func (p *propagation) offer(q int, pi int32, v float64, srcIdx uint16, top float
 			return
 		}
 	}
-	if !p.better(vf, p.val[q]) {
+	cq := &p.c[q]
+	if !p.better(vf, cq.val) {
 		return
 	}
 	own := t + p.clearance - vf
@@ -274,26 +294,26 @@ func (p *propagation) offer(q int, pi int32, v float64, srcIdx uint16, top float
 			// that keeps it is the clearance height itself (here t is above
 			// the field).
 			vf = t + p.clearance
-			if !p.better(vf, p.val[q]) {
+			if !p.better(vf, cq.val) {
 				return
 			}
 			if float64(vf) > p.ceiling {
 				return
 			}
 		}
-		p.val[q], p.par[q] = vf, pi
-		p.src[q] = srcIdx
-		p.state[q] = cellOpen
-		p.queue.push(int32(q), p.key(p.val[q]))
+		cq.val, cq.par = vf, pi
+		cq.src = srcIdx
+		cq.st = cellOpen
+		p.queue.push(int32(q), p.key(vf))
 		return
 	}
-	if endOnly && (p.state[q] == cellOpen || p.state[q] == cellClosed) {
+	if endOnly && (cq.st == cellOpen || cq.st == cellClosed) {
 		return
 	}
 	if own <= 0 && !endOnly && top == noTop {
-		p.val[q], p.par[q] = vf, pi
-		p.top[q] = noTop
-		p.state[q] = cellOpen
+		cq.val, cq.par = vf, pi
+		cq.top = noTop
+		cq.st = cellOpen
 		p.queue.push(int32(q), p.key(vf))
 		return
 	}
@@ -307,17 +327,17 @@ func (p *propagation) offer(q int, pi int32, v float64, srcIdx uint16, top float
 	if top > t {
 		return
 	}
-	if p.state[q] == cellOpen || p.state[q] == cellClosed {
+	if cq.st == cellOpen || cq.st == cellClosed {
 		// An open or closed cell that gets a better value stays above the
 		// clearance (better means higher); nothing to do here.
 		return
 	}
-	p.val[q], p.par[q] = vf, pi
+	cq.val, cq.par = vf, pi
 	if own > 0 {
 		top = max(top, t)
 	}
-	p.top[q] = top
-	p.state[q] = cellEnd
+	cq.top = top
+	cq.st = cellEnd
 	if vf >= t+p.endLevel {
 		p.queue.push(int32(q), p.key(vf))
 	}
@@ -372,18 +392,19 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			break
 		}
 		s := int(si32)
-		if p.queue.bucket(p.key(p.val[s])) != b {
+		cs := &p.c[s]
+		if p.queue.bucket(p.key(cs.val)) != b {
 			continue // stale entry
 		}
 		endOnly := false
-		switch p.state[s] {
+		switch cs.st {
 		case cellOpen:
-			p.state[s] = cellClosed
+			cs.st = cellClosed
 		case cellEnd:
 			if p.backward {
 				continue
 			}
-			p.state[s] = cellEndDone
+			cs.st = cellEndDone
 			endOnly = true
 		default:
 			continue // stale entry
@@ -401,12 +422,12 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			}
 		}
 		sc, sr := s%p.cols, s/p.cols
-		sv := float64(p.val[s])
-		pi := p.par[s]
+		sv := float64(cs.val)
+		pi := cs.par
 		px, py, pv := p.parentPos(pi)
 		var srcIdx uint16
 		if p.backward {
-			srcIdx = p.src[s]
+			srcIdx = cs.src
 		}
 		for k := 0; k < 8; k++ {
 			qc, qr := sc+nbrDC[k], sr+nbrDR[k]
@@ -414,7 +435,8 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 				continue
 			}
 			q := qr*p.cols + qc
-			st := p.state[q]
+			cq := &p.c[q]
+			st := cq.st
 			if st == cellVoid { // unknown ground: an obstacle
 				continue
 			}
@@ -423,11 +445,11 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			}
 			// A cell that already holds a value from s's parent would get
 			// the same value again on the straight segment: nothing to do.
-			sameParent := st != cellUntouched && p.par[q] == pi
+			sameParent := st != cellUntouched && cq.par == pi
 			if sameParent && !endOnly {
 				continue
 			}
-			if st == cellClosed && !p.better(float32(sv), p.val[q]) {
+			if st == cellClosed && !p.better(float32(sv), cq.val) {
 				continue // closed with a value no lower cell can improve
 			}
 			// Straight on from s's parent, if the line of sight holds.

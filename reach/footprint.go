@@ -46,8 +46,6 @@ type FootprintResult struct {
 	// Ground, NaN where no glide reaches. Values below the ground are kept
 	// next to the reachable region so contours are placed between cells.
 	Arrival []float32
-	reach   []uint8 // cell state
-	par     []int32
 	prop    *propagation
 	Reserve float64
 	// StartX, StartY are the start in cell units of Ground.
@@ -179,13 +177,13 @@ func footprintOn(ctx context.Context, ground *terrain.Local, start Start, sx, sy
 	p.seed(0)
 	var prog func(int)
 	if opts.Progress != nil {
-		n := float64(len(p.val))
+		n := float64(len(p.c))
 		prog = func(c int) { opts.Progress(math.Min(1, float64(c)/n)) }
 	}
 	if err := p.run(ctx, prog); err != nil {
 		return nil, err
 	}
-	return &FootprintResult{Ground: ground, Start: start, Arrival: p.val, reach: p.state, par: p.par, prop: p, Reserve: opts.Reserve, StartX: sx, StartY: sy}, nil
+	return &FootprintResult{Ground: ground, Start: start, Arrival: p.values(), prop: p, Reserve: opts.Reserve, StartX: sx, StartY: sy}, nil
 }
 
 // AGL returns the arrival height above the ground at cell (c, r), NaN where
@@ -260,11 +258,11 @@ func (f *FootprintResult) arrivalAtCellXY(gx, gy float64, elev float32) (float64
 				continue
 			}
 			q := r*p.cols + c
-			if p.state[q] == cellUntouched || p.state[q] == cellVoid {
+			if st := p.c[q].st; st == cellUntouched || st == cellVoid {
 				continue
 			}
 			// Through the cell itself, and straight from its parent.
-			for _, pi := range [2]int32{int32(q), p.par[q]} {
+			for _, pi := range [2]int32{int32(q), p.c[q].par} {
 				dup := false
 				for _, s := range seen[:nSeen] {
 					dup = dup || s == pi
@@ -276,7 +274,7 @@ func (f *FootprintResult) arrivalAtCellXY(gx, gy float64, elev float32) (float64
 				nSeen++
 				top := noTop
 				if pi >= 0 {
-					top = p.top[pi]
+					top = p.c[pi].top
 				}
 				if top > elev {
 					continue
@@ -320,18 +318,18 @@ func (f *FootprintResult) Path(c, r int) ([][2]float64, bool) {
 	}
 	p := f.prop
 	q := r*p.cols + c
-	if p.state[q] == cellUntouched || p.state[q] == cellVoid {
+	if st := p.c[q].st; st == cellUntouched || st == cellVoid {
 		return nil, false
 	}
 	var pts [][2]float64
 	g := f.Ground
 	x, y := g.XY(c, r)
 	pts = append(pts, [2]float64{x, y})
-	pi := p.par[q]
-	for n := 0; pi >= 0 && n < len(p.par); n++ {
+	pi := p.c[q].par
+	for n := 0; pi >= 0 && n < len(p.c); n++ {
 		x, y := g.XY(int(pi)%p.cols, int(pi)/p.cols)
 		pts = append(pts, [2]float64{x, y})
-		pi = p.par[pi]
+		pi = p.c[pi].par
 	}
 	pts = append(pts, [2]float64{g.X0 + f.StartX*g.Cell, g.Y0 + f.StartY*g.Cell})
 	for i, j := 0, len(pts)-1; i < j; i, j = i+1, j-1 {
