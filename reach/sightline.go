@@ -43,7 +43,13 @@ import (
 // the segment spends in it counts (forward its far end, backward its near
 // end). Only where that bound fails is the altitude worked out exactly, by
 // the descent table over the partial segment (the value the solver would
-// give that point). So the test errs only toward refusing a line.
+// give that point). So the test errs only toward refusing a line. Between
+// exact altitudes the last one worked out anchors a tighter pair of bounds
+// (anchorLow, anchorHigh: from there the glide loses between λmin and λmax
+// per metre), which decide most squares where the glide runs low, either
+// way, without the table; a square they cannot decide is worked out
+// exactly, so the walk decides as it would without them
+// (TestSightAnchoredBoundSameDecisions).
 //
 // A hierarchical pyramid of the ground (groundPyramid: blocks of 8×8, 64×64,
 // 512×512 and 4096×4096 cells holding the highest ground of the block and of the cells
@@ -244,6 +250,93 @@ type sightWalk struct {
 	// the current slab's lowest end (fraction) and the lower bound and
 	// exact altitude there (slabEx NaN until needed)
 	slabTau, slabLB, slabEx float64
+	// the last exact altitude worked out (ancH at fraction ancTau; ancOK
+	// once there is one): the anchor of anchorLow
+	ancTau, ancH float64
+	ancOK        bool
+}
+
+// sightAnchored switches the walk's anchored bound (anchorLow) on; tests
+// turn it off to check that the walk decides the same without it.
+var sightAnchored = true
+
+// anchorEps (m) is taken off anchorLow before it is trusted: far above the
+// rounding of the descent table's arithmetic (about 1e-9 m at the
+// altitudes and distances of a table), so a test the anchored bound passes
+// is one the exact altitude passes too.
+const anchorEps = 1e-6
+
+// anchorLow is a lower bound of the glide's altitude at fraction tau from
+// the last exact altitude worked out on the segment (ancH at ancTau), −Inf
+// when there is none: the glide loses between λmin and λmax per metre of
+// ground (lossRangeDir), so forward
+//
+//	h(τ) ≥ ancH − (τ − ancTau)·L·λmax   for τ ≥ ancTau,
+//	h(τ) ≥ ancH + (ancTau − τ)·L·λmin   for τ < ancTau,
+//
+// and backward (the altitude needed grows with τ) the mirror. lowBound is
+// the same bound anchored at the segment's two ends; anchored at the last
+// exact point it is tight over the next few squares, so a walk that goes
+// square by square where the glide runs low works out the exact altitude
+// only where the ground comes within about a cell's descent of the floor.
+func (w *sightWalk) anchorLow(tau float64) float64 {
+	if !w.ancOK {
+		return math.Inf(-1)
+	}
+	if w.backward {
+		if tau >= w.ancTau {
+			return w.ancH + (tau-w.ancTau)*w.L*w.lamMin
+		}
+		if !w.finMax {
+			return math.Inf(-1)
+		}
+		return w.ancH - (w.ancTau-tau)*w.L*w.lamMax
+	}
+	if tau < w.ancTau {
+		return w.ancH + (w.ancTau-tau)*w.L*w.lamMin
+	}
+	if !w.finMax {
+		return math.Inf(-1)
+	}
+	return w.ancH - (tau-w.ancTau)*w.L*w.lamMax
+}
+
+// anchorHigh is the upper bound mirroring anchorLow (+Inf when there is
+// no anchor): forward h(τ) ≤ ancH − (τ − ancTau)·L·λmin for τ ≥ ancTau and
+// ≤ ancH + (ancTau − τ)·L·λmax before it; backward the mirror.
+func (w *sightWalk) anchorHigh(tau float64) float64 {
+	if !w.ancOK {
+		return math.Inf(1)
+	}
+	if w.backward {
+		if tau < w.ancTau {
+			return w.ancH - (w.ancTau-tau)*w.L*w.lamMin
+		}
+		if !w.finMax {
+			return math.Inf(1)
+		}
+		return w.ancH + (tau-w.ancTau)*w.L*w.lamMax
+	}
+	if tau >= w.ancTau {
+		return w.ancH - (tau-w.ancTau)*w.L*w.lamMin
+	}
+	if !w.finMax {
+		return math.Inf(1)
+	}
+	return w.ancH + (w.ancTau-tau)*w.L*w.lamMax
+}
+
+// anchorBlocks reports whether ground tf (m MSL) is within the clearance c
+// of the glide at fraction tau on anchorHigh alone (the exact altitude
+// there would not clear it either).
+func (w *sightWalk) anchorBlocks(tf, c, tau float64) bool {
+	return sightAnchored && tf > w.anchorHigh(tau)-c+anchorEps
+}
+
+// anchorClears reports whether ground tf (m MSL) is cleared by the
+// clearance c at fraction tau on anchorLow alone.
+func (w *sightWalk) anchorClears(tf, c, tau float64) bool {
+	return sightAnchored && tf <= w.anchorLow(tau)-c-anchorEps
 }
 
 // lowBound is the lower bound of the glide's altitude at fraction tau.
@@ -267,15 +360,25 @@ func (w *sightWalk) lowBound(tau float64) float64 {
 // exact is the glide's altitude at fraction tau from the descent table:
 // forward the arrival after tau·L from pv, backward the altitude needed
 // tau·L before reaching the parent with pv.
+//
+// A finite altitude at tau > 0 becomes the anchor of anchorLow (at tau 0
+// the table's value may differ from pv: a glide from above the table's
+// top starts at its top).
 func (w *sightWalk) exact(tau float64) float64 {
 	if tau <= 0 {
 		return w.pv
 	}
 	d := w.p.desc
+	var h float64
 	if w.backward {
-		return d.departBlend(w.d0, w.d1, w.wt, w.pv, tau*w.L)
+		h = d.departBlend(w.d0, w.d1, w.wt, w.pv, tau*w.L)
+	} else {
+		h = d.arriveBlend(w.d0, w.d1, w.wt, w.pv, tau*w.L)
 	}
-	return d.arriveBlend(w.d0, w.d1, w.wt, w.pv, tau*w.L)
+	if !math.IsInf(h, 0) && h == h {
+		w.ancTau, w.ancH, w.ancOK = tau, h, true
+	}
+	return h
 }
 
 // tauIn and tauOut bound the fraction of the segment over slab k (the
@@ -315,17 +418,25 @@ func (w *sightWalk) ground(t float32, t0, t1 float64) bool {
 	if tf <= w.slabLB-c {
 		return true
 	}
+	tl := t0 // backward the glide is lowest toward the parent
+	if !w.backward {
+		tl = t1
+	}
 	if w.slabEx != w.slabEx {
+		if w.anchorClears(tf, c, tl) {
+			return true
+		}
+		if w.anchorBlocks(tf, c, tl) {
+			// Nor does the exact altitude at the slab's lowest end (no
+			// higher than at tl) clear it.
+			return w.flag(t)
+		}
 		w.slabEx = w.exact(w.slabTau)
 	}
 	if tf <= w.slabEx-c {
 		return true
 	}
-	tl := t0 // backward the glide is lowest toward the parent
-	if !w.backward {
-		tl = t1
-	}
-	if tl != w.slabTau && tf <= w.exact(tl)-c {
+	if tl != w.slabTau && !w.anchorBlocks(tf, c, tl) && (w.anchorClears(tf, c, tl) || tf <= w.exact(tl)-c) {
 		return true
 	}
 	return w.flag(t)
@@ -338,7 +449,7 @@ func (w *sightWalk) groundAt(t float32, tau float64) bool {
 	}
 	c := float64(w.p.clearance)
 	tf := float64(t)
-	if tf <= w.lowBound(tau)-c || tf <= w.exact(tau)-c {
+	if tf <= w.lowBound(tau)-c || w.anchorClears(tf, c, tau) || !w.anchorBlocks(tf, c, tau) && tf <= w.exact(tau)-c {
 		return true
 	}
 	return w.flag(t)
@@ -395,7 +506,10 @@ func (w *sightWalk) blockClear(li int, k, kEnd int) bool {
 	if float64(bm) > w.highBound(tl)-c {
 		return false // not even the highest the glide can be clears it
 	}
-	return float64(bm) <= w.exact(tl)-c
+	if w.anchorBlocks(float64(bm), c, tl) {
+		return false
+	}
+	return w.anchorClears(float64(bm), c, tl) || float64(bm) <= w.exact(tl)-c
 }
 
 // highBound is an upper bound of the glide's altitude at fraction tau,
