@@ -245,6 +245,12 @@ func (p *propagation) sightFrom(pi int32, px, py, pv float64, qc, qr, q int, v f
 	if pi >= 0 {
 		top = p.c[pi].top
 	}
+	if t+p.clearance-float32(v) > 0 {
+		// The cell is below its own clearance: offer keeps
+		// max(top, the cell's ground) as its record, the cell's ground
+		// whenever the walk's top is no higher (sightEnd).
+		return p.sightEnd(px, py, pv, qc, qr, v, t, top, fd)
+	}
 	return p.sightDir(px, py, pv, qc, qr, v, t, top, fd)
 }
 

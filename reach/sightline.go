@@ -49,7 +49,7 @@ import (
 // per metre), which decide most squares where the glide runs low, either
 // way, without the table; a square they cannot decide is worked out
 // exactly, so the walk decides as it would without them
-// (TestSightAnchoredBoundSameDecisions).
+// (TestSightShortcutsSameDecisions).
 //
 // A hierarchical pyramid of the ground (groundPyramid: blocks of 8×8, 64×64,
 // 512×512 and 4096×4096 cells holding the highest ground of the block and of the cells
@@ -150,7 +150,20 @@ const sightEps = 1e-9
 // the segment's direction of flight, worked out once with its value
 // (segmentDir, the solver's hot path).
 func (p *propagation) sightDir(px, py, pv float64, qc, qr int, v float64, allow, top float32, fd flightDir) (float32, bool) {
-	return p.walkLine(px, py, pv, float64(qc), float64(qr), qc, qr, v, allow, top, true, fd)
+	return p.walkLine(px, py, pv, float64(qc), float64(qr), qc, qr, v, allow, top, true, false, fd)
+}
+
+// sightEnd is sightDir for a caller that needs of top only whether it
+// exceeds allow (an end value at a cell below its own clearance, whose
+// record becomes the cell's ground: offer). Ground no higher than allow can
+// then neither block the glide nor make top exceed allow, so the walk
+// passes a whole run of blocks no higher than allow without asking where
+// the glide is, raising top to their highest ground instead of to the
+// highest of the squares it passes below the clearance: ok is sightDir's,
+// and top exceeds allow exactly when sightDir's does (top only grows, and
+// ground above allow is checked as sightDir checks it).
+func (p *propagation) sightEnd(px, py, pv float64, qc, qr int, v float64, allow, top float32, fd flightDir) (float32, bool) {
+	return p.walkLine(px, py, pv, float64(qc), float64(qr), qc, qr, v, allow, top, true, true, fd)
 }
 
 // flightDirOf is the direction of flight of the segment (dx, dy) from a
@@ -175,12 +188,12 @@ func (p *propagation) sightTo(px, py, pv, qx, qy float64, v float64, allow, top 
 	// The end point's square: the one whose centre is nearest (a point on
 	// a square boundary is in the square a cell centre rounds to).
 	qc, qr := int(math.Round(qx)), int(math.Round(qy))
-	return p.walkLine(px, py, pv, qx, qy, qc, qr, v, allow, top, skipEnd, p.flightDirOf(qx-px, qy-py))
+	return p.walkLine(px, py, pv, qx, qy, qc, qr, v, allow, top, skipEnd, false, p.flightDirOf(qx-px, qy-py))
 }
 
 // walkLine is the walk of sightTo, with the end point's square (qc, qr)
-// and the direction of flight fd given.
-func (p *propagation) walkLine(px, py, pv, qx, qy float64, qc, qr int, v float64, allow, top float32, skipEnd bool, fd flightDir) (float32, bool) {
+// and the direction of flight fd given; loose is sightEnd's.
+func (p *propagation) walkLine(px, py, pv, qx, qy float64, qc, qr int, v float64, allow, top float32, skipEnd, loose bool, fd flightDir) (float32, bool) {
 	dx, dy := qx-px, qy-py
 	if dx == 0 && dy == 0 {
 		return top, true
@@ -191,7 +204,7 @@ func (p *propagation) walkLine(px, py, pv, qx, qy float64, qc, qr int, v float64
 	w.p, w.pv, w.v = p, pv, v
 	w.L = math.Hypot(dx, dy) * p.cell
 	w.allow, w.top = float64(allow), top
-	w.skipEnd = skipEnd
+	w.skipEnd, w.loose = skipEnd, loose
 	w.d0, w.d1, w.wt = fd.d0, fd.d1, fd.wt
 	w.lamMin, w.lamMax = p.desc.lossRangeDir(fd.d0, fd.d1)
 	if math.Abs(dx) >= math.Abs(dy) {
@@ -234,6 +247,7 @@ type sightWalk struct {
 	nA, nB         int // cells along the axes
 	swapped        bool
 	skipEnd        bool // the end point's own square is not walked (a cell's)
+	loose          bool // top is asked only whether it exceeds allow (sightEnd)
 	pv, v, L       float64
 	lamMin, lamMax float64
 	allow          float64
@@ -490,6 +504,10 @@ func (w *sightWalk) blockClear(li int, k, kEnd int) bool {
 		}
 	}
 	if bm <= w.top {
+		return true
+	}
+	if w.loose && float64(bm) <= w.allow {
+		w.top = bm // (> top here)
 		return true
 	}
 	if math.IsInf(float64(bm), 1) {

@@ -6,22 +6,24 @@ import (
 	"testing"
 )
 
-// TestSightAnchoredBoundSameDecisions checks the walk's anchored bounds
-// (anchorLow, anchorHigh: the glide's altitude bounded from the last exact
-// altitude worked out on the segment) against the walk without them, bit
-// for bit: the reference is the exact altitude of the descent table at
-// every square the bounds decide (the rule the walk applied before them),
-// so a shortcut that changed one decision, or the highest ground recorded
-// below the clearance, fails. Random terrain with ridges, walls, pits and
-// voids (propTerrain), random aircraft, layered wind and clearance, forward
-// and backward, lines of every length up to the window's, the altitude
-// chosen so that many lines graze the floor. Common practice (an
-// optimisation checked against the computation it replaces), no source.
-func TestSightAnchoredBoundSameDecisions(t *testing.T) {
+// TestSightShortcutsSameDecisions checks the walk's shortcuts against the
+// walk without them, bit for bit: the anchored bounds (anchorLow,
+// anchorHigh: the glide's altitude bounded from the last exact altitude
+// worked out on the segment), whose reference is the exact altitude of the
+// descent table at every square they decide (the rule the walk applied
+// before them), so a shortcut that changed one decision, or the highest
+// ground recorded below the clearance, fails; and sightEnd on the end
+// values (the same decision, and a top above allow exactly when sightDir's
+// is). Random terrain with ridges, walls, pits and voids (propTerrain),
+// random aircraft, layered wind and clearance, forward and backward, lines
+// of every length up to the window's, the altitude chosen so that many
+// lines graze the floor. Common practice (an optimisation checked against
+// the computation it replaces), no source.
+func TestSightShortcutsSameDecisions(t *testing.T) {
 	defer func() { sightAnchored = true }()
 	rng := rand.New(rand.NewSource(13))
 	cases := propCases(24)
-	var ok, blocked, flagged, walks int
+	var ok, blocked, flagged, walks, loose int
 	for k := 0; k < cases; k++ {
 		n := 60 + rng.Intn(140)
 		cell := []float64{30, 90, 200}[rng.Intn(3)]
@@ -78,6 +80,18 @@ func TestSightAnchoredBoundSameDecisions(t *testing.T) {
 				sightAnchored = false
 				topB, okB := p.sightDir(float64(pc), float64(pr), pv, qc, qr, v, allow, top, fd)
 				walks++
+				if !backward && allow != noTop {
+					// sightEnd: the same decision, and a top that exceeds
+					// allow exactly when sightDir's does.
+					topE, okE := p.sightEnd(float64(pc), float64(pr), pv, qc, qr, v, allow, top, fd)
+					if okE != okB || (topE > allow) != (topB > allow) || topE < topB {
+						t.Fatalf("case %d: line %d,%d (%.3f m) -> %d,%d (%.3f m): sightEnd %v top %v, sightDir %v top %v (allow %v)",
+							k, pc, pr, pv, qc, qr, v, okE, topE, okB, topB, allow)
+					}
+					if topE != topB {
+						loose++
+					}
+				}
 				if okA != okB || math.Float32bits(topA) != math.Float32bits(topB) {
 					t.Fatalf("case %d (backward %v): line %d,%d (%.3f m) -> %d,%d (%.3f m): anchored %v top %v, exact %v top %v",
 						k, backward, pc, pr, pv, qc, qr, v, okA, topA, okB, topB)
@@ -98,5 +112,8 @@ func TestSightAnchoredBoundSameDecisions(t *testing.T) {
 	if ok < walks/20 || blocked < walks/20 || flagged < walks/200 {
 		t.Errorf("%d walks: %d clear, %d blocked, %d passing ground below the clearance: the sample does not exercise every outcome", walks, ok, blocked, flagged)
 	}
-	t.Logf("%d walks: %d clear, %d blocked, %d passing ground below the clearance", walks, ok, blocked, flagged)
+	if loose == 0 {
+		t.Errorf("no line where sightEnd passed a block sightDir walked square by square")
+	}
+	t.Logf("%d walks: %d clear, %d blocked, %d passing ground below the clearance; %d where sightEnd's top differs", walks, ok, blocked, flagged, loose)
 }
