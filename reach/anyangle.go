@@ -20,11 +20,10 @@ const (
 // noTop is the top of a path that is nowhere below the clearance.
 var noTop = float32(math.Inf(-1))
 
-// cellRec is one cell's state in the propagation, packed so that the
-// tests on a neighbour read one record (16 bytes, four to a cache line):
+// cellRec is one cell's state in the propagation but its value (val),
+// packed so that the tests on a neighbour read one record (12 bytes) and
+// the value:
 //
-//	val   forward: best arrival altitude; backward: least required
-//	      altitude (m MSL); NaN none
 //	par   ≥ 0 parent cell; −1−k virtual source k
 //	top   (forward) the highest terrain (m MSL) under the points of the
 //	      path to the cell where the glide is below the clearance (the cell
@@ -35,7 +34,6 @@ var noTop = float32(math.Inf(-1))
 //	src   (backward) which source the value leads to
 //	st    the cell's state (cellUntouched …)
 type cellRec struct {
-	val float32
 	par int32
 	top float32
 	src uint16
@@ -73,8 +71,13 @@ type propagation struct {
 	cols, rows int
 	cell       float64
 
-	// c holds each cell's search state in one 16-byte record (cellRec), so
-	// one neighbour's test touches one cache line.
+	// val is each cell's value: forward the best arrival altitude,
+	// backward the least required altitude (m MSL); NaN none. It is the
+	// result raster itself (Arrival, Required).
+	val []float32
+	// c holds the rest of each cell's search state in one 12-byte record
+	// (cellRec), so a neighbour's tests touch two cache lines (its record
+	// and its value) and no more.
 	c   []cellRec
 	pyr *groundPyramid
 	// fieldElev (backward) is the elevation (m MSL) of the field of each
@@ -100,6 +103,7 @@ func newPropagation(l *terrain.Local, d *descent, backward bool) *propagation {
 	n := l.Cols * l.Rows
 	p := &propagation{l: l, desc: d, backward: backward, cols: l.Cols, rows: l.Rows, cell: l.Cell}
 	p.c = make([]cellRec, n)
+	p.val = make([]float32, n)
 	p.pyr = newGroundPyramid(l)
 	nan := float32(math.NaN())
 	top := noTop
@@ -113,19 +117,16 @@ func newPropagation(l *terrain.Local, d *descent, backward bool) *propagation {
 		if e != e {
 			st = cellVoid
 		}
-		p.c[i] = cellRec{val: nan, top: top, st: st}
+		p.val[i] = nan
+		p.c[i] = cellRec{top: top, st: st}
 	}
 	return p
 }
 
-// values returns the cells' values (NaN where none) as a raster of their
-// own: FootprintResult.Arrival.
+// values returns the cells' values (NaN where none): FootprintResult.Arrival,
+// shared with the propagation (which Path and ArrivalAt read).
 func (p *propagation) values() []float32 {
-	v := make([]float32, len(p.c))
-	for i := range p.c {
-		v[i] = p.c[i].val
-	}
-	return v
+	return p.val
 }
 
 // initQueue sizes the bucket queue for values between lo and hi (m) and
@@ -164,7 +165,7 @@ func (p *propagation) parentPos(pi int32) (x, y float64, v float64) {
 	}
 	c := int(pi) % p.cols
 	r := int(pi) / p.cols
-	return float64(c), float64(r), float64(p.c[pi].val)
+	return float64(c), float64(r), float64(p.val[pi])
 }
 
 // segment returns the value at cell (qc, qr) reached on a straight segment
@@ -211,10 +212,10 @@ func (p *propagation) wants(q int, v float64, endOnly bool) bool {
 		return false
 	}
 	if p.backward {
-		return v <= p.ceiling && p.better(float32(v), p.c[q].val)
+		return v <= p.ceiling && p.better(float32(v), p.val[q])
 	}
 	cq := &p.c[q]
-	if !p.better(float32(v), cq.val) {
+	if !p.better(float32(v), p.val[q]) {
 		return false
 	}
 	if st := cq.st; st == cellOpen || st == cellClosed {
@@ -280,7 +281,7 @@ func (p *propagation) offer(q int, pi int32, v float64, srcIdx uint16, top float
 		}
 	}
 	cq := &p.c[q]
-	if !p.better(vf, cq.val) {
+	if !p.better(vf, p.val[q]) {
 		return
 	}
 	own := t + p.clearance - vf
@@ -300,14 +301,14 @@ func (p *propagation) offer(q int, pi int32, v float64, srcIdx uint16, top float
 			// that keeps it is the clearance height itself (here t is above
 			// the field).
 			vf = t + p.clearance
-			if !p.better(vf, cq.val) {
+			if !p.better(vf, p.val[q]) {
 				return
 			}
 			if float64(vf) > p.ceiling {
 				return
 			}
 		}
-		cq.val, cq.par = vf, pi
+		p.val[q], cq.par = vf, pi
 		cq.src = srcIdx
 		cq.st = cellOpen
 		p.queue.push(int32(q), p.key(vf))
@@ -317,7 +318,7 @@ func (p *propagation) offer(q int, pi int32, v float64, srcIdx uint16, top float
 		return
 	}
 	if own <= 0 && !endOnly && top == noTop {
-		cq.val, cq.par = vf, pi
+		p.val[q], cq.par = vf, pi
 		cq.top = noTop
 		cq.st = cellOpen
 		p.queue.push(int32(q), p.key(vf))
@@ -338,7 +339,7 @@ func (p *propagation) offer(q int, pi int32, v float64, srcIdx uint16, top float
 		// clearance (better means higher); nothing to do here.
 		return
 	}
-	cq.val, cq.par = vf, pi
+	p.val[q], cq.par = vf, pi
 	if own > 0 {
 		top = max(top, t)
 	}
@@ -399,7 +400,7 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 		}
 		s := int(si32)
 		cs := &p.c[s]
-		if p.queue.bucket(p.key(cs.val)) != b {
+		if p.queue.bucket(p.key(p.val[s])) != b {
 			continue // stale entry
 		}
 		endOnly := false
@@ -428,7 +429,7 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			}
 		}
 		sc, sr := s%p.cols, s/p.cols
-		sv := float64(cs.val)
+		sv := float64(p.val[s])
 		pi := cs.par
 		px, py, pv := p.parentPos(pi)
 		var srcIdx uint16
@@ -455,7 +456,7 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			if sameParent && !endOnly {
 				continue
 			}
-			if st == cellClosed && !p.better(float32(sv), cq.val) {
+			if st == cellClosed && !p.better(float32(sv), p.val[q]) {
 				continue // closed with a value no lower cell can improve
 			}
 			// Straight on from s's parent, if the line of sight holds.

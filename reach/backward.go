@@ -210,11 +210,11 @@ func requiredWith(ctx context.Context, ground *terrain.Local, targets []Target, 
 	}
 	res := &RequiredResult{Ground: ground, Targets: targets, Best: make([]int16, n)}
 	if len(sets) == 1 && results[0].l == ground {
-		res.Required = make([]float32, n)
-		for i, c := range results[0].c {
-			res.Required[i], res.Best[i] = c.val, -1
-			if c.val == c.val {
-				res.Best[i] = int16(c.src)
+		res.Required = results[0].val
+		for i, v := range res.Required {
+			res.Best[i] = -1
+			if v == v {
+				res.Best[i] = int16(results[0].c[i].src)
 			}
 		}
 		return res, nil
@@ -231,16 +231,15 @@ func requiredWith(ctx context.Context, ground *terrain.Local, targets []Target, 
 		p := results[k]
 		cols := st.c1 - st.c0 + 1
 		for r := st.r0; r <= st.r1; r++ {
-			row := p.c[(r-st.r0)*cols : (r-st.r0+1)*cols]
-			for j, c := range row {
-				v := c.val
+			row := p.val[(r-st.r0)*cols : (r-st.r0+1)*cols]
+			for j, v := range row {
 				if v != v {
 					continue
 				}
 				i := r*ground.Cols + st.c0 + j
 				if cv := res.Required[i]; cv != cv || v < cv {
 					res.Required[i] = v
-					res.Best[i] = int16(c.src)
+					res.Best[i] = int16(p.c[(r-st.r0)*cols+j].src)
 				}
 			}
 		}
@@ -538,7 +537,7 @@ func requiredFromRun(ctx context.Context, ground *terrain.Local, target Target, 
 		c, r := q%g.Cols-rc0, q/g.Cols-rr0
 		v[k] = float32(math.NaN())
 		if c >= 0 && r >= 0 && c < run.cols && r < run.rows {
-			v[k] = run.c[r*run.cols+c].val
+			v[k] = run.val[r*run.cols+c]
 		}
 	}
 	decided = true
@@ -548,7 +547,7 @@ func requiredFromRun(ctx context.Context, ground *terrain.Local, target Target, 
 	if cut && !beyond {
 		decided = allClosed
 		for _, q := range in {
-			if run.l.Elev[q] == run.l.Elev[q] && !(float64(run.c[q].val) <= run.pruneT-slack) {
+			if run.l.Elev[q] == run.l.Elev[q] && !(float64(run.val[q]) <= run.pruneT-slack) {
 				decided = false
 			}
 		}
