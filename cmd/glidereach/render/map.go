@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"image"
 	"image/color"
-	"image/png"
 	"io"
 	"math"
 	"sort"
@@ -24,17 +23,6 @@ func RenderPNG(w io.Writer, s *Scene, widthPx int) error {
 		return err
 	}
 	return encodePNG(w, img)
-}
-
-// encodePNG writes img with the fastest zlib level: shaded relief
-// compresses poorly anyway, and the best level triples the time for a few
-// percent.
-func encodePNG(w io.Writer, img image.Image) error {
-	enc := png.Encoder{CompressionLevel: png.BestSpeed}
-	if err := enc.Encode(w, img); err != nil {
-		return fmt.Errorf("render: writing PNG: %w", err)
-	}
-	return nil
 }
 
 // Render draws the scene into a new image; see RenderPNG.

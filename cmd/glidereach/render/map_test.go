@@ -261,11 +261,13 @@ func benchmarkRenderPNG(b *testing.B, cells, width int) {
 	s := sampleScene(l)
 	b.ReportAllocs()
 	b.ResetTimer()
+	stop := cpuMeter(b)
 	for b.Loop() {
 		if err := RenderPNG(io.Discard, s, width); err != nil {
 			b.Fatal(err)
 		}
 	}
+	stop()
 }
 
 // BenchmarkRenderPNG is issue 8's target: a 1600 px map of a 2000×2000
