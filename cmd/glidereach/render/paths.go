@@ -23,6 +23,7 @@ type canvas struct {
 	img  *image.RGBA
 	clip image.Rectangle // shapes are cut to this rectangle
 	z    vector.Rasterizer
+	big  bigRaster // shapes whose box is wider or taller than bigRasterMin
 	// shape under construction, in pixel coordinates
 	rings [][]pt
 	signs []float64
@@ -56,22 +57,39 @@ func (c *canvas) paint(col color.RGBA) {
 	if len(c.rings) == 0 || col.A == 0 {
 		return
 	}
-	minX, minY, maxX, maxY := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
-	for _, r := range c.rings {
-		for _, p := range r {
-			minX, maxX = math.Min(minX, p.X), math.Max(maxX, p.X)
-			minY, maxY = math.Min(minY, p.Y), math.Max(maxY, p.Y)
-		}
-	}
-	if !(minX <= maxX && minY <= maxY) { // NaN or empty
-		return
-	}
-	bb := image.Rect(int(math.Floor(minX))-1, int(math.Floor(minY))-1,
-		int(math.Ceil(maxX))+1, int(math.Ceil(maxY))+1).Intersect(c.clip)
+	bb := c.shapeBox()
 	if bb.Empty() {
 		return
 	}
-	c.z.Reset(bb.Dx(), bb.Dy())
+	if bb.Dx() > bigRasterMin || bb.Dy() > bigRasterMin {
+		c.rasterize(&c.big, bb)
+		c.big.draw(c.img, bb, col)
+		return
+	}
+	c.rasterize(vectorSink{&c.z}, bb)
+	c.z.Draw(c.img, bb, image.NewUniform(col), image.Point{})
+}
+
+// pathSink is a rasterizer paint feeds the rings to.
+type pathSink interface {
+	reset(w, h int)
+	moveTo(x, y float32)
+	lineTo(x, y float32)
+	closePath()
+}
+
+// vectorSink adapts golang.org/x/image/vector's Rasterizer.
+type vectorSink struct{ *vector.Rasterizer }
+
+func (v vectorSink) reset(w, h int)      { v.Reset(w, h) }
+func (v vectorSink) moveTo(x, y float32) { v.MoveTo(x, y) }
+func (v vectorSink) lineTo(x, y float32) { v.LineTo(x, y) }
+func (v vectorSink) closePath()          { v.ClosePath() }
+
+// rasterize feeds the current shape's rings, oriented by their signs, to
+// z in the coordinates of box bb.
+func (c *canvas) rasterize(sink pathSink, bb image.Rectangle) {
+	sink.reset(bb.Dx(), bb.Dy())
 	ox, oy := float64(bb.Min.X), float64(bb.Min.Y)
 	for i, r := range c.rings {
 		a := signedArea(r)
@@ -87,14 +105,31 @@ func (c *canvas) paint(col color.RGBA) {
 			return r[n-1-k]
 		}
 		p := at(0)
-		c.z.MoveTo(float32(p.X-ox), float32(p.Y-oy))
+		sink.moveTo(float32(p.X-ox), float32(p.Y-oy))
 		for k := 1; k < n; k++ {
 			p = at(k)
-			c.z.LineTo(float32(p.X-ox), float32(p.Y-oy))
+			sink.lineTo(float32(p.X-ox), float32(p.Y-oy))
 		}
-		c.z.ClosePath()
+		sink.closePath()
 	}
-	c.z.Draw(c.img, bb, image.NewUniform(col), image.Point{})
+}
+
+// shapeBox is the box paint rasterizes the current shape in: the rings'
+// bounds rounded out by a pixel, within the clip (empty for no rings or
+// NaN coordinates).
+func (c *canvas) shapeBox() image.Rectangle {
+	minX, minY, maxX, maxY := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
+	for _, r := range c.rings {
+		for _, p := range r {
+			minX, maxX = math.Min(minX, p.X), math.Max(maxX, p.X)
+			minY, maxY = math.Min(minY, p.Y), math.Max(maxY, p.Y)
+		}
+	}
+	if !(minX <= maxX && minY <= maxY) { // NaN or empty
+		return image.Rectangle{}
+	}
+	return image.Rect(int(math.Floor(minX))-1, int(math.Floor(minY))-1,
+		int(math.Ceil(maxX))+1, int(math.Ceil(maxY))+1).Intersect(c.clip)
 }
 
 // fillPolys fills polygons (ring 0 the outside, the rest holes) as one shape.

@@ -1,0 +1,134 @@
+package render
+
+import (
+	"image"
+	"image/color"
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"golang.org/x/image/vector"
+)
+
+// TestBigRasterMatchesVector draws random shapes (polygons reaching past
+// every side of the box, strokes with round joins, holes, shapes lying
+// wholly outside) with bigRaster and with golang.org/x/image/vector's
+// Rasterizer (the reference: the library the maps were drawn with) over
+// the same random background, on boxes above the library's 512 px
+// floating-point threshold (widths that are and are not multiples of 4),
+// and wants every pixel the same.
+func TestBigRasterMatchesVector(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 13))
+	sizes := []image.Point{{513, 40}, {40, 600}, {700, 700}, {1001, 517}, {1600, 1300}, {2050, 9}}
+	var c canvas
+	for trial := 0; trial < 60; trial++ {
+		sz := sizes[trial%len(sizes)]
+		bb := image.Rectangle{Min: image.Pt(rng.IntN(30), rng.IntN(30))}
+		bb.Max = bb.Min.Add(sz)
+		bg := noiseRGBA(image.Rect(0, 0, bb.Max.X+5, bb.Max.Y+5), uint64(trial))
+		c.rings, c.signs = c.rings[:0], c.signs[:0]
+		W, H := float64(sz.X), float64(sz.Y)
+		rp := func(m float64) pt { // a point of the box widened by m on every side
+			return pt{float64(bb.Min.X) - m + rng.Float64()*(W+2*m), float64(bb.Min.Y) - m + rng.Float64()*(H+2*m)}
+		}
+		for k := 0; k < 1+rng.IntN(4); k++ {
+			switch rng.IntN(4) {
+			case 0: // a polygon, partly outside the box
+				r := make([]pt, 3+rng.IntN(40))
+				for i := range r {
+					r[i] = rp(80)
+				}
+				c.addRing(r, 1)
+			case 1: // a stroked open line
+				l := make([]pt, 2+rng.IntN(30))
+				for i := range l {
+					l[i] = rp(20)
+				}
+				c.addStroke(l, 0.5+rng.Float64()*8, false)
+			case 2: // a ring outline with a hole
+				ctr, rad := rp(0), 5+rng.Float64()*math.Min(W, H)
+				c.addRing(circle(ctr, rad, 0), 1)
+				c.addRing(circle(ctr, rad*rng.Float64(), 0), -1)
+				c.addStroke(circle(ctr, rad*1.1, 0), 3.6, true)
+			case 3: // wholly left of or below the box (edges at x < 0 or past the right)
+				x := float64(bb.Min.X) - 50
+				if rng.IntN(2) == 0 {
+					x = float64(bb.Max.X) + 10
+				}
+				y := float64(bb.Min.Y) + rng.Float64()*H
+				c.addRing(rect(x, y, x+30, y+H/3), 1)
+			}
+		}
+		col := color.RGBA{uint8(rng.IntN(256)), uint8(rng.IntN(256)), uint8(rng.IntN(256)), 0}
+		col.A = uint8(rng.IntN(256))
+		col.R, col.G, col.B = min(col.R, col.A), min(col.G, col.A), min(col.B, col.A) // premultiplied
+
+		want := image.NewRGBA(bg.Rect)
+		copy(want.Pix, bg.Pix)
+		var z vector.Rasterizer
+		c.rasterize(vectorSink{&z}, bb)
+		z.Draw(want, bb, image.NewUniform(col), image.Point{})
+
+		got := image.NewRGBA(bg.Rect)
+		copy(got.Pix, bg.Pix)
+		c.rasterize(&c.big, bb)
+		c.big.draw(got, bb, col)
+
+		bad, changed := 0, 0
+		for i := range want.Pix {
+			if want.Pix[i] != got.Pix[i] {
+				if bad == 0 {
+					p := i / 4
+					t.Errorf("trial %d (box %v, colour %v): pixel (%d, %d) channel %d is %d, want %d",
+						trial, bb, col, p%want.Stride*4/4%bg.Rect.Dx(), p/bg.Rect.Dx(), i%4, got.Pix[i], want.Pix[i])
+				}
+				bad++
+			}
+			if want.Pix[i] != bg.Pix[i] {
+				changed++
+			}
+		}
+		if bad > 0 {
+			t.Errorf("trial %d: %d channels differ", trial, bad)
+		}
+		if changed == 0 && col.A > 8 && trial%len(sizes) != 5 {
+			t.Logf("trial %d drew nothing", trial)
+		}
+		// The buffer is left clear for the next shape.
+		for i, v := range c.big.buf {
+			if v != 0 {
+				t.Fatalf("trial %d: cell %d left at %g", trial, i, v)
+			}
+		}
+	}
+}
+
+// BenchmarkPaintRingOutline strokes a ring across a 1600 × 1400 map, as the
+// maps draw each footprint level's outline (bigRaster), against the
+// library's Rasterizer on the same shape.
+func BenchmarkPaintRingOutline(b *testing.B) {
+	img := image.NewRGBA(image.Rect(0, 0, 1600, 1500))
+	ring := circle(pt{800, 750}, 680, 720) // many vertices, as a footprint has
+	for _, c := range []struct {
+		name string
+		lib  bool
+	}{{"bigRaster", false}, {"x-image-vector", true}} {
+		b.Run(c.name, func(b *testing.B) {
+			cv := newCanvas(img)
+			b.ReportAllocs()
+			stop := cpuMeter(b)
+			for b.Loop() {
+				cv.addStroke(ring, 6, true)
+				if c.lib {
+					bb := cv.shapeBox()
+					cv.rasterize(vectorSink{&cv.z}, bb)
+					cv.z.Draw(img, bb, image.NewUniform(colHalo), image.Point{})
+					cv.rings, cv.signs = cv.rings[:0], cv.signs[:0]
+				} else {
+					cv.paint(colHalo)
+				}
+			}
+			stop()
+		})
+	}
+}
