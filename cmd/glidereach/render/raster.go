@@ -33,6 +33,7 @@ import (
 	"image"
 	"image/color"
 	"math"
+	"math/bits"
 )
 
 // bigRasterMin is golang.org/x/image/vector's floatingPointMathThreshold:
@@ -51,20 +52,22 @@ const bigRasterMin = 512
 // The library's Draw clears the box, sums it left to right and row after
 // row (a sum carried from the end of a row into the next: an edge right of
 // the box adds to the next row's first cell), and blends every cell, even
-// those of coverage 0, which leave the pixel as it was. bigRaster keeps,
-// per row, the span of cells its edges wrote; a run of cells no edge
-// touched adds 0 to the running sum, so every one of them has the coverage
-// of the last cell before it, computed once, and a coverage of 0 is not
-// blended at all. The sum is the library's SSE one (floatingAccumulate-
-// MaskSIMD): in groups of four cells from the start of the box, lanes
-// s0, s0+s1, (s1+s2)+s0, (s2+s3)+(s0+s1), each plus the sum so far (float32
-// addition is not associative, so the grouping is kept), and the last
-// len % 4 cells one at a time. TestBigRasterMatchesVector compares it with
-// the library on random shapes, box sizes and colours.
+// those of coverage 0, which leave the pixel as it was. bigRaster marks
+// each group of four cells an edge wrote (one bit a group); a run of cells
+// no edge touched adds 0 to the running sum, so every one of them has the
+// coverage of the last cell before it, computed once: 0 outside a shape
+// and inside an outline (not blended at all), full inside a fill (blended
+// through a table of the 256 channel values). The sum is the library's SSE
+// one (floatingAccumulateMaskSIMD): in groups of four cells from the start
+// of the box, lanes s0, s0+s1, (s1+s2)+s0, (s2+s3)+(s0+s1), each plus the
+// sum so far (float32 addition is not associative, so the grouping is
+// kept), and the last len % 4 cells one at a time.
+// TestBigRasterMatchesVector compares it with the library on random
+// shapes, box sizes and colours.
 type bigRaster struct {
 	w, h     int
 	buf      []float32 // area and cover per cell, w·h; all zero between shapes
-	lo, hi   []int32   // per row: the first and one past the last cell written (lo ≥ hi: none)
+	dirty    []uint64  // bit g: an edge wrote one of cells 4g … 4g+3
 	penX     float32
 	penY     float32
 	firstX   float32
@@ -82,11 +85,8 @@ func (z *bigRaster) reset(w, h int) {
 	if n := w * h; n > len(z.buf) {
 		z.buf = make([]float32, n) // the old one is all zero; no need to keep it
 	}
-	if h > len(z.lo) {
-		z.lo, z.hi = make([]int32, h), make([]int32, h)
-	}
-	for y := 0; y < h; y++ {
-		z.lo[y], z.hi[y] = int32(w), 0
+	if g := (w*h+255)/256 + 1; g > len(z.dirty) {
+		z.dirty = make([]uint64, g) // likewise all zero
 	}
 	z.penX, z.penY, z.firstX, z.firstY = 0, 0, 0, 0
 }
@@ -101,18 +101,10 @@ func (z *bigRaster) closePath() { z.lineTo(z.firstX, z.firstY) }
 // clamps them: below 0 to 0, from w on to w, which is the next row's first
 // cell) were written.
 func (z *bigRaster) touch(y int32, i0, i1 uint) {
-	w := uint(z.w)
-	if i0 < w {
-		if int32(i0) < z.lo[y] {
-			z.lo[y] = int32(i0)
-		}
-		if e := int32(min(i1, w-1)) + 1; e > z.hi[y] {
-			z.hi[y] = e
-		}
-	}
-	if i1 >= w && int(y)+1 < z.h {
-		z.lo[y+1] = 0
-		z.hi[y+1] = max(z.hi[y+1], 1)
+	base := int(y) * z.w
+	g0, g1 := (base+int(i0))>>2, min(base+int(i1), z.w*z.h-1)>>2
+	for g := g0; g <= g1; g++ {
+		z.dirty[g>>6] |= 1 << (g & 63)
 	}
 }
 
@@ -314,22 +306,25 @@ func (z *bigRaster) draw(dst *image.RGBA, r image.Rectangle, col color.RGBA) {
 		rows(i, j, 0, m)
 	}
 	at := 0 // cells before at are done
-	for y := 0; y < z.h; y++ {
-		lo, hi := z.lo[y], z.hi[y]
-		if lo >= hi {
+	for wi, word := range z.dirty[:(n+255)/256] {
+		if word == 0 {
 			continue
 		}
-		i := max((y*w+int(lo))&^3, at)
-		j := min((y*w+int(hi)+3)&^3, n)
-		if j > n4 {
-			j = n
+		z.dirty[wi] = 0
+		for word != 0 {
+			// A run of dirty groups: bits b0 … b1−1 of this word.
+			b0 := bits.TrailingZeros64(word)
+			b1 := b0 + bits.TrailingZeros64(^(word >> b0))
+			if b1 >= 64 {
+				word = 0
+			} else {
+				word &^= (1<<(b1-b0) - 1) << b0
+			}
+			i, j := (wi*64+b0)*4, min((wi*64+b1)*4, n)
+			rows(at, i, coverage(off), nil) // no edge wrote there: the sum stays as it was
+			sum(i, j)
+			at = j
 		}
-		if i >= j {
-			continue
-		}
-		rows(at, i, coverage(off), nil) // no edge wrote there: the sum stays as it was
-		sum(i, j)
-		at = j
 	}
 	rows(at, n, coverage(off), nil)
 }
