@@ -311,11 +311,20 @@ func (c *canvas) hatchPolysMinus(polys, minus [][][]pt, col color.RGBA, gap, w f
 		mask.Pix[i] = tmp.Pix[4*i+3]
 	}
 	// Stripes over the bounding box, into a layer drawn through the mask.
-	layer := image.NewRGBA(c.img.Bounds())
-	c.img = layer
+	// The layer covers only the box the stripes are painted in (paint
+	// rasterizes them there whatever the image): beyond it a whole-image
+	// layer was transparent, which draw.Over through any mask leaves as it
+	// was.
 	for d := minX - (maxY - minY); d < maxX+gap; d += gap {
 		c.addStroke([]pt{{d, maxY + w}, {d + (maxY - minY) + 2*w, minY - w}}, w, false)
 	}
+	sb := c.shapeBox()
+	if sb.Empty() {
+		c.rings, c.signs = c.rings[:0], c.signs[:0]
+		return
+	}
+	layer := image.NewRGBA(sb)
+	c.img = layer
 	c.paint(col)
 	c.img = saved
 	draw.DrawMask(c.img, c.clip, layer, c.clip.Min, mask, c.clip.Min, draw.Over)
