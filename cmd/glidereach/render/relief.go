@@ -257,24 +257,48 @@ func (r *renderer) sampleTerrain() {
 		}
 		out := make([]float32, mw*mh)
 		for j, ty := range ys {
+			row, st := out[j*mw:(j+1)*mw], state[j*mw:(j+1)*mw]
+			if ty.off {
+				for i := range row {
+					row[i] = nan
+				}
+				continue
+			}
+			s0 := sh[ty.i0*src.Cols : (ty.i0+1)*src.Cols]
+			s1 := sh[ty.i1*src.Cols : (ty.i1+1)*src.Cols]
+			wy0, wy1 := 1-ty.t, ty.t
 			for i, tx := range xs {
-				k := j*mw + i
-				if state[k] != pxGround || ty.off || tx.off {
-					out[k] = nan
+				if st[i] != pxGround || tx.off {
+					row[i] = nan
 					continue
 				}
+				// The bilinear mean of the valid corners, summed in this
+				// order (float32 sums round by order).
 				var sw, sv float32
-				for _, q := range [4][3]float32{
-					{sh[ty.i0*src.Cols+tx.i0], (1 - tx.t) * (1 - ty.t)}, {sh[ty.i0*src.Cols+tx.i1], tx.t * (1 - ty.t)},
-					{sh[ty.i1*src.Cols+tx.i0], (1 - tx.t) * ty.t}, {sh[ty.i1*src.Cols+tx.i1], tx.t * ty.t}} {
-					if q[0] == q[0] {
-						sw += q[1]
-						sv += q[1] * q[0]
-					}
+				wx0, wx1 := 1-tx.t, tx.t
+				if v := s0[tx.i0]; v == v {
+					w := wx0 * wy0
+					sw += w
+					sv += w * v
 				}
-				out[k] = nan
+				if v := s0[tx.i1]; v == v {
+					w := wx1 * wy0
+					sw += w
+					sv += w * v
+				}
+				if v := s1[tx.i0]; v == v {
+					w := wx0 * wy1
+					sw += w
+					sv += w * v
+				}
+				if v := s1[tx.i1]; v == v {
+					w := wx1 * wy1
+					sw += w
+					sv += w * v
+				}
+				row[i] = nan
 				if sw > 0 {
-					out[k] = sv / sw
+					row[i] = sv / sw
 				}
 			}
 		}
