@@ -112,23 +112,29 @@ func shadeGrid(z []float32, cols, rows int, cell float64, opt HillshadeOptions) 
 	qy := k * inv * cosAz * cosAlt
 	k2 := k * k * inv * inv
 	out := make([]float32, len(z))
+	nan := float32(math.NaN())
 	for r := 0; r < rows; r++ {
 		rn, rs := max(r-1, 0), min(r+1, rows-1)
 		north, mid, south := z[rn*cols:(rn+1)*cols], z[r*cols:(r+1)*cols], z[rs*cols:(rs+1)*cols]
-		for c := 0; c < cols; c++ {
-			e := mid[c]
+		o := out[r*cols : (r+1)*cols]
+		for c, e := range mid {
 			if e != e {
-				out[r*cols+c] = float32(math.NaN())
+				o[c] = nan
 				continue
 			}
 			cw, ce := max(c-1, 0), min(c+1, cols-1)
-			a, b, cc := pick(north[cw], e), pick(north[c], e), pick(north[ce], e)
-			d, f := pick(mid[cw], e), pick(mid[ce], e)
-			g, h, i := pick(south[cw], e), pick(south[c], e), pick(south[ce], e)
+			a, b, cc := north[cw], north[c], north[ce]
+			d, f := mid[cw], mid[ce]
+			g, h, i := south[cw], south[c], south[ce]
+			if s := a + b + cc + d + f + g + h + i; s != s { // a void among them (or ±Inf)
+				a, b, cc = pick(a, e), pick(b, e), pick(cc, e)
+				d, f = pick(d, e), pick(f, e)
+				g, h, i = pick(g, e), pick(h, e), pick(i, e)
+			}
 			gx := float64((cc + 2*f + i) - (a + 2*d + g))
 			gy := float64((a + 2*b + cc) - (g + 2*h + i))
 			v := (sinAlt - px*gx - qy*gy) / math.Sqrt(1+k2*(gx*gx+gy*gy))
-			out[r*cols+c] = float32(math.Max(v, 0))
+			o[c] = float32(max(v, 0)) // the builtin: math.Max's rules for NaN and -0, inline
 		}
 	}
 	return out

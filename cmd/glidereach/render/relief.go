@@ -35,24 +35,30 @@ func (r *renderer) drawTerrain() {
 	_, alt, _ := r.s.Hillshade.resolved()
 	flatShade := math.Sin(alt * math.Pi / 180)
 	img := r.img
+	flat := l.Flat
 	for j := 0; j < mh; j++ {
-		pix := img.Pix[img.PixOffset(lo.mapRect.Min.X, lo.mapRect.Min.Y+j):]
-		for i := 0; i < mw; i++ {
-			k := j*mw + i
+		o := img.PixOffset(lo.mapRect.Min.X, lo.mapRect.Min.Y+j)
+		pix := img.Pix[o : o+4*mw : o+4*mw]
+		zr, st := z[j*mw:(j+1)*mw], state[j*mw:(j+1)*mw]
+		var sh []float32
+		if shade != nil {
+			sh = shade[j*mw : (j+1)*mw]
+		}
+		for i, s := range st {
 			p := pix[4*i : 4*i+4 : 4*i+4]
 			switch {
-			case state[k] == pxOff:
+			case s == pxOff:
 				p[0], p[1], p[2], p[3] = colOffMap.R, colOffMap.G, colOffMap.B, 255
 				continue
-			case state[k] == pxVoid:
+			case s == pxVoid:
 				p[0], p[1], p[2], p[3] = colVoid.R, colVoid.G, colVoid.B, 255
 				continue
-			case l.Flat:
+			case flat:
 				p[0], p[1], p[2], p[3] = colFlat.R, colFlat.G, colFlat.B, 255
 				continue
 			}
-			cr, cg, cb := tint((float64(z[k]) - lowE) / span)
-			sv := float64(shade[k])
+			cr, cg, cb := tint((float64(zr[i]) - lowE) / span)
+			sv := float64(sh[i])
 			if sv != sv { // a ground pixel whose shade cells are all void
 				sv = flatShade
 			}
@@ -61,7 +67,7 @@ func (r *renderer) drawTerrain() {
 				m := 0.38 + 0.62*f
 				cr, cg, cb = cr*m, cg*m, cb*m
 			} else {
-				m := math.Min(1, (f-1)/0.41) * 0.5
+				m := min(1, (f-1)/0.41) * 0.5 // the builtin: math.Min's rules, inline
 				cr, cg, cb = cr+(255-cr)*m, cg+(255-cg)*m, cb+(255-cb)*m
 			}
 			p[0], p[1], p[2], p[3] = uint8(cr+0.5), uint8(cg+0.5), uint8(cb+0.5), 255
