@@ -3,7 +3,6 @@ package render
 import (
 	"image"
 	"image/color"
-	"image/draw"
 	"math"
 
 	"golang.org/x/image/vector"
@@ -327,5 +326,39 @@ func (c *canvas) hatchPolysMinus(polys, minus [][][]pt, col color.RGBA, gap, w f
 	c.img = layer
 	c.paint(col)
 	c.img = saved
-	draw.DrawMask(c.img, c.clip, layer, c.clip.Min, mask, c.clip.Min, draw.Over)
+	maskOver(c.img, c.clip, layer, mask)
+}
+
+// maskOver is draw.DrawMask(dst, r, src, r.Min, mask, r.Min, draw.Over)
+// (image/draw's drawRGBAMaskOver, the same arithmetic per pixel) for
+// pixels where both mask and src are non-zero: a mask of 0 or a
+// transparent black source pixel leaves dst as it is, exactly, and most of
+// a hatch's layer is the gaps between its stripes.
+func maskOver(dst *image.RGBA, r image.Rectangle, src *image.RGBA, mask *image.Alpha) {
+	r = r.Intersect(dst.Rect).Intersect(src.Rect).Intersect(mask.Rect)
+	const m = 1<<16 - 1
+	for y := r.Min.Y; y < r.Max.Y; y++ {
+		mrow := mask.Pix[mask.PixOffset(r.Min.X, y):mask.PixOffset(r.Max.X, y)]
+		srow := src.Pix[src.PixOffset(r.Min.X, y):src.PixOffset(r.Max.X, y)]
+		drow := dst.Pix[dst.PixOffset(r.Min.X, y):dst.PixOffset(r.Max.X, y)]
+		for x, mv := range mrow {
+			s := srow[4*x : 4*x+4 : 4*x+4]
+			if mv == 0 || s[0]|s[1]|s[2]|s[3] == 0 {
+				continue
+			}
+			ma := uint32(mv)
+			ma |= ma << 8
+			sr, sg, sb, sa := uint32(s[0]), uint32(s[1]), uint32(s[2]), uint32(s[3])
+			sr |= sr << 8
+			sg |= sg << 8
+			sb |= sb << 8
+			sa |= sa << 8
+			d := drow[4*x : 4*x+4 : 4*x+4]
+			a := (m - (sa * ma / m)) * 0x101
+			d[0] = uint8((uint32(d[0])*a + sr*ma) / m >> 8)
+			d[1] = uint8((uint32(d[1])*a + sg*ma) / m >> 8)
+			d[2] = uint8((uint32(d[2])*a + sb*ma) / m >> 8)
+			d[3] = uint8((uint32(d[3])*a + sa*ma) / m >> 8)
+		}
+	}
 }
