@@ -30,7 +30,7 @@ func (r *renderer) drawTerrain() {
 	span := math.Max(highE-lowE, 300)
 	shade := r.shade
 	if shade == nil && !l.Flat {
-		shade = shadeGrid(z, mw, mh, lo.mpp, r.s.Hillshade)
+		shade = shadeGrid(z, mw, mh, false, lo.mpp, r.s.Hillshade) // map rows: north first
 	}
 	_, alt, _ := r.s.Hillshade.resolved()
 	flatShade := math.Sin(alt * math.Pi / 180)
@@ -251,16 +251,7 @@ func (r *renderer) sampleTerrain() {
 	// cells; voids stay void (a shade cell that is void drops out of the
 	// mean, as for the elevation above).
 	if !l.Flat && src.Cell > 1.5*lo.mpp {
-		// shadeGrid wants row 0 north; the Local's row 0 is south.
-		north := make([]float32, len(src.Elev))
-		for rr := 0; rr < src.Rows; rr++ {
-			copy(north[(src.Rows-1-rr)*src.Cols:(src.Rows-rr)*src.Cols], src.Elev[rr*src.Cols:(rr+1)*src.Cols])
-		}
-		flipped := shadeGrid(north, src.Cols, src.Rows, src.Cell, r.s.Hillshade)
-		sh := make([]float32, len(flipped))
-		for rr := 0; rr < src.Rows; rr++ {
-			copy(sh[rr*src.Cols:(rr+1)*src.Cols], flipped[(src.Rows-1-rr)*src.Cols:(src.Rows-rr)*src.Cols])
-		}
+		sh := shadeGrid(src.Elev, src.Cols, src.Rows, true, src.Cell, r.s.Hillshade) // the Local's row 0 is south
 		out := make([]float32, mw*mh)
 		for j, ty := range ys {
 			row, st := out[j*mw:(j+1)*mw], state[j*mw:(j+1)*mw]
