@@ -13,12 +13,14 @@ import (
 
 // pngLevel is the zlib level of the maps' PNGs. Measured on the demo's six
 // maps (one core, 2026-12-02): image/png at zlib's fastest level with its
-// per-row adaptive filters, 0.70–0.78 s and 6.28 MB; unfiltered rows at
-// level 1, 0.28 s and 5.93 MB; level 3, 0.26 s and 5.15 MB; level 4, 0.34 s
-// and 4.15 MB; level 5, 0.39 s and 3.75 MB; level 6, 0.48 s and 3.54 MB.
-// Level 4 is where lazy matching starts; it keeps the time at under half
-// and the files (and the base64 in the HTML reports) a third smaller.
-const pngLevel = 4
+// per-row adaptive filters, 0.70–0.85 s and 6.28 MB; unfiltered rows at
+// level 1, 0.28 s and 5.93 MB; level 2, 0.26 s and 5.30 MB; level 3,
+// 0.26–0.34 s and 5.15 MB; level 4 (lazy matching starts), 0.34–0.48 s and
+// 4.15 MB; level 5, 0.39 s and 3.75 MB; level 6, 0.48 s and 3.54 MB.
+// Level 3 is the fastest of them and still makes the files (and the base64
+// in the HTML reports) 18 % smaller than before; level 4 would take another
+// 0.1 s of the demo for files a fifth smaller again.
+const pngLevel = 3
 
 // encodePNG writes img as a PNG. An opaque *image.RGBA (every map: the
 // paper is opaque and every layer is drawn over it) is written as 8-bit RGB
