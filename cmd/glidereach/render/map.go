@@ -177,7 +177,15 @@ func render(s *Scene, widthPx int) (*image.RGBA, *layout, error) {
 
 	r.img = image.NewRGBA(image.Rect(0, 0, lo.W, lo.H))
 	r.c = newCanvas(r.img)
-	fillSolid(r.img, r.img.Bounds(), colPaper)
+	// The paper around the map; drawTerrain paints every pixel of the map
+	// rectangle itself.
+	b, m := r.img.Bounds(), lo.mapRect
+	for _, rc := range []image.Rectangle{
+		image.Rect(b.Min.X, b.Min.Y, b.Max.X, m.Min.Y), image.Rect(b.Min.X, m.Max.Y, b.Max.X, b.Max.Y),
+		image.Rect(b.Min.X, m.Min.Y, m.Min.X, m.Max.Y), image.Rect(m.Max.X, m.Min.Y, b.Max.X, m.Max.Y),
+	} {
+		fillSolid(r.img, rc, colPaper)
+	}
 
 	r.drawTerrain()
 	r.c.clip = lo.mapRect
