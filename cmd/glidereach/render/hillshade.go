@@ -74,6 +74,7 @@ func Hillshade(l *terrain.Local, opt HillshadeOptions) []uint8 {
 	for i, v := range s {
 		out[i] = grey(v)
 	}
+	putF32(s)
 	return out
 }
 
@@ -103,7 +104,7 @@ func shadeGrid(z []float32, cols, rows int, southFirst bool, cell float64, opt H
 	px := k * inv * sinAz * cosAlt
 	qy := k * inv * cosAz * cosAlt
 	k2 := k * k * inv * inv
-	out := make([]float32, len(z))
+	out := getF32(len(z)) // every cell is written below
 	nan := float32(math.NaN())
 	for r := 0; r < rows; r++ {
 		rn, r0, rs := max(r-1, 0), r, min(r+1, rows-1) // north to south

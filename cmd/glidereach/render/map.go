@@ -202,6 +202,8 @@ func render(s *Scene, widthPx int) (*image.RGBA, *layout, error) {
 	r.drawLegend(items)
 	r.drawInputs(inputLines)
 	r.drawCaution(cautionLines)
+	r.c.release()
+	r.c = nil
 	return r.img, lo, nil
 }
 

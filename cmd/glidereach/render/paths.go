@@ -28,7 +28,26 @@ type canvas struct {
 	signs []float64
 }
 
-func newCanvas(img *image.RGBA) *canvas { return &canvas{img: img, clip: img.Bounds()} }
+// newCanvas returns a canvas on img, with the rasterizers' buffers of an
+// earlier map when one was released (bigRaster's cells are all zero
+// between shapes).
+func newCanvas(img *image.RGBA) *canvas {
+	c, ok := canvasPool.Get().(*canvas)
+	if !ok {
+		c = new(canvas)
+	}
+	c.img, c.clip = img, img.Bounds()
+	c.rings, c.signs = c.rings[:0], c.signs[:0]
+	return c
+}
+
+// release hands the canvas's buffers to the next map; c is not used again.
+func (c *canvas) release() {
+	c.img = nil
+	clear(c.rings)
+	c.rings, c.signs = c.rings[:0], c.signs[:0]
+	canvasPool.Put(c)
+}
 
 // addRing adds a closed ring to the current shape; sign +1 for an area, −1
 // for a hole in it.

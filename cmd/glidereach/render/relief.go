@@ -31,7 +31,14 @@ func (r *renderer) drawTerrain() {
 	shade := r.shade
 	if shade == nil && !l.Flat {
 		shade = shadeGrid(z, mw, mh, false, lo.mpp, r.s.Hillshade) // map rows: north first
+		defer putF32(shade)
 	}
+	defer func() { // the buffers go to the next map
+		putF32(r.z)
+		putU8(r.state)
+		putF32(r.shade)
+		r.z, r.state, r.shade = nil, nil, nil
+	}()
 	_, alt, _ := r.s.Hillshade.resolved()
 	flatShade := math.Sin(alt * math.Pi / 180)
 	img := r.img
@@ -170,8 +177,8 @@ func (r *renderer) sampleTerrain() {
 	xs := taps(mw, lo.minX, lo.mpp, src.X0, src.Cell, src.Cols, l.Cols, l.X0, l.Cell)
 	ys := taps(mh, lo.maxY, -lo.mpp, src.Y0, src.Cell, src.Rows, l.Rows, l.Y0, l.Cell)
 
-	z := make([]float32, mw*mh)
-	state := make([]uint8, mw*mh)
+	z := getF32(mw * mh)    // every pixel is written below
+	state := getU8(mw * mh) // zero: pxGround
 	nan := float32(math.NaN())
 	for j, ty := range ys {
 		row := z[j*mw : (j+1)*mw]
@@ -252,7 +259,7 @@ func (r *renderer) sampleTerrain() {
 	// mean, as for the elevation above).
 	if !l.Flat && src.Cell > 1.5*lo.mpp {
 		sh := shadeGrid(src.Elev, src.Cols, src.Rows, true, src.Cell, r.s.Hillshade) // the Local's row 0 is south
-		out := make([]float32, mw*mh)
+		out := getF32(mw * mh)                                                       // every pixel is written below
 		for j, ty := range ys {
 			row, st := out[j*mw:(j+1)*mw], state[j*mw:(j+1)*mw]
 			if ty.off {
@@ -299,6 +306,7 @@ func (r *renderer) sampleTerrain() {
 				}
 			}
 		}
+		putF32(sh)
 		r.shade = out
 	}
 }
