@@ -13,7 +13,8 @@ import (
 
 // Zone is the area a coverage is computed for: a region or a corridor.
 type Zone interface {
-	// Contains reports whether the point (degrees) lies in the zone.
+	// Contains reports whether the point (degrees) lies in the zone; it is
+	// false outside Bounds.
 	Contains(lat, lon float64) bool
 	// Bounds is the zone's lon/lat box.
 	Bounds() orb.Bound
@@ -130,19 +131,8 @@ func Coverage(ctx context.Context, req CoverageRequest) (*CoverageResult, error)
 	if lo >= top {
 		return nil, inputf("Alt", "%.0f m MSL is not above the lowest ground (%.0f m)", top, lo)
 	}
-	// Mask of the zone: each cell centre tested.
-	mask := make([]bool, l.Cols*l.Rows)
-	inZone := 0
-	for r := 0; r < l.Rows; r++ {
-		for c := 0; c < l.Cols; c++ {
-			x, y := l.XY(c, r)
-			lat, lon := l.Frame.Inverse(x, y)
-			if req.Zone.Contains(lat, lon) {
-				mask[r*l.Cols+c] = true
-				inZone++
-			}
-		}
-	}
+	// Mask of the zone: each cell centre tested (zoneMask).
+	mask, inZone := zoneMask(l, req.Zone)
 	if inZone == 0 {
 		return nil, inputf(field, "the %s holds no cell of the %.0f m solver grid", noun, l.Cell)
 	}
@@ -229,4 +219,63 @@ func Coverage(ctx context.Context, req CoverageRequest) (*CoverageResult, error)
 	}
 	out.Covered, out.Uncovered, out.CoveredArea, out.UncoveredArea = res.Polygons()
 	return out, nil
+}
+
+// maskBlock is the side (cells) of the blocks zoneMask passes over whole.
+const maskBlock = 16
+
+// zoneMask marks the cells of l whose centre lies in z (z.Contains of the
+// centre's lat/lon, Frame.Inverse) and counts them. A block of maskBlock ×
+// maskBlock cells whose corners' lat/lon box, widened on every side by its
+// own larger span, lies clear of z's Bounds is left unmarked without a
+// test per cell: Contains is false outside Bounds, and within a block of a
+// few km the plane-to-ellipsoid map bends the cell centres away from the
+// corners' box by a minute fraction of a cell, far less than the widening.
+// Blocks near a pole (|lat| ≥ 89°) or beyond ±180° of longitude are tested
+// cell by cell. The mask is the same as testing every cell.
+func zoneMask(l *terrain.Local, z Zone) ([]bool, int) {
+	mask := make([]bool, l.Cols*l.Rows)
+	b := z.Bounds()
+	inZone := 0
+	for br := 0; br < l.Rows; br += maskBlock {
+		r1 := min(br+maskBlock, l.Rows) - 1
+		for bc := 0; bc < l.Cols; bc += maskBlock {
+			c1 := min(bc+maskBlock, l.Cols) - 1
+			if blockClear(l, b, bc, br, c1, r1) {
+				continue
+			}
+			for r := br; r <= r1; r++ {
+				for c := bc; c <= c1; c++ {
+					x, y := l.XY(c, r)
+					lat, lon := l.Frame.Inverse(x, y)
+					if z.Contains(lat, lon) {
+						mask[r*l.Cols+c] = true
+						inZone++
+					}
+				}
+			}
+		}
+	}
+	return mask, inZone
+}
+
+// blockClear reports whether the cells c0..c1, r0..r1 of l certainly lie
+// outside the lon/lat box b (see zoneMask).
+func blockClear(l *terrain.Local, b orb.Bound, c0, r0, c1, r1 int) bool {
+	if !(b.Min[0] <= b.Max[0] && b.Min[1] <= b.Max[1]) {
+		return false
+	}
+	latLo, latHi, lonLo, lonHi := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
+	for _, cr := range [4][2]int{{c0, r0}, {c1, r0}, {c0, r1}, {c1, r1}} {
+		x, y := l.XY(cr[0], cr[1])
+		lat, lon := l.Frame.Inverse(x, y)
+		latLo, latHi = math.Min(latLo, lat), math.Max(latHi, lat)
+		lonLo, lonHi = math.Min(lonLo, lon), math.Max(lonHi, lon)
+	}
+	e := math.Max(latHi-latLo, lonHi-lonLo) + 1e-9
+	latLo, latHi, lonLo, lonHi = latLo-e, latHi+e, lonLo-e, lonHi+e
+	if !(latLo > -89 && latHi < 89 && lonLo > -180 && lonHi < 180) {
+		return false // near a pole, across the antimeridian, or NaN
+	}
+	return lonHi < b.Min[0] || lonLo > b.Max[0] || latHi < b.Min[1] || latLo > b.Max[1]
 }
