@@ -14,7 +14,8 @@ import (
 // Zone is a part of the earth's surface that the coverage command tests
 // grid cells against: a *Region (box or polygons) or a *Corridor.
 type Zone interface {
-	// Contains reports whether the point (decimal degrees) lies inside.
+	// Contains reports whether the point (decimal degrees) lies inside;
+	// it is false outside Bounds (the coverage's mask relies on it).
 	Contains(lat, lon float64) bool
 	// Bounds is the lon/lat box that holds the region (orb.Bound: Min is
 	// the south-west corner, X = lon, Y = lat).
