@@ -11,7 +11,11 @@ import (
 	"glidereach/terrain"
 )
 
-// Zone is the area a coverage is computed for: a region or a corridor.
+// Zone is the area a coverage is computed for: a region or a corridor. A
+// Zone may also have a method BoundaryClear(minLat, minLon, maxLat, maxLon
+// float64) bool, true when the lat/lon box certainly holds none of its
+// boundary (input.Region has one); the zone mask then tests one cell per
+// such block of cells.
 type Zone interface {
 	// Contains reports whether the point (degrees) lies in the zone; it is
 	// false outside Bounds.
