@@ -47,26 +47,33 @@ func contourRingsRows(row func(r int, dst []float64), cols, rows int, level, mar
 	w := cols + 2
 	// below and above hold rows r and r+1 of the padded raster: index c+1
 	// for column c in −1..cols, NaN and the padding read as low; inB and
-	// inA flag their values ≥ level (1, else 0), nB and nA count them.
+	// inA flag their values ≥ level (1, else 0), nB and nA count the flags.
 	below, above := make([]float64, w), make([]float64, w)
 	inB, inA := make([]uint8, w), make([]uint8, w)
 	var nB, nA int
+	var padIn uint8 // low ≥ level: only for a level of −Inf
+	if low >= level {
+		padIn = 1
+	}
 	fill := func(dst []float64, in []uint8, r int) int {
-		clear(in)
 		if r < 0 || r >= rows || cols <= 0 {
 			for i := range dst {
-				dst[i] = low
+				dst[i], in[i] = low, padIn
 			}
-			return 0
+			return int(padIn) * w
 		}
 		dst[0], dst[w-1] = low, low
+		in[0], in[w-1] = padIn, padIn
 		row(r, dst[1:w-1])
-		n := 0
+		n := 2 * int(padIn)
 		for i := 1; i < w-1; i++ {
 			x := dst[i]
 			if x != x {
+				x = low
 				dst[i] = low
-			} else if x >= level {
+			}
+			in[i] = 0
+			if x >= level {
 				in[i] = 1
 				n++
 			}

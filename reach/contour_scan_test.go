@@ -125,7 +125,7 @@ func TestContourRowScanMatchesPerSquare(t *testing.T) {
 		{"empty", 0, 5, func(c, r int) float64 { return 0 }},
 	}
 	for _, rs := range cases {
-		for _, level := range []float64{0, 12.5, -30} {
+		for _, level := range []float64{0, 12.5, -30, math.Inf(-1), math.Inf(1), math.NaN()} {
 			for _, margin := range []float64{0, 0.1} {
 				want := contourRingsPerSquare(rs.v, rs.cols, rs.rows, level, margin)
 				got := contourRingsMargin(rs.v, rs.cols, rs.rows, level, margin)
