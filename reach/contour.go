@@ -28,18 +28,58 @@ func contourRings(v func(c, r int) float64, cols, rows int, level float64) []orb
 // hole around a cell just below the level is not narrower than the
 // rounding of the output coordinates, which would put its centre inside).
 func contourRingsMargin(v func(c, r int) float64, cols, rows int, level, margin float64) []orb.Ring {
+	return contourRingsRows(func(r int, dst []float64) {
+		for c := range dst {
+			dst[c] = v(c, r)
+		}
+	}, cols, rows, level, margin)
+}
+
+// contourRingsRows is contourRingsMargin with the raster given by rows:
+// row(r, dst) fills dst (cols values) with the values of row r. Each value
+// is read once (two padded rows are kept), and a square whose four corners
+// lie on the same side of the level, which has no segment, is passed over
+// without SquareSegments, so the cost of a large raster is one read and
+// one comparison per cell (a pair of rows wholly below the level is passed
+// over at once); the rings are those of the per-square scan.
+func contourRingsRows(row func(r int, dst []float64), cols, rows int, level, margin float64) []orb.Ring {
 	low := level - 1e4
-	val := func(c, r int) float64 {
-		if c < 0 || r < 0 || c >= cols || r >= rows {
-			return low
-		}
-		x := v(c, r)
-		if x != x {
-			return low
-		}
-		return x
-	}
 	w := cols + 2
+	// below and above hold rows r and r+1 of the padded raster: index c+1
+	// for column c in −1..cols, NaN and the padding read as low; inB and
+	// inA flag their values ≥ level (1, else 0), nB and nA count the flags.
+	below, above := make([]float64, w), make([]float64, w)
+	inB, inA := make([]uint8, w), make([]uint8, w)
+	var nB, nA int
+	var padIn uint8 // low ≥ level: only for a level of −Inf
+	if low >= level {
+		padIn = 1
+	}
+	fill := func(dst []float64, in []uint8, r int) int {
+		if r < 0 || r >= rows || cols <= 0 {
+			for i := range dst {
+				dst[i], in[i] = low, padIn
+			}
+			return int(padIn) * w
+		}
+		dst[0], dst[w-1] = low, low
+		in[0], in[w-1] = padIn, padIn
+		row(r, dst[1:w-1])
+		n := 2 * int(padIn)
+		for i := 1; i < w-1; i++ {
+			x := dst[i]
+			if x != x {
+				x = low
+				dst[i] = low
+			}
+			in[i] = 0
+			if x >= level {
+				in[i] = 1
+				n++
+			}
+		}
+		return n
+	}
 	// Edge ids: horizontal edge from (c,r) to (c+1,r) and vertical edge from
 	// (c,r) to (c,r+1), for c, r in −1..cols/rows.
 	hid := func(c, r int) int { return ((r+1)*w + (c + 1)) * 2 }
@@ -47,16 +87,11 @@ func contourRingsMargin(v func(c, r int) float64, cols, rows int, level, margin 
 	next := make(map[int]int) // edge id where a segment starts -> edge id where it ends
 	var starts []int          // segment starts in scan order, so rings (and their simplification) do not depend on map order
 	point := make(map[int]orb.Point)
-	edgePoint := func(id int, c, r int, horizontal bool) {
+	// edgePoint places the crossing of the edge from cell (c, r), of value
+	// a, to its neighbour (c+1, r) (horizontal) or (c, r+1), of value b.
+	edgePoint := func(id int, c, r int, horizontal bool, a, b float64) {
 		if _, ok := point[id]; ok {
 			return
-		}
-		a := val(c, r)
-		var b float64
-		if horizontal {
-			b = val(c+1, r)
-		} else {
-			b = val(c, r+1)
 		}
 		t := 0.5
 		if b != a {
@@ -75,21 +110,33 @@ func contourRingsMargin(v func(c, r int) float64, cols, rows int, level, margin 
 			point[id] = orb.Point{float64(c), float64(r) + t}
 		}
 	}
+	nB = fill(below, inB, -1)
 	for r := -1; r < rows; r++ {
+		nA = fill(above, inA, r+1)
+		if nB == 0 && nA == 0 {
+			// Both rows below the level: no square between them has a
+			// segment.
+			below, above, inB, inA, nB = above, below, inA, inB, nA
+			continue
+		}
 		for c := -1; c < cols; c++ {
-			segs, n := SquareSegments(val(c, r), val(c+1, r), val(c+1, r+1), val(c, r+1), level)
+			if k := inB[c+1] + inB[c+2] + inA[c+2] + inA[c+1]; k == 0 || k == 4 {
+				continue // no segment (SquareSegments' cases 0 and 15)
+			}
+			bl, br, tr, tl := below[c+1], below[c+2], above[c+2], above[c+1]
+			segs, n := SquareSegments(bl, br, tr, tl, level)
 			ids := [4]int{hid(c, r), hid(c, r+1), vid(c, r), vid(c+1, r)}
 			for k := range n {
 				for _, e := range segs[k] {
 					switch e {
 					case SquareBottom:
-						edgePoint(ids[e], c, r, true)
+						edgePoint(ids[e], c, r, true, bl, br)
 					case SquareTop:
-						edgePoint(ids[e], c, r+1, true)
+						edgePoint(ids[e], c, r+1, true, tl, tr)
 					case SquareLeft:
-						edgePoint(ids[e], c, r, false)
+						edgePoint(ids[e], c, r, false, bl, tl)
 					case SquareRight:
-						edgePoint(ids[e], c+1, r, false)
+						edgePoint(ids[e], c+1, r, false, br, tr)
 					}
 				}
 				from, to := ids[segs[k][0]], ids[segs[k][1]]
@@ -97,6 +144,7 @@ func contourRingsMargin(v func(c, r int) float64, cols, rows int, level, margin 
 				starts = append(starts, from)
 			}
 		}
+		below, above, inB, inA, nB = above, below, inA, inB, nA
 	}
 	return TraceRings(next, starts, point)
 }
@@ -371,12 +419,23 @@ func simplifyInward(r orb.Ring, tol float64) orb.Ring {
 // feature on the ellipsoid finds the same figure. It is the contouring the
 // footprint rings use, for any raster laid out like g.Elev.
 func ContourPolygons(g *terrain.Local, v func(c, r int) float64, level float64) (orb.MultiPolygon, float64) {
+	return contourPolygonsRows(g, func(r int, dst []float64) {
+		for c := range dst {
+			dst[c] = v(c, r)
+		}
+	}, level)
+}
+
+// contourPolygonsRows is ContourPolygons with the raster given by rows, as
+// contourRingsRows reads it: row(r, dst) fills dst (g.Cols values) with
+// the values of row r.
+func contourPolygonsRows(g *terrain.Local, row func(r int, dst []float64), level float64) (orb.MultiPolygon, float64) {
 	// Ring points at least 1 m from a cell below the level: ten times the
 	// 0.11 m of the 6-decimal rounding below, so a cell just below the level
 	// is never inside a ring as written (issue 11: a hole 0.04 m wide
 	// around a cell 0.24 m below the level vanished in the rounding).
 	margin := min(0.1, 1/g.Cell)
-	polys := polygonsFromRings(contourRingsMargin(v, g.Cols, g.Rows, level, margin), 0.5, 1)
+	polys := polygonsFromRings(contourRingsRows(row, g.Cols, g.Rows, level, margin), 0.5, 1)
 	mp := make(orb.MultiPolygon, 0, len(polys))
 	area := 0.0
 	var ll [][2]float64

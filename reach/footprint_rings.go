@@ -23,10 +23,16 @@ type Level struct {
 // half a cell of error, regions smaller than one cell dropped.
 func (f *FootprintResult) Rings(levels []float64) []Level {
 	g := f.Ground
-	v := func(c, r int) float64 { return f.AGL(c, r) }
+	// Row r of AGL, read straight from the two rasters.
+	row := func(r int, dst []float64) {
+		arr, elev := f.Arrival[r*g.Cols:(r+1)*g.Cols], g.Elev[r*g.Cols:(r+1)*g.Cols]
+		for c := range dst {
+			dst[c] = float64(arr[c]) - float64(elev[c])
+		}
+	}
 	out := make([]Level, 0, len(levels))
 	for _, lv := range levels {
-		mp, area := ContourPolygons(g, v, lv)
+		mp, area := contourPolygonsRows(g, row, lv)
 		out = append(out, Level{ArrivalAGL: lv, Polygons: mp, Area: area})
 	}
 	return out

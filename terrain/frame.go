@@ -49,6 +49,12 @@ func ecef(phi, lam float64) (x, y, z float64) {
 // Forward maps lat, lon (degrees) to local x (east) and y (north) in metres.
 func (f Frame) Forward(lat, lon float64) (x, y float64) {
 	px, py, pz := ecef(lat*math.Pi/180, lon*math.Pi/180)
+	return f.project(px, py, pz)
+}
+
+// project maps earth-centred coordinates (m) orthogonally onto the frame's
+// tangent plane: local x (east) and y (north), m.
+func (f Frame) project(px, py, pz float64) (x, y float64) {
 	dx, dy, dz := px-f.x0, py-f.y0, pz-f.z0
 	x = -f.sinLon*dx + f.cosLon*dy
 	y = -f.sinLat*f.cosLon*dx - f.sinLat*f.sinLon*dy + f.cosLat*dz

@@ -14,6 +14,10 @@ import (
 func OntoGrid(l *Local, values []float32, like *Grid) *Grid {
 	out := &Grid{CRS: like.CRS, Cols: like.Cols, Rows: like.Rows, X0: like.X0, Y0: like.Y0, DX: like.DX, DY: like.DY, Format: "GeoTIFF", Name: like.Name}
 	out.Elev = make([]float32, like.Cols*like.Rows)
+	if like.CRS.EPSG == 4326 {
+		ontoGeographic(l, values, like, out.Elev)
+		return out
+	}
 	for r := 0; r < like.Rows; r++ {
 		for c := 0; c < like.Cols; c++ {
 			lat, lon, err := like.fromCRS(like.X0+float64(c)*like.DX, like.Y0-float64(r)*like.DY)
@@ -26,6 +30,31 @@ func OntoGrid(l *Local, values []float32, like *Grid) *Grid {
 		}
 	}
 	return out
+}
+
+// ontoGeographic is OntoGrid's loop for a geographic (EPSG:4326) lattice,
+// where a row shares its latitude and a column its longitude: the factors
+// of the earth-centred position (ecef) that depend on the latitude alone
+// are found once a row, those of the longitude once a column, and each
+// cell multiplies them as ecef does, so every position, and so every value,
+// is the one Frame.Forward gives.
+func ontoGeographic(l *Local, values []float32, like *Grid, dst []float32) {
+	sl, cl := make([]float64, like.Cols), make([]float64, like.Cols)
+	for c := range sl {
+		lon := like.X0 + float64(c)*like.DX
+		sl[c], cl[c] = math.Sincos(lon * math.Pi / 180)
+	}
+	for r := 0; r < like.Rows; r++ {
+		lat := like.Y0 - float64(r)*like.DY
+		sp, cp := math.Sincos(lat * math.Pi / 180)
+		n := WGS84A / math.Sqrt(1-wgs84E2*sp*sp)
+		ncp, pz := n*cp, n*(1-wgs84E2)*sp
+		row := dst[r*like.Cols : (r+1)*like.Cols]
+		for c := range row {
+			x, y := l.Frame.project(ncp*cl[c], ncp*sl[c], pz)
+			row[c] = float32(sampleValues(l, values, x, y))
+		}
+	}
 }
 
 // LatLonGrid samples values of Local l onto a geographic (EPSG:4326) lattice

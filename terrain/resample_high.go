@@ -1,6 +1,9 @@
 package terrain
 
-import "math"
+import (
+	"math"
+	"sync"
+)
 
 // ResampleHigh is Resample for obstacles: each cell of the Local gets the
 // highest DEM sample within its footprint — at least the four samples around
@@ -33,7 +36,33 @@ func ResampleHigh(g *Grid, f Frame, x0, y0, cell float64, cols, rows int) *Local
 		}
 	}
 	nan := float32(math.NaN())
-	for r := 0; r < rows; r++ {
+	// Rows are independent: a large window is done in two bands side by
+	// side (every cell is computed the same way whichever band it is in).
+	if cols*rows >= parallelCells && rows >= 2 {
+		var wg sync.WaitGroup
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			highRows(g, l, nodes, nbx, rows/2, rows, nan)
+		}()
+		highRows(g, l, nodes, nbx, 0, rows/2, nan)
+		wg.Wait()
+		return l
+	}
+	highRows(g, l, nodes, nbx, 0, rows, nan)
+	return l
+}
+
+// parallelCells is the size (cells) from which ResampleHigh splits its rows
+// between two goroutines.
+var parallelCells = 1 << 18
+
+// highRows fills rows r0..r1−1 of l for ResampleHigh from the projected
+// lattice nodes (nbx blocks a row).
+func highRows(g *Grid, l *Local, nodes [][2]float64, nbx, r0, r1 int, nan float32) {
+	const B = resampleBlock
+	cols := l.Cols
+	for r := r0; r < r1; r++ {
 		j, ty := r/B, float64(r%B)/B
 		for bi := 0; bi < nbx; bi++ {
 			n00, n10 := nodes[j*(nbx+1)+bi], nodes[j*(nbx+1)+bi+1]
@@ -87,7 +116,6 @@ func ResampleHigh(g *Grid, f Frame, x0, y0, cell float64, cols, rows int) *Local
 			}
 		}
 	}
-	return l
 }
 
 // HighAround returns the highest of the grid samples around lat, lon (the

@@ -1,6 +1,9 @@
 package terrain
 
-import "testing"
+import (
+	"math"
+	"testing"
+)
 
 func TestResampleHighNeverBelowTheDEM(t *testing.T) {
 	// A cliff between samples: bilinear resampling cuts it down, the
@@ -53,5 +56,34 @@ func TestHighAround(t *testing.T) {
 	}
 	if _, ok := g.HighAround(5, 5); ok {
 		t.Error("off the grid: want ok false")
+	}
+}
+
+// TestResampleHighBandsMatchOneLoop: a window large enough to be done in
+// two bands of rows gives every cell the value of the one loop (common
+// practice, no source: the split checked against the code unsplit), for an
+// odd and an even number of rows and with voids.
+func TestResampleHighBandsMatchOneLoop(t *testing.T) {
+	g := Synthetic(5, 700, 700, 1.0/3600)
+	for i := 0; i < len(g.Elev); i += 1013 {
+		g.Elev[i] = float32(math.NaN())
+	}
+	f := NewFrame(SyntheticLat, SyntheticLon)
+	for _, n := range []int{601, 600} {
+		cell := 25.0
+		half := float64(n-1) / 2 * cell
+		if n*n < parallelCells {
+			t.Fatalf("%d cells: below the split size %d; the case tests nothing", n*n, parallelCells)
+		}
+		split := ResampleHigh(g, f, -half, -half, cell, n, n)
+		saved := parallelCells
+		parallelCells = math.MaxInt
+		one := ResampleHigh(g, f, -half, -half, cell, n, n)
+		parallelCells = saved
+		for i := range one.Elev {
+			if math.Float32bits(split.Elev[i]) != math.Float32bits(one.Elev[i]) {
+				t.Fatalf("%d rows: cell %d: %v in bands, %v in one loop", n, i, split.Elev[i], one.Elev[i])
+			}
+		}
 	}
 }

@@ -11,9 +11,14 @@ import (
 	"glidereach/terrain"
 )
 
-// Zone is the area a coverage is computed for: a region or a corridor.
+// Zone is the area a coverage is computed for: a region or a corridor. A
+// Zone may also have a method BoundaryClear(minLat, minLon, maxLat, maxLon
+// float64) bool, true when the lat/lon box certainly holds none of its
+// boundary (input.Region has one); the zone mask then tests one cell per
+// such block of cells.
 type Zone interface {
-	// Contains reports whether the point (degrees) lies in the zone.
+	// Contains reports whether the point (degrees) lies in the zone; it is
+	// false outside Bounds.
 	Contains(lat, lon float64) bool
 	// Bounds is the zone's lon/lat box.
 	Bounds() orb.Bound
@@ -130,19 +135,8 @@ func Coverage(ctx context.Context, req CoverageRequest) (*CoverageResult, error)
 	if lo >= top {
 		return nil, inputf("Alt", "%.0f m MSL is not above the lowest ground (%.0f m)", top, lo)
 	}
-	// Mask of the zone: each cell centre tested.
-	mask := make([]bool, l.Cols*l.Rows)
-	inZone := 0
-	for r := 0; r < l.Rows; r++ {
-		for c := 0; c < l.Cols; c++ {
-			x, y := l.XY(c, r)
-			lat, lon := l.Frame.Inverse(x, y)
-			if req.Zone.Contains(lat, lon) {
-				mask[r*l.Cols+c] = true
-				inZone++
-			}
-		}
-	}
+	// Mask of the zone: each cell centre tested (zoneMask).
+	mask, inZone := zoneMask(l, req.Zone)
 	if inZone == 0 {
 		return nil, inputf(field, "the %s holds no cell of the %.0f m solver grid", noun, l.Cell)
 	}
@@ -229,4 +223,95 @@ func Coverage(ctx context.Context, req CoverageRequest) (*CoverageResult, error)
 	}
 	out.Covered, out.Uncovered, out.CoveredArea, out.UncoveredArea = res.Polygons()
 	return out, nil
+}
+
+// maskBlock is the side (cells) of the blocks zoneMask passes over whole.
+const maskBlock = 16
+
+// boundaryZone is a Zone that can tell that a lat/lon box holds none of
+// its boundary (input.Region does): Contains is then the same at every
+// point of the box. false means only "not known".
+type boundaryZone interface {
+	BoundaryClear(minLat, minLon, maxLat, maxLon float64) bool
+}
+
+// zoneMask marks the cells of l whose centre lies in z (z.Contains of the
+// centre's lat/lon, Frame.Inverse) and counts them. For a block of
+// maskBlock × maskBlock cells it takes the lat/lon box of its corners,
+// widened on every side by the box's own larger span: within a block of a
+// few km the plane-to-ellipsoid map bends the cell centres away from the
+// corners' box by a minute fraction of a cell, far less than the widening,
+// so every centre lies in the widened box. A block whose widened box is
+// clear of z's Bounds is left unmarked (Contains is false outside Bounds);
+// one whose widened box holds none of the zone's boundary (z has a
+// BoundaryClear method that says so) takes the answer of its first cell
+// for every cell. Blocks near a pole (|lat| ≥ 89°) or beyond ±180° of
+// longitude, and the rest, are tested cell by cell. The mask is the same
+// as testing every cell.
+func zoneMask(l *terrain.Local, z Zone) ([]bool, int) {
+	mask := make([]bool, l.Cols*l.Rows)
+	b := z.Bounds()
+	bz, _ := z.(boundaryZone)
+	inZone := 0
+	for br := 0; br < l.Rows; br += maskBlock {
+		r1 := min(br+maskBlock, l.Rows) - 1
+		for bc := 0; bc < l.Cols; bc += maskBlock {
+			c1 := min(bc+maskBlock, l.Cols) - 1
+			box, ok := blockBox(l, bc, br, c1, r1)
+			if ok && boxClear(box, b) {
+				continue
+			}
+			if ok && bz != nil && bz.BoundaryClear(box.Min[1], box.Min[0], box.Max[1], box.Max[0]) {
+				x, y := l.XY(bc, br)
+				if lat, lon := l.Frame.Inverse(x, y); z.Contains(lat, lon) {
+					for r := br; r <= r1; r++ {
+						row := mask[r*l.Cols+bc : r*l.Cols+c1+1]
+						for i := range row {
+							row[i] = true
+						}
+					}
+					inZone += (r1 - br + 1) * (c1 - bc + 1)
+				}
+				continue
+			}
+			for r := br; r <= r1; r++ {
+				for c := bc; c <= c1; c++ {
+					x, y := l.XY(c, r)
+					lat, lon := l.Frame.Inverse(x, y)
+					if z.Contains(lat, lon) {
+						mask[r*l.Cols+c] = true
+						inZone++
+					}
+				}
+			}
+		}
+	}
+	return mask, inZone
+}
+
+// blockBox returns the lon/lat box (orb.Bound: X lon, Y lat) that holds
+// the centres of cells c0..c1 × r0..r1 of l (see zoneMask); ok is false
+// near a pole, across ±180° or for NaN.
+func blockBox(l *terrain.Local, c0, r0, c1, r1 int) (orb.Bound, bool) {
+	latLo, latHi, lonLo, lonHi := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
+	for _, cr := range [4][2]int{{c0, r0}, {c1, r0}, {c0, r1}, {c1, r1}} {
+		x, y := l.XY(cr[0], cr[1])
+		lat, lon := l.Frame.Inverse(x, y)
+		latLo, latHi = math.Min(latLo, lat), math.Max(latHi, lat)
+		lonLo, lonHi = math.Min(lonLo, lon), math.Max(lonHi, lon)
+	}
+	e := math.Max(latHi-latLo, lonHi-lonLo) + 1e-9
+	latLo, latHi, lonLo, lonHi = latLo-e, latHi+e, lonLo-e, lonHi+e
+	if !(latLo > -89 && latHi < 89 && lonLo > -180 && lonHi < 180) {
+		return orb.Bound{}, false
+	}
+	return orb.Bound{Min: orb.Point{lonLo, latLo}, Max: orb.Point{lonHi, latHi}}, true
+}
+
+// boxClear reports whether the box lies clear of the bound b.
+func boxClear(box, b orb.Bound) bool {
+	if !(b.Min[0] <= b.Max[0] && b.Min[1] <= b.Max[1]) {
+		return false
+	}
+	return box.Max[0] < b.Min[0] || box.Min[0] > b.Max[0] || box.Max[1] < b.Min[1] || box.Min[1] > b.Max[1]
 }

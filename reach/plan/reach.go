@@ -150,7 +150,7 @@ func Reach(ctx context.Context, req ReachRequest) (*ReachResult, error) {
 	// sectors, not the footprint: they are set up now and run beside the
 	// footprints. An error setting them up is returned after the
 	// footprints' (as when the fields were judged after them).
-	jd := &judge{req: &req, res: res, l: l, startElev: elev}
+	jd := &judge{req: &req, res: res, l: l, lowest: lo, startElev: elev}
 	fw, fieldErr := jd.setup(ctx)
 	// The winds' footprints and the (field, wind) backward runs are
 	// independent jobs for two workers, the footprints (the longest) first,
@@ -251,6 +251,7 @@ type judge struct {
 	req       *ReachRequest
 	res       *ReachResult
 	l         *terrain.Local // the footprint's window
+	lowest    float64        // Lowest(l), m MSL
 	startElev float64
 }
 
@@ -276,7 +277,7 @@ type fieldPair struct{ f, k int }
 // needed more, made a field's figure depend on the order the fields were
 // judged in).
 func (jd *judge) setup(ctx context.Context) (*fieldWork, error) {
-	req, res, l := jd.req, jd.res, jd.l
+	req, res := jd.req, jd.res
 	fw := &fieldWork{jobs: make([]*fieldJob, len(req.Fields)), onWin: make([]bool, len(req.Fields))}
 	res.Fields = make([]FieldResult, len(req.Fields))
 	for i, f := range req.Fields {
@@ -286,7 +287,7 @@ func (jd *judge) setup(ctx context.Context) (*fieldWork, error) {
 		}
 		res.Fields[i], fw.jobs[i], fw.onWin[i] = fr, job, onWin
 	}
-	flo, fhi := Lowest(l), math.Inf(-1)
+	flo, fhi := jd.lowest, math.Inf(-1)
 	for _, j := range fw.jobs {
 		if j != nil {
 			flo, fhi = math.Min(flo, j.target.Elev), math.Max(fhi, j.ceiling)
@@ -567,7 +568,11 @@ func (jd *judge) place(fr *FieldResult, j *fieldJob, bounds []*reach.RangeBound)
 		}
 		j.win = w
 	}
-	j.lo = math.Min(Lowest(j.win), j.target.Elev)
+	low := jd.lowest
+	if j.win != jd.l {
+		low = Lowest(j.win)
+	}
+	j.lo = math.Min(low, j.target.Elev)
 	return true
 }
 

@@ -149,18 +149,26 @@ func (s *Setup) Tables(ctx context.Context, lo, hi float64) ([]*reach.Table, err
 // bottom, m MSL) over Winds, each wind's table built over tabLo..tabHi (m
 // MSL, which must hold top and bottom). A table that cannot be built is an
 // *InputError naming "Aircraft"; a radius that cannot be found one with no
-// field.
+// field. The tables are built two at a time.
 func (s *Setup) GlideRadius(top, bottom, tabLo, tabHi float64) (float64, error) {
+	// The winds' tables two at a time (ForEach: the first error by wind,
+	// as one after another would give).
+	radii := make([]float64, len(s.Winds))
+	err := ForEach(context.Background(), len(s.Winds), 2, func(k int) error {
+		tab, err := s.TableFor(s.Winds[k], tabLo, tabHi)
+		if err != nil {
+			return &InputError{Field: "Aircraft", Err: err}
+		}
+		if radii[k], err = reach.ReachRadius(tab, top, bottom); err != nil {
+			return &InputError{Err: err}
+		}
+		return nil
+	})
+	if err != nil {
+		return 0, err
+	}
 	radius := 0.0
-	for _, w := range s.Winds {
-		tab, err := s.TableFor(w, tabLo, tabHi)
-		if err != nil {
-			return 0, &InputError{Field: "Aircraft", Err: err}
-		}
-		r, err := reach.ReachRadius(tab, top, bottom)
-		if err != nil {
-			return 0, &InputError{Err: err}
-		}
+	for _, r := range radii {
 		radius = math.Max(radius, r)
 	}
 	return radius, nil

@@ -14,7 +14,8 @@ import (
 // Zone is a part of the earth's surface that the coverage command tests
 // grid cells against: a *Region (box or polygons) or a *Corridor.
 type Zone interface {
-	// Contains reports whether the point (decimal degrees) lies inside.
+	// Contains reports whether the point (decimal degrees) lies inside;
+	// it is false outside Bounds (the coverage's mask relies on it).
 	Contains(lat, lon float64) bool
 	// Bounds is the lon/lat box that holds the region (orb.Bound: Min is
 	// the south-west corner, X = lon, Y = lat).
@@ -62,6 +63,68 @@ func (a *Region) Contains(lat, lon float64) bool {
 		}
 	}
 	return false
+}
+
+// BoundaryClear reports whether the closed lat/lon box minLat..maxLat ×
+// minLon..maxLon (degrees) certainly holds no point of the area's boundary,
+// so that Contains gives the same answer at every point of it: the box
+// lies strictly inside or strictly outside the area's bound and each
+// polygon's, and no edge's own box meets it. false means only "not
+// known". It lets a caller testing a whole raster of points test one per
+// such box.
+func (a *Region) BoundaryClear(minLat, minLon, maxLat, maxLon float64) bool {
+	if !(minLat <= maxLat && minLon <= maxLon) {
+		return false
+	}
+	box := orb.Bound{Min: orb.Point{minLon, minLat}, Max: orb.Point{maxLon, maxLat}}
+	switch boxSide(box, a.bound) {
+	case sideOut:
+		return true
+	case sideEdge:
+		return false
+	}
+	if a.box {
+		return true
+	}
+	for i := range a.index {
+		pi := &a.index[i]
+		switch boxSide(box, pi.bound) {
+		case sideOut:
+			continue
+		case sideEdge:
+			return false
+		}
+		for k := range pi.rings {
+			ri := &pi.rings[k]
+			for b := ri.band(minLat); b <= ri.band(maxLat); b++ {
+				for _, e := range ri.bands[b] {
+					if math.Max(e.x0, e.x1) >= minLon && math.Min(e.x0, e.x1) <= maxLon &&
+						math.Max(e.y0, e.y1) >= minLat && math.Min(e.y0, e.y1) <= maxLat {
+						return false
+					}
+				}
+			}
+		}
+	}
+	return true
+}
+
+// Where a box lies against a bound: strictly inside, strictly outside, or
+// touching its edge.
+const (
+	sideIn = iota
+	sideOut
+	sideEdge
+)
+
+func boxSide(box, b orb.Bound) int {
+	if box.Min[0] > b.Max[0] || box.Max[0] < b.Min[0] || box.Min[1] > b.Max[1] || box.Max[1] < b.Min[1] {
+		return sideOut
+	}
+	if box.Min[0] > b.Min[0] && box.Max[0] < b.Max[0] && box.Min[1] > b.Min[1] && box.Max[1] < b.Max[1] {
+		return sideIn
+	}
+	return sideEdge
 }
 
 // ParseArea reads the value of --area: the path of a GeoJSON file holding a

@@ -69,21 +69,12 @@ func (o HillshadeOptions) resolved() (az, alt, z float64) {
 // Proceedings of the IEEE 69(1), 1981; GDAL gdaldem documentation
 // (hillshade); checked against gdaldem 3.6.2 output in testdata/render.
 func Hillshade(l *terrain.Local, opt HillshadeOptions) []uint8 {
-	// shadeGrid wants row 0 north; Local row 0 is south, so pass a
-	// negative row step through a flipped copy.
-	n := l.Cols * l.Rows
-	z := make([]float32, n)
-	for r := 0; r < l.Rows; r++ {
-		copy(z[(l.Rows-1-r)*l.Cols:(l.Rows-r)*l.Cols], l.Elev[r*l.Cols:(r+1)*l.Cols])
+	s := shadeGrid(l.Elev, l.Cols, l.Rows, true, l.Cell, opt) // a Local's row 0 is south
+	out := make([]uint8, len(s))
+	for i, v := range s {
+		out[i] = grey(v)
 	}
-	s := shadeGrid(z, l.Cols, l.Rows, l.Cell, opt)
-	out := make([]uint8, n)
-	for r := 0; r < l.Rows; r++ {
-		row := s[(l.Rows-1-r)*l.Cols : (l.Rows-r)*l.Cols]
-		for c, v := range row {
-			out[r*l.Cols+c] = grey(v)
-		}
-	}
+	putF32(s)
 	return out
 }
 
@@ -98,9 +89,11 @@ func grey(v float32) uint8 {
 	return uint8(math.Min(255, 1+254*float64(v)+0.5))
 }
 
-// shadeGrid computes cos θ (clamped at 0; NaN on voids) for a north-up grid
-// (row 0 north) of square cells of size cell metres. See Hillshade.
-func shadeGrid(z []float32, cols, rows int, cell float64, opt HillshadeOptions) []float32 {
+// shadeGrid computes cos θ (clamped at 0; NaN on voids) for a grid of
+// square cells of size cell metres, row 0 north, or with southFirst row 0
+// south (a terrain.Local's order; the result is in the same order). See
+// Hillshade.
+func shadeGrid(z []float32, cols, rows int, southFirst bool, cell float64, opt HillshadeOptions) []float32 {
 	az, alt, k := opt.resolved()
 	azr, altr := az*math.Pi/180, alt*math.Pi/180
 	sinAlt, cosAlt := math.Sincos(altr)
@@ -111,24 +104,33 @@ func shadeGrid(z []float32, cols, rows int, cell float64, opt HillshadeOptions) 
 	px := k * inv * sinAz * cosAlt
 	qy := k * inv * cosAz * cosAlt
 	k2 := k * k * inv * inv
-	out := make([]float32, len(z))
+	out := getF32(len(z)) // every cell is written below
+	nan := float32(math.NaN())
 	for r := 0; r < rows; r++ {
-		rn, rs := max(r-1, 0), min(r+1, rows-1)
-		north, mid, south := z[rn*cols:(rn+1)*cols], z[r*cols:(r+1)*cols], z[rs*cols:(rs+1)*cols]
-		for c := 0; c < cols; c++ {
-			e := mid[c]
+		rn, r0, rs := max(r-1, 0), r, min(r+1, rows-1) // north to south
+		if southFirst {
+			rn, r0, rs = rows-1-rn, rows-1-r0, rows-1-rs
+		}
+		north, mid, south := z[rn*cols:(rn+1)*cols], z[r0*cols:(r0+1)*cols], z[rs*cols:(rs+1)*cols]
+		o := out[r0*cols : (r0+1)*cols]
+		for c, e := range mid {
 			if e != e {
-				out[r*cols+c] = float32(math.NaN())
+				o[c] = nan
 				continue
 			}
 			cw, ce := max(c-1, 0), min(c+1, cols-1)
-			a, b, cc := pick(north[cw], e), pick(north[c], e), pick(north[ce], e)
-			d, f := pick(mid[cw], e), pick(mid[ce], e)
-			g, h, i := pick(south[cw], e), pick(south[c], e), pick(south[ce], e)
+			a, b, cc := north[cw], north[c], north[ce]
+			d, f := mid[cw], mid[ce]
+			g, h, i := south[cw], south[c], south[ce]
+			if s := a + b + cc + d + f + g + h + i; s != s { // a void among them (or ±Inf)
+				a, b, cc = pick(a, e), pick(b, e), pick(cc, e)
+				d, f = pick(d, e), pick(f, e)
+				g, h, i = pick(g, e), pick(h, e), pick(i, e)
+			}
 			gx := float64((cc + 2*f + i) - (a + 2*d + g))
 			gy := float64((a + 2*b + cc) - (g + 2*h + i))
 			v := (sinAlt - px*gx - qy*gy) / math.Sqrt(1+k2*(gx*gx+gy*gy))
-			out[r*cols+c] = float32(math.Max(v, 0))
+			o[c] = float32(max(v, 0)) // the builtin: math.Max's rules for NaN and -0, inline
 		}
 	}
 	return out

@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"image"
 	"image/color"
-	"image/png"
 	"io"
 	"math"
 	"sort"
@@ -24,17 +23,6 @@ func RenderPNG(w io.Writer, s *Scene, widthPx int) error {
 		return err
 	}
 	return encodePNG(w, img)
-}
-
-// encodePNG writes img with the fastest zlib level: shaded relief
-// compresses poorly anyway, and the best level triples the time for a few
-// percent.
-func encodePNG(w io.Writer, img image.Image) error {
-	enc := png.Encoder{CompressionLevel: png.BestSpeed}
-	if err := enc.Encode(w, img); err != nil {
-		return fmt.Errorf("render: writing PNG: %w", err)
-	}
-	return nil
 }
 
 // Render draws the scene into a new image; see RenderPNG.
@@ -189,7 +177,15 @@ func render(s *Scene, widthPx int) (*image.RGBA, *layout, error) {
 
 	r.img = image.NewRGBA(image.Rect(0, 0, lo.W, lo.H))
 	r.c = newCanvas(r.img)
-	fillSolid(r.img, r.img.Bounds(), colPaper)
+	// The paper around the map; drawTerrain paints every pixel of the map
+	// rectangle itself.
+	b, m := r.img.Bounds(), lo.mapRect
+	for _, rc := range []image.Rectangle{
+		image.Rect(b.Min.X, b.Min.Y, b.Max.X, m.Min.Y), image.Rect(b.Min.X, m.Max.Y, b.Max.X, b.Max.Y),
+		image.Rect(b.Min.X, m.Min.Y, m.Min.X, m.Max.Y), image.Rect(m.Max.X, m.Min.Y, b.Max.X, m.Max.Y),
+	} {
+		fillSolid(r.img, rc, colPaper)
+	}
 
 	r.drawTerrain()
 	r.c.clip = lo.mapRect
@@ -206,6 +202,8 @@ func render(s *Scene, widthPx int) (*image.RGBA, *layout, error) {
 	r.drawLegend(items)
 	r.drawInputs(inputLines)
 	r.drawCaution(cautionLines)
+	r.c.release()
+	r.c = nil
 	return r.img, lo, nil
 }
 

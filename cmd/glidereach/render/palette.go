@@ -84,20 +84,33 @@ var hypsoTint = []tintStop{
 // tint returns the hypsometric colour at t in [0, 1] as floats 0–255.
 func tint(t float64) (r, g, b float64) {
 	if !(t > 0) {
-		s := hypsoTint[0]
-		return s.r, s.g, s.b
+		s := &tintSegs[0]
+		return s.r0, s.g0, s.b0
 	}
-	for i := 1; i < len(hypsoTint); i++ {
-		s1 := hypsoTint[i]
-		if t <= s1.t {
-			s0 := hypsoTint[i-1]
-			u := (t - s0.t) / (s1.t - s0.t)
-			return s0.r + u*(s1.r-s0.r), s0.g + u*(s1.g-s0.g), s0.b + u*(s1.b-s0.b)
+	for i := range tintSegs {
+		if s := &tintSegs[i]; t <= s.t1 {
+			u := (t - s.t0) / s.dt
+			return s.r0 + u*s.dr, s.g0 + u*s.dg, s.b0 + u*s.db
 		}
 	}
 	s := hypsoTint[len(hypsoTint)-1]
 	return s.r, s.g, s.b
 }
+
+// tintSeg is the stretch of hypsoTint between two stops, with the
+// differences tint takes (the same float64 subtractions it made per call).
+type tintSeg struct {
+	t0, t1, dt, r0, g0, b0, dr, dg, db float64
+}
+
+var tintSegs = func() []tintSeg {
+	out := make([]tintSeg, len(hypsoTint)-1)
+	for i := range out {
+		s0, s1 := hypsoTint[i], hypsoTint[i+1]
+		out[i] = tintSeg{s0.t, s1.t, s1.t - s0.t, s0.r, s0.g, s0.b, s1.r - s0.r, s1.g - s0.g, s1.b - s0.b}
+	}
+	return out
+}()
 
 // rgb is an opaque colour from float channels 0–255.
 func rgb(r, g, b float64) color.RGBA {

@@ -3,7 +3,6 @@ package render
 import (
 	"image"
 	"image/color"
-	"image/draw"
 	"math"
 
 	"golang.org/x/image/vector"
@@ -23,12 +22,32 @@ type canvas struct {
 	img  *image.RGBA
 	clip image.Rectangle // shapes are cut to this rectangle
 	z    vector.Rasterizer
+	big  bigRaster // shapes whose box is wider or taller than bigRasterMin
 	// shape under construction, in pixel coordinates
 	rings [][]pt
 	signs []float64
 }
 
-func newCanvas(img *image.RGBA) *canvas { return &canvas{img: img, clip: img.Bounds()} }
+// newCanvas returns a canvas on img, with the rasterizers' buffers of an
+// earlier map when one was released (bigRaster's cells are all zero
+// between shapes).
+func newCanvas(img *image.RGBA) *canvas {
+	c, ok := canvasPool.Get().(*canvas)
+	if !ok {
+		c = new(canvas)
+	}
+	c.img, c.clip = img, img.Bounds()
+	c.rings, c.signs = c.rings[:0], c.signs[:0]
+	return c
+}
+
+// release hands the canvas's buffers to the next map; c is not used again.
+func (c *canvas) release() {
+	c.img = nil
+	clear(c.rings)
+	c.rings, c.signs = c.rings[:0], c.signs[:0]
+	canvasPool.Put(c)
+}
 
 // addRing adds a closed ring to the current shape; sign +1 for an area, −1
 // for a hole in it.
@@ -56,22 +75,39 @@ func (c *canvas) paint(col color.RGBA) {
 	if len(c.rings) == 0 || col.A == 0 {
 		return
 	}
-	minX, minY, maxX, maxY := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
-	for _, r := range c.rings {
-		for _, p := range r {
-			minX, maxX = math.Min(minX, p.X), math.Max(maxX, p.X)
-			minY, maxY = math.Min(minY, p.Y), math.Max(maxY, p.Y)
-		}
-	}
-	if !(minX <= maxX && minY <= maxY) { // NaN or empty
-		return
-	}
-	bb := image.Rect(int(math.Floor(minX))-1, int(math.Floor(minY))-1,
-		int(math.Ceil(maxX))+1, int(math.Ceil(maxY))+1).Intersect(c.clip)
+	bb := c.shapeBox()
 	if bb.Empty() {
 		return
 	}
-	c.z.Reset(bb.Dx(), bb.Dy())
+	if bb.Dx() > bigRasterMin || bb.Dy() > bigRasterMin {
+		c.rasterize(&c.big, bb)
+		c.big.draw(c.img, bb, col)
+		return
+	}
+	c.rasterize(vectorSink{&c.z}, bb)
+	c.z.Draw(c.img, bb, image.NewUniform(col), image.Point{})
+}
+
+// pathSink is a rasterizer paint feeds the rings to.
+type pathSink interface {
+	reset(w, h int)
+	moveTo(x, y float32)
+	lineTo(x, y float32)
+	closePath()
+}
+
+// vectorSink adapts golang.org/x/image/vector's Rasterizer.
+type vectorSink struct{ *vector.Rasterizer }
+
+func (v vectorSink) reset(w, h int)      { v.Reset(w, h) }
+func (v vectorSink) moveTo(x, y float32) { v.MoveTo(x, y) }
+func (v vectorSink) lineTo(x, y float32) { v.LineTo(x, y) }
+func (v vectorSink) closePath()          { v.ClosePath() }
+
+// rasterize feeds the current shape's rings, oriented by their signs, to
+// z in the coordinates of box bb.
+func (c *canvas) rasterize(sink pathSink, bb image.Rectangle) {
+	sink.reset(bb.Dx(), bb.Dy())
 	ox, oy := float64(bb.Min.X), float64(bb.Min.Y)
 	for i, r := range c.rings {
 		a := signedArea(r)
@@ -87,14 +123,31 @@ func (c *canvas) paint(col color.RGBA) {
 			return r[n-1-k]
 		}
 		p := at(0)
-		c.z.MoveTo(float32(p.X-ox), float32(p.Y-oy))
+		sink.moveTo(float32(p.X-ox), float32(p.Y-oy))
 		for k := 1; k < n; k++ {
 			p = at(k)
-			c.z.LineTo(float32(p.X-ox), float32(p.Y-oy))
+			sink.lineTo(float32(p.X-ox), float32(p.Y-oy))
 		}
-		c.z.ClosePath()
+		sink.closePath()
 	}
-	c.z.Draw(c.img, bb, image.NewUniform(col), image.Point{})
+}
+
+// shapeBox is the box paint rasterizes the current shape in: the rings'
+// bounds rounded out by a pixel, within the clip (empty for no rings or
+// NaN coordinates).
+func (c *canvas) shapeBox() image.Rectangle {
+	minX, minY, maxX, maxY := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
+	for _, r := range c.rings {
+		for _, p := range r {
+			minX, maxX = math.Min(minX, p.X), math.Max(maxX, p.X)
+			minY, maxY = math.Min(minY, p.Y), math.Max(maxY, p.Y)
+		}
+	}
+	if !(minX <= maxX && minY <= maxY) { // NaN or empty
+		return image.Rectangle{}
+	}
+	return image.Rect(int(math.Floor(minX))-1, int(math.Floor(minY))-1,
+		int(math.Ceil(maxX))+1, int(math.Ceil(maxY))+1).Intersect(c.clip)
 }
 
 // fillPolys fills polygons (ring 0 the outside, the rest holes) as one shape.
@@ -276,12 +329,55 @@ func (c *canvas) hatchPolysMinus(polys, minus [][][]pt, col color.RGBA, gap, w f
 		mask.Pix[i] = tmp.Pix[4*i+3]
 	}
 	// Stripes over the bounding box, into a layer drawn through the mask.
-	layer := image.NewRGBA(c.img.Bounds())
-	c.img = layer
+	// The layer covers only the box the stripes are painted in (paint
+	// rasterizes them there whatever the image): beyond it a whole-image
+	// layer was transparent, which draw.Over through any mask leaves as it
+	// was.
 	for d := minX - (maxY - minY); d < maxX+gap; d += gap {
 		c.addStroke([]pt{{d, maxY + w}, {d + (maxY - minY) + 2*w, minY - w}}, w, false)
 	}
+	sb := c.shapeBox()
+	if sb.Empty() {
+		c.rings, c.signs = c.rings[:0], c.signs[:0]
+		return
+	}
+	layer := image.NewRGBA(sb)
+	c.img = layer
 	c.paint(col)
 	c.img = saved
-	draw.DrawMask(c.img, c.clip, layer, c.clip.Min, mask, c.clip.Min, draw.Over)
+	maskOver(c.img, c.clip, layer, mask)
+}
+
+// maskOver is draw.DrawMask(dst, r, src, r.Min, mask, r.Min, draw.Over)
+// (image/draw's drawRGBAMaskOver, the same arithmetic per pixel) for
+// pixels where both mask and src are non-zero: a mask of 0 or a
+// transparent black source pixel leaves dst as it is, exactly, and most of
+// a hatch's layer is the gaps between its stripes.
+func maskOver(dst *image.RGBA, r image.Rectangle, src *image.RGBA, mask *image.Alpha) {
+	r = r.Intersect(dst.Rect).Intersect(src.Rect).Intersect(mask.Rect)
+	const m = 1<<16 - 1
+	for y := r.Min.Y; y < r.Max.Y; y++ {
+		mrow := mask.Pix[mask.PixOffset(r.Min.X, y):mask.PixOffset(r.Max.X, y)]
+		srow := src.Pix[src.PixOffset(r.Min.X, y):src.PixOffset(r.Max.X, y)]
+		drow := dst.Pix[dst.PixOffset(r.Min.X, y):dst.PixOffset(r.Max.X, y)]
+		for x, mv := range mrow {
+			s := srow[4*x : 4*x+4 : 4*x+4]
+			if mv == 0 || s[0]|s[1]|s[2]|s[3] == 0 {
+				continue
+			}
+			ma := uint32(mv)
+			ma |= ma << 8
+			sr, sg, sb, sa := uint32(s[0]), uint32(s[1]), uint32(s[2]), uint32(s[3])
+			sr |= sr << 8
+			sg |= sg << 8
+			sb |= sb << 8
+			sa |= sa << 8
+			d := drow[4*x : 4*x+4 : 4*x+4]
+			a := (m - (sa * ma / m)) * 0x101
+			d[0] = uint8((uint32(d[0])*a + sr*ma) / m >> 8)
+			d[1] = uint8((uint32(d[1])*a + sg*ma) / m >> 8)
+			d[2] = uint8((uint32(d[2])*a + sb*ma) / m >> 8)
+			d[3] = uint8((uint32(d[3])*a + sa*ma) / m >> 8)
+		}
+	}
 }

@@ -30,29 +30,42 @@ func (r *renderer) drawTerrain() {
 	span := math.Max(highE-lowE, 300)
 	shade := r.shade
 	if shade == nil && !l.Flat {
-		shade = shadeGrid(z, mw, mh, lo.mpp, r.s.Hillshade)
+		shade = shadeGrid(z, mw, mh, false, lo.mpp, r.s.Hillshade) // map rows: north first
+		defer putF32(shade)
 	}
+	defer func() { // the buffers go to the next map
+		putF32(r.z)
+		putU8(r.state)
+		putF32(r.shade)
+		r.z, r.state, r.shade = nil, nil, nil
+	}()
 	_, alt, _ := r.s.Hillshade.resolved()
 	flatShade := math.Sin(alt * math.Pi / 180)
 	img := r.img
+	flat := l.Flat
 	for j := 0; j < mh; j++ {
-		pix := img.Pix[img.PixOffset(lo.mapRect.Min.X, lo.mapRect.Min.Y+j):]
-		for i := 0; i < mw; i++ {
-			k := j*mw + i
+		o := img.PixOffset(lo.mapRect.Min.X, lo.mapRect.Min.Y+j)
+		pix := img.Pix[o : o+4*mw : o+4*mw]
+		zr, st := z[j*mw:(j+1)*mw], state[j*mw:(j+1)*mw]
+		var sh []float32
+		if shade != nil {
+			sh = shade[j*mw : (j+1)*mw]
+		}
+		for i, s := range st {
 			p := pix[4*i : 4*i+4 : 4*i+4]
 			switch {
-			case state[k] == pxOff:
+			case s == pxOff:
 				p[0], p[1], p[2], p[3] = colOffMap.R, colOffMap.G, colOffMap.B, 255
 				continue
-			case state[k] == pxVoid:
+			case s == pxVoid:
 				p[0], p[1], p[2], p[3] = colVoid.R, colVoid.G, colVoid.B, 255
 				continue
-			case l.Flat:
+			case flat:
 				p[0], p[1], p[2], p[3] = colFlat.R, colFlat.G, colFlat.B, 255
 				continue
 			}
-			cr, cg, cb := tint((float64(z[k]) - lowE) / span)
-			sv := float64(shade[k])
+			cr, cg, cb := tint((float64(zr[i]) - lowE) / span)
+			sv := float64(sh[i])
 			if sv != sv { // a ground pixel whose shade cells are all void
 				sv = flatShade
 			}
@@ -61,7 +74,7 @@ func (r *renderer) drawTerrain() {
 				m := 0.38 + 0.62*f
 				cr, cg, cb = cr*m, cg*m, cb*m
 			} else {
-				m := math.Min(1, (f-1)/0.41) * 0.5
+				m := min(1, (f-1)/0.41) * 0.5 // the builtin: math.Min's rules, inline
 				cr, cg, cb = cr+(255-cr)*m, cg+(255-cg)*m, cb+(255-cb)*m
 			}
 			p[0], p[1], p[2], p[3] = uint8(cr+0.5), uint8(cg+0.5), uint8(cb+0.5), 255
@@ -164,8 +177,8 @@ func (r *renderer) sampleTerrain() {
 	xs := taps(mw, lo.minX, lo.mpp, src.X0, src.Cell, src.Cols, l.Cols, l.X0, l.Cell)
 	ys := taps(mh, lo.maxY, -lo.mpp, src.Y0, src.Cell, src.Rows, l.Rows, l.Y0, l.Cell)
 
-	z := make([]float32, mw*mh)
-	state := make([]uint8, mw*mh)
+	z := getF32(mw * mh)    // every pixel is written below
+	state := getU8(mw * mh) // zero: pxGround
 	nan := float32(math.NaN())
 	for j, ty := range ys {
 		row := z[j*mw : (j+1)*mw]
@@ -245,39 +258,55 @@ func (r *renderer) sampleTerrain() {
 	// cells; voids stay void (a shade cell that is void drops out of the
 	// mean, as for the elevation above).
 	if !l.Flat && src.Cell > 1.5*lo.mpp {
-		// shadeGrid wants row 0 north; the Local's row 0 is south.
-		north := make([]float32, len(src.Elev))
-		for rr := 0; rr < src.Rows; rr++ {
-			copy(north[(src.Rows-1-rr)*src.Cols:(src.Rows-rr)*src.Cols], src.Elev[rr*src.Cols:(rr+1)*src.Cols])
-		}
-		flipped := shadeGrid(north, src.Cols, src.Rows, src.Cell, r.s.Hillshade)
-		sh := make([]float32, len(flipped))
-		for rr := 0; rr < src.Rows; rr++ {
-			copy(sh[rr*src.Cols:(rr+1)*src.Cols], flipped[(src.Rows-1-rr)*src.Cols:(src.Rows-rr)*src.Cols])
-		}
-		out := make([]float32, mw*mh)
+		sh := shadeGrid(src.Elev, src.Cols, src.Rows, true, src.Cell, r.s.Hillshade) // the Local's row 0 is south
+		out := getF32(mw * mh)                                                       // every pixel is written below
 		for j, ty := range ys {
+			row, st := out[j*mw:(j+1)*mw], state[j*mw:(j+1)*mw]
+			if ty.off {
+				for i := range row {
+					row[i] = nan
+				}
+				continue
+			}
+			s0 := sh[ty.i0*src.Cols : (ty.i0+1)*src.Cols]
+			s1 := sh[ty.i1*src.Cols : (ty.i1+1)*src.Cols]
+			wy0, wy1 := 1-ty.t, ty.t
 			for i, tx := range xs {
-				k := j*mw + i
-				if state[k] != pxGround || ty.off || tx.off {
-					out[k] = nan
+				if st[i] != pxGround || tx.off {
+					row[i] = nan
 					continue
 				}
+				// The bilinear mean of the valid corners, summed in this
+				// order (float32 sums round by order).
 				var sw, sv float32
-				for _, q := range [4][3]float32{
-					{sh[ty.i0*src.Cols+tx.i0], (1 - tx.t) * (1 - ty.t)}, {sh[ty.i0*src.Cols+tx.i1], tx.t * (1 - ty.t)},
-					{sh[ty.i1*src.Cols+tx.i0], (1 - tx.t) * ty.t}, {sh[ty.i1*src.Cols+tx.i1], tx.t * ty.t}} {
-					if q[0] == q[0] {
-						sw += q[1]
-						sv += q[1] * q[0]
-					}
+				wx0, wx1 := 1-tx.t, tx.t
+				if v := s0[tx.i0]; v == v {
+					w := wx0 * wy0
+					sw += w
+					sv += w * v
 				}
-				out[k] = nan
+				if v := s0[tx.i1]; v == v {
+					w := wx1 * wy0
+					sw += w
+					sv += w * v
+				}
+				if v := s1[tx.i0]; v == v {
+					w := wx0 * wy1
+					sw += w
+					sv += w * v
+				}
+				if v := s1[tx.i1]; v == v {
+					w := wx1 * wy1
+					sw += w
+					sv += w * v
+				}
+				row[i] = nan
 				if sw > 0 {
-					out[k] = sv / sw
+					row[i] = sv / sw
 				}
 			}
 		}
+		putF32(sh)
 		r.shade = out
 	}
 }
