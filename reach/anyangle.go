@@ -123,12 +123,6 @@ func newPropagation(l *terrain.Local, d *descent, backward bool) *propagation {
 	return p
 }
 
-// values returns the cells' values (NaN where none): FootprintResult.Arrival,
-// shared with the propagation (which Path and ArrivalAt read).
-func (p *propagation) values() []float32 {
-	return p.val
-}
-
 // initQueue sizes the bucket queue for values between lo and hi (m) and
 // bucket width w (m).
 func (p *propagation) initQueue(lo, hi, w float64) {

@@ -183,7 +183,7 @@ func footprintOn(ctx context.Context, ground *terrain.Local, start Start, sx, sy
 	if err := p.run(ctx, prog); err != nil {
 		return nil, err
 	}
-	return &FootprintResult{Ground: ground, Start: start, Arrival: p.values(), prop: p, Reserve: opts.Reserve, StartX: sx, StartY: sy}, nil
+	return &FootprintResult{Ground: ground, Start: start, Arrival: p.val, prop: p, Reserve: opts.Reserve, StartX: sx, StartY: sy}, nil
 }
 
 // AGL returns the arrival height above the ground at cell (c, r), NaN where
