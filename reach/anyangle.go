@@ -80,6 +80,9 @@ type propagation struct {
 	// and its value) and no more.
 	c   []cellRec
 	pyr *groundPyramid
+	// ownsGround is set when l is a crop made for this run alone, its
+	// elevations a scratch buffer that release gives back.
+	ownsGround bool
 	// fieldElev (backward) is the elevation (m MSL) of the field of each
 	// source Index, for the terrain floor.
 	fieldElev []float32
@@ -102,8 +105,8 @@ type propagation struct {
 func newPropagation(l *terrain.Local, d *descent, backward bool) *propagation {
 	n := l.Cols * l.Rows
 	p := &propagation{l: l, desc: d, backward: backward, cols: l.Cols, rows: l.Rows, cell: l.Cell}
-	p.c = make([]cellRec, n)
-	p.val = make([]float32, n)
+	p.c = scratchRecs.get(n)
+	p.val = scratchFloat32.get(n)
 	p.pyr = newGroundPyramid(l)
 	nan := float32(math.NaN())
 	top := noTop

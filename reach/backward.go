@@ -158,11 +158,12 @@ func requiredWith(ctx context.Context, ground *terrain.Local, targets []Target, 
 	}
 	err = forTargets(ctx, len(sets), workers, func(k int) error {
 		st := sets[k]
-		sub := ground
+		sub, owns := ground, false
 		if st.c0 != 0 || st.r0 != 0 || st.c1 != ground.Cols-1 || st.r1 != ground.Rows-1 {
-			sub = ground.CropCells(st.c0, st.r0, st.c1, st.r1)
+			sub, owns = cropScratch(ground, st.c0, st.r0, st.c1, st.r1), true
 		}
 		p := newPropagation(sub, d, true)
+		p.ownsGround = owns
 		p.clearance = float32(opts.Clearance)
 		p.ceiling = ceiling
 		p.fieldElev = fieldElev
@@ -217,6 +218,7 @@ func requiredWith(ctx context.Context, ground *terrain.Local, targets []Target, 
 				res.Best[i] = int16(results[0].c[i].src)
 			}
 		}
+		scratchRecs.put(results[0].c) // the values are the result's
 		return res, nil
 	}
 	res.Required = make([]float32, n)
@@ -243,6 +245,7 @@ func requiredWith(ctx context.Context, ground *terrain.Local, targets []Target, 
 				}
 			}
 		}
+		p.release()
 	}
 	return res, nil
 }
@@ -551,6 +554,9 @@ func requiredFromRun(ctx context.Context, ground *terrain.Local, target Target, 
 				decided = false
 			}
 		}
+	}
+	if run != nil {
+		run.release()
 	}
 	a, _, ok := bilinearRequired(v, [4]int16{}, fx-float64(c0), fy-float64(r0))
 	return a, ok, decided, nil

@@ -90,9 +90,20 @@ func (l *Local) Crop(x0, y0, x1, y1 float64) *Local {
 // on the same frame and lattice — cell (c, r) of the crop is cell
 // (c0+c, r0+r) of l — with the elevations copied.
 func (l *Local) CropCells(c0, r0, c1, r1 int) *Local {
+	return l.CropCellsInto(c0, r0, c1, r1, nil)
+}
+
+// CropCellsInto is CropCells with the copy's elevations written into buf
+// when its capacity holds them (a new slice otherwise), for a caller that
+// reuses its buffers; the crop's Elev then shares buf's array.
+func (l *Local) CropCellsInto(c0, r0, c1, r1 int, buf []float32) *Local {
 	out := &Local{Frame: l.Frame, X0: l.X0 + float64(c0)*l.Cell, Y0: l.Y0 + float64(r0)*l.Cell, Cell: l.Cell,
 		Cols: c1 - c0 + 1, Rows: r1 - r0 + 1, Flat: l.Flat, Source: l.Source}
-	out.Elev = make([]float32, out.Cols*out.Rows)
+	if n := out.Cols * out.Rows; cap(buf) >= n {
+		out.Elev = buf[:n]
+	} else {
+		out.Elev = make([]float32, n)
+	}
 	for r := 0; r < out.Rows; r++ {
 		copy(out.Elev[r*out.Cols:(r+1)*out.Cols], l.Elev[(r0+r)*l.Cols+c0:])
 	}
