@@ -75,6 +75,9 @@ func newDescentFor(model LossModel, hBot, hTop float64) (*descent, error) {
 	if span := hTop - hBot; span < 200 {
 		dh = math.Max(span/20, 0.5)
 	}
+	if t, ok := model.(*Table); ok {
+		return descentCache.get(t, hBot, hTop, func() (*descent, error) { return newDescent(model, hBot, hTop, dh, 360) })
+	}
 	return newDescent(model, hBot, hTop, dh, 360)
 }
 

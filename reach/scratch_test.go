@@ -3,42 +3,46 @@ package reach
 import (
 	"context"
 	"math"
+	"sync"
 	"testing"
 )
 
-// A get takes the smallest kept buffer that holds the request, so a small
+// A take gives the smallest kept buffer that holds the request, so a small
 // run does not take the buffer a large one needs; a full list drops its
-// smallest buffer for a larger one.
-func TestScratchPoolBestFit(t *testing.T) {
-	var sp scratchPool[float32]
+// smallest buffer for a larger one. (The list is tested on its own: the
+// sync.Pool around it may drop it at any collection, and does so at random
+// under the race detector.)
+func TestScratchListBestFit(t *testing.T) {
+	var fl scratchList[float32]
 	for _, n := range []int{100, 400, 200, 800} {
-		sp.put(make([]float32, n))
+		fl.keep(make([]float32, n))
 	}
-	if b := sp.get(150); cap(b) != 200 || len(b) != 150 {
-		t.Fatalf("get(150): len %d cap %d, want the 200 buffer cut to 150", len(b), cap(b))
+	if b := fl.take(150); cap(b) != 200 || len(b) != 150 {
+		t.Fatalf("take(150): len %d cap %d, want the 200 buffer cut to 150", len(b), cap(b))
 	}
-	if b := sp.get(900); cap(b) != 900 {
-		t.Fatalf("get(900): cap %d, want a new buffer of 900 (none kept holds it)", cap(b))
+	if b := fl.take(900); b != nil {
+		t.Fatalf("take(900): cap %d, want nil (none kept holds it)", cap(b))
 	}
-	sp.put(make([]float32, 300)) // list now 100, 400, 800, 300: full
-	sp.put(make([]float32, 50))  // smaller than every kept one: dropped
-	sp.put(make([]float32, 500)) // replaces the 100
-	// The sync.Pool may drop the list at a collection; only check what
-	// is there when it is kept.
-	if fl, _ := sp.lists.Get().(*scratchList[float32]); fl != nil {
-		got := map[int]bool{}
-		for _, b := range fl.bufs {
-			got[cap(b)] = true
-		}
-		want := map[int]bool{300: true, 400: true, 500: true, 800: true}
-		if len(got) != len(want) || len(fl.bufs) != scratchKeep {
+	fl.keep(make([]float32, 300)) // list now 100, 400, 800, 300: full
+	fl.keep(make([]float32, 50))  // smaller than every kept one: dropped
+	fl.keep(make([]float32, 500)) // replaces the 100
+	got := map[int]bool{}
+	for _, b := range fl.bufs {
+		got[cap(b)] = true
+	}
+	want := map[int]bool{300: true, 400: true, 500: true, 800: true}
+	if len(fl.bufs) != scratchKeep || len(got) != len(want) {
+		t.Fatalf("kept %v, want %v", got, want)
+	}
+	for c := range want {
+		if !got[c] {
 			t.Fatalf("kept %v, want %v", got, want)
 		}
-		for c := range want {
-			if !got[c] {
-				t.Fatalf("kept %v, want %v", got, want)
-			}
-		}
+	}
+	var sp scratchPool[float32]
+	sp.put(make([]float32, 10))
+	if b := sp.get(20); len(b) != 20 {
+		t.Fatalf("pool get(20): len %d", len(b))
 	}
 }
 
@@ -82,6 +86,56 @@ func TestRequiredSameOnReusedBuffers(t *testing.T) {
 			if math.Float32bits(a) != math.Float32bits(b) || ref.Best[i] != res.Best[i] {
 				t.Fatalf("run %d on reused buffers: cell %d: %v (field %d), fresh %v (field %d)", rep, i, b, res.Best[i], a, ref.Best[i])
 			}
+		}
+	}
+}
+
+// The descent cache hands out one build per exact (table, range), to every
+// caller at once, and a different range or table gets its own table.
+func TestDescentCacheSharesExactRequests(t *testing.T) {
+	tab := layeredTable(t)
+	other := layeredTable(t)
+	descentCache = descentTables{}
+	builds := 0
+	var mu sync.Mutex
+	get := func(tb *Table, lo, hi float64) *descent {
+		d, err := descentCache.get(tb, lo, hi, func() (*descent, error) {
+			mu.Lock()
+			builds++
+			mu.Unlock()
+			return newDescent(tb, lo, hi, 10, 360)
+		})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return d
+	}
+	var wg sync.WaitGroup
+	got := make([]*descent, 8)
+	for i := range got {
+		wg.Add(1)
+		go func() { defer wg.Done(); got[i] = get(tab, 0, 2000) }()
+	}
+	wg.Wait()
+	for _, d := range got[1:] {
+		if d != got[0] {
+			t.Fatal("concurrent requests for one table got different builds")
+		}
+	}
+	if builds != 1 {
+		t.Fatalf("%d builds for one table, want 1", builds)
+	}
+	if get(tab, 0, 2001) == got[0] || get(other, 0, 2000) == got[0] {
+		t.Fatal("a different range or table was given the cached build")
+	}
+	// The shared table is the one a fresh build makes, value for value.
+	fresh, err := newDescent(tab, 0, 2000, 10, 360)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, v := range fresh.dist {
+		if math.Float64bits(v) != math.Float64bits(got[0].dist[i]) {
+			t.Fatalf("dist[%d]: cached %v, fresh %v", i, got[0].dist[i], v)
 		}
 	}
 }
