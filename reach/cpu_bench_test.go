@@ -1,28 +1,12 @@
 package reach
 
 import (
-	"runtime/metrics"
 	"sync"
-	"syscall"
 	"testing"
 	"time"
+
+	"glidereach/internal/benchmeter"
 )
-
-// cpuTime returns the process's user plus system CPU time so far.
-func cpuTime() time.Duration {
-	var ru syscall.Rusage
-	if err := syscall.Getrusage(syscall.RUSAGE_SELF, &ru); err != nil {
-		return 0
-	}
-	return time.Duration(ru.Utime.Nano() + ru.Stime.Nano())
-}
-
-// heapLive returns the bytes of live and not yet swept heap objects.
-func heapLive() uint64 {
-	s := []metrics.Sample{{Name: "/memory/classes/heap/objects:bytes"}}
-	metrics.Read(s)
-	return s[0].Value.Uint64()
-}
 
 // cpuMeter reports the CPU time per op of a benchmark beside its wall time
 // (the machine is shared: CPU seconds say what the code costs, wall seconds
@@ -31,7 +15,7 @@ func heapLive() uint64 {
 // bound of the true peak, and including garbage not yet collected). Start
 // it after the setup; call stop at the end.
 func cpuMeter(b *testing.B, cells int) (stop func()) {
-	base := heapLive()
+	base := benchmeter.HeapLive()
 	var peak uint64
 	done := make(chan struct{})
 	var wg sync.WaitGroup
@@ -41,7 +25,7 @@ func cpuMeter(b *testing.B, cells int) (stop func()) {
 		t := time.NewTicker(5 * time.Millisecond)
 		defer t.Stop()
 		for {
-			if h := heapLive(); h > peak {
+			if h := benchmeter.HeapLive(); h > peak {
 				peak = h
 			}
 			select {
@@ -51,9 +35,9 @@ func cpuMeter(b *testing.B, cells int) (stop func()) {
 			}
 		}
 	}()
-	t0 := cpuTime()
+	t0 := benchmeter.CPUTime()
 	return func() {
-		cpu := cpuTime() - t0
+		cpu := benchmeter.CPUTime() - t0
 		close(done)
 		wg.Wait()
 		b.ReportMetric(cpu.Seconds()/float64(b.N), "cpu-s/op")

@@ -7,10 +7,10 @@ import (
 	"runtime"
 	"sync"
 	"sync/atomic"
-	"syscall"
 	"testing"
 	"time"
 
+	"glidereach/internal/benchmeter"
 	"glidereach/reach"
 )
 
@@ -34,15 +34,6 @@ func benchScene(b *testing.B, n, k int, alt float64) (*scene, *Plan) {
 		sc.fields = append(sc.fields, reach.Target{Name: fmt.Sprint(i), Lat: lat, Lon: lon, Elev: el, Reserve: 250})
 	}
 	return sc, sc.plan(b, 0, alt)
-}
-
-// cpuTime returns the process's user plus system CPU time so far.
-func cpuTime() time.Duration {
-	var ru syscall.Rusage
-	if err := syscall.Getrusage(syscall.RUSAGE_SELF, &ru); err != nil {
-		return 0
-	}
-	return time.Duration(ru.Utime.Nano() + ru.Stime.Nano())
 }
 
 // peakHeap samples the heap in use every 20 ms until stop is called, and
@@ -89,7 +80,7 @@ func BenchmarkRunField(b *testing.B) {
 			runtime.ReadMemStats(&m0)
 			stop := peakHeap()
 			b.ReportAllocs()
-			c0 := cpuTime()
+			c0 := benchmeter.CPUTime()
 			b.ResetTimer()
 			for range b.N {
 				if _, err := RunField(context.Background(), sc.src, p, jobs[0]); err != nil {
@@ -98,7 +89,7 @@ func BenchmarkRunField(b *testing.B) {
 			}
 			b.StopTimer()
 			peak := stop()
-			b.ReportMetric((cpuTime()-c0).Seconds()/float64(b.N), "cpu-s/op")
+			b.ReportMetric((benchmeter.CPUTime()-c0).Seconds()/float64(b.N), "cpu-s/op")
 			b.ReportMetric(win, "window-cells")
 			b.ReportMetric(win*float64(b.N)/b.Elapsed().Seconds(), "cells/s")
 			b.ReportMetric(float64(peak-min(peak, m0.HeapInuse))/1e6, "heap-MB/worker")
@@ -117,7 +108,7 @@ func BenchmarkTiled(b *testing.B) {
 			var m0 runtime.MemStats
 			runtime.ReadMemStats(&m0)
 			stop := peakHeap()
-			c0 := cpuTime()
+			c0 := benchmeter.CPUTime()
 			b.ResetTimer()
 			for range b.N {
 				if _, err := Run(context.Background(), sc.src, p, RunOptions{WorkDir: b.TempDir()}); err != nil {
@@ -127,7 +118,7 @@ func BenchmarkTiled(b *testing.B) {
 			b.StopTimer()
 			peak := stop()
 			cells := float64(p.Lattice.Cols * p.Lattice.Rows)
-			b.ReportMetric((cpuTime()-c0).Seconds()/float64(b.N), "cpu-s/op")
+			b.ReportMetric((benchmeter.CPUTime()-c0).Seconds()/float64(b.N), "cpu-s/op")
 			b.ReportMetric(cells*float64(c.k)*float64(b.N)/b.Elapsed().Seconds(), "cell-fields/s")
 			b.ReportMetric(float64(peak-min(peak, m0.HeapInuse))/1e6, "heap-MB")
 		})
@@ -157,7 +148,7 @@ func BenchmarkTiledLarge(b *testing.B) {
 	var m0 runtime.MemStats
 	runtime.ReadMemStats(&m0)
 	stop := peakHeap()
-	c0 := cpuTime()
+	c0 := benchmeter.CPUTime()
 	b.ResetTimer()
 	for range b.N {
 		dir := b.TempDir()
@@ -168,7 +159,7 @@ func BenchmarkTiledLarge(b *testing.B) {
 	b.StopTimer()
 	peak := stop()
 	cells := float64(p.Lattice.Cols) * float64(p.Lattice.Rows)
-	b.ReportMetric((cpuTime()-c0).Seconds()/float64(b.N), "cpu-s/op")
+	b.ReportMetric((benchmeter.CPUTime()-c0).Seconds()/float64(b.N), "cpu-s/op")
 	b.ReportMetric(cells, "lattice-cells")
 	b.ReportMetric(float64(len(jobs)), "field-jobs")
 	b.ReportMetric(win/float64(len(jobs)), "window-cells/job")
