@@ -72,6 +72,11 @@ func TestCLIUsageErrors(t *testing.T) {
 		{"pick negative", append(base, "--alt", "1500m", "--work-dir", work, "--pick", "-1"), "--pick"},
 		{"fgb name", append(base, "--alt", "1500m", "--work-dir", work, "--fgb", filepath.Join(dir, "cover.geojson")), "--fgb"},
 		{"candidates file", append(base, "--alt", "1500m", "--work-dir", work, "--candidates", filepath.Join(dir, "no-cands.geojson")), "no-cands.geojson"},
+		{"alt-indicated without its source", append(base, "--alt-indicated", "1500m", "--work-dir", work), "--alt-indicated"},
+		{"alt-indicated and agl", append(base, "--alt-indicated", "1500m", "--station-elev", "300m", "--station-temp", "-20C", "--agl", "600m", "--work-dir", work), "--agl"},
+		{"alt-indicated and alt", append(base, "--alt-indicated", "1500m", "--station-elev", "300m", "--station-temp", "-20C", "--alt", "1500m", "--work-dir", work), "--alt"},
+		{"station without alt-indicated", append(base, "--alt", "1500m", "--station-elev", "300m", "--work-dir", work), "--station-elev"},
+		{"station temperature", append(base, "--alt-indicated", "1500m", "--station-elev", "300m", "--station-temp", "-120C", "--work-dir", work), "--station-temp"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -225,15 +230,12 @@ func TestREADMEExample(t *testing.T) {
 	}
 }
 
-func TestSameAsGlidereachCoverageTiled(t *testing.T) {
-	// The other path to the same quantities, as a user runs it: glidereach
-	// coverage --tiled (the library's local tiled path behind the main
-	// command) with the same inputs must build the same plan (plan.gob,
-	// byte for byte: both commands turn the flags into a tiling.Plan by the
-	// same rules), write the same tile files, COG and FlatGeobuf bytes and
-	// the same covered share, and give the same candidate ranking and
-	// greedy picks (the JSON arrays "candidates" and "picks", byte for byte
-	// once compacted).
+// sameAsCoverageTiled runs glidereach coverage --tiled (built from the
+// repository) and the pipeline with the same inputs, checks that they write
+// the same plan, tile files, COG and FlatGeobuf, byte for byte, and returns
+// glidereach's JSON output and the pipeline's summary (paths).
+func sameAsCoverageTiled(t *testing.T, inputs []string) (mainJSON, summaryJSON string) {
+	t.Helper()
 	if _, err := exec.LookPath("go"); err != nil {
 		t.Skip("go tool not on PATH")
 	}
@@ -244,9 +246,6 @@ func TestSameAsGlidereachCoverageTiled(t *testing.T) {
 	if out, err := build.CombinedOutput(); err != nil {
 		t.Fatalf("go build ./cmd/glidereach: %v\n%s", err, out)
 	}
-	inputs := []string{"--fields", fixtureFields, "--box", fixtureBox, "--agl", "600m", "--terrain", fixtureDEM,
-		"--tile", "64", "--wind", "0m:240/10kt,1500m:270/20kt", "--wind-error", "20deg,5kt",
-		"--candidates", fixtureCands, "--pick", "2"}
 	a, b := filepath.Join(dir, "a"), filepath.Join(dir, "b")
 	main := exec.Command(bin, append([]string{"coverage", "--tiled", "--work-dir", a, "--cog", a + ".tif", "--fgb", a + ".fgb", "--format", "json", "--out", a + ".json"}, inputs...)...)
 	if out, err := main.CombinedOutput(); err != nil {
@@ -276,6 +275,22 @@ func TestSameAsGlidereachCoverageTiled(t *testing.T) {
 			t.Errorf("%s differs between glidereach coverage --tiled (%d bytes) and the pipeline (%d bytes)", filepath.Base(f[0]), len(x), len(y))
 		}
 	}
+	return a + ".json", b + ".json"
+}
+
+func TestSameAsGlidereachCoverageTiled(t *testing.T) {
+	// The other path to the same quantities, as a user runs it: glidereach
+	// coverage --tiled (the library's local tiled path behind the main
+	// command) with the same inputs must build the same plan (plan.gob,
+	// byte for byte: both commands turn the flags into a tiling.Plan by the
+	// same rules), write the same tile files, COG and FlatGeobuf bytes and
+	// the same covered share, and give the same candidate ranking and
+	// greedy picks (the JSON arrays "candidates" and "picks", byte for byte
+	// once compacted).
+	inputs := []string{"--fields", fixtureFields, "--box", fixtureBox, "--agl", "600m", "--terrain", fixtureDEM,
+		"--tile", "64", "--wind", "0m:240/10kt,1500m:270/20kt", "--wind-error", "20deg,5kt",
+		"--candidates", fixtureCands, "--pick", "2"}
+	a, b := sameAsCoverageTiled(t, inputs)
 	var ja struct {
 		CoveredFraction float64         `json:"covered_fraction"`
 		Candidates      json.RawMessage `json:"candidates"`
@@ -289,7 +304,7 @@ func TestSameAsGlidereachCoverageTiled(t *testing.T) {
 	for _, c := range []struct {
 		path string
 		v    any
-	}{{a + ".json", &ja}, {b + ".json", &jb}, {b + ".json", &rb}} {
+	}{{a, &ja}, {b, &jb}, {b, &rb}} {
 		data, err := os.ReadFile(c.path)
 		if err != nil {
 			t.Fatal(err)
@@ -323,5 +338,57 @@ func TestSameAsGlidereachCoverageTiled(t *testing.T) {
 	if jb.Candidates == nil || len(*jb.Candidates) != 3 || (*jb.Candidates)[0].AddsM2 <= 0 || (*jb.Candidates)[2].Note == "" ||
 		jb.Picks == nil || len(*jb.Picks) == 0 || (*jb.Picks)[0].CoveredFraction <= ja.CoveredFraction {
 		t.Errorf("the ranking checks nothing: %s %s", rb.Candidates, rb.Picks)
+	}
+}
+
+func TestAltIndicatedSameAsGlidereachCoverageTiled(t *testing.T) {
+	// --alt-indicated (the altimeter reading, corrected for cold air by
+	// the ICAO rule of Doc 8168, reach.ColdCorrection) gives the pipeline
+	// the true altitude glidereach coverage --tiled works out: the same
+	// plan, tiles, COG and FlatGeobuf bytes (whose description carries the
+	// correction's note), and the same covered share.
+	inputs := []string{"--fields", fixtureFields, "--box", fixtureBox, "--terrain", fixtureDEM, "--tile", "64",
+		"--alt-indicated", "2000m", "--station-elev", "300m", "--station-temp", "-25C", "--wind", "0m:240/10kt,1500m:270/20kt"}
+	a, b := sameAsCoverageTiled(t, inputs)
+	var ja struct {
+		CoveredFraction float64  `json:"covered_fraction"`
+		Assumptions     []string `json:"assumptions"`
+	}
+	var jb summary
+	for _, c := range []struct {
+		path string
+		v    any
+	}{{a, &ja}, {b, &jb}} {
+		data, err := os.ReadFile(c.path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := json.Unmarshal(data, c.v); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if !(ja.CoveredFraction <= jb.CoveredFraction && jb.CoveredFraction-ja.CoveredFraction < 1e-3) || jb.CoveredFraction == 0 {
+		t.Errorf("covered share: glidereach %v, the pipeline %v", ja.CoveredFraction, jb.CoveredFraction)
+	}
+	// The correction is said: 2000 m read at -25 °C over a source at 300 m
+	// is a lower true altitude (ICAO Doc 8168: a cold day's altimeter
+	// over-reads).
+	corr, err := reach.ColdCorrection(2000, 300, 248.15)
+	if err != nil || !(corr > 50) {
+		t.Fatalf("ColdCorrection(2000 m, 300 m, -25 °C) = %v, %v", corr, err)
+	}
+	fgb, err := os.ReadFile(strings.TrimSuffix(b, ".json") + ".fgb")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Contains(fgb, []byte("cold-temperature correction")) {
+		t.Error("the pipeline's FlatGeobuf does not say the altitude was corrected for the cold")
+	}
+	said := false
+	for _, x := range ja.Assumptions {
+		said = said || strings.Contains(x, "cold-temperature correction")
+	}
+	if !said {
+		t.Errorf("glidereach's assumptions do not say the correction: %q", ja.Assumptions)
 	}
 }

@@ -38,6 +38,7 @@ type options struct {
 	candidates                           string
 	pick                                 int
 	alt, agl, cell                       *input.Quantity
+	ind                                  *input.Indicated
 	tile                                 int
 	workDir, cog, fgb, summary           string
 	logLevel                             string
@@ -56,6 +57,7 @@ func newOptions() *options {
 		alt:       input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL),
 		agl:       input.NewQuantity(input.Length, 0).Within(0, maxAGL),
 		cell:      input.NewQuantity(input.Length, 0).Within(0, 10000),
+		ind:       input.NewIndicated(),
 	}
 }
 
@@ -68,6 +70,7 @@ func (o *options) register(fs *pflag.FlagSet) {
 	fs.StringVar(&o.corridor, "corridor", "", "corridor to analyse: ROUTE,WIDTH (GPX/GeoJSON route and full width, e.g. plan.gpx,10km)")
 	fs.Var(o.alt, "alt", o.alt.Help("altitude flown over the area: true altitude MSL (m, ft)"))
 	fs.Var(o.agl, "agl", o.agl.Help("height flown above the terrain at each cell (m, ft), instead of --alt"))
+	o.ind.Register(fs, "altitude flown")
 	fs.StringVar(&o.aircraft, "aircraft", "trainer", "aircraft profile: built-in name ("+strings.Join(reach.BuiltinNames(), ", ")+") or a YAML/JSON profile file")
 	fs.Var(o.mass, "mass", o.mass.Help("actual mass (kg, lb); 0 = the profile's mass"))
 	fs.Var(o.bugs, "bugs", o.bugs.Help("contamination: sink × (1 + f), e.g. 0.1 or 10%"))

@@ -37,8 +37,15 @@ func newRequest(o *options) (*request, error) {
 	if zones != 1 {
 		return nil, input.Usagef("--area", "give exactly one zone to analyse: --area FILE, --box LAT,LON,LAT,LON or --corridor ROUTE,WIDTH")
 	}
+	// --alt-indicated becomes the true --alt here (the ICAO cold-
+	// temperature correction), with the note every output carries, as in
+	// glidereach coverage.
+	altNote, err := o.ind.AltitudeFlown(o.alt, o.agl)
+	if err != nil {
+		return nil, err
+	}
 	if o.alt.Given == o.agl.Given {
-		return nil, input.Usagef("--alt", "give exactly one altitude flown: --alt (true MSL) or --agl (above the terrain)")
+		return nil, input.Usagef("--alt", "give exactly one altitude flown: --alt (true MSL), --agl (above the terrain) or --alt-indicated")
 	}
 	if o.agl.Given && !(o.agl.Value > 0) {
 		return nil, input.Usagef("--agl", "%v m: the height flown must be above the terrain", o.agl.Value)
@@ -214,8 +221,16 @@ func newRequest(o *options) (*request, error) {
 	// glidereach coverage --tiled writes them (the FlatGeobuf's title and
 	// description).
 	r.out.Zone = zoneText(o, zone)
-	r.out.Assumptions = plan.TiledAssumptions(setup.Assumptions(wtext, r.warnings), p,
-		plan.TiledText{AltFlown: plan.AltFlownText(o.agl.Given, req.Alt), Zone: r.out.Zone, Terrain: ground.Describe(), Flat: src == nil, DEMCell: tp.DEMCell})
+	assumptions := setup.Assumptions(wtext, r.warnings)
+	if altNote != "" {
+		assumptions = append(assumptions, altNote)
+	}
+	altFlown := plan.AltFlownText(o.agl.Given, req.Alt)
+	if !o.agl.Given && o.ind.AltInd.Given {
+		altFlown = plan.AltFlownIndicatedText(o.alt.Value, o.ind.AltInd.Value)
+	}
+	r.out.Assumptions = plan.TiledAssumptions(assumptions, p,
+		plan.TiledText{AltFlown: altFlown, Zone: r.out.Zone, Terrain: ground.Describe(), Flat: src == nil, DEMCell: tp.DEMCell})
 	if r.in.Plan, err = p.Encode(); err != nil {
 		return nil, err
 	}

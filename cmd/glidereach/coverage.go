@@ -32,7 +32,7 @@ type coverageOptions struct {
 	corridor   string
 	alt        *input.Quantity
 	agl        *input.Quantity
-	ind        *indicatedFlags
+	ind        *input.Indicated
 	candidates string
 	pick       int
 	raster     string
@@ -44,7 +44,7 @@ type coverageOptions struct {
 }
 
 func newCoverageCmd() *cobra.Command {
-	o := &coverageOptions{glide: newGlideFlags(), terr: newTerrainFlags(), alt: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), agl: input.NewQuantity(input.Length, 0).Within(0, maxAGL), ind: newIndicatedFlags(), pick: 3,
+	o := &coverageOptions{glide: newGlideFlags(), terr: newTerrainFlags(), alt: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), agl: input.NewQuantity(input.Length, 0).Within(0, maxAGL), ind: input.NewIndicated(), pick: 3,
 		tiledOpts: &tiledFlags{cell: input.NewQuantity(input.Length, 0)}}
 	cmd := &cobra.Command{
 		Use:   "coverage --fields FILE (--area FILE | --box LAT,LON,LAT,LON | --corridor ROUTE,WIDTH) (--alt ALT|--agl HEIGHT)",
@@ -88,7 +88,7 @@ parts as FlatGeobuf. --work-dir, --cog, --fgb and --cell imply --tiled.
 	fs.StringVar(&o.box, "box", "", "area to analyse: a box given by two opposite corners LAT,LON,LAT,LON (latitude first, like --from; not across 180°)")
 	fs.StringVar(&o.corridor, "corridor", "", "corridor to analyse: ROUTE,WIDTH (GPX/GeoJSON route and full width, e.g. plan.gpx,10km)")
 	fs.Var(o.alt, "alt", o.alt.Help("altitude flown over the area: TRUE altitude MSL (m, ft), not the altimeter reading (see --alt-indicated)"))
-	o.ind.register(fs, "altitude flown")
+	o.ind.Register(fs, "altitude flown")
 	fs.Var(o.agl, "agl", o.agl.Help("height flown above the terrain at each cell (m, ft), instead of --alt"))
 	fs.StringVar(&o.candidates, "candidates", "", "candidate fields (GeoJSON, like --fields) to rank by the area each would add")
 	fs.IntVar(&o.pick, "pick", 3, "with --candidates: how many to choose one by one (greedy)")
@@ -140,7 +140,7 @@ func runCoverage(ctx context.Context, o *coverageOptions, stdout, stderr io.Writ
 	if o.area == "" && o.box == "" && o.corridor == "" {
 		return input.Usagef("--area", "give the area to analyse: --area FILE, --box LAT,LON,LAT,LON or --corridor ROUTE,WIDTH")
 	}
-	note, err := o.ind.altitudeFlown(o.alt, o.agl)
+	note, err := o.ind.AltitudeFlown(o.alt, o.agl)
 	if err != nil {
 		return err
 	}
@@ -247,8 +247,8 @@ func computeCoverage(ctx context.Context, run *coverageRun, o *coverageOptions, 
 		run.altMode = fmt.Sprintf("%.0f m (%.0f ft) above the terrain at each cell (--agl)", o.agl.Value, o.agl.Value/0.3048)
 	} else {
 		run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) everywhere (--alt)", o.alt.Value, o.alt.Value/0.3048)
-		if o.ind.altInd.Given {
-			run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) true everywhere (--alt-indicated %.0f m, corrected for the temperature)", o.alt.Value, o.alt.Value/0.3048, o.ind.altInd.Value)
+		if o.ind.AltInd.Given {
+			run.altMode = plan.AltFlownIndicatedText(o.alt.Value, o.ind.AltInd.Value)
 		}
 	}
 	req := plan.CoverageRequest{Setup: &run.setup.Setup, Ground: run.ground, Zone: run.zone, ZoneField: strings.ToUpper(flag[2:3]) + flag[3:],
@@ -304,7 +304,7 @@ func demoCoverage(ctx context.Context, d *demoRun) error {
 	if err != nil {
 		return err
 	}
-	o := &coverageOptions{alt: input.NewQuantity(input.Length, dc.Alt), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), pick: dc.Pick, area: "demo-area.geojson"}
+	o := &coverageOptions{alt: input.NewQuantity(input.Length, dc.Alt), agl: input.NewQuantity(input.Length, 0), ind: input.NewIndicated(), pick: dc.Pick, area: "demo-area.geojson"}
 	o.alt.Given = true
 	run := &coverageRun{setup: setup, ground: plan.Ground{Src: sc.src}, zone: reg, zoneText: "area demo-area.geojson (invented)"}
 	if err := computeCoverage(ctx, run, o, sc.fields, demoCandidates(), func(float64) {}); err != nil {

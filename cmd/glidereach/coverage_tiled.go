@@ -169,8 +169,8 @@ func computeTiled(ctx context.Context, run *coverageRun, o *coverageOptions, fie
 	run.notes = p.Notes
 	tr := &tiledRun{coverageRun: run, demCell: tp.DEMCell}
 	run.altMode = plan.AltFlownText(o.agl.Given, req.Alt)
-	if !o.agl.Given && o.ind.altInd.Given {
-		run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) true everywhere (--alt-indicated %.0f m, corrected for the temperature)", o.alt.Value, o.alt.Value/0.3048, o.ind.altInd.Value)
+	if !o.agl.Given && o.ind.AltInd.Given {
+		run.altMode = plan.AltFlownIndicatedText(o.alt.Value, o.ind.AltInd.Value)
 	}
 	routeFields := func(fs []input.Field, ts []reach.Target) []routeField {
 		rf := make([]routeField, len(fs))

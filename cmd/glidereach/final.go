@@ -130,7 +130,7 @@ type finalRun struct {
 	goalNote  string // a warning about the goal elevation, if any
 	// ind, when the start was given as an altimeter reading, turns true
 	// altitudes back into readings on the same source.
-	ind *indicatedFlags
+	ind *input.Indicated
 	res *reach.FinalGlideResult
 	// fromRequired is the glide flown from the required altitude, when the
 	// glide from the given altitude is short: its legs are what the pilot
@@ -252,7 +252,7 @@ func runFinal(ctx context.Context, o *finalOptions, stdout, stderr io.Writer) er
 			return input.Usagef("--alt", "%.0f m MSL is not above the terrain at the start (%.0f m)", a, elev)
 		}
 		startAlt, run.altGiven = a, true
-		if o.pos.ind.altInd.Given {
+		if o.pos.ind.AltInd.Given {
 			run.ind = o.pos.ind
 		}
 		setup.checkStartClearance(stderr, a, elev)

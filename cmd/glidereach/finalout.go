@@ -179,9 +179,9 @@ func writeFinalText(w io.Writer, run *finalRun) {
 			fmt.Fprintf(w, "Required at the start: %s m MSL (%s ft): goal %.0f m + reserve %.0f m + %s m lost on the way\n",
 				fmtMUp(r.Required), fmtMUp(r.Required/input.Foot), r.GoalElev, r.Reserve, fmtMUp(r.Required-r.GoalElev-r.Reserve))
 		}
-		if v, ok := run.ind.reading(r.Required); ok {
+		if v, ok := run.ind.Reading(r.Required); ok {
 			fmt.Fprintf(w, "  on the altimeter (QNH of the %.0f m source at %.1f °C) that is a reading of at least %.0f m\n",
-				run.ind.stationElev.Value, run.ind.tempK-273.15, math.Ceil(v))
+				run.ind.StationElev.Value, run.ind.TempK-273.15, math.Ceil(v))
 		}
 		if math.IsNaN(r.ArrivalAGL) {
 			fmt.Fprintf(w, "Arrival: NONE from %.0f m: the glide line meets the terrain before the goal; start margin %s m\n",
@@ -398,7 +398,7 @@ func finalSummary(run *finalRun) map[string]any {
 	if run.worstWind != "" {
 		out["worst_wind"] = run.worstWind
 	}
-	if v, ok := run.ind.reading(r.Required); ok {
+	if v, ok := run.ind.Reading(r.Required); ok {
 		out["required_indicated_m"] = num(v)
 	}
 	if run.goalNote != "" {

@@ -300,30 +300,30 @@ type positionFlags struct {
 	from *input.LatLon
 	alt  *input.Quantity
 	agl  *input.Quantity
-	ind  *indicatedFlags
+	ind  *input.Indicated
 	// note says how the start altitude was obtained, for the assumptions.
 	note string
 }
 
 func newPositionFlags() *positionFlags {
 	return &positionFlags{from: &input.LatLon{}, alt: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), agl: input.NewQuantity(input.Length, 0).Within(0, maxAGL),
-		ind: newIndicatedFlags()}
+		ind: input.NewIndicated()}
 }
 
 func (p *positionFlags) register(fs *pflag.FlagSet) {
 	fs.Var(p.from, "from", "start position LAT,LON (decimal degrees)")
 	fs.Var(p.alt, "alt", p.alt.Help("start altitude: TRUE altitude above mean sea level (m, ft), not the altimeter reading; on a cold day give --alt-indicated instead"))
 	fs.Var(p.agl, "agl", p.agl.Help("start height above the ground there (m, ft), instead of --alt"))
-	p.ind.register(fs, "start altitude")
+	p.ind.Register(fs, "start altitude")
 }
 
 // startAlt returns the start altitude MSL (true altitude) given the ground
 // elevation there, and sets p.note to how it was obtained.
 func (p *positionFlags) startAlt(groundElev float64) (float64, error) {
-	if p.alt.Given && p.agl.Given || p.agl.Given && p.ind.altInd.Given {
+	if p.alt.Given && p.agl.Given || p.agl.Given && p.ind.AltInd.Given {
 		return 0, input.Usagef("--alt", "give one of --alt, --agl or --alt-indicated")
 	}
-	note, err := p.ind.apply(p.alt)
+	note, err := p.ind.Apply(p.alt)
 	if err != nil {
 		return 0, err
 	}
@@ -351,119 +351,7 @@ func (p *positionFlags) startAlt(groundElev float64) (float64, error) {
 }
 
 // given reports whether a start altitude was given in any form.
-func (p *positionFlags) given() bool { return p.alt.Given || p.agl.Given || p.ind.altInd.Given }
-
-// indicatedFlags take an altitude as the altimeter reads it, with the
-// altimeter setting source it is corrected with (ICAO cold-temperature
-// correction): --alt-indicated, --station-elev, --station-temp.
-type indicatedFlags struct {
-	altInd      *input.Quantity
-	stationElev *input.Quantity
-	stationTemp string
-	done        bool    // apply has run (it sets the altitude once)
-	note        string  // what apply returned
-	tempK       float64 // the parsed --station-temp, once applied
-}
-
-// reading returns the altimeter reading at which the aircraft is at true
-// altitude alt (m MSL), for the source of --alt-indicated; ok is false when
-// no reading was given.
-func (f *indicatedFlags) reading(alt float64) (float64, bool) {
-	if f == nil || !f.done || !f.altInd.Given || math.IsNaN(alt) || math.IsInf(alt, 0) {
-		return 0, false
-	}
-	v, err := reach.IndicatedFor(alt, f.stationElev.Value, f.tempK)
-	return v, err == nil
-}
-
-func newIndicatedFlags() *indicatedFlags {
-	return &indicatedFlags{altInd: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), stationElev: input.NewQuantity(input.Length, 0).Within(minGround, maxGround)}
-}
-
-// register adds the three flags; what names the altitude ("start
-// altitude", "planned altitude").
-func (f *indicatedFlags) register(fs *pflag.FlagSet, what string) {
-	fs.Var(f.altInd, "alt-indicated", f.altInd.Help(what+" as the altimeter reads it, set to the local QNH (m, ft); needs --station-elev and --station-temp, corrected for cold air by the ICAO rule (Doc 8168), instead of --alt"))
-	fs.Var(f.stationElev, "station-elev", f.stationElev.Help("with --alt-indicated: elevation of the altimeter setting source, normally the aerodrome whose QNH is set (m, ft)"))
-	fs.StringVar(&f.stationTemp, "station-temp", "", "with --alt-indicated: air temperature reported at the altimeter setting source (e.g. -15C, 258K)")
-	// No "(default 0m)": an unset reading is not 0 m.
-	fs.Lookup("alt-indicated").DefValue = ""
-	fs.Lookup("station-elev").DefValue = ""
-}
-
-// apply turns --alt-indicated into the true altitude in alt (marking it
-// given) with the ICAO cold-temperature correction (reach.ColdCorrection)
-// and returns the assumption that says so; "" and alt untouched when no
-// reading was given.
-func (f *indicatedFlags) apply(alt *input.Quantity) (string, error) {
-	if f.done {
-		return f.note, nil
-	}
-	note, err := f.convert(alt)
-	if err == nil {
-		f.done, f.note = true, note
-	}
-	return note, err
-}
-
-// altitudeFlown is apply for the altitude flown over a route or an area
-// (route and coverage): --agl and --alt-indicated exclude each other, and
-// a plain --alt is said to be the true altitude.
-func (f *indicatedFlags) altitudeFlown(alt, agl *input.Quantity) (string, error) {
-	if agl.Given && f.altInd.Given {
-		return "", input.Usagef("--agl", "give --agl or --alt-indicated, not both")
-	}
-	note, err := f.apply(alt)
-	if err != nil {
-		return "", err
-	}
-	if note == "" && alt.Given {
-		note = "altitude --alt taken as true altitude MSL (no altimeter temperature correction)"
-	}
-	return note, nil
-}
-
-func (f *indicatedFlags) convert(alt *input.Quantity) (string, error) {
-	if !f.altInd.Given {
-		if f.stationElev.Given || f.stationTemp != "" {
-			return "", input.Usagef("--station-elev", "--station-elev and --station-temp go with --alt-indicated")
-		}
-		return "", nil
-	}
-	if alt.Given {
-		return "", input.Usagef("--alt", "give --alt (true altitude) or --alt-indicated (the altimeter reading), not both")
-	}
-	ind := f.altInd.Value
-	if ind > 19000 || ind < -400 {
-		return "", input.Usagef("--alt-indicated", "%v m is outside -400..19000 m", ind)
-	}
-	if !f.stationElev.Given || f.stationTemp == "" {
-		return "", input.Usagef("--alt-indicated", "needs --station-elev and --station-temp (the altimeter setting source's elevation and temperature) for the cold-temperature correction")
-	}
-	if !(f.stationElev.Value >= -500 && f.stationElev.Value <= 9000) {
-		return "", input.Usagef("--station-elev", "%v m is outside -500..9000 m", f.stationElev.Value)
-	}
-	tk, err := input.ParseTemperature(f.stationTemp)
-	if err != nil {
-		return "", input.FlagError("--station-temp", f.stationTemp, err)
-	}
-	if !(tk >= 183 && tk <= 333) {
-		return "", input.Usagef("--station-temp", "%q is %.1f K, outside -90..+60 °C (give a unit: -15C or 258K)", f.stationTemp, tk)
-	}
-	corr, err := reach.ColdCorrection(ind, f.stationElev.Value, tk)
-	if err != nil {
-		return "", &input.UsageError{Where: "--alt-indicated", Err: err}
-	}
-	alt.Value, alt.Given = ind-corr, true
-	f.tempK = tk
-	isa := 15 - reach.ColdLapseRate*f.stationElev.Value
-	if corr > 0 {
-		return fmt.Sprintf("altitude: altimeter reads %.0f m (QNH of a source at %.0f m, %.1f °C, %.1f K below ISA there); true altitude %.0f m, %.0f m lower, by the ICAO cold-temperature correction (Doc 8168 PANS-OPS Vol I: H·(15−t0)/(273+t0−½·L0·(H+Hss)))",
-			ind, f.stationElev.Value, tk-273.15, isa-(tk-273.15), ind-corr, corr), nil
-	}
-	return fmt.Sprintf("altitude: altimeter reads %.0f m (QNH of a source at %.0f m, %.1f °C); not colder than ISA or not above the source, so no correction (warmer air would put the aircraft higher; not credited)",
-		ind, f.stationElev.Value, tk-273.15), nil
-}
+func (p *positionFlags) given() bool { return p.alt.Given || p.agl.Given || p.ind.AltInd.Given }
 
 // windText describes a wind profile for people (plan.WindText): each
 // layer as "ALTm DIR°/SPEED kt", direction the wind blows from.

@@ -33,7 +33,7 @@ type routeOptions struct {
 	fields    string
 	alt       *input.Quantity
 	agl       *input.Quantity
-	ind       *indicatedFlags
+	ind       *input.Indicated
 	step      *input.Quantity
 	format    string
 	out       string
@@ -44,7 +44,7 @@ type routeOptions struct {
 
 func newRouteCmd() *cobra.Command {
 	o := &routeOptions{glide: newGlideFlags(), terr: newTerrainFlags(), fail: newFailureFlags(),
-		alt: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), agl: input.NewQuantity(input.Length, 0).Within(0, maxAGL), ind: newIndicatedFlags(), step: input.NewQuantity(input.Length, 250).Within(10, 10000)}
+		alt: input.NewQuantity(input.Length, 0).Within(minAltMSL, maxAltMSL), agl: input.NewQuantity(input.Length, 0).Within(0, maxAGL), ind: input.NewIndicated(), step: input.NewQuantity(input.Length, 250).Within(10, 10000)}
 	cmd := &cobra.Command{
 		Use:   "route --route FILE --fields FILE [--alt ALT|--agl HEIGHT]",
 		Short: "Forced-landing options along a planned route: gaps and the altitude that closes them",
@@ -81,7 +81,7 @@ reserve; a margin of +200 m arrives with about reserve + 200 m.
 	fs.StringVar(&o.routeName, "route-name", "", "which route or track of the file, when it holds several")
 	fs.StringVar(&o.fields, "fields", "", "landing fields: GeoJSON points or polygons with a name property")
 	fs.Var(o.alt, "alt", o.alt.Help("planned altitude along the whole route: TRUE altitude MSL (m, ft), not the altimeter reading (see --alt-indicated)"))
-	o.ind.register(fs, "planned altitude")
+	o.ind.Register(fs, "planned altitude")
 	fs.Var(o.agl, "agl", o.agl.Help("planned height above the terrain under each point (m, ft), instead of --alt"))
 	fs.Var(o.step, "step", o.step.Help("sampling step along the route (m, ft, km, nm)"))
 	fs.StringVar(&o.format, "format", "text", "output format: text, json, geojson or csv (stdout, or --out)")
@@ -137,7 +137,7 @@ func runRoute(ctx context.Context, o *routeOptions, stdout, stderr io.Writer) er
 		return err
 	}
 	setup.printWarnings(stderr)
-	note, err := o.ind.altitudeFlown(o.alt, o.agl)
+	note, err := o.ind.AltitudeFlown(o.alt, o.agl)
 	if err != nil {
 		return err
 	}
@@ -248,8 +248,8 @@ func computeRoute(ctx context.Context, run *routeRun, rt *input.Route, fields []
 			return input.Usagef("--alt", "%v m is outside -400..19000 m", v)
 		}
 		run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) along the whole route (--alt)", o.alt.Value, o.alt.Value/0.3048)
-		if o.ind.altInd.Given {
-			run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) true along the whole route (--alt-indicated %.0f m, corrected for the temperature)", o.alt.Value, o.alt.Value/0.3048, o.ind.altInd.Value)
+		if o.ind.AltInd.Given {
+			run.altMode = fmt.Sprintf("%.0f m MSL (%.0f ft) true along the whole route (--alt-indicated %.0f m, corrected for the temperature)", o.alt.Value, o.alt.Value/0.3048, o.ind.AltInd.Value)
 		}
 	case o.agl.Given:
 		if v := o.agl.Value; !(v > 0 && v <= 10000) {
@@ -317,7 +317,7 @@ func demoRoute(ctx context.Context, d *demoRun) error {
 	if err != nil {
 		return err
 	}
-	o := &routeOptions{alt: input.NewQuantity(input.Length, dr.Alt), agl: input.NewQuantity(input.Length, 0), ind: newIndicatedFlags(), step: input.NewQuantity(input.Length, dr.Step)}
+	o := &routeOptions{alt: input.NewQuantity(input.Length, dr.Alt), agl: input.NewQuantity(input.Length, 0), ind: input.NewIndicated(), step: input.NewQuantity(input.Length, dr.Step)}
 	o.alt.Given = true
 	run := &routeRun{setup: setup, ground: plan.Ground{Src: sc.src}, file: "demo-route.gpx", name: rt.Name, step: o.step.Value}
 	if err := computeRoute(ctx, run, rt, sc.fields, o, nil); err != nil {

@@ -181,6 +181,13 @@ func AltFlownText(agl bool, alt float64) string {
 	return fmt.Sprintf("%.0f m MSL (%.0f ft) everywhere (--alt)", alt, alt/0.3048)
 }
 
+// AltFlownIndicatedText is AltFlownText for a true altitude alt (m MSL)
+// worked out from the altimeter reading (m) by the cold-temperature
+// correction (--alt-indicated).
+func AltFlownIndicatedText(alt, reading float64) string {
+	return fmt.Sprintf("%.0f m MSL (%.0f ft) true everywhere (--alt-indicated %.0f m, corrected for the temperature)", alt, alt/0.3048, reading)
+}
+
 // Zone texts: the zone analysed, as the command line gave it.
 
 // AreaText names an area file, path as typed.
