@@ -80,8 +80,10 @@ type propagation struct {
 	// and its value) and no more.
 	c   []cellRec
 	pyr *groundPyramid
+	// scratch is the pools the run's buffers came from (nil: allocated);
 	// ownsGround is set when l is a crop made for this run alone, its
 	// elevations a scratch buffer that release gives back.
+	scratch    *scratch
 	ownsGround bool
 	// fieldElev (backward) is the elevation (m MSL) of the field of each
 	// source Index, for the terrain floor.
@@ -102,11 +104,11 @@ type propagation struct {
 	pruneT         float64
 }
 
-func newPropagation(l *terrain.Local, d *descent, backward bool) *propagation {
+func newPropagation(l *terrain.Local, d *descent, backward bool, s *scratch) *propagation {
 	n := l.Cols * l.Rows
-	p := &propagation{l: l, desc: d, backward: backward, cols: l.Cols, rows: l.Rows, cell: l.Cell}
-	p.c = scratchRecs.get(n)
-	p.val = scratchFloat32.get(n)
+	p := &propagation{l: l, desc: d, backward: backward, cols: l.Cols, rows: l.Rows, cell: l.Cell, scratch: s}
+	p.c = s.recPool().get(n)
+	p.val = s.f32Pool().get(n)
 	p.pyr = newGroundPyramid(l)
 	nan := float32(math.NaN())
 	top := noTop

@@ -149,6 +149,7 @@ func requiredWith(ctx context.Context, ground *terrain.Local, targets []Target, 
 		workers = 2
 	}
 	n := ground.Cols * ground.Rows
+	sc := scratchOf(ctx)
 	results := make([]*propagation, len(sets))
 	var mu sync.Mutex
 	closed := make([]int, len(sets))
@@ -160,9 +161,9 @@ func requiredWith(ctx context.Context, ground *terrain.Local, targets []Target, 
 		st := sets[k]
 		sub, owns := ground, false
 		if st.c0 != 0 || st.r0 != 0 || st.c1 != ground.Cols-1 || st.r1 != ground.Rows-1 {
-			sub, owns = cropScratch(ground, st.c0, st.r0, st.c1, st.r1), true
+			sub, owns = cropScratch(sc, ground, st.c0, st.r0, st.c1, st.r1), true
 		}
-		p := newPropagation(sub, d, true)
+		p := newPropagation(sub, d, true, sc)
 		p.ownsGround = owns
 		p.clearance = float32(opts.Clearance)
 		p.ceiling = ceiling
@@ -218,7 +219,7 @@ func requiredWith(ctx context.Context, ground *terrain.Local, targets []Target, 
 				res.Best[i] = int16(results[0].c[i].src)
 			}
 		}
-		scratchRecs.put(results[0].c) // the values are the result's
+		sc.recPool().put(results[0].c) // the values are the result's
 		return res, nil
 	}
 	res.Required = make([]float32, n)

@@ -172,7 +172,7 @@ func footprintOn(ctx context.Context, ground *terrain.Local, start Start, sx, sy
 	if err != nil {
 		return nil, err
 	}
-	p := newPropagation(ground, d, false)
+	p := newPropagation(ground, d, false, scratchOf(ctx))
 	p.clearance = float32(opts.Clearance)
 	p.endLevel = float32(minLevel)
 	p.srcs = []source{{X: sx, Y: sy, Alt: start.Alt}}

@@ -1,39 +1,70 @@
 package reach
 
 import (
+	"context"
 	"sync"
 
 	"glidereach/terrain"
 )
 
 // scratchKeep is how many buffers of one kind a free list keeps.
-const scratchKeep = 4
+const scratchKeep = 2
 
-// scratchPool keeps the per-cell buffers of finished propagations for the
-// next propagation to use, so a command that makes many runs in a row (a
-// field's backward run in each wind of a --wind-error set, a
-// RequiredFrom per field) writes into memory it already has instead of
-// fresh heap pages: on this project's machines a fresh page costs a kernel
-// page fault, which measured more than the run's own first pass over it.
-//
-// A get returns the smallest kept buffer that holds n elements (best fit,
-// so a small run does not take the buffer a large one needs), or a new
-// one. The kept buffers live in a sync.Pool, so a collection may drop them
-// as it drops any pooled object: an idle program does not hold them.
-//
-// Every user writes every element it reads before reading it (the
-// propagation's set-up initialises each cell), so a reused buffer's old
-// contents never reach a result.
-type scratchPool[T any] struct{ lists sync.Pool }
+// Scratch buffers. A fresh heap page costs a kernel page fault on this
+// project's machines, which measured more than a run's own first pass over
+// it; a caller that makes many runs in a row (a field's backward run in
+// each wind of a --wind-error set, a RequiredFrom per field) opens a scope
+// with WithScratch, and the propagations run under it take their per-cell
+// buffers from the buffers the finished ones gave back. Without a scope
+// every run allocates its own, as before: a pool that outlives its batch
+// only holds memory (measured: the demo, whose steps' windows rarely fit
+// each other's buffers, faulted 10-20 % more pages with one process-wide
+// pool; DEVELOPERS.md "Scratch buffers").
 
-// scratchList is one free list of a scratchPool, at most scratchKeep long.
+type scratchKey struct{}
+
+// scratch is the pools of one scope.
+type scratch struct {
+	recs scratchPool[cellRec]
+	f32  scratchPool[float32]
+}
+
+// WithScratch returns a context under which the solvers' runs (Required,
+// RequiredFrom, Footprint, FootprintFromState, Coverage) reuse the
+// per-cell buffers of the runs before them that finished; the buffers are
+// dropped with the context. The results are the same bit for bit: every
+// cell of a reused buffer is initialised before it is read.
+func WithScratch(ctx context.Context) context.Context {
+	if scratchOf(ctx) != nil {
+		return ctx
+	}
+	return context.WithValue(ctx, scratchKey{}, &scratch{})
+}
+
+// scratchOf returns ctx's scratch pools, nil outside a WithScratch scope.
+func scratchOf(ctx context.Context) *scratch {
+	s, _ := ctx.Value(scratchKey{}).(*scratch)
+	return s
+}
+
+// scratchPool is a best-fit free list of buffers: a get returns the
+// smallest kept buffer that holds n elements (so a small run does not take
+// the buffer a large one needs), or a new one. A nil pool always
+// allocates.
+type scratchPool[T any] struct {
+	mu sync.Mutex
+	fl scratchList[T]
+}
+
+// scratchList is the free list of a scratchPool, at most scratchKeep long.
 type scratchList[T any] struct{ bufs [][]T }
 
 // get returns a buffer of length n.
 func (sp *scratchPool[T]) get(n int) []T {
-	if fl, _ := sp.lists.Get().(*scratchList[T]); fl != nil {
-		b := fl.take(n)
-		sp.lists.Put(fl)
+	if sp != nil {
+		sp.mu.Lock()
+		b := sp.fl.take(n)
+		sp.mu.Unlock()
 		if b != nil {
 			return b
 		}
@@ -43,15 +74,12 @@ func (sp *scratchPool[T]) get(n int) []T {
 
 // put gives b back for a later get; the caller must not use b after.
 func (sp *scratchPool[T]) put(b []T) {
-	if cap(b) == 0 {
+	if sp == nil || cap(b) == 0 {
 		return
 	}
-	fl, _ := sp.lists.Get().(*scratchList[T])
-	if fl == nil {
-		fl = &scratchList[T]{}
-	}
-	fl.keep(b)
-	sp.lists.Put(fl)
+	sp.mu.Lock()
+	sp.fl.keep(b)
+	sp.mu.Unlock()
 }
 
 // take removes and returns the smallest kept buffer whose capacity holds n
@@ -91,16 +119,27 @@ func (fl *scratchList[T]) keep(b []T) {
 	}
 }
 
-var (
-	scratchRecs    scratchPool[cellRec]
-	scratchFloat32 scratchPool[float32]
-)
+// recPool and f32Pool return the scope's pools (nil ones, which
+// allocate, outside a scope).
+func (s *scratch) recPool() *scratchPool[cellRec] {
+	if s == nil {
+		return nil
+	}
+	return &s.recs
+}
+
+func (s *scratch) f32Pool() *scratchPool[float32] {
+	if s == nil {
+		return nil
+	}
+	return &s.f32
+}
 
 // cropScratch is l.CropCells(c0, r0, c1, r1) with the copy's elevations in
-// a buffer from scratchFloat32 (a propagation that owns the crop gives it
-// back in release).
-func cropScratch(l *terrain.Local, c0, r0, c1, r1 int) *terrain.Local {
-	return l.CropCellsInto(c0, r0, c1, r1, scratchFloat32.get((c1-c0+1)*(r1-r0+1)))
+// a buffer from s (a propagation that owns the crop gives it back in
+// release).
+func cropScratch(s *scratch, l *terrain.Local, c0, r0, c1, r1 int) *terrain.Local {
+	return l.CropCellsInto(c0, r0, c1, r1, s.f32Pool().get((c1-c0+1)*(r1-r0+1)))
 }
 
 // release gives the propagation's per-cell buffers (its records, its
@@ -108,10 +147,10 @@ func cropScratch(l *terrain.Local, c0, r0, c1, r1 int) *terrain.Local {
 // scratch pools. The caller must hold no slice of them: after release p
 // must not be used.
 func (p *propagation) release() {
-	scratchRecs.put(p.c)
-	scratchFloat32.put(p.val)
+	p.scratch.recPool().put(p.c)
+	p.scratch.f32Pool().put(p.val)
 	if p.ownsGround {
-		scratchFloat32.put(p.l.Elev)
+		p.scratch.f32Pool().put(p.l.Elev)
 	}
 	p.c, p.val, p.l = nil, nil, nil
 }

@@ -48,7 +48,7 @@ func TestSightShortcutsSameDecisions(t *testing.T) {
 			t.Fatal(err)
 		}
 		for _, backward := range []bool{false, true} {
-			p := newPropagation(l, d, backward)
+			p := newPropagation(l, d, backward, nil)
 			p.clearance = float32(rng.Float64() * 150)
 			for i := 0; i < 400; i++ {
 				pc, pr := rng.Intn(n), rng.Intn(n)

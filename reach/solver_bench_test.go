@@ -113,7 +113,7 @@ func benchmarkSight(b *testing.B, alt float64) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	p := newPropagation(l, d, false)
+	p := newPropagation(l, d, false, nil)
 	p.clearance = 100
 	const n, rad = 720, 200.0
 	type target struct {

@@ -98,6 +98,9 @@ func StartElevation(g Ground, lat, lon float64) (float64, error) {
 // Errors: *InputError naming "From", "Alt", "Terrain", "Aircraft" or
 // "Speed" for a request that cannot be flown; ctx's error when cancelled.
 func Reach(ctx context.Context, req ReachRequest) (*ReachResult, error) {
+	// The fields' backward runs (one per field and wind) reuse each
+	// other's buffers (reach.WithScratch).
+	ctx = reach.WithScratch(ctx)
 	setup, gr, lat, lon, alt := req.Setup, req.Ground, req.Lat, req.Lon, req.Alt
 	elev, err := StartElevation(gr, lat, lon)
 	if err != nil {
