@@ -2,6 +2,7 @@ package reach
 
 import (
 	"context"
+	"fmt"
 	"math"
 
 	"glidereach/terrain"
@@ -21,24 +22,55 @@ const (
 var noTop = float32(math.Inf(-1))
 
 // cellRec is one cell's state in the propagation but its value (val),
-// packed so that the tests on a neighbour read one record (12 bytes) and
-// the value:
+// packed into 8 bytes so that the tests on a neighbour read one record and
+// the value (eight records to a cache line):
 //
-//	par   ≥ 0 parent cell; −1−k virtual source k
-//	top   (forward) the highest terrain (m MSL) under the points of the
-//	      path to the cell where the glide is below the clearance (the cell
-//	      itself included), −Inf when there is none: the path is a valid
-//	      glide to a landing point only when that point's ground is at
-//	      least as high (the terrain floor, DEVELOPERS.md "Reserve and
-//	      clearance")
-//	src   (backward) which source the value leads to
-//	st    the cell's state (cellUntouched …)
+//	ps    the parent in the upper 29 bits (signed: ≥ 0 parent cell, −1−k
+//	      virtual source k) and the cell's state (cellUntouched …) in the
+//	      lower 3
+//	aux   forward: top, as float32 bits: the highest terrain (m MSL) under
+//	      the points of the path to the cell where the glide is below the
+//	      clearance (the cell itself included), −Inf when there is none:
+//	      the path is a valid glide to a landing point only when that
+//	      point's ground is at least as high (the terrain floor,
+//	      DEVELOPERS.md "Reserve and clearance");
+//	      backward: which source the value leads to
+//
+// A run therefore holds at most maxPropagationCells cells.
 type cellRec struct {
-	par int32
-	top float32
-	src uint16
-	st  uint8
+	ps  uint32
+	aux uint32
 }
+
+// maxPropagationCells is the most cells a propagation's window may hold: a
+// parent index must fit the 29 bits of cellRec.ps (16384 × 16384 cells,
+// whose records and values alone would take 3.2 GB).
+const maxPropagationCells = 1<<28 - 1
+
+// errWindowTooLarge is returned for a solver window of more than
+// maxPropagationCells cells.
+var errWindowTooLarge = fmt.Errorf("reach: terrain window too large for one solver run (at most %d cells)", maxPropagationCells)
+
+// st returns the cell's state.
+func (r *cellRec) st() uint8 { return uint8(r.ps & 7) }
+
+// par returns the cell's parent (≥ 0 a cell, −1−k source k).
+func (r *cellRec) par() int32 { return int32(r.ps) >> 3 }
+
+// setSt sets the cell's state, keeping its parent.
+func (r *cellRec) setSt(st uint8) { r.ps = r.ps&^7 | uint32(st) }
+
+// set sets the cell's parent and state.
+func (r *cellRec) set(par int32, st uint8) { r.ps = uint32(par)<<3 | uint32(st) }
+
+// top returns the forward record's top (see cellRec).
+func (r *cellRec) top() float32 { return math.Float32frombits(r.aux) }
+
+// setTop sets the forward record's top.
+func (r *cellRec) setTop(t float32) { r.aux = math.Float32bits(t) }
+
+// src returns the backward record's source.
+func (r *cellRec) src() uint16 { return uint16(r.aux) }
 
 // source is a virtual point where a propagation starts: the start of a
 // forward footprint or a landing field of a backward one. X, Y are in cell
@@ -111,9 +143,9 @@ func newPropagation(l *terrain.Local, d *descent, backward bool, s *scratch) *pr
 	p.val = s.f32Pool().get(n)
 	p.pyr = newGroundPyramid(l)
 	nan := float32(math.NaN())
-	top := noTop
+	aux := math.Float32bits(noTop)
 	if backward {
-		top = 0
+		aux = 0 // the source (set with the value)
 	}
 	// Voids are marked in the state, so the search tests one byte per
 	// neighbour before it reads anything else of the cell.
@@ -123,7 +155,7 @@ func newPropagation(l *terrain.Local, d *descent, backward bool, s *scratch) *pr
 			st = cellVoid
 		}
 		p.val[i] = nan
-		p.c[i] = cellRec{top: top, st: st}
+		p.c[i] = cellRec{ps: uint32(st), aux: aux}
 	}
 	return p
 }
@@ -217,7 +249,7 @@ func (p *propagation) wants(q int, v float64, endOnly bool) bool {
 	if !p.better(float32(v), p.val[q]) {
 		return false
 	}
-	if st := cq.st; st == cellOpen || st == cellClosed {
+	if st := cq.st(); st == cellOpen || st == cellClosed {
 		// An open or closed cell only takes a value above the clearance
 		// on a clear line (an end value never replaces it).
 		return !endOnly && p.l.Elev[q]+p.clearance-float32(v) <= 0
@@ -243,7 +275,7 @@ func (p *propagation) sightFrom(pi int32, px, py, pv float64, qc, qr, q int, v f
 	}
 	top := noTop
 	if pi >= 0 {
-		top = p.c[pi].top
+		top = p.c[pi].top()
 	}
 	if t+p.clearance-float32(v) > 0 {
 		// The cell is below its own clearance: offer keeps
@@ -307,19 +339,19 @@ func (p *propagation) offer(q int, pi int32, v float64, srcIdx uint16, top float
 				return
 			}
 		}
-		p.val[q], cq.par = vf, pi
-		cq.src = srcIdx
-		cq.st = cellOpen
+		p.val[q] = vf
+		cq.set(pi, cellOpen)
+		cq.aux = uint32(srcIdx)
 		p.queue.push(int32(q), p.key(vf))
 		return
 	}
-	if endOnly && (cq.st == cellOpen || cq.st == cellClosed) {
+	if st := cq.st(); endOnly && (st == cellOpen || st == cellClosed) {
 		return
 	}
 	if own <= 0 && !endOnly && top == noTop {
-		p.val[q], cq.par = vf, pi
-		cq.top = noTop
-		cq.st = cellOpen
+		p.val[q] = vf
+		cq.set(pi, cellOpen)
+		cq.setTop(noTop)
 		p.queue.push(int32(q), p.key(vf))
 		return
 	}
@@ -333,17 +365,17 @@ func (p *propagation) offer(q int, pi int32, v float64, srcIdx uint16, top float
 	if top > t {
 		return
 	}
-	if cq.st == cellOpen || cq.st == cellClosed {
+	if st := cq.st(); st == cellOpen || st == cellClosed {
 		// An open or closed cell that gets a better value stays above the
 		// clearance (better means higher); nothing to do here.
 		return
 	}
-	p.val[q], cq.par = vf, pi
+	p.val[q] = vf
 	if own > 0 {
 		top = max(top, t)
 	}
-	cq.top = top
-	cq.st = cellEnd
+	cq.set(pi, cellEnd)
+	cq.setTop(top)
 	if vf >= t+p.endLevel {
 		p.queue.push(int32(q), p.key(vf))
 	}
@@ -403,14 +435,14 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			continue // stale entry
 		}
 		endOnly := false
-		switch cs.st {
+		switch cs.st() {
 		case cellOpen:
-			cs.st = cellClosed
+			cs.setSt(cellClosed)
 		case cellEnd:
 			if p.backward {
 				continue
 			}
-			cs.st = cellEndDone
+			cs.setSt(cellEndDone)
 			endOnly = true
 		default:
 			continue // stale entry
@@ -429,11 +461,11 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 		}
 		sc, sr := s%p.cols, s/p.cols
 		sv := float64(p.val[s])
-		pi := cs.par
+		pi := cs.par()
 		px, py, pv := p.parentPos(pi)
 		var srcIdx uint16
 		if p.backward {
-			srcIdx = cs.src
+			srcIdx = cs.src()
 		}
 		for k := 0; k < 8; k++ {
 			qc, qr := sc+nbrDC[k], sr+nbrDR[k]
@@ -442,7 +474,7 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			}
 			q := qr*p.cols + qc
 			cq := &p.c[q]
-			st := cq.st
+			st := cq.st()
 			if st == cellVoid { // unknown ground: an obstacle
 				continue
 			}
@@ -451,7 +483,7 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			}
 			// A cell that already holds a value from s's parent would get
 			// the same value again on the straight segment: nothing to do.
-			sameParent := st != cellUntouched && cq.par == pi
+			sameParent := st != cellUntouched && cq.par() == pi
 			if sameParent && !endOnly {
 				continue
 			}

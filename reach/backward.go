@@ -99,6 +99,9 @@ func requiredWith(ctx context.Context, ground *terrain.Local, targets []Target, 
 	if ground == nil || ground.Cols < 2 || ground.Rows < 2 {
 		return nil, errors.New("reach: backward reach needs a terrain window of at least 2×2 cells")
 	}
+	if ground.Cols*ground.Rows > maxPropagationCells {
+		return nil, errWindowTooLarge
+	}
 	if len(targets) > math.MaxInt16 {
 		return nil, fmt.Errorf("reach: too many landing fields (%d, at most %d)", len(targets), math.MaxInt16)
 	}
@@ -216,7 +219,7 @@ func requiredWith(ctx context.Context, ground *terrain.Local, targets []Target, 
 		for i, v := range res.Required {
 			res.Best[i] = -1
 			if v == v {
-				res.Best[i] = int16(results[0].c[i].src)
+				res.Best[i] = int16(results[0].c[i].src())
 			}
 		}
 		sc.recPool().put(results[0].c) // the values are the result's
@@ -242,7 +245,7 @@ func requiredWith(ctx context.Context, ground *terrain.Local, targets []Target, 
 				i := r*ground.Cols + st.c0 + j
 				if cv := res.Required[i]; cv != cv || v < cv {
 					res.Required[i] = v
-					res.Best[i] = int16(p.c[(r-st.r0)*cols+j].src)
+					res.Best[i] = int16(p.c[(r-st.r0)*cols+j].src())
 				}
 			}
 		}
@@ -521,7 +524,7 @@ func requiredFromRun(ctx context.Context, ground *terrain.Local, target Target, 
 		}
 		p.stop = func(_ int) bool {
 			for _, q := range in {
-				if p.c[q].st != cellClosed && p.l.Elev[q] == p.l.Elev[q] {
+				if p.c[q].st() != cellClosed && p.l.Elev[q] == p.l.Elev[q] {
 					return false
 				}
 			}

@@ -167,6 +167,9 @@ func minFootprintLevel(opts FootprintOptions) float64 {
 // crop of a larger window passes the larger window's hBot so its table,
 // and so its values, are the larger window's.
 func footprintOn(ctx context.Context, ground *terrain.Local, start Start, sx, sy float64, model LossModel, opts FootprintOptions, hBot float64) (*FootprintResult, error) {
+	if ground.Cols*ground.Rows > maxPropagationCells {
+		return nil, errWindowTooLarge
+	}
 	minLevel := minFootprintLevel(opts)
 	d, err := newDescentFor(model, hBot, start.Alt+1)
 	if err != nil {
@@ -261,11 +264,11 @@ func (f *FootprintResult) arrivalAtCellXY(gx, gy float64, elev float32) (float64
 				continue
 			}
 			q := r*p.cols + c
-			if st := p.c[q].st; st == cellUntouched || st == cellVoid {
+			if st := p.c[q].st(); st == cellUntouched || st == cellVoid {
 				continue
 			}
 			// Through the cell itself, and straight from its parent.
-			for _, pi := range [2]int32{int32(q), p.c[q].par} {
+			for _, pi := range [2]int32{int32(q), p.c[q].par()} {
 				dup := false
 				for _, s := range seen[:nSeen] {
 					dup = dup || s == pi
@@ -277,7 +280,7 @@ func (f *FootprintResult) arrivalAtCellXY(gx, gy float64, elev float32) (float64
 				nSeen++
 				top := noTop
 				if pi >= 0 {
-					top = p.c[pi].top
+					top = p.c[pi].top()
 				}
 				if top > elev {
 					continue
@@ -321,18 +324,18 @@ func (f *FootprintResult) Path(c, r int) ([][2]float64, bool) {
 	}
 	p := f.prop
 	q := r*p.cols + c
-	if st := p.c[q].st; st == cellUntouched || st == cellVoid {
+	if st := p.c[q].st(); st == cellUntouched || st == cellVoid {
 		return nil, false
 	}
 	var pts [][2]float64
 	g := f.Ground
 	x, y := g.XY(c, r)
 	pts = append(pts, [2]float64{x, y})
-	pi := p.c[q].par
+	pi := p.c[q].par()
 	for n := 0; pi >= 0 && n < len(p.c); n++ {
 		x, y := g.XY(int(pi)%p.cols, int(pi)/p.cols)
 		pts = append(pts, [2]float64{x, y})
-		pi = p.c[pi].par
+		pi = p.c[pi].par()
 	}
 	pts = append(pts, [2]float64{g.X0 + f.StartX*g.Cell, g.Y0 + f.StartY*g.Cell})
 	for i, j := 0, len(pts)-1; i < j; i, j = i+1, j-1 {

@@ -959,7 +959,7 @@ func endBendMissed(ref, gain *FootprintResult, pts [][2]float64) bool {
 			continue
 		}
 		i := r*l.Cols + c
-		if st := gp.c[i].st; (st == cellEnd || st == cellEndDone) && rp.c[i].st == cellClosed {
+		if st := gp.c[i].st(); (st == cellEnd || st == cellEndDone) && rp.c[i].st() == cellClosed {
 			return true
 		}
 	}

@@ -5,6 +5,8 @@ import (
 	"math"
 	"sync"
 	"testing"
+
+	"glidereach/terrain"
 )
 
 // A take gives the smallest kept buffer that holds the request, so a small
@@ -81,7 +83,8 @@ func TestRequiredSameOnReusedBuffers(t *testing.T) {
 	for k := 0; k < scratchKeep; k++ {
 		recs, vals := make([]cellRec, n+k), make([]float32, n+k)
 		for i := range recs {
-			recs[i] = cellRec{par: int32(i % 7), top: 1e4, src: 2, st: cellClosed}
+			recs[i].set(int32(i%7), cellClosed)
+			recs[i].aux = 2
 			vals[i] = -1
 		}
 		sc.recs.put(recs)
@@ -145,5 +148,41 @@ func TestDescentCacheSharesExactRequests(t *testing.T) {
 		if math.Float64bits(v) != math.Float64bits(got[0].dist[i]) {
 			t.Fatalf("dist[%d]: cached %v, fresh %v", i, got[0].dist[i], v)
 		}
+	}
+}
+
+// TestCellRecPacking: the parent and the state share one word of the
+// record; every parent a run can hold, sources included, and every state
+// come back as they were set, and setSt keeps the parent.
+func TestCellRecPacking(t *testing.T) {
+	pars := []int32{0, 1, 7, 8, 123456, maxPropagationCells - 1, -1, -2, -1 - math.MaxInt16, -1 - (1<<28 - 1)}
+	for _, par := range pars {
+		for st := cellUntouched; st <= cellVoid; st++ {
+			var r cellRec
+			r.setTop(float32(math.Inf(-1)))
+			r.set(par, st)
+			if r.par() != par || r.st() != st {
+				t.Fatalf("set(%d, %d): got parent %d, state %d", par, st, r.par(), r.st())
+			}
+			r.setSt(cellEndDone)
+			if r.par() != par || r.st() != cellEndDone {
+				t.Fatalf("setSt after set(%d, %d): got parent %d, state %d", par, st, r.par(), r.st())
+			}
+			if !math.IsInf(float64(r.top()), -1) {
+				t.Fatalf("set(%d, %d) changed top to %v", par, st, r.top())
+			}
+		}
+	}
+}
+
+// TestWindowTooLargeIsRefused: a window whose cells a record cannot index
+// is an error, not a wrong parent (checked before anything is allocated).
+func TestWindowTooLargeIsRefused(t *testing.T) {
+	big := &terrain.Local{Cell: 30, Cols: 1 << 14, Rows: 1<<14 + 1}
+	if _, err := footprintOn(context.Background(), big, Start{Alt: 1000}, 1, 1, nil, FootprintOptions{}, 0); err != errWindowTooLarge {
+		t.Fatalf("footprint on %d × %d cells: err %v, want errWindowTooLarge", big.Cols, big.Rows, err)
+	}
+	if _, err := requiredWith(context.Background(), big, []Target{{}}, nil, RequiredOptions{}, nil, nil, nil, true); err != errWindowTooLarge {
+		t.Fatalf("required on %d × %d cells: err %v, want errWindowTooLarge", big.Cols, big.Rows, err)
 	}
 }
