@@ -339,3 +339,70 @@ func TestFootprintFromStateCropIsConservative(t *testing.T) {
 		t.Logf("%s: %d of %d reached cells equal the whole-window runs", tc.name, same, n)
 	}
 }
+
+// TestConeRegionHolds checks the widened cone against its definition: a
+// point is held when its bearing from the apex is in the sector
+// (SectorStart.inCone) or when it lies within pad of one of the two edge
+// rays, the distance to a ray found by a ternary search along it (the
+// distance is convex along a line; plane geometry), so points within 0.001
+// cell of the boundary are not judged.
+func TestConeRegionHolds(t *testing.T) {
+	for _, tc := range []struct{ track, half, pad float64 }{
+		{0, 5, 3}, {45, 5, 10}, {137, 30, 4}, {250, 89, 2}, {359, 1, 6}, {90, 60, 0},
+	} {
+		g := newConeRegion(20.3, 19.6, tc.track, tc.half, tc.pad)
+		s := SectorStart{TrackDeg: tc.track, HalfDeg: tc.half}
+		for r := 0; r < 40; r++ {
+			for c := 0; c < 40; c++ {
+				dx, dy := float64(c)-20.3, float64(r)-19.6
+				d := math.Inf(1)
+				if s.inCone(math.Atan2(dx, dy) * 180 / math.Pi) {
+					d = 0
+				} else {
+					for _, b := range []float64{tc.track - tc.half, tc.track + tc.half} {
+						ex, ey := math.Sin(b*math.Pi/180), math.Cos(b*math.Pi/180)
+						at := func(u float64) float64 { return math.Hypot(dx-u*ex, dy-u*ey) }
+						lo, hi := 0.0, 100.0
+						for hi-lo > 1e-9 {
+							m1, m2 := lo+(hi-lo)/3, hi-(hi-lo)/3
+							if at(m1) < at(m2) {
+								hi = m2
+							} else {
+								lo = m1
+							}
+						}
+						d = math.Min(d, at(lo))
+					}
+				}
+				if math.Abs(d-tc.pad) < 0.001 {
+					continue
+				}
+				if want := d <= tc.pad; g.holds(c, r) != want {
+					t.Errorf("cone %v: cell (%d, %d) at %.4f cells: holds %v, want %v", tc, c, r, d, !want, want)
+				}
+			}
+		}
+	}
+}
+
+// TestConeRegionExcludeMarksOutside checks that a sector run's set-up
+// marks exactly the cells outside its widened cone, and nothing inside.
+func TestConeRegionExcludeMarksOutside(t *testing.T) {
+	l := flatWindow(-0.5, -24.5, 61, 60, 0)
+	d, err := newDescentFor(ConstantLoss(9), -10, 1000)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, track := range []float64{0, 33, 90, 180, 271} {
+		p := newPropagation(l, d, false, nil)
+		g := newConeRegion(30, 30, track, 8, 4)
+		g.exclude(p)
+		for r := 0; r < l.Rows; r++ {
+			for c := 0; c < l.Cols; c++ {
+				if void := p.c[r*l.Cols+c].st() == cellVoid; void == g.holds(c, r) {
+					t.Fatalf("track %v: cell (%d, %d) void %v, held %v", track, c, r, void, g.holds(c, r))
+				}
+			}
+		}
+	}
+}
