@@ -15,7 +15,7 @@ const (
 	cellClosed          // expanded; its value is final
 	cellEnd             // has a value but may only be an end point (below the clearance)
 	cellEndDone         // an end point whose neighbours have been offered end values
-	cellVoid            // a void (unknown ground: an obstacle) or a cell outside the run's region, marked when the run is set up
+	cellVoid            // a void (unknown ground: an obstacle), marked when the run is set up
 )
 
 // noTop is the top of a path that is nowhere below the clearance.

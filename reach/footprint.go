@@ -129,7 +129,7 @@ func Footprint(ctx context.Context, ground *terrain.Local, start Start, model Lo
 	if start.Alt <= te {
 		return nil, fmt.Errorf("%w (terrain %.0f m, start %.0f m MSL)", ErrStartBelowGround, te, start.Alt)
 	}
-	return footprintOn(ctx, ground, start, sx, sy, model, opts, footprintBottom(lowestGround(ground), opts), nil)
+	return footprintOn(ctx, ground, start, sx, sy, model, opts, footprintBottom(lowestGround(ground), opts))
 }
 
 // lowestGround returns the lowest elevation (m MSL) of l, +Inf when l is
@@ -166,12 +166,7 @@ func minFootprintLevel(opts FootprintOptions) float64 {
 // with the descent table tabulated down to hBot (m MSL); a footprint on a
 // crop of a larger window passes the larger window's hBot so its table,
 // and so its values, are the larger window's.
-//
-// region, when not nil, confines the search to the cells it holds: the
-// others are marked like voids, so no path passes through them (a run on
-// less ground, whose arrivals can only be lower or missing, never higher:
-// each value is still that of a flown path).
-func footprintOn(ctx context.Context, ground *terrain.Local, start Start, sx, sy float64, model LossModel, opts FootprintOptions, hBot float64, region *coneRegion) (*FootprintResult, error) {
+func footprintOn(ctx context.Context, ground *terrain.Local, start Start, sx, sy float64, model LossModel, opts FootprintOptions, hBot float64) (*FootprintResult, error) {
 	if ground.Cols*ground.Rows > maxPropagationCells {
 		return nil, errWindowTooLarge
 	}
@@ -181,9 +176,6 @@ func footprintOn(ctx context.Context, ground *terrain.Local, start Start, sx, sy
 		return nil, err
 	}
 	p := newPropagation(ground, d, false, scratchOf(ctx))
-	if region != nil {
-		region.exclude(p)
-	}
 	p.clearance = float32(opts.Clearance)
 	p.endLevel = float32(minLevel)
 	p.srcs = []source{{X: sx, Y: sy, Alt: start.Alt}}

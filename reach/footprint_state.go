@@ -120,29 +120,25 @@ func FootprintFromState(ctx context.Context, ground *terrain.Local, failure Star
 	return out, nil
 }
 
-// coneBoxPad is the widening of a sector's cone (and of its box), as a
+// coneBoxPad is the widening of a sector's box beyond its cone, as a
 // fraction of the longest straight glide (plus two cells): room for the
 // glides that bend around terrain near the cone's edges. With it the demo's
 // failure-state footprint is cell for cell the one of whole-window runs
-// (checked when it was chosen, and again when the runs were confined to
-// the widened cone; TestFootprintFromStateCropIsConservative checks the
-// synthetic landscape: never higher, at least 99.9 % of the cells equal).
+// (checked when it was chosen; TestFootprintFromStateCropIsConservative
+// checks the synthetic landscape).
 const coneBoxPad = 0.05
 
 // sectorFootprint runs the footprint of sector s on the part of ground its
-// cone can hold, when the cone is convex (HalfDeg < 90; the whole window
-// otherwise): the cone widened by coneBoxPad (coneRegion), on the crop to
-// the bounding box of the cone's apex (the sector's start) and its arc at
-// radius (m, the longest straight glide of the table), widened alike. A
-// cone narrower than a half-plane is convex, so every straight glide from
-// its apex to a cell in it stays in the cone; a glide that bends around
-// terrain and leaves the widened cone is not searched, so the confinement
+// cone can hold: the bounding box of the cone's apex (the sector's start)
+// and its arc at radius (m, the longest straight glide of the table),
+// widened by coneBoxPad, when the cone is convex (HalfDeg < 90); the whole
+// window otherwise. A cone narrower than a half-plane is convex, so every
+// straight glide from its apex to a cell in it stays over the box; a glide
+// that bends around terrain and leaves the box is not searched, so the crop
 // can only lower an arrival, never raise it (never optimistic). It costs a
-// sector about the widened cone's share of the window instead of the whole
-// window: the box alone took the CPU time of BenchmarkFootprintFromState to
-// a quarter of the whole window's, the cone within it took the demo's
-// sector runs from 1.5 to 0.7 cpu-s. off is the crop's first column and row
-// in ground; hBot is the window's table bottom.
+// sector about the box's share of the window instead of the whole window
+// (a quarter of the CPU time on BenchmarkFootprintFromState). off is the
+// crop's first column and row in ground; hBot is the window's table bottom.
 func sectorFootprint(ctx context.Context, ground *terrain.Local, s SectorStart, radius float64, model LossModel, opts FootprintOptions, hBot float64) (m *FootprintResult, off [2]int, err error) {
 	x, y := ground.Frame.Forward(s.Start.Lat, s.Start.Lon)
 	sx, sy := (x-ground.X0)/ground.Cell, (y-ground.Y0)/ground.Cell
@@ -150,17 +146,14 @@ func sectorFootprint(ctx context.Context, ground *terrain.Local, s SectorStart, 
 		return nil, off, ErrStartOffGround
 	}
 	crop := ground
-	var region *coneRegion
 	if s.HalfDeg < 90 {
-		pad := 2 + int(coneBoxPad*radius/ground.Cell)
-		c0, r0, c1, r1 := coneBox(sx, sy, s.TrackDeg, s.HalfDeg, radius/ground.Cell, pad)
+		c0, r0, c1, r1 := coneBox(sx, sy, s.TrackDeg, s.HalfDeg, radius/ground.Cell, 2+int(coneBoxPad*radius/ground.Cell))
 		c0, r0 = max(c0, 0), max(r0, 0)
 		c1, r1 = min(c1, ground.Cols-1), min(r1, ground.Rows-1)
 		if c1-c0 >= 1 && r1-r0 >= 1 && (c1-c0+1)*(r1-r0+1) < ground.Cols*ground.Rows {
 			crop = ground.CropCells(c0, r0, c1, r1)
 			off = [2]int{c0, r0}
 		}
-		region = newConeRegion(sx-float64(off[0]), sy-float64(off[1]), s.TrackDeg, s.HalfDeg, float64(pad))
 	}
 	te, ok := ground.Sample(x, y)
 	if !ok {
@@ -169,78 +162,8 @@ func sectorFootprint(ctx context.Context, ground *terrain.Local, s SectorStart, 
 	if s.Start.Alt <= te {
 		return nil, off, fmt.Errorf("%w (terrain %.0f m, start %.0f m MSL)", ErrStartBelowGround, te, s.Start.Alt)
 	}
-	m, err = footprintOn(ctx, crop, s.Start, sx-float64(off[0]), sy-float64(off[1]), model, opts, hBot, region)
+	m, err = footprintOn(ctx, crop, s.Start, sx-float64(off[0]), sy-float64(off[1]), model, opts, hBot)
 	return m, off, err
-}
-
-// coneRegion is a sector's cone widened by pad cells: the points within
-// pad of the cone with apex (ax, ay) (cell units, rows increasing north),
-// centre bearing TrackDeg and half-angle HalfDeg < 90 (a convex cone, the
-// intersection of the two half-planes its edges bound). A sector's run is
-// confined to it (footprintOn's region): its straight glides stay in the
-// cone, and the pad leaves room for the glides that bend around terrain
-// near the edges, as the box's pad does; cells farther out would only be
-// searched to be thrown away, since the sector claims only its cone.
-type coneRegion struct {
-	ax, ay   float64
-	e1x, e1y float64 // unit vectors along the cone's edges
-	e2x, e2y float64
-	n1x, n1y float64 // inward normals of the edges
-	n2x, n2y float64
-	pad2     float64 // pad², cells²
-}
-
-// newConeRegion returns the cone of apex (ax, ay), centre bearing trackDeg
-// and half-angle halfDeg (< 90, degrees) widened by pad cells.
-func newConeRegion(ax, ay, trackDeg, halfDeg, pad float64) *coneRegion {
-	b1, b2 := (trackDeg-halfDeg)*math.Pi/180, (trackDeg+halfDeg)*math.Pi/180
-	g := &coneRegion{ax: ax, ay: ay, pad2: pad * pad}
-	// A bearing b points along (sin b, cos b). The inward normal of the
-	// edge at trackDeg−halfDeg turns it clockwise by 90° (towards larger
-	// bearings), that of the other edge counter-clockwise.
-	g.e1x, g.e1y = math.Sin(b1), math.Cos(b1)
-	g.e2x, g.e2y = math.Sin(b2), math.Cos(b2)
-	g.n1x, g.n1y = g.e1y, -g.e1x
-	g.n2x, g.n2y = -g.e2y, g.e2x
-	return g
-}
-
-// holds reports whether cell (c, r) lies within pad of the cone.
-func (g *coneRegion) holds(c, r int) bool {
-	dx, dy := float64(c)-g.ax, float64(r)-g.ay
-	d1, d2 := dx*g.n1x+dy*g.n1y, dx*g.n2x+dy*g.n2y
-	if d1 >= 0 && d2 >= 0 {
-		return true // in the cone
-	}
-	// The distance to the cone is the distance to the nearer edge ray.
-	p2 := dx*dx + dy*dy
-	return rayDist2(dx, dy, p2, g.e1x, g.e1y) <= g.pad2 || rayDist2(dx, dy, p2, g.e2x, g.e2y) <= g.pad2
-}
-
-// rayDist2 is the squared distance from (dx, dy) (p2 = dx²+dy²) to the ray
-// from the origin along the unit vector (ex, ey).
-func rayDist2(dx, dy, p2, ex, ey float64) float64 {
-	t := dx*ex + dy*ey
-	if t <= 0 {
-		return p2
-	}
-	return math.Max(0, p2-t*t)
-}
-
-// exclude marks every cell of p's window outside g like a void. The cells
-// outside form the two ends of each row (g is convex), so each row is
-// scanned in from both ends to the first cell g holds.
-func (g *coneRegion) exclude(p *propagation) {
-	for r := 0; r < p.rows; r++ {
-		row := p.c[r*p.cols : (r+1)*p.cols]
-		lo := 0
-		for ; lo < p.cols && !g.holds(lo, r); lo++ {
-			row[lo].set(0, cellVoid)
-		}
-		for hi := p.cols - 1; hi > lo && !g.holds(hi, r); hi-- {
-			row[hi].set(0, cellVoid)
-		}
-	}
 }
 
 // coneBox returns the cell bounding box (inclusive) of the cone with apex

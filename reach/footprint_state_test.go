@@ -340,68 +340,69 @@ func TestFootprintFromStateCropIsConservative(t *testing.T) {
 	}
 }
 
-// TestConeRegionHolds checks the widened cone against its definition: a
-// point is held when its bearing from the apex is in the sector
-// (SectorStart.inCone) or when it lies within pad of one of the two edge
-// rays, the distance to a ray found by a ternary search along it (the
-// distance is convex along a line; plane geometry), so points within 0.001
-// cell of the boundary are not judged.
-func TestConeRegionHolds(t *testing.T) {
-	for _, tc := range []struct{ track, half, pad float64 }{
-		{0, 5, 3}, {45, 5, 10}, {137, 30, 4}, {250, 89, 2}, {359, 1, 6}, {90, 60, 0},
-	} {
-		g := newConeRegion(20.3, 19.6, tc.track, tc.half, tc.pad)
-		s := SectorStart{TrackDeg: tc.track, HalfDeg: tc.half}
-		for r := 0; r < 40; r++ {
-			for c := 0; c < 40; c++ {
-				dx, dy := float64(c)-20.3, float64(r)-19.6
-				d := math.Inf(1)
-				if s.inCone(math.Atan2(dx, dy) * 180 / math.Pi) {
-					d = 0
-				} else {
-					for _, b := range []float64{tc.track - tc.half, tc.track + tc.half} {
-						ex, ey := math.Sin(b*math.Pi/180), math.Cos(b*math.Pi/180)
-						at := func(u float64) float64 { return math.Hypot(dx-u*ex, dy-u*ey) }
-						lo, hi := 0.0, 100.0
-						for hi-lo > 1e-9 {
-							m1, m2 := lo+(hi-lo)/3, hi-(hi-lo)/3
-							if at(m1) < at(m2) {
-								hi = m2
-							} else {
-								lo = m1
-							}
-						}
-						d = math.Min(d, at(lo))
+// TestFootprintFromStateBehindWallNeverHigher is the never-optimistic
+// property of the sectors' crop (each sector searched only on its cone's
+// box, widened by coneBoxPad) where it matters most: three hilly
+// landscapes, each with a wall 700 m high a few cells from the failure
+// point that glides must bend around, two failure headings each. No cell
+// may arrive higher than the whole-window runs of the same sectors, nor be
+// reached where they reach nothing. The crop does lose bent glides that
+// leave the box: on these cases up to 5.7 % of the reached cells arrive
+// lower (by up to 149 m) and up to 0.5 % are not reached (measured when
+// the test was written; DEVELOPERS.md "Footprint from a failure state"),
+// so the test also holds the crop to those losses, a guard against a
+// tighter crop that loses more (a crop to the cone itself, widened by the
+// same pad, lost up to 27 % and was not kept).
+func TestFootprintFromStateBehindWallNeverHigher(t *testing.T) {
+	if raceEnabled {
+		t.Skip("whole-window reference runs are slow under -race; the plain go test runs this")
+	}
+	opts := FootprintOptions{Reserve: 100, Clearance: 100}
+	for seed := 1; seed <= 3; seed++ {
+		l := hillyWindow(121, 60, seed)
+		// A wall 700 m high across part of the window, a few cells from the
+		// failure point, with a gap at one end.
+		for r := 40; r < 100; r++ {
+			l.Elev[r*l.Cols+70+seed] = 900
+		}
+		lat, lon := l.Frame.Inverse(l.X0+60*60, l.Y0+60*60)
+		for _, hdg := range []float64{80, 200 + 30*float64(seed)} {
+			f := transition.Failure{Heading: hdg * math.Pi / 180, FailTAS: 50, FailSink: 2, GlideTAS: 33, GlideSink: 33.0 / 9, ReactionTime: 3, Efficiency: 0.5, Bank: 30}
+			ss, err := f.Sectors(24, 0, 0)
+			if err != nil {
+				t.Fatal(err)
+			}
+			secs := stateSectors(l, lat, lon, 950, ss)
+			got, err := FootprintFromState(context.Background(), l, Start{Lat: lat, Lon: lon, Alt: 950}, secs, ConstantLoss(9), opts)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want := fullWindowFromState(t, l, secs, ConstantLoss(9), opts)
+			same, n, lost, drop := 0, 0, 0, 0.0
+			for i, w := range want {
+				g := got.Arrival[i]
+				if w != w {
+					if g == g {
+						t.Fatalf("seed %d heading %v: cell %d reached (%.1f m) where whole-window runs reach nothing", seed, hdg, i, g)
 					}
-				}
-				if math.Abs(d-tc.pad) < 0.001 {
 					continue
 				}
-				if want := d <= tc.pad; g.holds(c, r) != want {
-					t.Errorf("cone %v: cell (%d, %d) at %.4f cells: holds %v, want %v", tc, c, r, d, !want, want)
+				n++
+				if g == g && g > w {
+					t.Fatalf("seed %d heading %v: cell %d arrives at %.2f m, above the whole-window runs' %.2f m", seed, hdg, i, g, w)
+				}
+				if g == w {
+					same++
+				}
+				if g != g {
+					lost++
+				} else {
+					drop = math.Max(drop, float64(w-g))
 				}
 			}
-		}
-	}
-}
-
-// TestConeRegionExcludeMarksOutside checks that a sector run's set-up
-// marks exactly the cells outside its widened cone, and nothing inside.
-func TestConeRegionExcludeMarksOutside(t *testing.T) {
-	l := flatWindow(-0.5, -24.5, 61, 60, 0)
-	d, err := newDescentFor(ConstantLoss(9), -10, 1000)
-	if err != nil {
-		t.Fatal(err)
-	}
-	for _, track := range []float64{0, 33, 90, 180, 271} {
-		p := newPropagation(l, d, false, nil)
-		g := newConeRegion(30, 30, track, 8, 4)
-		g.exclude(p)
-		for r := 0; r < l.Rows; r++ {
-			for c := 0; c < l.Cols; c++ {
-				if void := p.c[r*l.Cols+c].st() == cellVoid; void == g.holds(c, r) {
-					t.Fatalf("track %v: cell (%d, %d) void %v, held %v", track, c, r, void, g.holds(c, r))
-				}
+			t.Logf("seed %d heading %v: %d of %d equal, %d lost, largest drop %.1f m", seed, hdg, same, n, lost, drop)
+			if n == 0 || float64(same) < 0.93*float64(n) || float64(lost) > 0.01*float64(n) {
+				t.Errorf("seed %d heading %v: %d of %d reached cells equal the whole-window runs, %d not reached", seed, hdg, same, n, lost)
 			}
 		}
 	}

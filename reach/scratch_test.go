@@ -179,7 +179,7 @@ func TestCellRecPacking(t *testing.T) {
 // is an error, not a wrong parent (checked before anything is allocated).
 func TestWindowTooLargeIsRefused(t *testing.T) {
 	big := &terrain.Local{Cell: 30, Cols: 1 << 14, Rows: 1<<14 + 1}
-	if _, err := footprintOn(context.Background(), big, Start{Alt: 1000}, 1, 1, nil, FootprintOptions{}, 0, nil); err != errWindowTooLarge {
+	if _, err := footprintOn(context.Background(), big, Start{Alt: 1000}, 1, 1, nil, FootprintOptions{}, 0); err != errWindowTooLarge {
 		t.Fatalf("footprint on %d × %d cells: err %v, want errWindowTooLarge", big.Cols, big.Rows, err)
 	}
 	if _, err := requiredWith(context.Background(), big, []Target{{}}, nil, RequiredOptions{}, nil, nil, nil, true); err != errWindowTooLarge {
