@@ -72,6 +72,9 @@ func (r *cellRec) setTop(t float32) { r.aux = math.Float32bits(t) }
 // src returns the backward record's source.
 func (r *cellRec) src() uint16 { return uint16(r.aux) }
 
+// setSrc sets the backward record's source.
+func (r *cellRec) setSrc(k uint16) { r.aux = uint32(k) }
+
 // source is a virtual point where a propagation starts: the start of a
 // forward footprint or a landing field of a backward one. X, Y are in cell
 // units of the raster (cell (c, r) has its centre at (c, r)).
@@ -341,7 +344,7 @@ func (p *propagation) offer(q int, pi int32, v float64, srcIdx uint16, top float
 		}
 		p.val[q] = vf
 		cq.set(pi, cellOpen)
-		cq.aux = uint32(srcIdx)
+		cq.setSrc(srcIdx)
 		p.queue.push(int32(q), p.key(vf))
 		return
 	}

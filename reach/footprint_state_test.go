@@ -2,6 +2,7 @@ package reach
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"testing"
 
@@ -279,6 +280,37 @@ func fullWindowFromState(t *testing.T, l *terrain.Local, secs []SectorStart, mod
 	return out
 }
 
+// neverAboveWholeWindow compares a FootprintFromState result's arrivals
+// (got) with those of whole-window runs of the same sectors (want, from
+// fullWindowFromState): it fails the test at a cell reached where want
+// reaches nothing or arriving higher than want, and returns, over the cells
+// want reaches, how many arrive the same, how many got does not reach and
+// the largest drop (m).
+func neverAboveWholeWindow(t *testing.T, name string, got, want []float32) (same, n, lost int, drop float64) {
+	t.Helper()
+	for i, w := range want {
+		g := got[i]
+		if w != w {
+			if g == g {
+				t.Fatalf("%s: cell %d reached (%.1f m) where whole-window runs reach nothing", name, i, g)
+			}
+			continue
+		}
+		n++
+		switch {
+		case g != g:
+			lost++
+		case g > w:
+			t.Fatalf("%s: cell %d arrives at %.2f m, above the whole-window runs' %.2f m", name, i, g, w)
+		case g == w:
+			same++
+		default:
+			drop = math.Max(drop, float64(w-g))
+		}
+	}
+	return same, n, lost, drop
+}
+
 // Each sector runs on the box its cone can hold (speed); that may only
 // lower an arrival, never raise one, and on flat ground (straight glides
 // only) it changes nothing. The reference is the same sectors run on the
@@ -310,23 +342,7 @@ func TestFootprintFromStateCropIsConservative(t *testing.T) {
 			t.Fatal(err)
 		}
 		want := fullWindowFromState(t, tc.l, secs, ConstantLoss(9), opts)
-		same, n := 0, 0
-		for i := range want {
-			w, g := want[i], got.Arrival[i]
-			if w != w {
-				if g == g {
-					t.Fatalf("%s: cell %d reached (%.1f m) where whole-window runs reach nothing", tc.name, i, g)
-				}
-				continue
-			}
-			n++
-			if g == g && g > w {
-				t.Fatalf("%s: cell %d arrives at %.2f m, above the whole-window runs' %.2f m", tc.name, i, g, w)
-			}
-			if g == w {
-				same++
-			}
-		}
+		same, n, _, _ := neverAboveWholeWindow(t, tc.name, got.Arrival, want)
 		if n == 0 {
 			t.Fatalf("%s: nothing reached", tc.name)
 		}
@@ -360,8 +376,8 @@ func TestFootprintFromStateBehindWallNeverHigher(t *testing.T) {
 	opts := FootprintOptions{Reserve: 100, Clearance: 100}
 	for seed := 1; seed <= 3; seed++ {
 		l := hillyWindow(121, 60, seed)
-		// A wall 700 m high across part of the window, a few cells from the
-		// failure point, with a gap at one end.
+		// A wall 700 m high across the middle half of the window's rows, a
+		// few cells east of the failure point, open at both ends.
 		for r := 40; r < 100; r++ {
 			l.Elev[r*l.Cols+70+seed] = 900
 		}
@@ -378,28 +394,8 @@ func TestFootprintFromStateBehindWallNeverHigher(t *testing.T) {
 				t.Fatal(err)
 			}
 			want := fullWindowFromState(t, l, secs, ConstantLoss(9), opts)
-			same, n, lost, drop := 0, 0, 0, 0.0
-			for i, w := range want {
-				g := got.Arrival[i]
-				if w != w {
-					if g == g {
-						t.Fatalf("seed %d heading %v: cell %d reached (%.1f m) where whole-window runs reach nothing", seed, hdg, i, g)
-					}
-					continue
-				}
-				n++
-				if g == g && g > w {
-					t.Fatalf("seed %d heading %v: cell %d arrives at %.2f m, above the whole-window runs' %.2f m", seed, hdg, i, g, w)
-				}
-				if g == w {
-					same++
-				}
-				if g != g {
-					lost++
-				} else {
-					drop = math.Max(drop, float64(w-g))
-				}
-			}
+			name := fmt.Sprintf("seed %d heading %v", seed, hdg)
+			same, n, lost, drop := neverAboveWholeWindow(t, name, got.Arrival, want)
 			t.Logf("seed %d heading %v: %d of %d equal, %d lost, largest drop %.1f m", seed, hdg, same, n, lost, drop)
 			if n == 0 || float64(same) < 0.93*float64(n) || float64(lost) > 0.01*float64(n) {
 				t.Errorf("seed %d heading %v: %d of %d reached cells equal the whole-window runs, %d not reached", seed, hdg, same, n, lost)

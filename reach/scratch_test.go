@@ -84,7 +84,7 @@ func TestRequiredSameOnReusedBuffers(t *testing.T) {
 		recs, vals := make([]cellRec, n+k), make([]float32, n+k)
 		for i := range recs {
 			recs[i].set(int32(i%7), cellClosed)
-			recs[i].aux = 2
+			recs[i].setSrc(2)
 			vals[i] = -1
 		}
 		sc.recs.put(recs)
