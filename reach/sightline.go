@@ -80,6 +80,9 @@ var pyrShifts = [...]uint{3, 6, 9, 12}
 // cells is a void.
 type groundPyramid struct {
 	lv [len(pyrShifts)]pyrLevel
+	// highest is the highest ground of the whole window, +Inf when it
+	// holds a void.
+	highest float32
 }
 
 type pyrLevel struct {
@@ -133,6 +136,11 @@ func newGroundPyramid(l *terrain.Local) *groundPyramid {
 			}
 		}
 		g.lv[li] = lv
+	}
+	top := &g.lv[len(pyrShifts)-1]
+	g.highest = float32(math.Inf(-1))
+	for _, m := range top.max {
+		g.highest = max(g.highest, m)
 	}
 	return g
 }

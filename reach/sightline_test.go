@@ -1,6 +1,7 @@
 package reach
 
 import (
+	"context"
 	"math"
 	"math/rand"
 	"testing"
@@ -116,4 +117,81 @@ func TestSightShortcutsSameDecisions(t *testing.T) {
 		t.Errorf("no line where sightEnd passed a block sightDir walked square by square")
 	}
 	t.Logf("%d walks: %d clear, %d blocked, %d passing ground below the clearance; %d where sightEnd's top differs", walks, ok, blocked, flagged, loose)
+}
+
+// TestSightAboveAllSameRuns checks that sightFrom's test against the
+// window's highest ground (aboveAll) is only a shortcut: footprints and
+// backward runs on random landscapes (with and without voids, which turn
+// it off) give bit for bit the values they give without it, and the
+// sample holds runs where it decided most segments.
+func TestSightAboveAllSameRuns(t *testing.T) {
+	skipUnderRace(t)
+	defer func() { sightAboveAll = true }()
+	rng := rand.New(rand.NewSource(29))
+	cases := propCases(12)
+	shortcut := 0
+	for k := 0; k < cases; k++ {
+		n := 50 + rng.Intn(90)
+		cell := []float64{30, 90, 200}[rng.Intn(3)]
+		l := propTerrain(rng, n, cell)
+		if rng.Intn(2) == 0 {
+			h := hillyWindow(n, cell, rng.Intn(100))
+			copy(l.Elev, h.Elev)
+		}
+		lo, hi := math.Inf(1), math.Inf(-1)
+		voids := false
+		for _, e := range l.Elev {
+			if e == e {
+				lo, hi = math.Min(lo, float64(e)), math.Max(hi, float64(e))
+			} else {
+				voids = true
+			}
+		}
+		tab, err := NewTable(propAircraft(rng), Atmosphere{}, propWind(t, rng, 20), Conditions{}, lo-300, hi+2500)
+		if err != nil {
+			t.Fatal(err)
+		}
+		clearance := rng.Float64() * 150
+		mid := n / 2
+		lat, lon := l.Frame.Inverse(l.X0+float64(mid)*cell, l.Y0+float64(mid)*cell)
+		start := Start{Lat: lat, Lon: lon, Alt: hi + 200 + rng.Float64()*2000}
+		opts := FootprintOptions{Reserve: 150, Clearance: clearance, Levels: []float64{0}}
+		target := Target{Lat: lat, Lon: lon, Elev: float64(l.Elev[mid*n+mid]), Reserve: 150}
+		ropts := RequiredOptions{Clearance: clearance, Ceiling: hi + 2400, Workers: 1}
+		var fp [2]*FootprintResult
+		var rq [2]*RequiredResult
+		for i, on := range []bool{true, false} {
+			sightAboveAll = on
+			if fp[i], err = Footprint(context.Background(), l, start, tab, opts); err != nil {
+				t.Fatal(err)
+			}
+			if rq[i], err = Required(context.Background(), l, []Target{target}, tab, ropts); err != nil {
+				t.Fatal(err)
+			}
+		}
+		for q := range fp[0].Arrival {
+			a, b := fp[0].Arrival[q], fp[1].Arrival[q]
+			if math.Float32bits(a) != math.Float32bits(b) {
+				t.Fatalf("case %d: footprint cell %d: %v with the shortcut, %v without", k, q, a, b)
+			}
+			a, b = rq[0].Required[q], rq[1].Required[q]
+			if math.Float32bits(a) != math.Float32bits(b) {
+				t.Fatalf("case %d: required cell %d: %v with the shortcut, %v without", k, q, a, b)
+			}
+		}
+		// Cells the glide reaches a clearance above the highest ground:
+		// their segments were decided by the shortcut.
+		high := 0
+		for _, a := range fp[0].Arrival {
+			if !voids && float64(a)-clearance >= hi {
+				high++
+			}
+		}
+		if high > len(l.Elev)/4 {
+			shortcut++
+		}
+	}
+	if shortcut < cases/4 {
+		t.Errorf("only %d of %d cases had a quarter of their cells above every ground: the shortcut is hardly exercised", shortcut, cases)
+	}
 }
