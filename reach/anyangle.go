@@ -498,12 +498,24 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 		if p.backward {
 			srcIdx = cs.src()
 		}
+		// Away from the window's edge every neighbour is in it, at a fixed
+		// offset from s: no test of its column and row, which most
+		// neighbours (those that already hold s's parent) never need.
+		inner := sc > 0 && sr > 0 && sc < p.cols-1 && sr < p.rows-1
+		cols := p.cols
+		off := [8]int{1, cols + 1, cols, cols - 1, -1, -cols - 1, -cols, -cols + 1} // (nbrDC, nbrDR)
+		piBits := uint32(pi) << 3
 		for k := 0; k < 8; k++ {
-			qc, qr := sc+nbrDC[k], sr+nbrDR[k]
-			if qc < 0 || qr < 0 || qc >= p.cols || qr >= p.rows {
-				continue
+			var q int
+			if inner {
+				q = s + off[k]
+			} else {
+				qc, qr := sc+nbrDC[k], sr+nbrDR[k]
+				if qc < 0 || qr < 0 || qc >= p.cols || qr >= p.rows {
+					continue
+				}
+				q = qr*p.cols + qc
 			}
-			q := qr*p.cols + qc
 			cq := &p.c[q]
 			st := cq.st()
 			if st == cellVoid { // unknown ground: an obstacle
@@ -514,10 +526,12 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 			}
 			// A cell that already holds a value from s's parent would get
 			// the same value again on the straight segment: nothing to do.
-			sameParent := st != cellUntouched && cq.par() == pi
+			// (The parent compared in place: ps's upper 29 bits.)
+			sameParent := st != cellUntouched && cq.ps&^7 == piBits
 			if sameParent && !endOnly {
 				continue
 			}
+			qc, qr := sc+nbrDC[k], sr+nbrDR[k]
 			if st == cellClosed && !p.better(float32(sv), p.val[q]) {
 				continue // closed with a value no lower cell can improve
 			}
