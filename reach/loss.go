@@ -325,10 +325,10 @@ func (t *descent) distAt(d int, h float64) float64 {
 	return row[i]*(1-u) + row[i+1]*u
 }
 
-// heightNear inverts D_d like heightAt, searching from row hint outward;
-// it is the fast path for segments that descend only a few rows.
-func (t *descent) heightNear(d int, g float64, hint int) float64 {
-	row := t.dist[d*t.nh : (d+1)*t.nh]
+// heightNear inverts a column of D (row, D_d(h_i) for each altitude row
+// i) like heightAt, searching from row hint outward; it is the fast path
+// for segments that descend only a few rows.
+func (t *descent) heightNear(row []float64, g float64, hint int) float64 {
 	if g <= 0 {
 		return t.hTop
 	}
@@ -345,7 +345,7 @@ func (t *descent) heightNear(d int, g float64, hint int) float64 {
 	// Want row[i] ≥ g ≥ row[i+1].
 	for steps := 0; ; steps++ {
 		if steps > 8 {
-			return t.heightAt(d, g)
+			return t.heightAt(row, g)
 		}
 		if row[i] < g {
 			i--
@@ -371,10 +371,10 @@ func (t *descent) heightNear(d int, g float64, hint int) float64 {
 	return t.hBot + (float64(i)+u)*t.dh
 }
 
-// heightAt inverts D_d: the altitude whose distance-from-top is g. It returns
-// −Inf when g lies beyond the bottom of the table and hTop when g ≤ 0.
-func (t *descent) heightAt(d int, g float64) float64 {
-	row := t.dist[d*t.nh : (d+1)*t.nh]
+// heightAt inverts a column of D (row): the altitude whose distance-from-top
+// is g. It returns −Inf when g lies beyond the bottom of the table and hTop
+// when g ≤ 0.
+func (t *descent) heightAt(row []float64, g float64) float64 {
 	if g <= 0 {
 		return t.hTop
 	}
@@ -396,6 +396,10 @@ func (t *descent) heightAt(d int, g float64) float64 {
 	u := (a - g) / (a - b)
 	return t.hBot + (float64(i)+u)*t.dh
 }
+
+// column returns direction d's column of D (D_d(h_i) for each altitude
+// row i).
+func (t *descent) column(d int) []float64 { return t.dist[d*t.nh : (d+1)*t.nh] }
 
 // arrive returns the altitude after gliding a ground distance L (metres) from
 // altitude h on bearing (radians). It is −Inf when the glide would end below
@@ -423,18 +427,10 @@ func (t *descent) vecIndex(dx, dy float64) (d0, d1 int, w float64) {
 	return t.splitDir(bearingOf(dx, dy) * t.invStep)
 }
 
+// arriveBlend is arrive on the blend of direction columns d0 and d1 with
+// weight w toward d1 (vecIndex). The altitude's row and fraction are the
+// same in both columns: they are worked out once.
 func (t *descent) arriveBlend(d0, d1 int, w, h, L float64) float64 {
-	h0 := t.arriveDir(d0, h, L)
-	if w == 0 || t.isotropic {
-		return h0
-	}
-	h1 := t.arriveDir(d1, h, L)
-	return h0*(1-w) + h1*w
-}
-
-// arriveDir is arrive on tabulated direction d.
-func (t *descent) arriveDir(d int, h, L float64) float64 {
-	row := t.dist[d*t.nh : (d+1)*t.nh]
 	f := (h - t.hBot) / t.dh
 	if f <= 0 {
 		return math.Inf(-1)
@@ -445,13 +441,24 @@ func (t *descent) arriveDir(d int, h, L float64) float64 {
 		f = float64(i + 1)
 	}
 	u := f - float64(i)
+	h0 := t.arriveRow(t.column(d0), i, u, L)
+	if w == 0 || t.isotropic {
+		return h0
+	}
+	h1 := t.arriveRow(t.column(d1), i, u, L)
+	return h0*(1-w) + h1*w
+}
+
+// arriveRow is arrive in one column (row) from the altitude at row i and
+// fraction u toward row i+1.
+func (t *descent) arriveRow(row []float64, i int, u, L float64) float64 {
 	perRow := row[i] - row[i+1] // ground distance per altitude row here
 	g := row[i]*(1-u) + row[i+1]*u + L
 	hint := i
 	if perRow > 0 {
 		hint = i - int(L/perRow)
 	}
-	return t.heightNear(d, g, hint)
+	return t.heightNear(row, g, hint)
 }
 
 // depart returns the altitude at which a glide of ground length L on bearing
@@ -462,18 +469,9 @@ func (t *descent) depart(h, bearing, L float64) float64 {
 	return t.departBlend(d0, d1, w, h, L)
 }
 
+// departBlend is depart on the blend of direction columns d0 and d1 with
+// weight w toward d1 (as arriveBlend).
 func (t *descent) departBlend(d0, d1 int, w, h, L float64) float64 {
-	h0 := t.departDir(d0, h, L)
-	if w == 0 || t.isotropic || math.IsInf(h0, 1) {
-		return h0
-	}
-	h1 := t.departDir(d1, h, L)
-	return h0*(1-w) + h1*w
-}
-
-// departDir is depart on tabulated direction d.
-func (t *descent) departDir(d int, h, L float64) float64 {
-	row := t.dist[d*t.nh : (d+1)*t.nh]
 	f := (h - t.hBot) / t.dh
 	if f < 0 {
 		f = 0
@@ -483,6 +481,17 @@ func (t *descent) departDir(d int, h, L float64) float64 {
 		return math.Inf(1)
 	}
 	u := f - float64(i)
+	h0 := t.departRow(t.column(d0), i, u, L)
+	if w == 0 || t.isotropic || math.IsInf(h0, 1) {
+		return h0
+	}
+	h1 := t.departRow(t.column(d1), i, u, L)
+	return h0*(1-w) + h1*w
+}
+
+// departRow is depart in one column (row) to the altitude at row i and
+// fraction u toward row i+1.
+func (t *descent) departRow(row []float64, i int, u, L float64) float64 {
 	g := row[i]*(1-u) + row[i+1]*u - L
 	if g < 0 {
 		return math.Inf(1)
@@ -492,7 +501,7 @@ func (t *descent) departDir(d int, h, L float64) float64 {
 	if perRow > 0 {
 		hint = i + int(L/perRow)
 	}
-	return t.heightNear(d, g, hint)
+	return t.heightNear(row, g, hint)
 }
 
 // bearingOf returns atan2(dx, dy) — the bearing, clockwise from north, of
