@@ -20,6 +20,9 @@ import (
 // of every length up to the window's, the altitude chosen so that many
 // lines graze the floor. Common practice (an optimisation checked against
 // the computation it replaces), no source.
+//
+// It also checks that a walk started below the pyramid's single-block
+// levels, as sightDir's are, decides as one started at the coarsest.
 func TestSightShortcutsSameDecisions(t *testing.T) {
 	defer func() { sightAnchored = true }()
 	rng := rand.New(rand.NewSource(13))
@@ -92,6 +95,13 @@ func TestSightShortcutsSameDecisions(t *testing.T) {
 					if topE != topB {
 						loose++
 					}
+				}
+				// From the coarsest level (sightDir starts where the
+				// pyramid has more than one block): the same decision.
+				topC, okC := p.walkLine(float64(pc), float64(pr), pv, float64(qc), float64(qr), qc, qr, v, allow, top, true, false, len(pyrShifts)-1, fd)
+				if okC != okB || math.Float32bits(topC) != math.Float32bits(topB) {
+					t.Fatalf("case %d (backward %v): line %d,%d (%.3f m) -> %d,%d (%.3f m): from the coarsest level %v top %v, from level %d %v top %v",
+						k, backward, pc, pr, pv, qc, qr, v, okC, topC, p.pyr.split, okB, topB)
 				}
 				if okA != okB || math.Float32bits(topA) != math.Float32bits(topB) {
 					t.Fatalf("case %d (backward %v): line %d,%d (%.3f m) -> %d,%d (%.3f m): anchored %v top %v, exact %v top %v",
