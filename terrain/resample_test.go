@@ -129,7 +129,7 @@ func TestResampleSource(t *testing.T) {
 	}
 }
 
-func benchmarkResample(b *testing.B, n int) {
+func benchmarkResample(b *testing.B, n int, resample func(*Grid, Frame, float64, float64, float64, int, int) *Local) {
 	g := Synthetic(1, n, n, 1.0/3600)
 	f := NewFrame(SyntheticLat, SyntheticLon)
 	cell := 30.0
@@ -137,9 +137,14 @@ func benchmarkResample(b *testing.B, n int) {
 	b.ReportAllocs()
 	b.ResetTimer()
 	for b.Loop() {
-		Resample(g, f, x0, x0, cell, n, n)
+		resample(g, f, x0, x0, cell, n, n)
 	}
 }
 
 // BenchmarkResample2000 resamples a 2000×2000 Local from a 2000² grid.
-func BenchmarkResample2000(b *testing.B) { benchmarkResample(b, 2000) }
+func BenchmarkResample2000(b *testing.B) { benchmarkResample(b, 2000, Resample) }
+
+// BenchmarkResampleHigh2000 is the same for ResampleHigh (the highest
+// sample of each cell's footprint: the solvers' ground), on one core with
+// -cpu 1 for the rows are split between two goroutines.
+func BenchmarkResampleHigh2000(b *testing.B) { benchmarkResample(b, 2000, ResampleHigh) }
