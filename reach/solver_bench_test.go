@@ -103,7 +103,11 @@ func BenchmarkFootprint6000(b *testing.B) { benchmarkFootprint(b, 6000) }
 // cell of line; "clear" is the fraction of lines that hold. High: from
 // 1800 m MSL (every line clears: whole blocks passed at once); Low: from
 // 1000 m (every line is blocked by the hills: the walk runs to the first
-// obstruction).
+// obstruction). The walk starts, as the solver's do, at the pyramid's
+// coarsest level of more than one block (groundPyramid.split); the High
+// lines keep the clearance over the window's highest ground, which the
+// solver decides without a walk (aboveAll), so High is the cost of a walk
+// the solver no longer makes on such lines.
 func BenchmarkSightHigh(b *testing.B) { benchmarkSight(b, 1800) }
 func BenchmarkSightLow(b *testing.B)  { benchmarkSight(b, 1000) }
 
