@@ -433,8 +433,8 @@ func (w *sightWalk) exact(tau float64) float64 {
 //
 // (if-forms of max and min: the fraction is never NaN, da being the
 // segment's major extent, never 0 here, and the builtins' NaN and
-// signed-zero handling cost a fifth of the walk's instructions; a −0 in
-// place of 0 changes no sum or comparison the walk makes.)
+// signed-zero handling cost several instructions a call; a −0 in place of
+// 0 changes no sum or comparison the walk makes.)
 func (w *sightWalk) tauIn(k int) float64 {
 	t := (float64(k) - w.half - w.pa) / w.da
 	if t < 0 {
