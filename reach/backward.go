@@ -398,10 +398,11 @@ func bilinearRequired(v [4]float32, bestOf [4]int16, tx, ty float64) (alt float6
 // straight-line figure from the point plus a margin (the bound of an A*
 // search, used as a cut, not as an order: the cells that are searched are
 // searched in the same order). The pruned figure is kept when every cell
-// around the point closed at a value at least a slack below T (six cells of
-// the table's steepest descent plus 20 m: room for the neighbours whose
-// lines of sight gave the path its bends); otherwise the propagation runs
-// again unpruned. TestRequiredFromPrunedEqualsFull checks that the two give
+// around the point closed at a value at least a slack below T (three cells
+// of the table's steepest descent plus 10 m, pruneSlackCells: room for the
+// neighbours whose lines of sight gave the path its bends); otherwise the propagation runs
+// again with a wider margin (pruneMargins; after the tight one, first cut at
+// the figure it found, if it found one), and in the end unpruned. TestRequiredFromPrunedEqualsFull checks that the two give
 // the same figures.
 func RequiredFrom(ctx context.Context, ground *terrain.Local, target Target, model LossModel, opts RequiredOptions, lat, lon float64) (alt float64, ok bool, err error) {
 	g := ground
@@ -414,26 +415,59 @@ func RequiredFrom(ctx context.Context, ground *terrain.Local, target Target, mod
 	var pre *descent
 	var bound *displacementBound
 	if requiredFromPruned {
-		for _, m := range pruneMargins {
-			alt, ok, decided, err := requiredFromRun(ctx, ground, target, model, opts, fx, fy, m, &pre, &bound)
-			if err != nil || decided {
-				return alt, ok, err
+		for i, m := range pruneMargins {
+			r, err := requiredFromRun(ctx, ground, target, model, opts, fx, fy, m, &pre, &bound)
+			if err != nil || r.decided {
+				return r.alt, r.ok, err
+			}
+			if i > 0 || !requiredFromFound || math.IsNaN(r.found) {
+				continue
+			}
+			// The tight cut found a figure but could not vouch for it: no
+			// glide from the point needs more than it (a cut only takes
+			// paths away), so a cut at that figure holds every glide the
+			// wide one would need, in a search the size of the figure's
+			// rather than of the wide margin's.
+			fm := &pruneMargin{Abs: pruneMargins[len(pruneMargins)-1].Abs, Rel: pruneMargins[len(pruneMargins)-1].Rel, Found: r.found}
+			r, err = requiredFromRun(ctx, ground, target, model, opts, fx, fy, fm, &pre, &bound)
+			if err != nil || r.decided {
+				return r.alt, r.ok, err
 			}
 		}
 	}
-	alt, ok, _, err = requiredFromRun(ctx, ground, target, model, opts, fx, fy, nil, &pre, &bound)
-	return alt, ok, err
+	r, err := requiredFromRun(ctx, ground, target, model, opts, fx, fy, nil, &pre, &bound)
+	return r.alt, r.ok, err
 }
 
 // pruneMargin is a margin above the straight-line figure for a pruned run
 // of RequiredFrom: Abs metres plus Rel of the straight figure's height
-// above the field.
-type pruneMargin struct{ Abs, Rel float64 }
+// above the field. Found, when not zero, is a figure an earlier cut found
+// at the point: the cut is then at Found plus the slack, if that is below
+// the margin's.
+type pruneMargin struct{ Abs, Rel, Found float64 }
+
+// requiredFromFound switches RequiredFrom's second cut at the figure the
+// first one found (tests turn it off to compare).
+var requiredFromFound = true
+
+// fromRun is what one propagation of RequiredFrom gives: the figure at the
+// point (alt, ok), whether the run vouches for it (decided), and the
+// highest value of the point's cells when all of them closed (found; NaN
+// otherwise).
+type fromRun struct {
+	alt, found float64
+	ok         bool
+	decided    bool
+}
 
 // pruneMargins are the margins RequiredFrom tries in turn before the
 // unpruned run: a tight one (most glides need little more than the straight
-// line), then a wide one (detours).
-var pruneMargins = []*pruneMargin{{Abs: 40, Rel: 0.05}, {Abs: 250, Rel: 0.3}}
+// line), then wider ones for detours, each about 2.5 times the one before
+// (a search's cost grows with its margin, so a run that fails costs a
+// fraction of the next: a glide needing just more than the tight margin no
+// longer pays for the widest one; in the demo sailplane's seven fields the
+// one that missed the tight margin closed 252 k cells instead of 486 k).
+var pruneMargins = []*pruneMargin{{Abs: 40, Rel: 0.05}, {Abs: 100, Rel: 0.12}, {Abs: 250, Rel: 0.3}}
 var pruneSlackCells = 3.0
 
 // requiredFromPruned switches RequiredFrom's pruned first run (tests turn
@@ -446,7 +480,7 @@ var requiredFromPruned = true
 //
 // pre and bound carry the descent table and its displacement bound from
 // one run to the next (the same for every run of one RequiredFrom).
-func requiredFromRun(ctx context.Context, ground *terrain.Local, target Target, model LossModel, opts RequiredOptions, fx, fy float64, prune *pruneMargin, pre **descent, bound **displacementBound) (alt float64, ok, decided bool, err error) {
+func requiredFromRun(ctx context.Context, ground *terrain.Local, target Target, model LossModel, opts RequiredOptions, fx, fy float64, prune *pruneMargin, pre **descent, bound **displacementBound) (res fromRun, err error) {
 	g := ground
 	c0, r0 := min(int(fx), g.Cols-2), min(int(fy), g.Rows-2)
 	need := []int{r0*g.Cols + c0, r0*g.Cols + c0 + 1, (r0+1)*g.Cols + c0, (r0+1)*g.Cols + c0 + 1}
@@ -483,6 +517,9 @@ func requiredFromRun(ctx context.Context, ground *terrain.Local, target Target, 
 		}
 		b := *bound
 		limit = straight + prune.Abs + prune.Rel*math.Max(straight-src.Alt, 0) + slack
+		if prune.Found != 0 {
+			limit = math.Min(limit, prune.Found+slack)
+		}
 		// Every searched cell q has B(q − point) ≤ limit − base and
 		// B(field − q) ≤ limit − base (its value is at least the field's
 		// base plus the bound of the glide from q to the field): the
@@ -537,7 +574,7 @@ func requiredFromRun(ctx context.Context, ground *terrain.Local, target Target, 
 		}
 	}, false)
 	if err != nil {
-		return math.NaN(), false, false, err
+		return fromRun{alt: math.NaN(), found: math.NaN()}, err
 	}
 	var v [4]float32
 	for k, q := range need {
@@ -547,23 +584,34 @@ func requiredFromRun(ctx context.Context, ground *terrain.Local, target Target, 
 			v[k] = run.val[r*run.cols+c]
 		}
 	}
-	decided = true
+	decided := true
 	if prune != nil && !cut {
 		decided = false // nothing to cut with: the uncut run decides
 	}
+	found := math.NaN()
 	if cut && !beyond {
 		decided = allClosed
+		if allClosed {
+			found = math.Inf(-1)
+		}
 		for _, q := range in {
-			if run.l.Elev[q] == run.l.Elev[q] && !(float64(run.val[q]) <= run.pruneT-slack) {
+			if run.l.Elev[q] != run.l.Elev[q] {
+				continue
+			}
+			if !(float64(run.val[q]) <= run.pruneT-slack) {
 				decided = false
 			}
+			found = math.Max(found, float64(run.val[q])) // (NaN stays NaN)
+		}
+		if math.IsInf(found, -1) {
+			found = math.NaN()
 		}
 	}
 	if run != nil {
 		run.release()
 	}
 	a, _, ok := bilinearRequired(v, [4]int16{}, fx-float64(c0), fy-float64(r0))
-	return a, ok, decided, nil
+	return fromRun{alt: a, found: found, ok: ok, decided: decided}, nil
 }
 
 // RequiredForward returns the least start altitude (m MSL) at the point

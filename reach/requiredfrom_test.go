@@ -64,7 +64,7 @@ func TestInvariantRequiredFromPrunedEqualsFull(t *testing.T) {
 			g.Elev[r*g.Cols+c] = float32(math.NaN())
 		}
 	}
-	decidedByCut := 0
+	decidedByCut, decidedByFound := 0, 0
 	var tPruned, tFull time.Duration
 	for k := 0; k < n; k++ {
 		l := grounds[k%len(grounds)]
@@ -100,15 +100,28 @@ func TestInvariantRequiredFromPrunedEqualsFull(t *testing.T) {
 		x, y := l.Frame.Forward(slat, slon)
 		var pre *descent
 		var bound *displacementBound
-		for _, m := range pruneMargins {
-			if _, _, d, err := requiredFromRun(context.Background(), l, target, tab, RequiredOptions{Clearance: 100, Ceiling: elev + 3500, Workers: 1},
-				(x-l.X0)/l.Cell, (y-l.Y0)/l.Cell, m, &pre, &bound); err == nil && d {
+		ropts := RequiredOptions{Clearance: 100, Ceiling: elev + 3500, Workers: 1}
+		px, py := (x-l.X0)/l.Cell, (y-l.Y0)/l.Cell
+		for i, m := range pruneMargins {
+			r, err := requiredFromRun(context.Background(), l, target, tab, ropts, px, py, m, &pre, &bound)
+			if err == nil && r.decided {
 				decidedByCut++
 				break
 			}
+			if i == 0 && !math.IsNaN(r.found) {
+				fm := &pruneMargin{Abs: pruneMargins[len(pruneMargins)-1].Abs, Rel: pruneMargins[len(pruneMargins)-1].Rel, Found: r.found}
+				if r, err := requiredFromRun(context.Background(), l, target, tab, ropts, px, py, fm, &pre, &bound); err == nil && r.decided {
+					decidedByCut++
+					decidedByFound++
+					break
+				}
+			}
 		}
 	}
-	t.Logf("%d of %d cases decided by the pruned run; time pruned-first %v, unpruned %v", decidedByCut, n, tPruned, tFull)
+	t.Logf("%d of %d cases decided by the pruned run (%d by the cut at the figure the tight cut found); time pruned-first %v, unpruned %v", decidedByCut, n, decidedByFound, tPruned, tFull)
+	if n >= 60 && decidedByFound == 0 {
+		t.Errorf("no case was decided by the cut at the figure the tight cut found: that path is not exercised")
+	}
 	if decidedByCut < n/2 {
 		t.Errorf("the pruned run decided only %d of %d cases", decidedByCut, n)
 	}
