@@ -5,6 +5,8 @@ import (
 	"math"
 	"math/rand"
 	"testing"
+
+	"glidereach/terrain"
 )
 
 // TestSightShortcutsSameDecisions checks the walk's shortcuts against the
@@ -36,12 +38,7 @@ func TestSightShortcutsSameDecisions(t *testing.T) {
 			h := hillyWindow(n, cell, rng.Intn(100))
 			copy(l.Elev, h.Elev)
 		}
-		lo, hi := math.Inf(1), math.Inf(-1)
-		for _, e := range l.Elev {
-			if e == e {
-				lo, hi = math.Min(lo, float64(e)), math.Max(hi, float64(e))
-			}
-		}
+		lo, hi, _ := groundSpan(l)
 		wp := propWind(t, rng, []float64{0, 20}[min(rng.Intn(4), 1)]) // a quarter calm
 		tab, err := NewTable(propAircraft(rng), Atmosphere{}, wp, Conditions{}, lo-300, hi+1500)
 		if err != nil {
@@ -148,15 +145,7 @@ func TestSightAboveAllSameRuns(t *testing.T) {
 			h := hillyWindow(n, cell, rng.Intn(100))
 			copy(l.Elev, h.Elev)
 		}
-		lo, hi := math.Inf(1), math.Inf(-1)
-		voids := false
-		for _, e := range l.Elev {
-			if e == e {
-				lo, hi = math.Min(lo, float64(e)), math.Max(hi, float64(e))
-			} else {
-				voids = true
-			}
-		}
+		lo, hi, voids := groundSpan(l)
 		tab, err := NewTable(propAircraft(rng), Atmosphere{}, propWind(t, rng, 20), Conditions{}, lo-300, hi+2500)
 		if err != nil {
 			t.Fatal(err)
@@ -204,4 +193,18 @@ func TestSightAboveAllSameRuns(t *testing.T) {
 	if shortcut < cases/4 {
 		t.Errorf("only %d of %d cases had a quarter of their cells above every ground: the shortcut is hardly exercised", shortcut, cases)
 	}
+}
+
+// groundSpan returns the lowest and highest known ground of l (m MSL) and
+// whether it holds a void.
+func groundSpan(l *terrain.Local) (lo, hi float64, voids bool) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for _, e := range l.Elev {
+		if e != e {
+			voids = true
+			continue
+		}
+		lo, hi = math.Min(lo, float64(e)), math.Max(hi, float64(e))
+	}
+	return lo, hi, voids
 }
