@@ -139,11 +139,15 @@ type propagation struct {
 	pruneX, pruneY float64
 	pruneB         *displacementBound
 	pruneT         float64
+	// fans are the sources' fans (fan.go), made when first asked;
+	// walkStart is the slab the next walk starts at (sightDirFrom).
+	fans      []*sourceFan
+	walkStart int
 }
 
 func newPropagation(l *terrain.Local, d *descent, backward bool, s *scratch) *propagation {
 	n := l.Cols * l.Rows
-	p := &propagation{l: l, desc: d, backward: backward, cols: l.Cols, rows: l.Rows, cell: l.Cell, scratch: s}
+	p := &propagation{l: l, desc: d, backward: backward, cols: l.Cols, rows: l.Rows, cell: l.Cell, scratch: s, walkStart: noWalkStart}
 	p.c = s.recPool().get(n)
 	p.val = s.f32Pool().get(n)
 	p.pyr = newGroundPyramid(l)
@@ -291,12 +295,18 @@ func (p *propagation) sightFrom(pi int32, px, py, pv float64, qc, qr, q int, v f
 		if p.aboveAll(pv) {
 			return e, true
 		}
+		if pi < 0 {
+			return p.sightDirFrom(px, py, pv, qc, qr, v, e, e, fd, p.fanStart(int(-1-pi), px, py, qc, qr))
+		}
 		return p.sightDir(px, py, pv, qc, qr, v, e, e, fd)
 	}
 	t := p.l.Elev[q]
 	if !endOnly && t+p.clearance-float32(v) <= 0 {
 		if p.aboveAll(v) {
 			return noTop, true
+		}
+		if pi < 0 {
+			return p.sightDirFrom(px, py, pv, qc, qr, v, noTop, noTop, fd, p.fanStart(int(-1-pi), px, py, qc, qr))
 		}
 		return p.sightDir(px, py, pv, qc, qr, v, noTop, noTop, fd)
 	}
@@ -312,6 +322,9 @@ func (p *propagation) sightFrom(pi int32, px, py, pv float64, qc, qr, q int, v f
 		// max(top, the cell's ground) as its record, the cell's ground
 		// whenever the walk's top is no higher (sightEnd).
 		return p.sightEnd(px, py, pv, qc, qr, v, t, top, fd)
+	}
+	if pi < 0 {
+		return p.sightDirFrom(px, py, pv, qc, qr, v, t, top, fd, p.fanStart(int(-1-pi), px, py, qc, qr))
 	}
 	return p.sightDir(px, py, pv, qc, qr, v, t, top, fd)
 }

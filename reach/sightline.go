@@ -57,6 +57,8 @@ import (
 // slabs at once where even the lowest bound of the glide over the run
 // clears the highest ground of every block the run touches. The walk stops
 // at the first obstruction.
+// A walk from a source may start part way along its line, where the
+// source's fan (fan.go) has found every slab before to pass.
 //
 // The floor: the glide must be at least terrain + clearance high, except
 // over ground no higher than allow (the landing cell's elevation forward for
@@ -179,6 +181,18 @@ func (p *propagation) sightDir(px, py, pv float64, qc, qr int, v float64, allow,
 	return p.walkLine(px, py, pv, float64(qc), float64(qr), qc, qr, v, allow, top, true, false, p.pyr.split, fd)
 }
 
+// sightDirFrom is sightDir from a source, the walk started at slab kStart
+// (fanStart: every slab before it passes).
+func (p *propagation) sightDirFrom(px, py, pv float64, qc, qr int, v float64, allow, top float32, fd flightDir, kStart int) (float32, bool) {
+	p.walkStart = kStart
+	t, ok := p.walkLine(px, py, pv, float64(qc), float64(qr), qc, qr, v, allow, top, true, false, p.pyr.split, fd)
+	p.walkStart = noWalkStart
+	return t, ok
+}
+
+// noWalkStart: a walk starts at the parent's slab.
+const noWalkStart = math.MinInt
+
 // sightEnd is sightDir for a caller that needs of top only whether it
 // exceeds allow (an end value at a cell below its own clearance, whose
 // record becomes the cell's ground: offer). Ground no higher than allow can
@@ -232,6 +246,7 @@ func (p *propagation) walkLine(px, py, pv, qx, qy float64, qc, qr int, v float64
 	w.L = math.Hypot(dx, dy) * p.cell
 	w.allow, w.top = float64(allow), top
 	w.skipEnd, w.loose, w.first = skipEnd, loose, first
+	w.kStart = p.walkStart
 	w.d0, w.d1, w.wt = fd.d0, fd.d1, fd.wt
 	w.lamMin, w.lamMax = p.desc.lossRangeDir(fd.d0, fd.d1)
 	if math.Abs(dx) >= math.Abs(dy) {
@@ -300,6 +315,8 @@ type sightWalk struct {
 	// once there is one): the anchor of anchorLow
 	ancTau, ancH float64
 	ancOK        bool
+	// kStart is the slab the walk starts at (noWalkStart: the parent's)
+	kStart int
 }
 
 // sightAnchored switches the walk's anchored bound (anchorLow) on; tests
@@ -607,6 +624,9 @@ func (w *sightWalk) run() bool {
 	k0 := int(w.pa)
 	if float64(k0) != w.pa {
 		k0 = int(math.Round(w.pa))
+	}
+	if w.kStart != noWalkStart {
+		k0 = w.kStart
 	}
 	long := (w.qa-k0)*w.sgn > 2
 	// failed[li] is the block column of level li known not to clear.

@@ -1,0 +1,148 @@
+package reach
+
+import (
+	"context"
+	"math"
+	"math/rand"
+	"testing"
+)
+
+// TestSourceFanSameDecisions checks that the source fan (fan.go) only
+// shortens walks: lines from a source on random landscapes (walls, pits,
+// voids, hills; forward and backward; calm and layered wind) get bit for
+// bit the decision and top of the walk from the source's own slab, and the
+// sample holds lines whose walk the fan started part way.
+func TestSourceFanSameDecisions(t *testing.T) {
+	rng := rand.New(rand.NewSource(31))
+	cases := propCases(24)
+	var walks, started int
+	for k := 0; k < cases; k++ {
+		n := 60 + rng.Intn(200)
+		cell := []float64{30, 90, 200}[rng.Intn(3)]
+		l := propTerrain(rng, n, cell)
+		if rng.Intn(2) == 0 {
+			h := hillyWindow(n, cell, rng.Intn(100))
+			copy(l.Elev, h.Elev)
+		}
+		lo, hi, _ := groundSpan(l)
+		wp := propWind(t, rng, []float64{0, 20}[min(rng.Intn(4), 1)])
+		tab, err := NewTable(propAircraft(rng), Atmosphere{}, wp, Conditions{}, lo-300, hi+1500)
+		if err != nil {
+			t.Fatal(err)
+		}
+		d, err := newDescentFor(tab, lo-250, hi+1400)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, backward := range []bool{false, true} {
+			p := newPropagation(l, d, backward, nil)
+			p.clearance = float32(rng.Float64() * 150)
+			sx, sy := rng.Intn(n), rng.Intn(n)
+			if rng.Intn(3) == 0 {
+				sx, sy = n/2, n/2
+			}
+			e := l.Elev[sy*n+sx]
+			if e != e {
+				continue
+			}
+			pv := float64(e) + 100 + rng.Float64()*1200
+			if backward {
+				pv = float64(e) + rng.Float64()*300
+			}
+			p.srcs = []source{{X: float64(sx), Y: float64(sy), Alt: pv}}
+			p.fieldElev = []float32{e}
+			for i := 0; i < 600; i++ {
+				qc, qr := rng.Intn(n), rng.Intn(n)
+				if l.Elev[qr*n+qc] != l.Elev[qr*n+qc] || qc == sx && qr == sy {
+					continue
+				}
+				v, fd := p.segmentDir(float64(sx), float64(sy), pv, qc, qr)
+				if math.IsInf(v, 0) || v != v {
+					continue
+				}
+				allow, top := noTop, noTop
+				if backward {
+					allow, top = e, e
+				} else if rng.Intn(2) == 0 {
+					allow = l.Elev[qr*n+qc]
+				}
+				ks := p.fanStart(0, float64(sx), float64(sy), qc, qr)
+				k0 := sx
+				if math.Abs(float64(qc-sx)) < math.Abs(float64(qr-sy)) {
+					k0 = sy
+				}
+				if ks != k0 {
+					started++
+				}
+				topA, okA := p.sightDirFrom(float64(sx), float64(sy), pv, qc, qr, v, allow, top, fd, ks)
+				topB, okB := p.sightDir(float64(sx), float64(sy), pv, qc, qr, v, allow, top, fd)
+				walks++
+				if okA != okB || math.Float32bits(topA) != math.Float32bits(topB) {
+					t.Fatalf("case %d (backward %v): line %d,%d (%.3f m) -> %d,%d (%.3f m): from slab %d %v top %v, from the source's %d %v top %v",
+						k, backward, sx, sy, pv, qc, qr, v, ks, okA, topA, k0, okB, topB)
+				}
+			}
+		}
+	}
+	if started < walks/10 {
+		t.Errorf("%d walks, %d started part way: the fan was not exercised", walks, started)
+	}
+	t.Logf("%d walks, %d started part way by the fan", walks, started)
+}
+
+// TestSourceFanSameRuns: footprints and backward runs give bit for bit the
+// values they give without the fan.
+func TestSourceFanSameRuns(t *testing.T) {
+	skipUnderRace(t)
+	defer func() { sightFan = true }()
+	rng := rand.New(rand.NewSource(37))
+	cases := propCases(8)
+	for k := 0; k < cases; k++ {
+		n := 80 + rng.Intn(120)
+		cell := []float64{30, 90, 200}[rng.Intn(3)]
+		l := propTerrain(rng, n, cell)
+		if rng.Intn(2) == 0 {
+			h := hillyWindow(n, cell, rng.Intn(100))
+			copy(l.Elev, h.Elev)
+		}
+		lo, hi, _ := groundSpan(l)
+		tab, err := NewTable(propAircraft(rng), Atmosphere{}, propWind(t, rng, 20), Conditions{}, lo-300, hi+2500)
+		if err != nil {
+			t.Fatal(err)
+		}
+		clearance := rng.Float64() * 150
+		mid := n / 2
+		lat, lon := l.Frame.Inverse(l.X0+float64(mid)*cell, l.Y0+float64(mid)*cell)
+		start := Start{Lat: lat, Lon: lon, Alt: float64(l.Elev[mid*n+mid]) + 300 + rng.Float64()*1500}
+		if start.Alt != start.Alt {
+			start.Alt = hi + 300
+		}
+		opts := FootprintOptions{Reserve: 150, Clearance: clearance, Levels: []float64{0}}
+		target := Target{Lat: lat, Lon: lon, Elev: float64(l.Elev[mid*n+mid]), Reserve: 150}
+		if target.Elev != target.Elev {
+			target.Elev = lo
+		}
+		ropts := RequiredOptions{Clearance: clearance, Ceiling: hi + 2400, Workers: 1}
+		var fp [2]*FootprintResult
+		var rq [2]*RequiredResult
+		for i, on := range []bool{true, false} {
+			sightFan = on
+			if fp[i], err = Footprint(context.Background(), l, start, tab, opts); err != nil {
+				t.Fatal(err)
+			}
+			if rq[i], err = Required(context.Background(), l, []Target{target}, tab, ropts); err != nil {
+				t.Fatal(err)
+			}
+		}
+		for q := range fp[0].Arrival {
+			a, b := fp[0].Arrival[q], fp[1].Arrival[q]
+			if math.Float32bits(a) != math.Float32bits(b) {
+				t.Fatalf("case %d: footprint cell %d: %v with the fan, %v without", k, q, a, b)
+			}
+			a, b = rq[0].Required[q], rq[1].Required[q]
+			if math.Float32bits(a) != math.Float32bits(b) {
+				t.Fatalf("case %d: required cell %d: %v with the fan, %v without", k, q, a, b)
+			}
+		}
+	}
+}
