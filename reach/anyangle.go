@@ -321,6 +321,9 @@ func (p *propagation) sightFrom(pi int32, px, py, pv float64, qc, qr, q int, v f
 		// The cell is below its own clearance: offer keeps
 		// max(top, the cell's ground) as its record, the cell's ground
 		// whenever the walk's top is no higher (sightEnd).
+		if pi < 0 {
+			return p.sightEndFrom(px, py, pv, qc, qr, v, t, top, fd, p.fanStart(int(-1-pi), px, py, qc, qr))
+		}
 		return p.sightEnd(px, py, pv, qc, qr, v, t, top, fd)
 	}
 	if pi < 0 {

@@ -15,7 +15,7 @@ import (
 func TestSourceFanSameDecisions(t *testing.T) {
 	rng := rand.New(rand.NewSource(31))
 	cases := propCases(24)
-	var walks, started int
+	var walks, started, ends int
 	for k := 0; k < cases; k++ {
 		n := 60 + rng.Intn(200)
 		cell := []float64{30, 90, 200}[rng.Intn(3)]
@@ -77,6 +77,14 @@ func TestSourceFanSameDecisions(t *testing.T) {
 				topA, okA := p.sightDirFrom(float64(sx), float64(sy), pv, qc, qr, v, allow, top, fd, ks)
 				topB, okB := p.sightDir(float64(sx), float64(sy), pv, qc, qr, v, allow, top, fd)
 				walks++
+				if !backward && allow != noTop {
+					topE, okE := p.sightEndFrom(float64(sx), float64(sy), pv, qc, qr, v, allow, top, fd, ks)
+					if okE != okB || (topE > allow) != (topB > allow) {
+						t.Fatalf("case %d: line %d,%d (%.3f m) -> %d,%d (%.3f m): sightEndFrom slab %d %v top %v, sightDir %v top %v (allow %v)",
+							k, sx, sy, pv, qc, qr, v, ks, okE, topE, okB, topB, allow)
+					}
+					ends++
+				}
 				if okA != okB || math.Float32bits(topA) != math.Float32bits(topB) {
 					t.Fatalf("case %d (backward %v): line %d,%d (%.3f m) -> %d,%d (%.3f m): from slab %d %v top %v, from the source's %d %v top %v",
 						k, backward, sx, sy, pv, qc, qr, v, ks, okA, topA, k0, okB, topB)
@@ -87,7 +95,7 @@ func TestSourceFanSameDecisions(t *testing.T) {
 	if started < walks/10 {
 		t.Errorf("%d walks, %d started part way: the fan was not exercised", walks, started)
 	}
-	t.Logf("%d walks, %d started part way by the fan", walks, started)
+	t.Logf("%d walks, %d started part way by the fan; %d end values' walks (sightEndFrom)", walks, started, ends)
 }
 
 // TestSourceFanSameRuns: footprints and backward runs give bit for bit the

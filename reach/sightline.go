@@ -184,8 +184,19 @@ func (p *propagation) sightDir(px, py, pv float64, qc, qr int, v float64, allow,
 // sightDirFrom is sightDir from a source, the walk started at slab kStart
 // (fanStart: every slab before it passes).
 func (p *propagation) sightDirFrom(px, py, pv float64, qc, qr int, v float64, allow, top float32, fd flightDir, kStart int) (float32, bool) {
+	return p.sightFromSlab(px, py, pv, qc, qr, v, allow, top, fd, kStart, false)
+}
+
+// sightEndFrom is sightEnd from a source, started at slab kStart: ok is
+// sightDirFrom's, and top exceeds allow exactly when sightDirFrom's does
+// (all that sightEnd's caller asks of it).
+func (p *propagation) sightEndFrom(px, py, pv float64, qc, qr int, v float64, allow, top float32, fd flightDir, kStart int) (float32, bool) {
+	return p.sightFromSlab(px, py, pv, qc, qr, v, allow, top, fd, kStart, true)
+}
+
+func (p *propagation) sightFromSlab(px, py, pv float64, qc, qr int, v float64, allow, top float32, fd flightDir, kStart int, loose bool) (float32, bool) {
 	p.walkStart = kStart
-	t, ok := p.walkLine(px, py, pv, float64(qc), float64(qr), qc, qr, v, allow, top, true, false, p.pyr.split, fd)
+	t, ok := p.walkLine(px, py, pv, float64(qc), float64(qr), qc, qr, v, allow, top, true, loose, p.pyr.split, fd)
 	p.walkStart = noWalkStart
 	return t, ok
 }
