@@ -97,10 +97,7 @@ func (p *propagation) fanStart(k int, px, py float64, qc, qr int) int {
 		pa, pb, A, B = py, px, dy, dx
 		nB = p.cols
 	}
-	k0 := int(pa)
-	if float64(k0) != pa {
-		k0 = int(math.Round(pa))
-	}
+	k0 := slabOf(pa)
 	qa := qc
 	if !xMajor {
 		qa = qr

@@ -1,7 +1,6 @@
 package reach
 
 import (
-	"context"
 	"math"
 	"math/rand"
 	"testing"
@@ -19,11 +18,7 @@ func TestSourceFanSameDecisions(t *testing.T) {
 	for k := 0; k < cases; k++ {
 		n := 60 + rng.Intn(200)
 		cell := []float64{30, 90, 200}[rng.Intn(3)]
-		l := propTerrain(rng, n, cell)
-		if rng.Intn(2) == 0 {
-			h := hillyWindow(n, cell, rng.Intn(100))
-			copy(l.Elev, h.Elev)
-		}
+		l := propLandscape(rng, n, cell, 2)
 		lo, hi, _ := groundSpan(l)
 		wp := propWind(t, rng, []float64{0, 20}[min(rng.Intn(4), 1)])
 		tab, err := NewTable(propAircraft(rng), Atmosphere{}, wp, Conditions{}, lo-300, hi+1500)
@@ -108,11 +103,7 @@ func TestSourceFanSameRuns(t *testing.T) {
 	for k := 0; k < cases; k++ {
 		n := 80 + rng.Intn(120)
 		cell := []float64{30, 90, 200}[rng.Intn(3)]
-		l := propTerrain(rng, n, cell)
-		if rng.Intn(2) == 0 {
-			h := hillyWindow(n, cell, rng.Intn(100))
-			copy(l.Elev, h.Elev)
-		}
+		l := propLandscape(rng, n, cell, 2)
 		lo, hi, _ := groundSpan(l)
 		tab, err := NewTable(propAircraft(rng), Atmosphere{}, propWind(t, rng, 20), Conditions{}, lo-300, hi+2500)
 		if err != nil {
@@ -131,26 +122,6 @@ func TestSourceFanSameRuns(t *testing.T) {
 			target.Elev = lo
 		}
 		ropts := RequiredOptions{Clearance: clearance, Ceiling: hi + 2400, Workers: 1}
-		var fp [2]*FootprintResult
-		var rq [2]*RequiredResult
-		for i, on := range []bool{true, false} {
-			sightFan = on
-			if fp[i], err = Footprint(context.Background(), l, start, tab, opts); err != nil {
-				t.Fatal(err)
-			}
-			if rq[i], err = Required(context.Background(), l, []Target{target}, tab, ropts); err != nil {
-				t.Fatal(err)
-			}
-		}
-		for q := range fp[0].Arrival {
-			a, b := fp[0].Arrival[q], fp[1].Arrival[q]
-			if math.Float32bits(a) != math.Float32bits(b) {
-				t.Fatalf("case %d: footprint cell %d: %v with the fan, %v without", k, q, a, b)
-			}
-			a, b = rq[0].Required[q], rq[1].Required[q]
-			if math.Float32bits(a) != math.Float32bits(b) {
-				t.Fatalf("case %d: required cell %d: %v with the fan, %v without", k, q, a, b)
-			}
-		}
+		sameRunsEitherWay(t, k, "the fan", func(on bool) { sightFan = on }, l, start, tab, opts, target, ropts)
 	}
 }

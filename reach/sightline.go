@@ -629,16 +629,23 @@ func (w *sightWalk) highBound(tau float64) float64 {
 	return h
 }
 
+// slabOf is the slab (major-axis column) holding a parent at major
+// coordinate a: its centre's column (a parent is a cell centre, an integer,
+// but for a source).
+func slabOf(a float64) int {
+	k := int(a)
+	if float64(k) != a {
+		k = int(math.Round(a))
+	}
+	return k
+}
+
 // run walks the slabs from the parent's to the cell's.
 func (w *sightWalk) run() bool {
 	p := w.p
 	elev := p.l.Elev
-	// The parent's slab: its centre's column (a parent is a cell centre,
-	// an integer, but for a source).
-	k0 := int(w.pa)
-	if float64(k0) != w.pa {
-		k0 = int(math.Round(w.pa))
-	}
+	// The parent's slab, or the one the source's fan starts the walk at.
+	k0 := slabOf(w.pa)
 	if w.kStart != noWalkStart {
 		k0 = w.kStart
 	}

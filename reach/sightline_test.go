@@ -33,11 +33,7 @@ func TestSightShortcutsSameDecisions(t *testing.T) {
 	for k := 0; k < cases; k++ {
 		n := 60 + rng.Intn(140)
 		cell := []float64{30, 90, 200}[rng.Intn(3)]
-		l := propTerrain(rng, n, cell)
-		if rng.Intn(3) == 0 {
-			h := hillyWindow(n, cell, rng.Intn(100))
-			copy(l.Elev, h.Elev)
-		}
+		l := propLandscape(rng, n, cell, 3)
 		lo, hi, _ := groundSpan(l)
 		wp := propWind(t, rng, []float64{0, 20}[min(rng.Intn(4), 1)]) // a quarter calm
 		tab, err := NewTable(propAircraft(rng), Atmosphere{}, wp, Conditions{}, lo-300, hi+1500)
@@ -140,11 +136,7 @@ func TestSightAboveAllSameRuns(t *testing.T) {
 	for k := 0; k < cases; k++ {
 		n := 50 + rng.Intn(90)
 		cell := []float64{30, 90, 200}[rng.Intn(3)]
-		l := propTerrain(rng, n, cell)
-		if rng.Intn(2) == 0 {
-			h := hillyWindow(n, cell, rng.Intn(100))
-			copy(l.Elev, h.Elev)
-		}
+		l := propLandscape(rng, n, cell, 2)
 		lo, hi, voids := groundSpan(l)
 		tab, err := NewTable(propAircraft(rng), Atmosphere{}, propWind(t, rng, 20), Conditions{}, lo-300, hi+2500)
 		if err != nil {
@@ -157,31 +149,11 @@ func TestSightAboveAllSameRuns(t *testing.T) {
 		opts := FootprintOptions{Reserve: 150, Clearance: clearance, Levels: []float64{0}}
 		target := Target{Lat: lat, Lon: lon, Elev: float64(l.Elev[mid*n+mid]), Reserve: 150}
 		ropts := RequiredOptions{Clearance: clearance, Ceiling: hi + 2400, Workers: 1}
-		var fp [2]*FootprintResult
-		var rq [2]*RequiredResult
-		for i, on := range []bool{true, false} {
-			sightAboveAll = on
-			if fp[i], err = Footprint(context.Background(), l, start, tab, opts); err != nil {
-				t.Fatal(err)
-			}
-			if rq[i], err = Required(context.Background(), l, []Target{target}, tab, ropts); err != nil {
-				t.Fatal(err)
-			}
-		}
-		for q := range fp[0].Arrival {
-			a, b := fp[0].Arrival[q], fp[1].Arrival[q]
-			if math.Float32bits(a) != math.Float32bits(b) {
-				t.Fatalf("case %d: footprint cell %d: %v with the shortcut, %v without", k, q, a, b)
-			}
-			a, b = rq[0].Required[q], rq[1].Required[q]
-			if math.Float32bits(a) != math.Float32bits(b) {
-				t.Fatalf("case %d: required cell %d: %v with the shortcut, %v without", k, q, a, b)
-			}
-		}
+		fp := sameRunsEitherWay(t, k, "the shortcut", func(on bool) { sightAboveAll = on }, l, start, tab, opts, target, ropts)
 		// Cells the glide reaches a clearance above the highest ground:
 		// their segments were decided by the shortcut.
 		high := 0
-		for _, a := range fp[0].Arrival {
+		for _, a := range fp.Arrival {
 			if !voids && float64(a)-clearance >= hi {
 				high++
 			}
@@ -193,6 +165,48 @@ func TestSightAboveAllSameRuns(t *testing.T) {
 	if shortcut < cases/4 {
 		t.Errorf("only %d of %d cases had a quarter of their cells above every ground: the shortcut is hardly exercised", shortcut, cases)
 	}
+}
+
+// propLandscape is propTerrain's n×n landscape of cell, its elevations
+// replaced by hillyWindow's smooth hills in one case of oneIn.
+func propLandscape(rng *rand.Rand, n int, cell float64, oneIn int) *terrain.Local {
+	l := propTerrain(rng, n, cell)
+	if rng.Intn(oneIn) == 0 {
+		h := hillyWindow(n, cell, rng.Intn(100))
+		copy(l.Elev, h.Elev)
+	}
+	return l
+}
+
+// sameRunsEitherWay runs a footprint from start and a backward run to
+// target on l with a shortcut on and off (set), fails case k where any
+// cell's value differs in a bit, and returns the footprint with it on.
+func sameRunsEitherWay(t *testing.T, k int, what string, set func(on bool), l *terrain.Local, start Start, tab *Table, opts FootprintOptions, target Target, ropts RequiredOptions) *FootprintResult {
+	t.Helper()
+	var fp [2]*FootprintResult
+	var rq [2]*RequiredResult
+	for i, on := range []bool{true, false} {
+		set(on)
+		var err error
+		if fp[i], err = Footprint(context.Background(), l, start, tab, opts); err != nil {
+			t.Fatal(err)
+		}
+		if rq[i], err = Required(context.Background(), l, []Target{target}, tab, ropts); err != nil {
+			t.Fatal(err)
+		}
+	}
+	set(true)
+	for q := range fp[0].Arrival {
+		a, b := fp[0].Arrival[q], fp[1].Arrival[q]
+		if math.Float32bits(a) != math.Float32bits(b) {
+			t.Fatalf("case %d: footprint cell %d: %v with %s, %v without", k, q, a, what, b)
+		}
+		a, b = rq[0].Required[q], rq[1].Required[q]
+		if math.Float32bits(a) != math.Float32bits(b) {
+			t.Fatalf("case %d: required cell %d: %v with %s, %v without", k, q, a, what, b)
+		}
+	}
+	return fp[0]
 }
 
 // groundSpan returns the lowest and highest known ground of l (m MSL) and
