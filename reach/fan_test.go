@@ -10,11 +10,13 @@ import (
 // shortens walks: lines from a source on random landscapes (walls, pits,
 // voids, hills; forward and backward; calm and layered wind) get bit for
 // bit the decision and top of the walk from the source's own slab, and the
-// sample holds lines whose walk the fan started part way.
+// sample holds lines whose walk the fan started part way. Where
+// fanEndClear lets the rest of a line go unwalked, the whole walk must find
+// the line clear and leave top as it was.
 func TestSourceFanSameDecisions(t *testing.T) {
 	rng := rand.New(rand.NewSource(31))
 	cases := propCases(24)
-	var walks, started, ends int
+	var walks, started, ends, endClear int
 	for k := 0; k < cases; k++ {
 		n := 60 + rng.Intn(200)
 		cell := []float64{30, 90, 200}[rng.Intn(3)]
@@ -72,6 +74,15 @@ func TestSourceFanSameDecisions(t *testing.T) {
 				topA, okA := p.sightDirFrom(float64(sx), float64(sy), pv, qc, qr, v, allow, top, fd, ks)
 				topB, okB := p.sightDir(float64(sx), float64(sy), pv, qc, qr, v, allow, top, fd)
 				walks++
+				if p.fanEndClear(ks, float64(sx), float64(sy), pv, qc, qr, v, allow) {
+					// The rest of the line was not walked: the whole walk
+					// must find it clear and leave top as it was.
+					if !okB || math.Float32bits(topB) != math.Float32bits(top) {
+						t.Fatalf("case %d (backward %v): line %d,%d (%.3f m) -> %d,%d (%.3f m): fanEndClear from slab %d, but the walk gives %v top %v (top before %v)",
+							k, backward, sx, sy, pv, qc, qr, v, ks, okB, topB, top)
+					}
+					endClear++
+				}
 				if !backward && allow != noTop {
 					topE, okE := p.sightEndFrom(float64(sx), float64(sy), pv, qc, qr, v, allow, top, fd, ks)
 					if okE != okB || (topE > allow) != (topB > allow) {
@@ -90,7 +101,10 @@ func TestSourceFanSameDecisions(t *testing.T) {
 	if started < walks/10 {
 		t.Errorf("%d walks, %d started part way: the fan was not exercised", walks, started)
 	}
-	t.Logf("%d walks, %d started part way by the fan; %d end values' walks (sightEndFrom)", walks, started, ends)
+	if endClear < walks/100 {
+		t.Errorf("%d walks, %d with a rest fanEndClear passes: it was not exercised", walks, endClear)
+	}
+	t.Logf("%d walks, %d started part way by the fan, %d whose rest fanEndClear passes; %d end values' walks (sightEndFrom)", walks, started, endClear, ends)
 }
 
 // TestSourceFanSameRuns: footprints and backward runs give bit for bit the

@@ -196,8 +196,12 @@ func (p *propagation) sightEndFrom(px, py, pv float64, qc, qr int, v float64, al
 
 // sightFromSlab is the walk of sightDirFrom (loose: sightEndFrom's). The
 // start slab is handed to walkLine through the propagation (one run's walks
-// are made one at a time) and reset after it.
+// are made one at a time) and reset after it. A rest of the line that
+// fanEndClear finds clear is not walked.
 func (p *propagation) sightFromSlab(px, py, pv float64, qc, qr int, v float64, allow, top float32, fd flightDir, kStart int, loose bool) (float32, bool) {
+	if p.fanEndClear(kStart, px, py, pv, qc, qr, v, allow) {
+		return top, true
+	}
 	p.walkStart = kStart
 	t, ok := p.walkLine(px, py, pv, float64(qc), float64(qr), qc, qr, v, allow, top, true, loose, p.pyr.split, fd)
 	p.walkStart = noWalkStart
