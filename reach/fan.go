@@ -291,12 +291,23 @@ func (p *propagation) fanEndClear(ks int, px, py, pv float64, qc, qr int, v floa
 	if A < 0 {
 		half = -0.5
 	}
-	t0 := max(0, (float64(ks)-half-pa)/A)
+	t0 := (float64(ks) - half - pa) / A
+	if t0 < 0 {
+		t0 = 0
+	}
 	b0, b1 := pb+t0*B, pb+B
 	if b0 > b1 {
 		b0, b1 = b1, b0
 	}
-	m0, m1 := int(math.Ceil(b0-0.5-sightEps))-1, int(math.Floor(b1+0.5+sightEps))+1
+	// The squares' range (squaresOf: ceil(b0 − ½ − ε) … floor(b1 + ½ + ε))
+	// and a cell either side, by truncation: below ceil and above floor
+	// wherever the range starts in the window (a start below it gives
+	// m0 < 0 either way), so the blocks read are never fewer.
+	x0 := b0 - 0.5 - sightEps
+	if x0 < 0 {
+		return false
+	}
+	m0, m1 := int(x0)-1, int(b1+0.5+sightEps)+1
 	if m0 < 0 || m1 >= nB {
 		return false
 	}
@@ -310,10 +321,8 @@ func (p *propagation) fanEndClear(ks int, px, py, pv float64, qc, qr int, v floa
 			g = max(g, lv.max[kb*lv.bc+mb])
 		}
 	}
+	// (A void is +Inf in the pyramid: it passes neither test below.)
 	gf := float64(g)
-	if math.IsInf(gf, 1) || gf != gf {
-		return false // a void
-	}
 	c := float64(p.clearance)
 	if p.backward {
 		return g <= allow || gf+c <= pv-fanEps
