@@ -1,6 +1,7 @@
 package reach
 
 import (
+	"encoding/binary"
 	"math"
 
 	"github.com/paulmach/orb"
@@ -120,6 +121,10 @@ func contourRingsRows(row func(r int, dst []float64), cols, rows int, level, mar
 			continue
 		}
 		for c := -1; c < cols; c++ {
+			if (c+1)&7 == 0 && c+10 <= w && sameSide8(inB, inA, c+1) {
+				c += 7 // eight squares without a segment
+				continue
+			}
 			if k := inB[c+1] + inB[c+2] + inA[c+2] + inA[c+1]; k == 0 || k == 4 {
 				continue // no segment (SquareSegments' cases 0 and 15)
 			}
@@ -147,6 +152,19 @@ func contourRingsRows(row func(r int, dst []float64), cols, rows int, level, mar
 		below, above, inB, inA, nB = above, below, inA, inB, nA
 	}
 	return TraceRings(next, starts, point)
+}
+
+// sameSide8 reports whether the nine flags from i of both rows are all 0
+// or all 1: the eight squares between them (columns i … i+8 of the padded
+// rows) have their four corners on one side of the level, and no segment.
+// The flags are 0 or 1 bytes, read eight at a time.
+func sameSide8(inB, inA []uint8, i int) bool {
+	wb, wa := binary.LittleEndian.Uint64(inB[i:]), binary.LittleEndian.Uint64(inA[i:])
+	if wb != wa || wb != 0 && wb != 0x0101010101010101 {
+		return false
+	}
+	f := uint8(wb)
+	return inB[i+8] == f && inA[i+8] == f
 }
 
 // SquareEdge names a side of one marching-squares square: the square's

@@ -87,8 +87,8 @@ func contourRingsPerSquare(v func(c, r int) float64, cols, rows int, level, marg
 // TestContourRowScanMatchesPerSquare: the row scan (each value read once,
 // squares without a crossing passed over) gives exactly the rings of the
 // per-square scan, point for point and in the same order, on rasters with
-// voids, saddles (checkerboards), values on the level, ±Inf and one-row
-// and one-column shapes (common practice, no source: a rewrite checked
+// voids, saddles (checkerboards), values on the level, ±Inf, one-row
+// and one-column shapes, and long runs on one side broken by single cells (common practice, no source: a rewrite checked
 // against the code it replaced).
 func TestContourRowScanMatchesPerSquare(t *testing.T) {
 	rng := rand.New(rand.NewSource(7))
@@ -115,6 +115,19 @@ func TestContourRowScanMatchesPerSquare(t *testing.T) {
 		}
 		return raster{"noise", cols, rows, func(c, r int) float64 { return vals[r*cols+c] }}
 	}
+	// Long runs of squares on one side of the level, broken by single
+	// cells on the other at every offset within the row scan's runs of
+	// eight squares (sameSide8).
+	sparse := func(cols, rows int, bulk, odd float64) raster {
+		vals := make([]float64, cols*rows)
+		for i := range vals {
+			vals[i] = bulk + rng.Float64()
+			if rng.Intn(23) == 0 {
+				vals[i] = odd
+			}
+		}
+		return raster{"sparse", cols, rows, func(c, r int) float64 { return vals[r*cols+c] }}
+	}
 	cases := []raster{
 		noise(40, 30, 0.05), noise(1, 25, 0.1), noise(25, 1, 0.1), noise(1, 1, 0), noise(3, 2, 0.3),
 		{"checkerboard", 20, 20, func(c, r int) float64 { return float64((c+r)%2)*20 - 10 + float64(c-r)*0.5 }},
@@ -123,6 +136,7 @@ func TestContourRowScanMatchesPerSquare(t *testing.T) {
 			return math.Min(25-d, d-8) * 13
 		}},
 		{"empty", 0, 5, func(c, r int) float64 { return 0 }},
+		sparse(73, 41, -20, 30), sparse(73, 41, 30, -20), sparse(9, 9, 30, -20), sparse(17, 3, -20, 30),
 	}
 	for _, rs := range cases {
 		for _, level := range []float64{0, 12.5, -30, math.Inf(-1), math.Inf(1), math.NaN()} {
