@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"math/bits"
 
 	"glidereach/terrain"
 )
@@ -467,6 +468,28 @@ func (p *propagation) seed(k int) {
 	}
 }
 
+// notFromParent returns the bit set of the neighbours k (nbrDC, nbrDR) of
+// cell s, which is not on the window's edge, that do not hold a value from
+// the parent whose ps bits are piBits: those the expansion has to try.
+func (p *propagation) notFromParent(s int, piBits uint32) uint8 {
+	n := p.cols
+	up, mid, dn := p.c[s-n-1:s-n+2], p.c[s-1:s+2], p.c[s+n-1:s+n+2]
+	return notFrom(mid[2].ps, piBits) | notFrom(dn[2].ps, piBits)<<1 | notFrom(dn[1].ps, piBits)<<2 |
+		notFrom(dn[0].ps, piBits)<<3 | notFrom(mid[0].ps, piBits)<<4 | notFrom(up[0].ps, piBits)<<5 |
+		notFrom(up[1].ps, piBits)<<6 | notFrom(up[2].ps, piBits)<<7
+}
+
+// notFrom is 0 where record bits ps hold a value from the parent of bits
+// piBits (the test of run's loop: the parent bits are piBits and the state
+// is not cellUntouched, 0), else 1. piBits has its low 3 bits clear, so
+// that is ps ∈ [piBits+1, piBits+7], or d = ps − piBits − 1 < 7 in
+// uint32 (a ps below the range wraps far above it), worked out without a
+// branch: d + 2³² − 7 reaches bit 32 exactly when d ≥ 7.
+func notFrom(ps, piBits uint32) uint8 {
+	d := ps - piBits - 1
+	return uint8((uint64(d) + (1<<32 - 7)) >> 32)
+}
+
 var nbrDC = [8]int{1, 1, 0, -1, -1, -1, 0, 1}
 var nbrDR = [8]int{0, 1, 1, 1, 0, -1, -1, -1}
 
@@ -531,7 +554,16 @@ func (p *propagation) run(ctx context.Context, progress func(closed int)) error 
 		// neighbours (those that already hold s's parent) never need.
 		inner := sc > 0 && sr > 0 && sc < p.cols-1 && sr < p.rows-1
 		piBits := uint32(pi) << 3
-		for k := 0; k < 8; k++ {
+		// The neighbours to try: all, but away from the edge those that
+		// already hold s's parent are left out at once (most are), as the
+		// test at the top of the loop would leave them. (Trying one
+		// changes no other's record, so the set may be taken first.)
+		try := uint8(0xff)
+		if inner && !endOnly {
+			try = p.notFromParent(s, piBits)
+		}
+		for ; try != 0; try &= try - 1 {
+			k := bits.TrailingZeros8(try)
 			var q int
 			if inner {
 				q = s + p.nbrOff[k]

@@ -3,6 +3,7 @@ package reach
 import (
 	"context"
 	"math"
+	"math/rand"
 	"sync"
 	"testing"
 
@@ -184,5 +185,36 @@ func TestWindowTooLargeIsRefused(t *testing.T) {
 	}
 	if _, err := requiredWith(context.Background(), big, []Target{{}}, nil, RequiredOptions{}, nil, nil, nil, true); err != errWindowTooLarge {
 		t.Fatalf("required on %d × %d cells: err %v, want errWindowTooLarge", big.Cols, big.Rows, err)
+	}
+}
+
+// TestNotFromIsTheLoopTest: the branch-free test of notFrom is the
+// expansion loop's "holds a value from s's parent" test, negated, for every
+// state and for parents at the ends of their range (cells 0 and the
+// largest, sources −1 and the most negative) and random ones, against
+// records of the same parent, the parents beside it and random ones
+// (common practice, no source: a rewrite checked against the test it
+// replaces).
+func TestNotFromIsTheLoopTest(t *testing.T) {
+	rng := rand.New(rand.NewSource(3))
+	pars := []int32{0, 1, 2, maxPropagationCells - 1, -1, -2, -1 << 28, -1<<28 + 1}
+	for i := 0; i < 200; i++ {
+		pars = append(pars, int32(rng.Intn(maxPropagationCells))-int32(rng.Intn(2))*(1<<28))
+	}
+	for _, pi := range pars {
+		piBits := uint32(pi) << 3
+		for _, other := range []int32{pi, pi - 1, pi + 1, 0, -1, int32(rng.Uint32()) >> 3} {
+			for st := uint8(0); st < 8; st++ {
+				var r cellRec
+				r.set(other, st)
+				want := uint8(1)
+				if r.ps&^7 == piBits && r.ps&7 != uint32(cellUntouched) {
+					want = 0
+				}
+				if got := notFrom(r.ps, piBits); got != want {
+					t.Fatalf("parent %d, record of parent %d state %d: notFrom %d, want %d", pi, other, st, got, want)
+				}
+			}
+		}
 	}
 }
