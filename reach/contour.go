@@ -42,7 +42,9 @@ func contourRingsMargin(v func(c, r int) float64, cols, rows int, level, margin 
 // lie on the same side of the level, which has no segment, is passed over
 // without SquareSegments, so the cost of a large raster is one read and
 // one comparison per cell (a pair of rows wholly below the level is passed
-// over at once); the rings are those of the per-square scan.
+// over at once, and eight squares whose corners all lie on one side are
+// passed over together: sameSide8); the rings are those of the per-square
+// scan.
 func contourRingsRows(row func(r int, dst []float64), cols, rows int, level, margin float64) []orb.Ring {
 	low := level - 1e4
 	w := cols + 2

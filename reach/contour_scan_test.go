@@ -87,9 +87,10 @@ func contourRingsPerSquare(v func(c, r int) float64, cols, rows int, level, marg
 // TestContourRowScanMatchesPerSquare: the row scan (each value read once,
 // squares without a crossing passed over) gives exactly the rings of the
 // per-square scan, point for point and in the same order, on rasters with
-// voids, saddles (checkerboards), values on the level, ±Inf, one-row
-// and one-column shapes, and long runs on one side broken by single cells (common practice, no source: a rewrite checked
-// against the code it replaced).
+// voids, saddles (checkerboards), values on the level, ±Inf, one-row and
+// one-column shapes, and long runs on one side broken by single cells
+// (common practice, no source: a rewrite checked against the code it
+// replaced).
 func TestContourRowScanMatchesPerSquare(t *testing.T) {
 	rng := rand.New(rand.NewSource(7))
 	type raster struct {
