@@ -296,20 +296,14 @@ func (p *propagation) sightFrom(pi int32, px, py, pv float64, qc, qr, q int, v f
 		if p.aboveAll(pv) {
 			return e, true
 		}
-		if pi < 0 {
-			return p.sightDirFrom(px, py, pv, qc, qr, v, e, e, fd, p.fanStart(int(-1-pi), px, py, qc, qr))
-		}
-		return p.sightDir(px, py, pv, qc, qr, v, e, e, fd)
+		return p.sight(pi, px, py, pv, qc, qr, v, e, e, fd, false)
 	}
 	t := p.l.Elev[q]
 	if !endOnly && t+p.clearance-float32(v) <= 0 {
 		if p.aboveAll(v) {
 			return noTop, true
 		}
-		if pi < 0 {
-			return p.sightDirFrom(px, py, pv, qc, qr, v, noTop, noTop, fd, p.fanStart(int(-1-pi), px, py, qc, qr))
-		}
-		return p.sightDir(px, py, pv, qc, qr, v, noTop, noTop, fd)
+		return p.sight(pi, px, py, pv, qc, qr, v, noTop, noTop, fd, false)
 	}
 	top := noTop
 	if pi >= 0 {
@@ -322,15 +316,23 @@ func (p *propagation) sightFrom(pi int32, px, py, pv float64, qc, qr, q int, v f
 		// The cell is below its own clearance: offer keeps
 		// max(top, the cell's ground) as its record, the cell's ground
 		// whenever the walk's top is no higher (sightEnd).
-		if pi < 0 {
-			return p.sightEndFrom(px, py, pv, qc, qr, v, t, top, fd, p.fanStart(int(-1-pi), px, py, qc, qr))
-		}
-		return p.sightEnd(px, py, pv, qc, qr, v, t, top, fd)
+		return p.sight(pi, px, py, pv, qc, qr, v, t, top, fd, true)
 	}
+	return p.sight(pi, px, py, pv, qc, qr, v, t, top, fd, false)
+}
+
+// sight is the walk sightFrom makes (loose: the end value's, sightEnd):
+// from a source (pi < 0) started where the source's fan allows
+// (sightDirFrom, sightEndFrom), from a bend point whole (sightDir,
+// sightEnd).
+func (p *propagation) sight(pi int32, px, py, pv float64, qc, qr int, v float64, allow, top float32, fd flightDir, loose bool) (float32, bool) {
 	if pi < 0 {
-		return p.sightDirFrom(px, py, pv, qc, qr, v, t, top, fd, p.fanStart(int(-1-pi), px, py, qc, qr))
+		return p.sightFromSlab(px, py, pv, qc, qr, v, allow, top, fd, p.fanStart(int(-1-pi), px, py, qc, qr), loose)
 	}
-	return p.sightDir(px, py, pv, qc, qr, v, t, top, fd)
+	if loose {
+		return p.sightEnd(px, py, pv, qc, qr, v, allow, top, fd)
+	}
+	return p.sightDir(px, py, pv, qc, qr, v, allow, top, fd)
 }
 
 // sightAboveAll switches sightFrom's test against the window's highest

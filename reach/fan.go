@@ -89,19 +89,8 @@ func (p *propagation) fanOf(k int) *sourceFan {
 // that walk must be made; every slab before it passes. It returns the
 // walk's own first slab when the fan knows nothing better.
 func (p *propagation) fanStart(k int, px, py float64, qc, qr int) int {
-	dx, dy := float64(qc)-px, float64(qr)-py
-	xMajor := math.Abs(dx) >= math.Abs(dy)
-	pa, pb, A, B := px, py, dx, dy
-	nB := p.rows
-	if !xMajor {
-		pa, pb, A, B = py, px, dy, dx
-		nB = p.cols
-	}
+	xMajor, pa, pb, A, B, qa, nB := p.lineAxes(px, py, qc, qr)
 	k0 := slabOf(pa)
-	qa := qc
-	if !xMajor {
-		qa = qr
-	}
 	if !sightFan || A == 0 {
 		return k0
 	}
@@ -155,6 +144,18 @@ func (p *propagation) fanStart(k int, px, py float64, qc, qr int) int {
 		return kb << 3
 	}
 	return kb<<3 + 7
+}
+
+// lineAxes gives the segment from (px, py) to cell (qc, qr) in the terms
+// of its walk (walkLine): whether x is the major axis, the start's major
+// and minor coordinates, the extents along them, the cell's major
+// coordinate and the number of cells along the minor axis.
+func (p *propagation) lineAxes(px, py float64, qc, qr int) (xMajor bool, pa, pb, A, B float64, qa, nB int) {
+	dx, dy := float64(qc)-px, float64(qr)-py
+	if math.Abs(dx) >= math.Abs(dy) {
+		return true, px, py, dx, dy, qc, p.rows
+	}
+	return false, py, px, dy, dx, qr, p.cols
 }
 
 // fanCols works out the descent table's columns the directions of flight of
@@ -222,16 +223,7 @@ func (p *propagation) fanBin(f *sourceFan, w *fanWedge, xMajor bool, sa, sb, i i
 	if m0 < 0 || m1 >= nB {
 		return false
 	}
-	lv := &p.pyr.lv[0]
-	g := float32(math.Inf(-1))
-	for mb := m0 >> 3; mb <= m1>>3; mb++ {
-		if xMajor {
-			g = max(g, lv.max[mb*lv.bc+kb])
-		} else {
-			g = max(g, lv.max[kb*lv.bc+mb])
-		}
-	}
-	gf := float64(g)
+	gf := float64(p.pyr.lv[0].columnMax(xMajor, kb, m0, m1))
 	if math.IsInf(gf, 1) || gf != gf {
 		return false
 	}
@@ -278,12 +270,7 @@ func (p *propagation) fanEndClear(ks int, px, py, pv float64, qc, qr int, v floa
 	if !sightFan {
 		return false
 	}
-	dx, dy := float64(qc)-px, float64(qr)-py
-	pa, pb, A, B, qa, nB := px, py, dx, dy, qc, p.rows
-	xMajor := math.Abs(dx) >= math.Abs(dy)
-	if !xMajor {
-		pa, pb, A, B, qa, nB = py, px, dy, dx, qr, p.cols
-	}
+	xMajor, pa, pb, A, B, qa, nB := p.lineAxes(px, py, qc, qr)
 	if A == 0 || ks>>3 != qa>>3 {
 		return false
 	}
@@ -311,8 +298,20 @@ func (p *propagation) fanEndClear(ks int, px, py, pv float64, qc, qr int, v floa
 	if m0 < 0 || m1 >= nB {
 		return false
 	}
-	lv := &p.pyr.lv[0]
-	kb := ks >> 3
+	g := p.pyr.lv[0].columnMax(xMajor, ks>>3, m0, m1)
+	// (A void is +Inf in the pyramid: it passes neither test below.)
+	gf := float64(g)
+	c := float64(p.clearance)
+	if p.backward {
+		return g <= allow || gf+c <= pv-fanEps
+	}
+	return gf+c <= v-fanEps
+}
+
+// columnMax returns, for lv the pyramid's finest level (blocks of 8
+// cells), the highest ground of its blocks in block column kb of the major
+// axis (x when xMajor) that hold the cells m0 … m1 of the minor axis.
+func (lv *pyrLevel) columnMax(xMajor bool, kb, m0, m1 int) float32 {
 	g := float32(math.Inf(-1))
 	for mb := m0 >> 3; mb <= m1>>3; mb++ {
 		if xMajor {
@@ -321,11 +320,5 @@ func (p *propagation) fanEndClear(ks int, px, py, pv float64, qc, qr int, v floa
 			g = max(g, lv.max[kb*lv.bc+mb])
 		}
 	}
-	// (A void is +Inf in the pyramid: it passes neither test below.)
-	gf := float64(g)
-	c := float64(p.clearance)
-	if p.backward {
-		return g <= allow || gf+c <= pv-fanEps
-	}
-	return gf+c <= v-fanEps
+	return g
 }

@@ -115,17 +115,9 @@ func TestSourceFanSameRuns(t *testing.T) {
 	rng := rand.New(rand.NewSource(37))
 	cases := propCases(8)
 	for k := 0; k < cases; k++ {
-		n := 80 + rng.Intn(120)
-		cell := []float64{30, 90, 200}[rng.Intn(3)]
-		l := propLandscape(rng, n, cell, 2)
-		lo, hi, _ := groundSpan(l)
-		tab, err := NewTable(propAircraft(rng), Atmosphere{}, propWind(t, rng, 20), Conditions{}, lo-300, hi+2500)
-		if err != nil {
-			t.Fatal(err)
-		}
-		clearance := rng.Float64() * 150
-		mid := n / 2
-		lat, lon := l.Frame.Inverse(l.X0+float64(mid)*cell, l.Y0+float64(mid)*cell)
+		sc := newRunScene(t, rng, 80+rng.Intn(120))
+		l, tab, lo, hi, clearance, lat, lon := sc.l, sc.tab, sc.lo, sc.hi, sc.clearance, sc.lat, sc.lon
+		n, mid := sc.n, sc.n/2
 		start := Start{Lat: lat, Lon: lon, Alt: float64(l.Elev[mid*n+mid]) + 300 + rng.Float64()*1500}
 		if start.Alt != start.Alt {
 			start.Alt = hi + 300

@@ -134,17 +134,9 @@ func TestSightAboveAllSameRuns(t *testing.T) {
 	cases := propCases(12)
 	shortcut := 0
 	for k := 0; k < cases; k++ {
-		n := 50 + rng.Intn(90)
-		cell := []float64{30, 90, 200}[rng.Intn(3)]
-		l := propLandscape(rng, n, cell, 2)
-		lo, hi, voids := groundSpan(l)
-		tab, err := NewTable(propAircraft(rng), Atmosphere{}, propWind(t, rng, 20), Conditions{}, lo-300, hi+2500)
-		if err != nil {
-			t.Fatal(err)
-		}
-		clearance := rng.Float64() * 150
-		mid := n / 2
-		lat, lon := l.Frame.Inverse(l.X0+float64(mid)*cell, l.Y0+float64(mid)*cell)
+		sc := newRunScene(t, rng, 50+rng.Intn(90))
+		l, tab, hi, voids, clearance, lat, lon := sc.l, sc.tab, sc.hi, sc.voids, sc.clearance, sc.lat, sc.lon
+		n, mid := sc.n, sc.n/2
 		start := Start{Lat: lat, Lon: lon, Alt: hi + 200 + rng.Float64()*2000}
 		opts := FootprintOptions{Reserve: 150, Clearance: clearance, Levels: []float64{0}}
 		target := Target{Lat: lat, Lon: lon, Elev: float64(l.Elev[mid*n+mid]), Reserve: 150}
@@ -165,6 +157,37 @@ func TestSightAboveAllSameRuns(t *testing.T) {
 	if shortcut < cases/4 {
 		t.Errorf("only %d of %d cases had a quarter of their cells above every ground: the shortcut is hardly exercised", shortcut, cases)
 	}
+}
+
+// runScene is a case of the whole-run comparisons (sameRunsEitherWay): an
+// n×n landscape (propLandscape), its ground span, a table of a random
+// aircraft in a random layered wind over it, a random clearance and the
+// position of its middle cell.
+type runScene struct {
+	l         *terrain.Local
+	tab       *Table
+	lo, hi    float64
+	voids     bool
+	clearance float64
+	n         int
+	lat, lon  float64
+}
+
+// newRunScene draws a runScene of n cells across from rng.
+func newRunScene(t *testing.T, rng *rand.Rand, n int) runScene {
+	t.Helper()
+	cell := []float64{30, 90, 200}[rng.Intn(3)]
+	sc := runScene{l: propLandscape(rng, n, cell, 2), n: n}
+	sc.lo, sc.hi, sc.voids = groundSpan(sc.l)
+	tab, err := NewTable(propAircraft(rng), Atmosphere{}, propWind(t, rng, 20), Conditions{}, sc.lo-300, sc.hi+2500)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sc.tab = tab
+	sc.clearance = rng.Float64() * 150
+	mid := n / 2
+	sc.lat, sc.lon = sc.l.Frame.Inverse(sc.l.X0+float64(mid)*cell, sc.l.Y0+float64(mid)*cell)
+	return sc
 }
 
 // propLandscape is propTerrain's n×n landscape of cell, its elevations
