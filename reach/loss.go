@@ -63,6 +63,15 @@ type descent struct {
 	// most ground any glide can cover descending from hTop to h_i, whatever
 	// track it holds at each altitude (see rangeBound).
 	env []float64
+	// The row index of heightBinned: column d's distances (0, row[0]] cut
+	// into binM equal bins, binScale[d] = binM/row[0] (−1 for a column
+	// without headway), and bins[d*binM+j] the largest row i ≤ nh−3 with
+	// row[i] ≥ (j+1)·row[0]/binM: the row where the inversion of a distance
+	// in bin j starts. binM is 0 (no index) for tables of fewer than 3 or
+	// more than 65536 rows.
+	binM     int
+	binScale []float64
+	bins     []uint16
 }
 
 // minRatio returns the least ground distance per metre of height (m/m)
@@ -189,6 +198,7 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 		}
 		t.env[i] = t.env[i+1] + inc
 	}
+	t.binRows()
 	t.isotropic = true
 	for d := 1; d < nDir && t.isotropic; d++ {
 		for i := 0; i < nh; i++ {
@@ -325,6 +335,65 @@ func (t *descent) distAt(d int, h float64) float64 {
 	return row[i]*(1-u) + row[i+1]*u
 }
 
+// binsPerRow is how many bins of heightBinned's index a column has per
+// altitude row: enough that a bin rarely holds two row ends on
+// BenchmarkArriveVec's lookups (misses per lookup: see DEVELOPERS.md
+// "Session 12").
+const binsPerRow = 2
+
+// binRows builds the descent's row index (binM, binScale, bins):
+// binsPerRow bins per altitude row in each column.
+func (t *descent) binRows() {
+	t.binScale = make([]float64, t.nDir)
+	nh := t.nh
+	if nh < 3 || nh > 1<<16 {
+		return
+	}
+	m := binsPerRow * (nh - 1)
+	t.binM = m
+	t.bins = make([]uint16, t.nDir*m)
+	for d := 0; d < t.nDir; d++ {
+		row := t.column(d)
+		if !(row[0] > 0) {
+			t.binScale[d] = -1
+			continue
+		}
+		t.binScale[d] = float64(m) / row[0]
+		i := nh - 1
+		for j := 0; j < m; j++ {
+			thr := float64(j+1) * row[0] / float64(m)
+			for i > 0 && row[i] < thr {
+				i--
+			}
+			t.bins[d*m+j] = uint16(min(i, nh-3))
+		}
+	}
+}
+
+// heightBinned is heightNear(row, g, hint) for column d (row = column(d))
+// found without a search, when it can be: ok is false when it cannot (the
+// caller then searches). The bin of g gives a row i; one step down the
+// column is allowed; the answer is kept only where row[i] > g > row[i+1]
+// strictly, where i is the only row that brackets g, so that heightNear
+// from any hint (and heightAt) ends on the same row and works out the same
+// altitude, bit for bit: a guess is checked, never trusted. Equal
+// distances (g on a row, or a run of rows without headway) and g outside
+// (0, row[0]) or NaN are left to the search.
+func (t *descent) heightBinned(d int, row []float64, g float64) (float64, bool) {
+	j := uint(int(g * t.binScale[d]))
+	if j >= uint(t.binM) {
+		return 0, false
+	}
+	i := int(t.bins[uint(d*t.binM)+j])
+	if row[i+1] >= g {
+		i++
+	}
+	if a, b := row[i], row[i+1]; a > g && g > b {
+		return t.hBot + (float64(i)+(a-g)/(a-b))*t.dh, true
+	}
+	return 0, false
+}
+
 // heightNear inverts a column of D (row, D_d(h_i) for each altitude row
 // i) like heightAt, searching from row hint outward; it is the fast path
 // for segments that descend only a few rows.
@@ -453,19 +522,23 @@ func (t *descent) arriveBlend(d0, d1 int, w, h, L float64) float64 {
 		f = float64(i + 1)
 	}
 	u := f - float64(i)
-	h0 := t.arriveRow(t.column(d0), i, u, L)
+	h0 := t.arriveRow(d0, i, u, L)
 	if w == 0 || t.isotropic {
 		return h0
 	}
-	h1 := t.arriveRow(t.column(d1), i, u, L)
+	h1 := t.arriveRow(d1, i, u, L)
 	return h0*(1-w) + h1*w
 }
 
-// arriveRow is arrive in one column (row) from the altitude at row i and
-// fraction u toward row i+1.
-func (t *descent) arriveRow(row []float64, i int, u, L float64) float64 {
-	perRow := row[i] - row[i+1] // ground distance per altitude row here
+// arriveRow is arrive in column d from the altitude at row i and fraction
+// u toward row i+1.
+func (t *descent) arriveRow(d, i int, u, L float64) float64 {
+	row := t.column(d)
 	g := row[i]*(1-u) + row[i+1]*u + L
+	if h, ok := t.heightBinned(d, row, g); ok {
+		return h
+	}
+	perRow := row[i] - row[i+1] // ground distance per altitude row here
 	hint := i
 	if perRow > 0 {
 		hint = i - int(L/perRow)
@@ -493,20 +566,24 @@ func (t *descent) departBlend(d0, d1 int, w, h, L float64) float64 {
 		return math.Inf(1)
 	}
 	u := f - float64(i)
-	h0 := t.departRow(t.column(d0), i, u, L)
+	h0 := t.departRow(d0, i, u, L)
 	if w == 0 || t.isotropic || math.IsInf(h0, 1) {
 		return h0
 	}
-	h1 := t.departRow(t.column(d1), i, u, L)
+	h1 := t.departRow(d1, i, u, L)
 	return h0*(1-w) + h1*w
 }
 
-// departRow is depart in one column (row) to the altitude at row i and
-// fraction u toward row i+1.
-func (t *descent) departRow(row []float64, i int, u, L float64) float64 {
+// departRow is depart in column d to the altitude at row i and fraction u
+// toward row i+1.
+func (t *descent) departRow(d, i int, u, L float64) float64 {
+	row := t.column(d)
 	g := row[i]*(1-u) + row[i+1]*u - L
 	if g < 0 {
 		return math.Inf(1)
+	}
+	if h, ok := t.heightBinned(d, row, g); ok {
+		return h
 	}
 	perRow := row[i] - row[i+1]
 	hint := i

@@ -2,6 +2,7 @@ package reach
 
 import (
 	"math"
+	"math/rand/v2"
 	"testing"
 )
 
@@ -136,5 +137,96 @@ func TestLossRangeDirTabulated(t *testing.T) {
 	}
 	if !infSeen {
 		t.Fatal("no column without headway: the test does not cover the +Inf case")
+	}
+}
+
+// TestHeightBinnedIsHeightNear: the row index (heightBinned) must give,
+// wherever it answers, the very altitude the search it replaces gives
+// (heightNear from any start row, and heightAt's binary search): bit for
+// bit, so that no solver value moves. The tables include the footprint
+// benchmarks' (a sailplane in three wind layers), the same in winds three
+// times as strong (headwind columns whose rows differ many-fold), and a
+// made-up loss with rows of rising air (very long rows) and rows without
+// headway (runs of equal distances, where the start row matters to
+// heightNear). The distances tried: every row's own (and a hair either
+// side), midpoints, seeded random ones, and the ends and beyond. The
+// definition is the search's; no outside source is needed.
+func TestHeightBinnedIsHeightNear(t *testing.T) {
+	ac, err := Builtin("sailplane")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var models []LossModel
+	for _, scale := range []float64{1, 3} {
+		tab, err := NewTable(ac, Atmosphere{}, layeredWind(t, scale), Conditions{}, -300, 2600)
+		if err != nil {
+			t.Fatal(err)
+		}
+		models = append(models, tab)
+	}
+	models = append(models, LossFunc(func(h, b float64) float64 {
+		switch {
+		case h > 600 && h < 700 && math.Cos(b) > 0.5:
+			return math.Inf(1) // no headway
+		case h > 1200 && h < 1300:
+			return -0.5 // rising air
+		}
+		return 1 / (20 * (1 + 0.5*math.Sin(b-0.3)))
+	}))
+	rng := rand.New(rand.NewPCG(3, 5))
+	for mi, m := range models {
+		d, err := newDescentFor(m, 0, 1900)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if d.bins == nil {
+			t.Fatalf("model %d: no row index", mi)
+		}
+		answered, asked := 0, 0
+		for c := 0; c < d.nDir; c += 7 {
+			row := d.column(c)
+			var gs []float64
+			for k, r := range row {
+				gs = append(gs, r, math.Nextafter(r, math.Inf(1)), math.Nextafter(r, math.Inf(-1)))
+				if k+1 < len(row) {
+					gs = append(gs, (r+row[k+1])/2)
+				}
+			}
+			nRow := len(gs)
+			for range 200 {
+				gs = append(gs, row[0]*rng.Float64())
+			}
+			gs = append(gs, 0, -1, row[0]*1.01, math.Inf(1), math.NaN())
+			for gi, g := range gs {
+				random := gi >= nRow && gi < nRow+200
+				if random {
+					asked++
+				}
+				h, ok := d.heightBinned(c, row, g)
+				if !ok {
+					continue
+				}
+				if random {
+					answered++
+				}
+				want := d.heightAt(row, g)
+				if math.Float64bits(h) != math.Float64bits(want) {
+					t.Fatalf("model %d column %d g=%v: heightBinned %v, heightAt %v", mi, c, g, h, want)
+				}
+				for _, hint := range []int{0, d.nh / 3, d.nh / 2, d.nh - 1, int(h-d.hBot)/int(d.dh) - 3, int(h-d.hBot)/int(d.dh) + 3} {
+					if got := d.heightNear(row, g, hint); math.Float64bits(got) != math.Float64bits(h) {
+						t.Fatalf("model %d column %d g=%v: heightBinned %v, heightNear from row %d %v", mi, c, g, h, hint, got)
+					}
+				}
+			}
+		}
+		// The index is there to answer: on the aircraft's tables nearly
+		// every random distance gets an answer. The made-up loss's rows of
+		// rising air are thousands of times longer than its others, so
+		// most of its bins span several rows and are left to the search.
+		t.Logf("model %d: the row index answered %d of %d random distances", mi, answered, asked)
+		if mi < 2 && answered < asked*99/100 {
+			t.Errorf("model %d: the row index answered %d of %d", mi, answered, asked)
+		}
 	}
 }
