@@ -63,7 +63,7 @@ type descent struct {
 	// most ground any glide can cover descending from hTop to h_i, whatever
 	// track it holds at each altitude (see rangeBound).
 	env []float64
-	// The row index of heightBinned: column d's distances (0, row[0]] cut
+	// The row index of rowOf: column d's distances (0, row[0]] cut
 	// into binM equal bins, binScale[d] = binM/row[0] (−1 for a column
 	// without headway), and bins[d*binM+j] the largest row i ≤ nh−3 with
 	// row[i] ≥ (j+1)·row[0]/binM: the row where the inversion of a distance
@@ -335,7 +335,7 @@ func (t *descent) distAt(d int, h float64) float64 {
 	return row[i]*(1-u) + row[i+1]*u
 }
 
-// binsPerRow is how many bins of heightBinned's index a column has per
+// binsPerRow is how many bins of rowOf's index a column has per
 // altitude row: enough that a bin rarely holds two row ends on
 // BenchmarkArriveVec's lookups (misses per lookup: see DEVELOPERS.md
 // "Session 12").
@@ -370,28 +370,38 @@ func (t *descent) binRows() {
 	}
 }
 
-// heightBinned is heightNear(row, g, hint) for column d (row = column(d))
-// found without a search, when it can be: ok is false when it cannot (the
-// caller then searches). The bin of g gives a row i; one step down the
-// column is allowed; the answer is kept only where row[i] > g > row[i+1]
-// strictly, where i is the only row that brackets g, so that heightNear
-// from any hint (and heightAt) ends on the same row and works out the same
-// altitude, bit for bit: a guess is checked, never trusted. Equal
+// rowOf returns the row i of column d (row = column(d)) that strictly
+// brackets distance g, row[i] > g > row[i+1], found without a search
+// through the column's index, or −1 when the index cannot tell (the
+// caller then searches, heightNear). The bin of g gives a row; one step
+// down the column is allowed; the row is kept only where it brackets g
+// strictly. There it is the only row that brackets g, so heightNear from
+// any hint (and heightAt) ends on it and works out the same altitude
+// (heightOnRow), bit for bit: a guess is checked, never trusted. Equal
 // distances (g on a row, or a run of rows without headway) and g outside
-// (0, row[0]) or NaN are left to the search.
-func (t *descent) heightBinned(d int, row []float64, g float64) (float64, bool) {
+// (0, row[0]) or NaN are left to the search. (Small enough to be inlined
+// into arriveRow and departRow.)
+func (t *descent) rowOf(d int, row []float64, g float64) int {
 	j := uint(int(g * t.binScale[d]))
 	if j >= uint(t.binM) {
-		return 0, false
+		return -1
 	}
 	i := int(t.bins[uint(d*t.binM)+j])
 	if row[i+1] >= g {
 		i++
 	}
-	if a, b := row[i], row[i+1]; a > g && g > b {
-		return t.hBot + (float64(i)+(a-g)/(a-b))*t.dh, true
+	if row[i] > g && g > row[i+1] {
+		return i
 	}
-	return 0, false
+	return -1
+}
+
+// heightOnRow is the altitude whose distance from the top is g in a
+// column (row) where row[i] ≥ g ≥ row[i+1] and row[i] > row[i+1]: linear
+// between the two rows.
+func (t *descent) heightOnRow(row []float64, i int, g float64) float64 {
+	a, b := row[i], row[i+1]
+	return t.hBot + (float64(i)+(a-g)/(a-b))*t.dh
 }
 
 // heightNear inverts a column of D (row, D_d(h_i) for each altitude row
@@ -444,12 +454,10 @@ func (t *descent) heightNear(row []float64, g float64, hint int) float64 {
 		}
 		break
 	}
-	a, b := row[i], row[i+1]
-	if a == b {
+	if row[i] == row[i+1] {
 		return t.hBot + float64(i)*t.dh
 	}
-	u := (a - g) / (a - b)
-	return t.hBot + (float64(i)+u)*t.dh
+	return t.heightOnRow(row, i, g)
 }
 
 // heightAt inverts a column of D (row): the altitude whose distance-from-top
@@ -470,12 +478,10 @@ func (t *descent) heightAt(row []float64, g float64) float64 {
 	if i >= t.nh-1 {
 		return t.hTop
 	}
-	a, b := row[i], row[i+1]
-	if a == b {
+	if row[i] == row[i+1] {
 		return t.hBot + float64(i)*t.dh
 	}
-	u := (a - g) / (a - b)
-	return t.hBot + (float64(i)+u)*t.dh
+	return t.heightOnRow(row, i, g)
 }
 
 // column returns direction d's column of D (D_d(h_i) for each altitude
@@ -535,8 +541,8 @@ func (t *descent) arriveBlend(d0, d1 int, w, h, L float64) float64 {
 func (t *descent) arriveRow(d, i int, u, L float64) float64 {
 	row := t.column(d)
 	g := row[i]*(1-u) + row[i+1]*u + L
-	if h, ok := t.heightBinned(d, row, g); ok {
-		return h
+	if k := t.rowOf(d, row, g); k >= 0 {
+		return t.heightOnRow(row, k, g)
 	}
 	perRow := row[i] - row[i+1] // ground distance per altitude row here
 	hint := i
@@ -582,8 +588,8 @@ func (t *descent) departRow(d, i int, u, L float64) float64 {
 	if g < 0 {
 		return math.Inf(1)
 	}
-	if h, ok := t.heightBinned(d, row, g); ok {
-		return h
+	if k := t.rowOf(d, row, g); k >= 0 {
+		return t.heightOnRow(row, k, g)
 	}
 	perRow := row[i] - row[i+1]
 	hint := i

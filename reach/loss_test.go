@@ -140,7 +140,7 @@ func TestLossRangeDirTabulated(t *testing.T) {
 	}
 }
 
-// TestHeightBinnedIsHeightNear: the row index (heightBinned) must give,
+// TestRowIndexIsHeightNear: the row index (rowOf, heightOnRow) must give,
 // wherever it answers, the very altitude the search it replaces gives
 // (heightNear from any start row, and heightAt's binary search): bit for
 // bit, so that no solver value moves. The tables include the footprint
@@ -151,7 +151,7 @@ func TestLossRangeDirTabulated(t *testing.T) {
 // heightNear). The distances tried: every row's own (and a hair either
 // side), midpoints, seeded random ones, and the ends and beyond. The
 // definition is the search's; no outside source is needed.
-func TestHeightBinnedIsHeightNear(t *testing.T) {
+func TestRowIndexIsHeightNear(t *testing.T) {
 	ac, err := Builtin("sailplane")
 	if err != nil {
 		t.Fatal(err)
@@ -202,20 +202,21 @@ func TestHeightBinnedIsHeightNear(t *testing.T) {
 				if random {
 					asked++
 				}
-				h, ok := d.heightBinned(c, row, g)
-				if !ok {
+				k := d.rowOf(c, row, g)
+				if k < 0 {
 					continue
 				}
+				h := d.heightOnRow(row, k, g)
 				if random {
 					answered++
 				}
 				want := d.heightAt(row, g)
 				if math.Float64bits(h) != math.Float64bits(want) {
-					t.Fatalf("model %d column %d g=%v: heightBinned %v, heightAt %v", mi, c, g, h, want)
+					t.Fatalf("model %d column %d g=%v: rowOf %v, heightAt %v", mi, c, g, h, want)
 				}
 				for _, hint := range []int{0, d.nh / 3, d.nh / 2, d.nh - 1, int(h-d.hBot)/int(d.dh) - 3, int(h-d.hBot)/int(d.dh) + 3} {
 					if got := d.heightNear(row, g, hint); math.Float64bits(got) != math.Float64bits(h) {
-						t.Fatalf("model %d column %d g=%v: heightBinned %v, heightNear from row %d %v", mi, c, g, h, hint, got)
+						t.Fatalf("model %d column %d g=%v: rowOf %v, heightNear from row %d %v", mi, c, g, h, hint, got)
 					}
 				}
 			}
