@@ -50,12 +50,13 @@ func (e ConstantLoss) Loss(h, bearing float64) float64 { return 1 / float64(e) }
 type descent struct {
 	hBot, hTop, dh float64
 	nh, nDir       int
-	dirStep        float64   // radians between tabulated directions
-	invStep        float64   // 1/dirStep
-	dist           []float64 // dist[d*nh+i] = D_d(h_i); non-increasing in i
-	isotropic      bool      // every direction has the same column: one lookup suffices
-	maxRatio       float64   // largest ground distance per metre of height in the table
-	dirMax, dirMin []float64 // largest and smallest ratio of each direction's column
+	dirStep        float64     // radians between tabulated directions
+	invStep        float64     // 1/dirStep
+	dist           []float64   // dist[d*nh+i] = D_d(h_i); non-increasing in i
+	cols           [][]float64 // cols[d] = dist[d*nh : (d+1)*nh] (column; one load, not a slicing)
+	isotropic      bool        // every direction has the same column: one lookup suffices
+	maxRatio       float64     // largest ground distance per metre of height in the table
+	dirMax, dirMin []float64   // largest and smallest ratio of each direction's column
 	// invMax[d] = 1/dirMax[d] and invMin[d] = 1/dirMin[d] where the ratio
 	// is > 0, else +Inf (for lossRangeDir)
 	invMax, invMin []float64
@@ -197,6 +198,10 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 			inc = max(inc, t.dist[d*nh+i]-t.dist[d*nh+i+1])
 		}
 		t.env[i] = t.env[i+1] + inc
+	}
+	t.cols = make([][]float64, nDir)
+	for d := range t.cols {
+		t.cols[d] = t.dist[d*nh : (d+1)*nh : (d+1)*nh]
 	}
 	t.binRows()
 	t.isotropic = true
@@ -486,7 +491,7 @@ func (t *descent) heightAt(row []float64, g float64) float64 {
 
 // column returns direction d's column of D (D_d(h_i) for each altitude
 // row i).
-func (t *descent) column(d int) []float64 { return t.dist[d*t.nh : (d+1)*t.nh] }
+func (t *descent) column(d int) []float64 { return t.cols[d] }
 
 // arrive returns the altitude after gliding a ground distance L (metres) from
 // altitude h on bearing (radians). It is −Inf when the glide would end below
