@@ -42,10 +42,10 @@ const boundBins = 720
 func newDisplacementBound(t *descent) *displacementBound {
 	c := make([]float64, t.nDir)
 	for d := range c {
-		col := t.dist[d*t.nh : (d+1)*t.nh]
+		col := t.column(d)
 		best := 0.0 // largest ground distance per metre of height on this track
-		for i := 0; i+1 < len(col); i++ {
-			best = math.Max(best, (col[i]-col[i+1])/t.dh)
+		for i := 0; i+1 < t.nh; i++ {
+			best = math.Max(best, (col.at(i)-col.at(i+1))/t.dh)
 		}
 		c[d] = 1 / best // +Inf: no headway on this track at any altitude
 	}

@@ -103,7 +103,7 @@ func ReachRadius(model LossModel, top, bottom float64) (float64, error) {
 	}
 	r := 0.0
 	for k := 0; k < d.nDir; k++ {
-		r = math.Max(r, d.dist[k*d.nh])
+		r = math.Max(r, d.column(k).at(0))
 	}
 	return r, nil
 }

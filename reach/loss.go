@@ -50,13 +50,18 @@ func (e ConstantLoss) Loss(h, bearing float64) float64 { return 1 / float64(e) }
 type descent struct {
 	hBot, hTop, dh float64
 	nh, nDir       int
-	dirStep        float64     // radians between tabulated directions
-	invStep        float64     // 1/dirStep
-	dist           []float64   // dist[d*nh+i] = D_d(h_i); non-increasing in i
-	cols           [][]float64 // cols[d] = dist[d*nh : (d+1)*nh] (column; one load, not a slicing)
-	isotropic      bool        // every direction has the same column: one lookup suffices
-	maxRatio       float64     // largest ground distance per metre of height in the table
-	dirMax, dirMin []float64   // largest and smallest ratio of each direction's column
+	dirStep        float64 // radians between tabulated directions
+	invStep        float64 // 1/dirStep
+	// dist[i*nDir+d] = D_d(h_i), non-increasing in i: the table by
+	// altitude row, the directions of one row side by side, so that the
+	// two columns of a blend share a cache line and the rows the solver's
+	// lookups read at one time (around one altitude, all directions) are
+	// a few kilobytes
+	dist           []float64
+	cols           []column  // cols[d] is direction d's column of dist
+	isotropic      bool      // every direction has the same column: one lookup suffices
+	maxRatio       float64   // largest ground distance per metre of height in the table
+	dirMax, dirMin []float64 // largest and smallest ratio of each direction's column
 	// invMax[d] = 1/dirMax[d] and invMin[d] = 1/dirMin[d] where the ratio
 	// is > 0, else +Inf (for lossRangeDir)
 	invMax, invMin []float64
@@ -64,15 +69,14 @@ type descent struct {
 	// most ground any glide can cover descending from hTop to h_i, whatever
 	// track it holds at each altitude (see rangeBound).
 	env []float64
-	// The row index of rowOf: column d's distances (0, row[0]] cut
-	// into binM equal bins, binScale[d] = binM/row[0] (−1 for a column
-	// without headway), and bins[d*binM+j] the largest row i ≤ nh−3 with
+	// The row index of rowOf: column d's distances (0, row[0]] cut into
+	// binM equal bins, cols[d].scale = binM/row[0] (−1 for a column without
+	// headway), and bins[j*nDir+d] the largest row i ≤ nh−3 with
 	// row[i] ≥ (j+1)·row[0]/binM: the row where the inversion of a distance
-	// in bin j starts. binM is 0 (no index) for tables of fewer than 3 or
-	// more than 65536 rows.
-	binM     int
-	binScale []float64
-	bins     []uint16
+	// in bin j starts; bin binM (0) takes every distance beyond. binM is 0
+	// (no index) for tables of fewer than 3 or more than 65536 rows.
+	binM int
+	bins []uint16
 }
 
 // minRatio returns the least ground distance per metre of height (m/m)
@@ -81,9 +85,9 @@ type descent struct {
 func (t *descent) minRatio() float64 {
 	m := math.Inf(1)
 	for d := 0; d < t.nDir; d++ {
-		col := t.dist[d*t.nh : (d+1)*t.nh]
-		for i := 0; i+1 < len(col); i++ {
-			m = min(m, (col[i]-col[i+1])/t.dh)
+		col := t.column(d)
+		for i := 0; i+1 < t.nh; i++ {
+			m = min(m, (col.at(i)-col.at(i+1))/t.dh)
 		}
 	}
 	if math.IsInf(m, 1) || m < 0 {
@@ -139,7 +143,8 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 	}
 	dh = (hTop - hBot) / float64(nh-1)
 	t := &descent{hBot: hBot, hTop: hTop, dh: dh, nh: nh, nDir: nDir, dirStep: 2 * math.Pi / float64(nDir), invStep: float64(nDir) / (2 * math.Pi)}
-	t.dist = make([]float64, nDir*nh)
+	// Built column by column (cm[d*nh+i] = D_d(h_i)), stored by row.
+	cm := make([]float64, nDir*nh)
 	inv := make([]float64, nh)
 	finite := false
 	for d := 0; d < nDir; d++ {
@@ -158,7 +163,7 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 				inv[i] = 0 // no headway: no ground distance for that height
 			}
 		}
-		row := t.dist[d*nh : (d+1)*nh]
+		row := cm[d*nh : (d+1)*nh]
 		row[nh-1] = 0
 		for i := nh - 2; i >= 0; i-- {
 			row[i] = row[i+1] + 0.5*(inv[i]+inv[i+1])*dh
@@ -172,7 +177,7 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 	}
 	t.dirMax, t.dirMin = make([]float64, nDir), make([]float64, nDir)
 	for d := 0; d < nDir; d++ {
-		row := t.dist[d*nh : (d+1)*nh]
+		row := cm[d*nh : (d+1)*nh]
 		lo, hi := math.Inf(1), 0.0
 		for i := 0; i+1 < nh; i++ {
 			r := (row[i] - row[i+1]) / dh
@@ -195,19 +200,25 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 	for i := nh - 2; i >= 0; i-- {
 		inc := 0.0
 		for d := 0; d < nDir; d++ {
-			inc = max(inc, t.dist[d*nh+i]-t.dist[d*nh+i+1])
+			inc = max(inc, cm[d*nh+i]-cm[d*nh+i+1])
 		}
 		t.env[i] = t.env[i+1] + inc
 	}
-	t.cols = make([][]float64, nDir)
+	t.dist = make([]float64, nDir*nh)
+	for d := 0; d < nDir; d++ {
+		for i := 0; i < nh; i++ {
+			t.dist[i*nDir+d] = cm[d*nh+i]
+		}
+	}
+	t.cols = make([]column, nDir)
 	for d := range t.cols {
-		t.cols[d] = t.dist[d*nh : (d+1)*nh : (d+1)*nh]
+		t.cols[d] = column{v: t.dist[d:], s: nDir}
 	}
 	t.binRows()
 	t.isotropic = true
 	for d := 1; d < nDir && t.isotropic; d++ {
 		for i := 0; i < nh; i++ {
-			if t.dist[d*nh+i] != t.dist[i] {
+			if cm[d*nh+i] != cm[i] {
 				t.isotropic = false
 				break
 			}
@@ -334,17 +345,17 @@ func (t *descent) splitDir(f float64) (d0, d1 int, w float64) {
 
 // distAt returns D_d(h) by linear interpolation.
 func (t *descent) distAt(d int, h float64) float64 {
-	row := t.dist[d*t.nh : (d+1)*t.nh]
+	row := t.column(d)
 	f := (h - t.hBot) / t.dh
 	if f <= 0 {
-		return row[0]
+		return row.at(0)
 	}
 	if f >= float64(t.nh-1) {
-		return row[t.nh-1]
+		return row.at(t.nh - 1)
 	}
 	i := int(f)
 	u := f - float64(i)
-	return row[i]*(1-u) + row[i+1]*u
+	return row.at(i)*(1-u) + row.at(i+1)*u
 }
 
 // binsPerRow is how many bins of rowOf's index a column has per
@@ -353,37 +364,36 @@ func (t *descent) distAt(d int, h float64) float64 {
 // "Session 12").
 const binsPerRow = 2
 
-// binRows builds the descent's row index (binM, binScale, bins):
-// binsPerRow bins per altitude row in each column.
+// binRows builds the descent's row index (binM, bins and the columns'
+// scale and bins): binsPerRow bins per altitude row in each column.
 func (t *descent) binRows() {
-	t.binScale = make([]float64, t.nDir)
-	nh := t.nh
+	nh, n := t.nh, t.nDir
 	if nh < 3 || nh > 1<<16 {
 		return
 	}
 	m := binsPerRow * (nh - 1)
 	t.binM = m
-	t.bins = make([]uint16, t.nDir*m)
-	for d := 0; d < t.nDir; d++ {
-		row := t.column(d)
-		if !(row[0] > 0) {
-			t.binScale[d] = -1
+	t.bins = make([]uint16, (m+1)*n)
+	for d := 0; d < n; d++ {
+		c := &t.cols[d]
+		c.bins, c.scale = t.bins[d:], -1
+		if !(c.at(0) > 0) {
 			continue
 		}
-		t.binScale[d] = float64(m) / row[0]
+		c.scale = float64(m) / c.at(0)
 		i := nh - 1
 		for j := 0; j < m; j++ {
-			thr := float64(j+1) * row[0] / float64(m)
-			for i > 0 && row[i] < thr {
+			thr := float64(j+1) * c.at(0) / float64(m)
+			for i > 0 && c.at(i) < thr {
 				i--
 			}
-			t.bins[d*m+j] = uint16(min(i, nh-3))
+			t.bins[j*n+d] = uint16(min(i, nh-3))
 		}
 	}
 }
 
-// rowOf returns the row i of column d (row = column(d)) that strictly
-// brackets distance g, row[i] > g > row[i+1], found without a search
+// rowOf returns the row i of a column of a descent with a row index
+// (binM > 0) that strictly brackets distance g, row[i] > g > row[i+1], found without a search
 // through the column's index, or −1 when the index cannot tell (the
 // caller then searches, heightNear). The bin of g gives a row; one step
 // down the column is allowed; the row is kept only where it brackets g
@@ -393,18 +403,16 @@ func (t *descent) binRows() {
 // distances (g on a row, or a run of rows without headway) and g outside
 // (0, row[0]) or NaN are left to the search. (Small enough to be inlined
 // into arriveRow and departRow.)
-func (t *descent) rowOf(d int, row []float64, g float64) int {
-	j := uint(int(g * t.binScale[d]))
-	if j >= uint(t.binM) {
-		return -1
-	}
-	i := int(t.bins[uint(d*t.binM)+j])
+func (t *descent) rowOf(row *column, g float64) int {
+	v, n := row.v, row.s
+	j := min(uint(int(g*row.scale)), uint(t.binM)) // bin binM: g ≥ row[0], NaN or < 0
+	i := int(row.bins[j*uint(n)])
 	step := 0 // (compiled to a SETcc: the step is taken about half the time)
-	if row[i+1] >= g {
+	if v[(i+1)*n] >= g {
 		step = 1
 	}
 	i += step
-	if row[i] > g && g > row[i+1] {
+	if v[i*n] > g && g > v[(i+1)*n] {
 		return i
 	}
 	return -1
@@ -413,19 +421,19 @@ func (t *descent) rowOf(d int, row []float64, g float64) int {
 // heightOnRow is the altitude whose distance from the top is g in a
 // column (row) where row[i] ≥ g ≥ row[i+1] and row[i] > row[i+1]: linear
 // between the two rows.
-func (t *descent) heightOnRow(row []float64, i int, g float64) float64 {
-	a, b := row[i], row[i+1]
+func (t *descent) heightOnRow(row *column, i int, g float64) float64 {
+	a, b := row.at(i), row.at(i+1)
 	return t.hBot + (float64(i)+(a-g)/(a-b))*t.dh
 }
 
 // heightNear inverts a column of D (row, D_d(h_i) for each altitude row
 // i) like heightAt, searching from row hint outward; it is the fast path
 // for segments that descend only a few rows.
-func (t *descent) heightNear(row []float64, g float64, hint int) float64 {
+func (t *descent) heightNear(row *column, g float64, hint int) float64 {
 	if g <= 0 {
 		return t.hTop
 	}
-	if g > row[0] {
+	if g > row.at(0) {
 		return math.Inf(-1)
 	}
 	i := hint
@@ -443,7 +451,7 @@ func (t *descent) heightNear(row []float64, g float64, hint int) float64 {
 	// the altitude found: two rows that both bracket g give the same
 	// altitude, but for a run of equal rows (no headway over a whole row)
 	// that g meets exactly.
-	if a, b := row[i], row[i+1]; (a < g || b > g) && a > b {
+	if a, b := row.at(i), row.at(i+1); (a < g || b > g) && a > b {
 		i += int((a - g) / (a - b))
 		i = max(0, min(i, t.nh-2))
 	}
@@ -452,14 +460,14 @@ func (t *descent) heightNear(row []float64, g float64, hint int) float64 {
 		if steps > 8 {
 			return t.heightAt(row, g)
 		}
-		if row[i] < g {
+		if row.at(i) < g {
 			i--
 			if i < 0 {
 				return t.hBot
 			}
 			continue
 		}
-		if row[i+1] > g {
+		if row.at(i+1) > g {
 			i++
 			if i > t.nh-2 {
 				return t.hTop
@@ -468,7 +476,7 @@ func (t *descent) heightNear(row []float64, g float64, hint int) float64 {
 		}
 		break
 	}
-	if row[i] == row[i+1] {
+	if row.at(i) == row.at(i+1) {
 		return t.hBot + float64(i)*t.dh
 	}
 	return t.heightOnRow(row, i, g)
@@ -477,22 +485,22 @@ func (t *descent) heightNear(row []float64, g float64, hint int) float64 {
 // heightAt inverts a column of D (row): the altitude whose distance-from-top
 // is g. It returns −Inf when g lies beyond the bottom of the table and hTop
 // when g ≤ 0.
-func (t *descent) heightAt(row []float64, g float64) float64 {
+func (t *descent) heightAt(row *column, g float64) float64 {
 	if g <= 0 {
 		return t.hTop
 	}
-	if g > row[0] {
+	if g > row.at(0) {
 		return math.Inf(-1)
 	}
 	// row is non-increasing: find i with row[i] ≥ g ≥ row[i+1].
-	i := sort.Search(t.nh, func(k int) bool { return row[k] < g }) - 1
+	i := sort.Search(t.nh, func(k int) bool { return row.at(k) < g }) - 1
 	if i < 0 {
 		return t.hBot
 	}
 	if i >= t.nh-1 {
 		return t.hTop
 	}
-	if row[i] == row[i+1] {
+	if row.at(i) == row.at(i+1) {
 		return t.hBot + float64(i)*t.dh
 	}
 	return t.heightOnRow(row, i, g)
@@ -500,7 +508,18 @@ func (t *descent) heightAt(row []float64, g float64) float64 {
 
 // column returns direction d's column of D (D_d(h_i) for each altitude
 // row i).
-func (t *descent) column(d int) []float64 { return t.cols[d] }
+func (t *descent) column(d int) *column { return &t.cols[d] }
+
+// column is one direction's column of a descent's dist: row i at v[i*s].
+type column struct {
+	v     []float64 // dist[d:]
+	s     int       // nDir
+	scale float64   // the descent's binScale[d] (rowOf)
+	bins  []uint16  // the descent's bins[d:] (rowOf)
+}
+
+// at returns the column's row i, D_d(h_i).
+func (c *column) at(i int) float64 { return c.v[i*c.s] }
 
 // arrive returns the altitude after gliding a ground distance L (metres) from
 // altitude h on bearing (radians). It is −Inf when the glide would end below
@@ -554,11 +573,13 @@ func (t *descent) arriveBlend(d0, d1 int, w, h, L float64) float64 {
 // u toward row i+1.
 func (t *descent) arriveRow(d, i int, u, L float64) float64 {
 	row := t.column(d)
-	g := row[i]*(1-u) + row[i+1]*u + L
-	if k := t.rowOf(d, row, g); k >= 0 {
-		return t.heightOnRow(row, k, g)
+	g := row.at(i)*(1-u) + row.at(i+1)*u + L
+	if t.binM > 0 {
+		if k := t.rowOf(row, g); k >= 0 {
+			return t.heightOnRow(row, k, g)
+		}
 	}
-	perRow := row[i] - row[i+1] // ground distance per altitude row here
+	perRow := row.at(i) - row.at(i+1) // ground distance per altitude row here
 	hint := i
 	if perRow > 0 {
 		hint = i - int(L/perRow)
@@ -598,14 +619,16 @@ func (t *descent) departBlend(d0, d1 int, w, h, L float64) float64 {
 // toward row i+1.
 func (t *descent) departRow(d, i int, u, L float64) float64 {
 	row := t.column(d)
-	g := row[i]*(1-u) + row[i+1]*u - L
+	g := row.at(i)*(1-u) + row.at(i+1)*u - L
 	if g < 0 {
 		return math.Inf(1)
 	}
-	if k := t.rowOf(d, row, g); k >= 0 {
-		return t.heightOnRow(row, k, g)
+	if t.binM > 0 {
+		if k := t.rowOf(row, g); k >= 0 {
+			return t.heightOnRow(row, k, g)
+		}
 	}
-	perRow := row[i] - row[i+1]
+	perRow := row.at(i) - row.at(i+1)
 	hint := i
 	if perRow > 0 {
 		hint = i + int(L/perRow)

@@ -179,30 +179,31 @@ func TestRowIndexIsHeightNear(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if d.bins == nil {
+		if d.binM == 0 {
 			t.Fatalf("model %d: no row index", mi)
 		}
 		answered, asked := 0, 0
 		for c := 0; c < d.nDir; c += 7 {
 			row := d.column(c)
 			var gs []float64
-			for k, r := range row {
+			for k := 0; k < d.nh; k++ {
+				r := row.at(k)
 				gs = append(gs, r, math.Nextafter(r, math.Inf(1)), math.Nextafter(r, math.Inf(-1)))
-				if k+1 < len(row) {
-					gs = append(gs, (r+row[k+1])/2)
+				if k+1 < d.nh {
+					gs = append(gs, (r+row.at(k+1))/2)
 				}
 			}
 			nRow := len(gs)
 			for range 200 {
-				gs = append(gs, row[0]*rng.Float64())
+				gs = append(gs, row.at(0)*rng.Float64())
 			}
-			gs = append(gs, 0, -1, row[0]*1.01, math.Inf(1), math.NaN())
+			gs = append(gs, 0, -1, row.at(0)*1.01, math.Inf(1), math.NaN())
 			for gi, g := range gs {
 				random := gi >= nRow && gi < nRow+200
 				if random {
 					asked++
 				}
-				k := d.rowOf(c, row, g)
+				k := d.rowOf(row, g)
 				if k < 0 {
 					continue
 				}
