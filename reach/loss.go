@@ -143,8 +143,11 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 	}
 	dh = (hTop - hBot) / float64(nh-1)
 	t := &descent{hBot: hBot, hTop: hTop, dh: dh, nh: nh, nDir: nDir, dirStep: 2 * math.Pi / float64(nDir), invStep: float64(nDir) / (2 * math.Pi)}
-	// Built column by column (cm[d*nh+i] = D_d(h_i)), stored by row.
-	cm := make([]float64, nDir*nh)
+	// Built column by column (in row, one direction's altitudes), stored by
+	// altitude row.
+	t.dist = make([]float64, nDir*nh)
+	row := make([]float64, nh)
+	t.dirMax, t.dirMin = make([]float64, nDir), make([]float64, nDir)
 	inv := make([]float64, nh)
 	finite := false
 	for d := 0; d < nDir; d++ {
@@ -163,7 +166,6 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 				inv[i] = 0 // no headway: no ground distance for that height
 			}
 		}
-		row := cm[d*nh : (d+1)*nh]
 		row[nh-1] = 0
 		for i := nh - 2; i >= 0; i-- {
 			row[i] = row[i+1] + 0.5*(inv[i]+inv[i+1])*dh
@@ -171,13 +173,6 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 		if row[0] > 0 {
 			finite = true
 		}
-	}
-	if !finite {
-		return nil, errNoGlide
-	}
-	t.dirMax, t.dirMin = make([]float64, nDir), make([]float64, nDir)
-	for d := 0; d < nDir; d++ {
-		row := cm[d*nh : (d+1)*nh]
 		lo, hi := math.Inf(1), 0.0
 		for i := 0; i+1 < nh; i++ {
 			r := (row[i] - row[i+1]) / dh
@@ -185,6 +180,12 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 		}
 		t.dirMax[d], t.dirMin[d] = hi, lo
 		t.maxRatio = max(t.maxRatio, hi)
+		for i, x := range row {
+			t.dist[i*nDir+d] = x
+		}
+	}
+	if !finite {
+		return nil, errNoGlide
 	}
 	t.invMax, t.invMin = make([]float64, nDir), make([]float64, nDir)
 	for d := 0; d < nDir; d++ {
@@ -200,15 +201,9 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 	for i := nh - 2; i >= 0; i-- {
 		inc := 0.0
 		for d := 0; d < nDir; d++ {
-			inc = max(inc, cm[d*nh+i]-cm[d*nh+i+1])
+			inc = max(inc, t.dist[i*nDir+d]-t.dist[(i+1)*nDir+d])
 		}
 		t.env[i] = t.env[i+1] + inc
-	}
-	t.dist = make([]float64, nDir*nh)
-	for d := 0; d < nDir; d++ {
-		for i := 0; i < nh; i++ {
-			t.dist[i*nDir+d] = cm[d*nh+i]
-		}
 	}
 	t.cols = make([]column, nDir)
 	for d := range t.cols {
@@ -218,7 +213,7 @@ func newDescent(m LossModel, hBot, hTop, dh float64, nDir int) (*descent, error)
 	t.isotropic = true
 	for d := 1; d < nDir && t.isotropic; d++ {
 		for i := 0; i < nh; i++ {
-			if cm[d*nh+i] != cm[i] {
+			if t.dist[i*nDir+d] != t.dist[i*nDir] {
 				t.isotropic = false
 				break
 			}
