@@ -663,12 +663,13 @@ func (w *sightWalk) run() bool {
 	// the whole line was walked): those endFirst+1 slabs are walked
 	// first, square by square, and the walk proper follows from its start
 	// only if they pass (endFirst 1: 10.63 → 10.39 G instructions; 2 and
-	// 3 gave 10.42 and 10.45). Each square's
-	// test does not depend on the order (a square passes when its ground
-	// is no higher than the glide less the clearance, than allow, or than
-	// the top the walk started with; top only grows, by the highest
-	// ground passed, to at most allow), so the walk decides the same and
-	// returns the same top (TestSightEndFirstSameRuns).
+	// 3 gave 10.42 and 10.45). Each square's test does not depend on the
+	// order (a square passes when its ground is no higher than the glide
+	// less the clearance, than allow, or than the top the walk started
+	// with; top only grows, by the highest ground passed, to at most
+	// allow), so the walk decides the same and, on a clear line, returns
+	// the same top (TestSightEndFirstSameRuns). A blocked line's top,
+	// which no caller uses, may be lower: the walk stops where it fails.
 	pre := w.loose && sightEndFirst && (w.qa-k0)*w.sgn > endFirst
 	k := k0
 	if pre {
