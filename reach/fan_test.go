@@ -116,18 +116,10 @@ func TestSourceFanSameRuns(t *testing.T) {
 	cases := propCases(8)
 	for k := 0; k < cases; k++ {
 		sc := newRunScene(t, rng, 80+rng.Intn(120))
-		l, tab, lo, hi, clearance, lat, lon := sc.l, sc.tab, sc.lo, sc.hi, sc.clearance, sc.lat, sc.lon
-		n, mid := sc.n, sc.n/2
-		start := Start{Lat: lat, Lon: lon, Alt: float64(l.Elev[mid*n+mid]) + 300 + rng.Float64()*1500}
-		if start.Alt != start.Alt {
-			start.Alt = hi + 300
+		alt, elev := sc.midGround()+300+rng.Float64()*1500, sc.midGround()
+		if elev != elev { // a void in the middle
+			alt, elev = sc.hi+300, sc.lo
 		}
-		opts := FootprintOptions{Reserve: 150, Clearance: clearance, Levels: []float64{0}}
-		target := Target{Lat: lat, Lon: lon, Elev: float64(l.Elev[mid*n+mid]), Reserve: 150}
-		if target.Elev != target.Elev {
-			target.Elev = lo
-		}
-		ropts := RequiredOptions{Clearance: clearance, Ceiling: hi + 2400, Workers: 1}
-		sameRunsEitherWay(t, k, "the fan", func(on bool) { sightFan = on }, l, start, tab, opts, target, ropts)
+		sc.sameRuns(t, k, "the fan", func(on bool) { sightFan = on }, alt, elev)
 	}
 }

@@ -338,21 +338,6 @@ func (t *descent) splitDir(f float64) (d0, d1 int, w float64) {
 	return d0, d1, w
 }
 
-// distAt returns D_d(h) by linear interpolation.
-func (t *descent) distAt(d int, h float64) float64 {
-	row := t.column(d)
-	f := (h - t.hBot) / t.dh
-	if f <= 0 {
-		return row.at(0)
-	}
-	if f >= float64(t.nh-1) {
-		return row.at(t.nh - 1)
-	}
-	i := int(f)
-	u := f - float64(i)
-	return row.at(i)*(1-u) + row.at(i+1)*u
-}
-
 // binsPerRow is how many bins of rowOf's index a column has per
 // altitude row: with one, 0.04 % of BenchmarkArriveVec's column lookups
 // fell in a bin holding two row ends and went to the search; with two,
@@ -424,8 +409,8 @@ func (t *descent) heightOnRow(row *column, i int, g float64) float64 {
 }
 
 // heightNear inverts a column of D (row, D_d(h_i) for each altitude row
-// i) like heightAt, searching from row hint outward; it is the fast path
-// for segments that descend only a few rows.
+// i) like heightAt, searching from row hint outward: the search a lookup
+// falls back to where the row index (rowOf) cannot tell.
 func (t *descent) heightNear(row *column, g float64, hint int) float64 {
 	if g <= 0 {
 		return t.hTop

@@ -138,13 +138,8 @@ func TestSightAboveAllSameRuns(t *testing.T) {
 	shortcut := 0
 	for k := 0; k < cases; k++ {
 		sc := newRunScene(t, rng, 50+rng.Intn(90))
-		l, tab, hi, voids, clearance, lat, lon := sc.l, sc.tab, sc.hi, sc.voids, sc.clearance, sc.lat, sc.lon
-		n, mid := sc.n, sc.n/2
-		start := Start{Lat: lat, Lon: lon, Alt: hi + 200 + rng.Float64()*2000}
-		opts := FootprintOptions{Reserve: 150, Clearance: clearance, Levels: []float64{0}}
-		target := Target{Lat: lat, Lon: lon, Elev: float64(l.Elev[mid*n+mid]), Reserve: 150}
-		ropts := RequiredOptions{Clearance: clearance, Ceiling: hi + 2400, Workers: 1}
-		fp := sameRunsEitherWay(t, k, "the shortcut", func(on bool) { sightAboveAll = on }, l, start, tab, opts, target, ropts)
+		l, hi, voids, clearance := sc.l, sc.hi, sc.voids, sc.clearance
+		fp := sc.sameRuns(t, k, "the shortcut", func(on bool) { sightAboveAll = on }, hi+200+rng.Float64()*2000, sc.midGround())
 		// Cells the glide reaches a clearance above the highest ground:
 		// their segments were decided by the shortcut.
 		high := 0
@@ -176,17 +171,12 @@ func TestSightEndFirstSameRuns(t *testing.T) {
 	low := 0
 	for k := 0; k < cases; k++ {
 		sc := newRunScene(t, rng, 50+rng.Intn(90))
-		l, tab, lo, hi, clearance, lat, lon := sc.l, sc.tab, sc.lo, sc.hi, sc.clearance, sc.lat, sc.lon
-		n, mid := sc.n, sc.n/2
-		ground := float64(l.Elev[mid*n+mid])
+		l, clearance := sc.l, sc.clearance
+		ground := sc.midGround()
 		if ground != ground {
 			continue
 		}
-		start := Start{Lat: lat, Lon: lon, Alt: ground + 50 + rng.Float64()*(hi-lo+400)}
-		opts := FootprintOptions{Reserve: 150, Clearance: clearance, Levels: []float64{0}}
-		target := Target{Lat: lat, Lon: lon, Elev: ground, Reserve: 150}
-		ropts := RequiredOptions{Clearance: clearance, Ceiling: hi + 2400, Workers: 1}
-		fp := sameRunsEitherWay(t, k, "the end first", func(on bool) { sightEndFirst = on }, l, start, tab, opts, target, ropts)
+		fp := sc.sameRuns(t, k, "the end first", func(on bool) { sightEndFirst = on }, ground+50+rng.Float64()*(sc.hi-sc.lo+400), ground)
 		below := 0
 		for q, a := range fp.Arrival {
 			if agl := float64(a) - float64(l.Elev[q]); agl >= 0 && agl < clearance {
@@ -273,6 +263,26 @@ func sameRunsEitherWay(t *testing.T, k int, what string, set func(on bool), l *t
 		}
 	}
 	return fp[0]
+}
+
+// midGround is the ground (m MSL) of the scene's middle cell, NaN on a
+// void.
+func (sc runScene) midGround() float64 {
+	mid := sc.n / 2
+	return float64(sc.l.Elev[mid*sc.n+mid])
+}
+
+// sameRuns is sameRunsEitherWay on the scene: a footprint from its middle
+// at altitude alt (reserve 150 m, the scene's clearance, one level) and a
+// backward run to a field of elevation elev on its middle cell (ceiling
+// 2400 m above the highest ground, one worker).
+func (sc runScene) sameRuns(t *testing.T, k int, what string, set func(on bool), alt, elev float64) *FootprintResult {
+	t.Helper()
+	start := Start{Lat: sc.lat, Lon: sc.lon, Alt: alt}
+	opts := FootprintOptions{Reserve: 150, Clearance: sc.clearance, Levels: []float64{0}}
+	target := Target{Lat: sc.lat, Lon: sc.lon, Elev: elev, Reserve: 150}
+	ropts := RequiredOptions{Clearance: sc.clearance, Ceiling: sc.hi + 2400, Workers: 1}
+	return sameRunsEitherWay(t, k, what, set, sc.l, start, sc.tab, opts, target, ropts)
 }
 
 // groundSpan returns the lowest and highest known ground of l (m MSL) and
